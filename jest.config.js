@@ -1,0 +1,33 @@
+// Three projects: the shared core and the server run under ts-jest in Node; components under jest-expo.
+const tsJestNode = {
+  transform: {
+    '^.+\\.tsx?$': [
+      'ts-jest',
+      {
+        isolatedModules: true,
+        tsconfig: { module: 'commonjs', moduleResolution: 'node', target: 'es2022', esModuleInterop: true, jsx: 'react-jsx', allowJs: true, verbatimModuleSyntax: false },
+      },
+    ],
+  },
+  moduleNameMapper: { '^@/(.*)$': '<rootDir>/$1' },
+  testEnvironment: 'node',
+};
+
+module.exports = {
+  projects: [
+    { displayName: 'shared', ...tsJestNode, testMatch: ['<rootDir>/shared/**/*.test.ts'] },
+    {
+      displayName: 'server',
+      ...tsJestNode,
+      testMatch: ['<rootDir>/sync-server/**/*.test.ts', '<rootDir>/tests/server/**/*.test.ts'],
+      globalSetup: '<rootDir>/tests/support/server-global-setup.ts',
+      globalTeardown: '<rootDir>/tests/support/server-global-teardown.ts',
+    },
+    {
+      displayName: 'app',
+      preset: 'jest-expo',
+      testMatch: ['<rootDir>/components/**/*.test.tsx', '<rootDir>/hooks/**/*.test.ts?(x)', '<rootDir>/constants/**/*.test.ts'],
+      moduleNameMapper: { '^@/(.*)$': '<rootDir>/$1' },
+    },
+  ],
+};
