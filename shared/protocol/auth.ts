@@ -1,0 +1,41 @@
+import { z } from 'zod';
+
+export const roleSchema = z.enum(['operator', 'practitioner', 'admin']);
+export type Role = z.infer<typeof roleSchema>;
+export const roles: readonly Role[] = roleSchema.options;
+
+export const userSchema = z.object({
+  id: z.uuid(),
+  email: z.email(),
+  role: roleSchema,
+  clinicId: z.uuid(),
+  name: z.string(),
+});
+export type User = z.infer<typeof userSchema>;
+
+export const signInRequestSchema = z.object({
+  email: z.email({ error: 'Enter a valid e-mail address.' }).max(254),
+  password: z.string().min(1, { error: 'Enter your password.' }).max(200),
+});
+export type SignInRequest = z.infer<typeof signInRequestSchema>;
+
+export const signInResponseSchema = z.object({
+  accessToken: z.string().min(1),
+  refreshToken: z.string().min(1),
+  user: userSchema,
+});
+export type SignInResponse = z.infer<typeof signInResponseSchema>;
+
+export const refreshRequestSchema = z.object({
+  refreshToken: z.string().min(1, { error: 'A refresh token is required.' }).max(500),
+});
+export type RefreshRequest = z.infer<typeof refreshRequestSchema>;
+
+export const refreshResponseSchema = signInResponseSchema;
+export type RefreshResponse = SignInResponse;
+
+export const signOutRequestSchema = refreshRequestSchema;
+export type SignOutRequest = RefreshRequest;
+
+export const meResponseSchema = z.object({ user: userSchema });
+export type MeResponse = z.infer<typeof meResponseSchema>;

@@ -1,0 +1,3 @@
+export * from './auth';
+export * from './clinic';
+export * from './errors';
