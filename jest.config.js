@@ -14,6 +14,7 @@ const tsJestNode = {
 };
 
 module.exports = {
+  testTimeout: 120000,
   projects: [
     { displayName: 'shared', ...tsJestNode, testMatch: ['<rootDir>/shared/**/*.test.ts'] },
     {
@@ -28,6 +29,13 @@ module.exports = {
       preset: 'jest-expo',
       testMatch: ['<rootDir>/components/**/*.test.tsx', '<rootDir>/hooks/**/*.test.ts?(x)', '<rootDir>/constants/**/*.test.ts'],
       moduleNameMapper: { '^@/(.*)$': '<rootDir>/$1' },
+    },
+    {
+      displayName: 'e2e',
+      ...tsJestNode,
+      testMatch: ['<rootDir>/tests/e2e/**/*.e2e.ts'],
+      globalSetup: '<rootDir>/tests/support/e2e-global-setup.ts',
+      globalTeardown: '<rootDir>/tests/support/e2e-global-teardown.ts',
     },
   ],
 };

@@ -1,0 +1,56 @@
+// Debian's Chromium driven by playwright-core. The flags keep it off the (closed) network and out of
+// first-run flows; the fake-media flags let capture tests feed a WAV file as the microphone.
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+
+export const PHONE = { width: 390, height: 844 };
+export const WIDE = { width: 1440, height: 900 };
+export const screenshotDir = path.resolve(__dirname, '../../artifacts/screenshots');
+
+export function baseUrl(): string {
+  const url = process.env.E2E_BASE_URL;
+  if (!url) throw new Error('E2E_BASE_URL is not set: run the e2e project through jest (its global setup starts the server).');
+  return url;
+}
+
+export async function launchBrowser(options: { fakeMicrophoneWav?: string } = {}): Promise<Browser> {
+  const userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-chromium-'));
+  const args = [
+    '--headless',
+    '--no-sandbox',
+    '--disable-gpu',
+    '--disable-quic',
+    '--no-first-run',
+    '--disable-background-networking',
+    '--disable-component-update',
+    '--disable-sync',
+    `--user-data-dir=${userDataDir}`,
+  ];
+  if (options.fakeMicrophoneWav) {
+    args.push(
+      '--use-fake-ui-for-media-stream',
+      '--use-fake-device-for-media-stream',
+      `--use-file-for-fake-audio-capture=${options.fakeMicrophoneWav}`,
+    );
+  }
+  return chromium.launch({ executablePath: '/usr/bin/chromium', args });
+}
+
+/** One page per context: expo-sqlite's OPFS database is exclusive to one tab. */
+export async function newPage(
+  browser: Browser,
+  viewport: { width: number; height: number },
+): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext({ viewport, baseURL: baseUrl() });
+  const page = await context.newPage();
+  return { context, page };
+}
+
+export async function screenshot(page: Page, name: string): Promise<string> {
+  fs.mkdirSync(screenshotDir, { recursive: true });
+  const file = path.join(screenshotDir, `${name}.png`);
+  await page.screenshot({ path: file, fullPage: false });
+  return file;
+}
