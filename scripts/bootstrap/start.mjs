@@ -21,7 +21,16 @@ async function main() {
   const stopAll = () => cluster.stop();
   process.on('exit', stopAll);
 
-  const env = { DATABASE_URL: cluster.url, FOURPOINT_DATA: dataDir, NODE_ENV: 'production' };
+  const env = {
+    DATABASE_URL: cluster.url,
+    FOURPOINT_DATA: dataDir,
+    NODE_ENV: 'production',
+    // Local fakes of the hosted services (mail, payments, object storage) and the server agree on these.
+    SMTP_PORT: process.env.SMTP_PORT ?? '2525',
+    MAIL_FAKE_HTTP_PORT: process.env.MAIL_FAKE_HTTP_PORT ?? '8025',
+    PAYMENTS_FAKE_PORT: process.env.PAYMENTS_FAKE_PORT ?? '12111',
+    S3_FAKE_PORT: process.env.S3_FAKE_PORT ?? '4569',
+  };
   run(tsxBin(), ['sync-server/src/cli/prepare-db.ts'], { env, failMessage: 'Preparing the database failed (see above).' });
   run('node', ['scripts/build-web.mjs'], { failMessage: 'Building the web app failed (see above).' });
 

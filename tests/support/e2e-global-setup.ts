@@ -74,6 +74,11 @@ export default async function globalSetup(): Promise<void> {
     FOURPOINT_DATA: stateDir,
     BLOB_DIR: path.join(stateDir, 'blobs'),
     NODE_ENV: 'test',
+    // The local fakes of hosted services and the server must agree on these; each run gets free ones.
+    SMTP_PORT: String(await freePort()),
+    MAIL_FAKE_HTTP_PORT: String(await freePort()),
+    PAYMENTS_FAKE_PORT: String(await freePort()),
+    S3_FAKE_PORT: String(await freePort()),
   };
 
   const prepared = spawnSync(tsx, ['sync-server/src/cli/prepare-db.ts'], { cwd: root, env, stdio: 'inherit' });
