@@ -1,4 +1,5 @@
 // Starts every local fake of a hosted service, on the ports that `npm start` and the e2e set-up pass.
+import { startPaymentsFake } from './payments-fake';
 import { startSmtpFake } from './smtp-fake';
 
 type Started = { name: string; close: () => Promise<void> };
@@ -21,6 +22,10 @@ async function main(): Promise<void> {
   console.log(
     `mail fake: SMTP on 127.0.0.1:${mail.smtpPort}, mailbox on http://127.0.0.1:${mail.httpPort}/api/messages`,
   );
+
+  const payments = await startPaymentsFake(port('PAYMENTS_FAKE_PORT', 12111));
+  started.push({ name: 'payments', close: payments.close });
+  console.log(`payments fake: API and test payment pages on ${payments.url}`);
 
   const stop = async () => {
     await Promise.allSettled(started.map((s) => s.close()));
