@@ -1,0 +1,399 @@
+// The client report as a PDF: everything drawn as vectors (traces, marks, tables) so it prints sharply.
+import path from 'node:path';
+import PDFDocument from 'pdfkit';
+import { cautionParagraphs, referToClinician } from '@/constants/cautions';
+
+export type ReportSound = { type: 'S1' | 'S2'; startS: number; endS: number };
+/** A display trace: `values` in -1..1, evenly spaced over `durationS`. */
+export type ReportTrace = { durationS: number; values: number[] };
+export type ReportMeasurement = {
+  label: string;
+  unit: string;
+  value: number | null;
+  range: { low: number | null; high: number | null; sourceIndex: number } | null;
+  status: 'in_range' | 'below' | 'above' | 'no_range' | 'no_value';
+};
+export type ReportSite = {
+  site: string;
+  label: string;
+  quality: string | null;
+  trace: ReportTrace | null;
+  sounds: ReportSound[];
+  measurements: ReportMeasurement[];
+};
+export type ReportComparisonRow = {
+  site: string;
+  label: string;
+  unit: string;
+  then: number | null;
+  now: number | null;
+};
+export type ReportInput = {
+  clinicName: string;
+  clientName: string;
+  clientDateOfBirth: string | null;
+  sessionDate: string;
+  operatorName: string | null;
+  practitionerName: string | null;
+  sites: ReportSite[];
+  comparison: { date: string; rows: ReportComparisonRow[] } | null;
+  findings: string | null;
+  plan: string | null;
+  followUpDate: string | null;
+  sources: string[];
+  generatedAt: string;
+};
+
+const fontDir = path.resolve(__dirname, '../../../node_modules/@expo-google-fonts');
+const FONT = { body: 'Body', strong: 'Strong', heading: 'Heading' };
+const INK = '#12343B';
+const MUTED = '#5A6669';
+const LINE = '#DCD4C4';
+const ACCENT = '#C4512F';
+const PULSE = '#2E8C7E';
+const CAUTION_BG = '#FBF0D6';
+const CAUTION_FG = '#8A5A0B';
+const MARGIN = 40;
+
+function fmt(value: number | null, digits = 2): string {
+  if (value === null || !Number.isFinite(value)) return '–';
+  const d = Math.abs(value) >= 100 ? 0 : Math.abs(value) >= 10 ? 1 : digits;
+  return value.toFixed(d);
+}
+
+export function rangeText(range: ReportMeasurement['range']): string {
+  if (!range) return 'no range set';
+  if (range.low !== null && range.high !== null) return `${fmt(range.low)}–${fmt(range.high)}`;
+  if (range.low !== null) return `at least ${fmt(range.low)}`;
+  if (range.high !== null) return `at most ${fmt(range.high)}`;
+  return 'no range set';
+}
+
+export function statusText(status: ReportMeasurement['status']): string {
+  switch (status) {
+    case 'in_range':
+      return 'within range';
+    case 'below':
+      return `below range: ${referToClinician}`;
+    case 'above':
+      return `above range: ${referToClinician}`;
+    case 'no_range':
+      return 'no range set';
+    default:
+      return 'not measured';
+  }
+}
+
+function drawTrace(
+  doc: PDFKit.PDFDocument,
+  site: ReportSite,
+  x: number,
+  y: number,
+  w: number,
+  h: number,
+): void {
+  doc.save();
+  doc.roundedRect(x, y, w, h, 4).lineWidth(0.6).strokeColor(LINE).stroke();
+  doc
+    .font(FONT.strong)
+    .fontSize(9)
+    .fillColor(INK)
+    .text(site.label, x + 6, y + 4, { lineBreak: false });
+  if (site.quality)
+    doc
+      .font(FONT.body)
+      .fontSize(7.5)
+      .fillColor(MUTED)
+      .text(`quality: ${site.quality}`, x + w - 80, y + 5, { width: 74, align: 'right' });
+  const plot = { x: x + 6, y: y + 27, w: w - 12, h: h - 43 };
+  if (!site.trace || site.trace.values.length < 2) {
+    doc
+      .font(FONT.body)
+      .fontSize(8)
+      .fillColor(MUTED)
+      .text('No clip for this site.', plot.x, plot.y + plot.h / 2 - 4);
+    doc.restore();
+    return;
+  }
+  const { durationS, values } = site.trace;
+  const tx = (t: number) => plot.x + (t / durationS) * plot.w;
+  const mid = plot.y + plot.h / 2;
+  for (const s of site.sounds) {
+    const x0 = tx(Math.max(0, s.startS));
+    const x1 = tx(Math.min(durationS, s.endS));
+    doc
+      .rect(x0, plot.y, Math.max(0.5, x1 - x0), plot.h)
+      .fillOpacity(0.16)
+      .fill(s.type === 'S1' ? ACCENT : PULSE);
+    doc
+      .fillOpacity(1)
+      .font(FONT.strong)
+      .fontSize(5.5)
+      .fillColor(s.type === 'S1' ? ACCENT : PULSE);
+    doc.text(s.type, x0, plot.y - 7, { lineBreak: false });
+  }
+  doc.fillOpacity(1);
+  const step = plot.w / (values.length - 1);
+  doc.moveTo(plot.x, mid - values[0] * (plot.h / 2));
+  for (let i = 1; i < values.length; i++)
+    doc.lineTo(plot.x + i * step, mid - Math.max(-1, Math.min(1, values[i])) * (plot.h / 2));
+  doc.lineWidth(0.5).strokeColor(INK).stroke();
+  doc.font(FONT.body).fontSize(6).fillColor(MUTED);
+  const tick = durationS > 8 ? 2 : 1;
+  for (let t = 0; t <= durationS + 1e-6; t += tick) {
+    doc
+      .moveTo(tx(t), plot.y + plot.h)
+      .lineTo(tx(t), plot.y + plot.h + 2)
+      .lineWidth(0.4)
+      .strokeColor(MUTED)
+      .stroke();
+    doc.text(`${t}s`, tx(t) - 6, plot.y + plot.h + 3, { width: 12, align: 'center', lineBreak: false });
+  }
+  doc.restore();
+}
+
+type Column = { title: string; width: number; align?: 'left' | 'right' };
+
+function table(
+  doc: PDFKit.PDFDocument,
+  columns: Column[],
+  rows: { cells: string[]; flag?: boolean }[],
+  startY: number,
+): number {
+  let y = startY;
+  const rowHeight = (cells: string[]) =>
+    Math.max(
+      12,
+      ...cells.map(
+        (c, i) =>
+          doc
+            .font(FONT.body)
+            .fontSize(7.5)
+            .heightOfString(c, { width: columns[i].width - 4 }) + 4,
+      ),
+    );
+  const header = () => {
+    let x = MARGIN;
+    doc.font(FONT.strong).fontSize(7.5).fillColor(MUTED);
+    for (const c of columns) {
+      doc.text(c.title, x + 2, y, { width: c.width - 4, align: c.align ?? 'left' });
+      x += c.width;
+    }
+    y += 12;
+    doc
+      .moveTo(MARGIN, y - 2)
+      .lineTo(MARGIN + columns.reduce((s, c) => s + c.width, 0), y - 2)
+      .lineWidth(0.5)
+      .strokeColor(LINE)
+      .stroke();
+  };
+  header();
+  for (const row of rows) {
+    const h = rowHeight(row.cells);
+    if (y + h > doc.page.height - 70) {
+      doc.addPage();
+      y = MARGIN;
+      header();
+    }
+    let x = MARGIN;
+    row.cells.forEach((cell, i) => {
+      const strong = row.flag && i === row.cells.length - 1;
+      doc
+        .font(strong ? FONT.strong : FONT.body)
+        .fontSize(7.5)
+        .fillColor(strong ? ACCENT : INK);
+      doc.text(cell, x + 2, y + 1, { width: columns[i].width - 4, align: columns[i].align ?? 'left' });
+      x += columns[i].width;
+    });
+    y += h;
+  }
+  return y + 6;
+}
+
+function heading(doc: PDFKit.PDFDocument, text: string, y: number): number {
+  if (y > doc.page.height - 120) {
+    doc.addPage();
+    y = MARGIN;
+  }
+  doc.font(FONT.heading).fontSize(12).fillColor(INK).text(text, MARGIN, y);
+  return y + 18;
+}
+
+function cautionBox(doc: PDFKit.PDFDocument, y: number): number {
+  const width = doc.page.width - 2 * MARGIN;
+  const text = cautionParagraphs.join(' ');
+  const h =
+    doc
+      .font(FONT.body)
+      .fontSize(7.5)
+      .heightOfString(text, { width: width - 16 }) + 22;
+  if (y + h > doc.page.height - 60) {
+    doc.addPage();
+    y = MARGIN;
+  }
+  doc.roundedRect(MARGIN, y, width, h, 4).fill(CAUTION_BG);
+  doc
+    .font(FONT.strong)
+    .fontSize(8)
+    .fillColor(CAUTION_FG)
+    .text('Wellness follow-up only', MARGIN + 8, y + 6);
+  doc
+    .font(FONT.body)
+    .fontSize(7.5)
+    .fillColor(INK)
+    .text(text, MARGIN + 8, y + 17, { width: width - 16 });
+  return y + h + 8;
+}
+
+export function renderReportPdf(input: ReportInput): Promise<Buffer> {
+  const doc = new PDFDocument({
+    size: 'A4',
+    margin: MARGIN,
+    bufferPages: true,
+    info: {
+      Title: `Heart-sound follow-up report, ${input.clientName}, ${input.sessionDate}`,
+      Author: input.clinicName,
+      Creator: 'Fourpoint',
+    },
+  });
+  doc.registerFont(FONT.body, path.join(fontDir, 'inter/400Regular/Inter_400Regular.ttf'));
+  doc.registerFont(FONT.strong, path.join(fontDir, 'inter/600SemiBold/Inter_600SemiBold.ttf'));
+  doc.registerFont(
+    FONT.heading,
+    path.join(fontDir, 'space-grotesk/600SemiBold/SpaceGrotesk_600SemiBold.ttf'),
+  );
+  const chunks: Buffer[] = [];
+  doc.on('data', (c: Buffer) => chunks.push(c));
+  const done = new Promise<Buffer>((resolve, reject) => {
+    doc.on('end', () => resolve(Buffer.concat(chunks)));
+    doc.on('error', reject);
+  });
+
+  const width = doc.page.width - 2 * MARGIN;
+  doc.font(FONT.heading).fontSize(18).fillColor(INK).text(input.clinicName, MARGIN, MARGIN);
+  doc.font(FONT.body).fontSize(10).fillColor(MUTED).text('Heart-sound follow-up report');
+  let y = doc.y + 8;
+  const facts: [string, string][] = [
+    ['Client', input.clientName + (input.clientDateOfBirth ? ` (born ${input.clientDateOfBirth})` : '')],
+    ['Visit', input.sessionDate],
+    ['Recorded by', input.operatorName ?? '–'],
+    ['Reviewed by', input.practitionerName ?? '–'],
+  ];
+  for (const [k, v] of facts) {
+    doc.font(FONT.strong).fontSize(9).fillColor(MUTED).text(k, MARGIN, y, { width: 80 });
+    doc
+      .font(FONT.body)
+      .fontSize(9)
+      .fillColor(INK)
+      .text(v, MARGIN + 80, y, { width: width - 80 });
+    y += 13;
+  }
+  y = cautionBox(doc, y + 6);
+
+  y = heading(doc, 'The four sites', y);
+  const cellW = (width - 10) / 2;
+  const cellH = 120;
+  input.sites.forEach((site, i) => {
+    drawTrace(doc, site, MARGIN + (i % 2) * (cellW + 10), y + Math.floor(i / 2) * (cellH + 8), cellW, cellH);
+  });
+  y += 2 * (cellH + 8) + 4;
+  doc
+    .font(FONT.body)
+    .fontSize(7)
+    .fillColor(MUTED)
+    .text('Shaded bands mark the detected S1 (first) and S2 (second) heart sounds.', MARGIN, y);
+  y += 16;
+
+  y = heading(doc, 'Measurements', y);
+  const columns: Column[] = [
+    { title: 'Site', width: 60 },
+    { title: 'Measurement', width: 140 },
+    { title: 'Value', width: 60, align: 'right' },
+    { title: 'Range [source]', width: 105 },
+    { title: 'Reading', width: width - 365 },
+  ];
+  const rows = input.sites.flatMap((s) =>
+    s.measurements.map((m) => ({
+      cells: [
+        s.label,
+        m.unit ? `${m.label} (${m.unit})` : m.label,
+        fmt(m.value),
+        m.range ? `${rangeText(m.range)} [${m.range.sourceIndex + 1}]` : 'no range set',
+        statusText(m.status),
+      ],
+      flag: m.status === 'above' || m.status === 'below',
+    })),
+  );
+  y = table(doc, columns, rows, y);
+
+  if (input.comparison) {
+    y = heading(doc, `Compared with the visit of ${input.comparison.date}`, y);
+    y = table(
+      doc,
+      [
+        { title: 'Site', width: 60 },
+        { title: 'Measurement', width: 170 },
+        { title: 'Then', width: 80, align: 'right' },
+        { title: 'Now', width: 80, align: 'right' },
+        { title: 'Change', width: width - 390, align: 'right' },
+      ],
+      input.comparison.rows.map((r) => ({
+        cells: [
+          r.site,
+          r.unit ? `${r.label} (${r.unit})` : r.label,
+          fmt(r.then),
+          fmt(r.now),
+          r.then !== null && r.now !== null ? `${r.now - r.then >= 0 ? '+' : ''}${fmt(r.now - r.then)}` : '–',
+        ],
+      })),
+      y,
+    );
+  }
+
+  y = heading(doc, "Practitioner's findings", y);
+  doc
+    .font(FONT.body)
+    .fontSize(9)
+    .fillColor(INK)
+    .text(input.findings?.trim() || 'No findings written.', MARGIN, y, { width });
+  y = heading(doc, 'Plan', doc.y + 10);
+  doc
+    .font(FONT.body)
+    .fontSize(9)
+    .fillColor(INK)
+    .text(input.plan?.trim() || 'No plan written.', MARGIN, y, { width });
+  doc
+    .font(FONT.strong)
+    .fontSize(9)
+    .text(`Follow-up: ${input.followUpDate ?? 'not set'}`, MARGIN, doc.y + 6);
+  y = doc.y + 12;
+
+  if (input.sources.length) {
+    y = heading(doc, 'Sources of the reference ranges', y);
+    input.sources.forEach((s, i) => {
+      doc
+        .font(FONT.body)
+        .fontSize(7)
+        .fillColor(MUTED)
+        .text(`[${i + 1}] ${s}`, MARGIN, y, { width });
+      y = doc.y + 2;
+    });
+    y += 8;
+  }
+  cautionBox(doc, y);
+
+  const range = doc.bufferedPageRange();
+  for (let i = range.start; i < range.start + range.count; i++) {
+    doc.switchToPage(i);
+    const bottom = doc.page.height - 28;
+    doc.font(FONT.body).fontSize(6.5).fillColor(MUTED);
+    doc.text(
+      `Not a diagnosis. Anything outside range reads "${referToClinician}". Generated ${input.generatedAt}. Page ${i + 1} of ${range.count}.`,
+      MARGIN,
+      bottom,
+      { width, align: 'center', lineBreak: false, height: 10 },
+    );
+  }
+  doc.end();
+  return done;
+}
