@@ -1,3 +1,4 @@
 export * from './auth';
 export * from './clinic';
 export * from './errors';
+export * from './sync';

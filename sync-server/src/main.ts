@@ -1,0 +1,69 @@
+import { randomBytes } from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import pino from 'pino';
+import { createApp } from './app';
+import { createSequelize } from './db/database';
+
+const REPO_ROOT = path.resolve(__dirname, '../..');
+const logger = pino({ level: process.env.LOG_LEVEL ?? 'info' });
+
+/** A secret kept across restarts, so sign-ins survive them; generated on first start. */
+function jwtSecret(): string {
+  if (process.env.JWT_SECRET) return process.env.JWT_SECRET;
+  const file = path.join(REPO_ROOT, '.data', 'jwt-secret');
+  if (fs.existsSync(file)) return fs.readFileSync(file, 'utf8').trim();
+  fs.mkdirSync(path.dirname(file), { recursive: true });
+  const secret = randomBytes(48).toString('base64url');
+  fs.writeFileSync(file, secret, { mode: 0o600 });
+  return secret;
+}
+
+function fail(message: string): never {
+  console.error(message);
+  process.exit(1);
+}
+
+function main(): void {
+  const port = Number(process.env.PORT ?? 8080);
+  const host = process.env.HOST ?? '127.0.0.1';
+  if (!Number.isInteger(port) || port < 0 || port > 65535) fail(`PORT must be a whole number from 0 to 65535, not "${process.env.PORT}".`);
+  const databaseUrl = process.env.DATABASE_URL;
+  if (!databaseUrl) fail('DATABASE_URL is not set: run `npm start`, which sets up the database, or set it yourself.');
+  const webDist = process.env.WEB_DIST ? path.resolve(process.env.WEB_DIST) : undefined;
+
+  const sequelize = createSequelize(databaseUrl);
+  const app = createApp({ sequelize, jwtSecret: jwtSecret(), webDist, logger });
+  const server = app.listen(port, host);
+
+  server.on('listening', () => {
+    const address = server.address();
+    const actual = typeof address === 'object' && address ? address.port : port;
+    const shown = host === '0.0.0.0' || host === '::' ? '127.0.0.1' : host;
+    console.log(`Fourpoint is running at http://${shown}:${actual}`);
+  });
+  server.on('error', (error: NodeJS.ErrnoException) => {
+    if (error.code === 'EADDRINUSE') fail(`Port ${port} is in use: stop what uses it or set PORT=... npm start`);
+    if (error.code === 'EACCES') fail(`Port ${port} needs more rights than this user has: set PORT=... npm start`);
+    fail(`The server could not start: ${error.message}`);
+  });
+
+  let closing = false;
+  const close = (signal: string) => {
+    if (closing) return;
+    closing = true;
+    logger.info({ signal }, 'stopping');
+    server.close(() => {
+      sequelize.close().finally(() => process.exit(0));
+    });
+    server.closeIdleConnections();
+    // Requests still open after a few seconds are cut, so Ctrl-C never hangs.
+    setTimeout(() => {
+      server.closeAllConnections();
+    }, 3000).unref();
+  };
+  process.on('SIGINT', () => close('SIGINT'));
+  process.on('SIGTERM', () => close('SIGTERM'));
+}
+
+main();

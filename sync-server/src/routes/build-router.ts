@@ -1,0 +1,21 @@
+import type { Express, RequestHandler } from 'express';
+import { authenticate, requireRole } from '../middleware/authenticate';
+import { signInLimiters, type SignInLimitOptions } from '../middleware/rate-limits';
+import type { UseCaseDeps } from '../use-cases/context';
+import { accessTable, type RouteSpec } from './access-table';
+
+export function registerApiRoutes(
+  app: Express,
+  deps: UseCaseDeps,
+  options: { signInLimits: SignInLimitOptions },
+  table: readonly RouteSpec[] = accessTable,
+): void {
+  const limits = { 'sign-in': signInLimiters(options.signInLimits) };
+  for (const route of table) {
+    const chain: RequestHandler[] = [];
+    if (route.limit) chain.push(...limits[route.limit]);
+    if (route.access !== 'public') chain.push(authenticate(deps.jwtSecret), requireRole(route.access));
+    chain.push(route.handler(deps));
+    app[route.method](route.path, ...chain);
+  }
+}

@@ -1,0 +1,15 @@
+import type { Sequelize } from 'sequelize';
+import type { Role } from '@/shared/protocol';
+
+/** Who is calling: set by the authenticate middleware from a verified token and a fresh user row. */
+export interface Caller {
+  userId: string;
+  role: Role;
+  clinicId: string;
+  ip: string | null;
+}
+
+export interface UseCaseDeps {
+  sequelize: Sequelize;
+  jwtSecret: string;
+}

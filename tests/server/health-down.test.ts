@@ -1,0 +1,28 @@
+import net from 'node:net';
+import pino from 'pino';
+import request from 'supertest';
+import { createApp } from '@/sync-server/src/app';
+import { createSequelize } from '@/sync-server/src/db/database';
+
+// Its own file: the models bind to one Sequelize per module registry, and this one points nowhere.
+async function closedPort(): Promise<number> {
+  const server = net.createServer();
+  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+  const { port } = server.address() as net.AddressInfo;
+  await new Promise<void>((resolve) => server.close(() => resolve()));
+  return port;
+}
+
+describe('GET /api/health with no database', () => {
+  test('when nothing listens where the database should be, then it is 503 with db down', async () => {
+    const sequelize = createSequelize(`postgres://fourpoint@127.0.0.1:${await closedPort()}/nowhere`);
+    const app = createApp({ sequelize, jwtSecret: 'unused', logger: pino({ level: 'silent' }) });
+    try {
+      const res = await request(app).get('/api/health');
+      expect(res.status).toBe(503);
+      expect(res.body).toEqual({ ok: false, db: 'down' });
+    } finally {
+      await sequelize.close();
+    }
+  });
+});

@@ -1,0 +1,78 @@
+import { randomUUID } from 'node:crypto';
+import pino from 'pino';
+import type { Sequelize } from 'sequelize';
+import request from 'supertest';
+import type { Express } from 'express';
+import type { Role, SignInResponse } from '@/shared/protocol';
+import { createApp, type AppDeps } from '@/sync-server/src/app';
+import { createSequelize } from '@/sync-server/src/db/database';
+import { Clinic, initModels } from '@/sync-server/src/models';
+import { createUser } from '@/sync-server/src/repositories/users-repository';
+import { hashPassword } from '@/sync-server/src/services/passwords';
+
+export const TEST_PASSWORD = 'correct horse battery staple';
+
+export interface TestContext {
+  sequelize: Sequelize;
+  app: Express;
+  jwtSecret: string;
+  close: () => Promise<void>;
+}
+
+export function databaseUrl(): string {
+  const url = process.env.DATABASE_URL;
+  if (!url) throw new Error('DATABASE_URL is not set: run server tests through jest, whose global setup provides it.');
+  return url;
+}
+
+export function makeTestContext(overrides: Partial<AppDeps> = {}): TestContext {
+  const sequelize = createSequelize(databaseUrl(), { poolMax: 5 });
+  initModels(sequelize);
+  const jwtSecret = `test-secret-${randomUUID()}`;
+  const app = createApp({ sequelize, jwtSecret, logger: pino({ level: 'silent' }), ...overrides });
+  return { sequelize, app, jwtSecret, close: () => sequelize.close() };
+}
+
+export interface TestUser {
+  id: string;
+  email: string;
+  role: Role;
+  name: string;
+}
+
+export interface TestClinic {
+  id: string;
+  name: string;
+  users: Record<Role, TestUser>;
+}
+
+/** A fresh clinic with one user per role, all with TEST_PASSWORD; names carry a unique tag. */
+export async function makeClinic(label = 'Clinic'): Promise<TestClinic> {
+  const tag = randomUUID().slice(0, 8);
+  const clinic = await Clinic.create({ id: randomUUID(), name: `${label} ${tag}` });
+  const passwordHash = await hashPassword(TEST_PASSWORD);
+  const users = {} as Record<Role, TestUser>;
+  for (const role of ['operator', 'practitioner', 'admin'] as const) {
+    const user = await createUser(clinic.id, {
+      id: randomUUID(),
+      email: `${role}.${tag}@test.fourpoint.test`,
+      name: `${role[0].toUpperCase()}${role.slice(1)} ${tag}`,
+      role,
+      passwordHash,
+    });
+    users[role] = { id: user.id, email: user.email, role, name: user.name };
+  }
+  return { id: clinic.id, name: clinic.name, users };
+}
+
+export async function signIn(app: Express, email: string, password = TEST_PASSWORD): Promise<SignInResponse> {
+  const res = await request(app).post('/api/auth/sign-in').send({ email, password });
+  if (res.status !== 200) throw new Error(`sign-in of ${email} answered ${res.status}: ${JSON.stringify(res.body)}`);
+  return res.body as SignInResponse;
+}
+
+export async function tokensFor(app: Express, clinic: TestClinic): Promise<Record<Role, string>> {
+  const tokens = {} as Record<Role, string>;
+  for (const role of ['operator', 'practitioner', 'admin'] as const) tokens[role] = (await signIn(app, clinic.users[role].email)).accessToken;
+  return tokens;
+}
