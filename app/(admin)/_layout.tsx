@@ -1,0 +1,1 @@
+export { AdminLayout as default } from '@/components/admin/admin-layout';

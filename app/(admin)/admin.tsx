@@ -1,0 +1,1 @@
+export { AdminHomeScreen as default } from '@/components/admin/admin-home-screen';

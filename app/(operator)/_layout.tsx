@@ -1,0 +1,1 @@
+export { OperatorLayout as default } from '@/components/operator/operator-layout';

@@ -1,0 +1,1 @@
+export { OperatorAccountScreen as default } from '@/components/operator/operator-account-screen';

@@ -1,0 +1,1 @@
+export { OperatorHomeScreen as default } from '@/components/operator/operator-home-screen';

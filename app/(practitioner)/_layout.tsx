@@ -1,0 +1,1 @@
+export { PractitionerLayout as default } from '@/components/practitioner/practitioner-layout';

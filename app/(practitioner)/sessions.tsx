@@ -1,0 +1,1 @@
+export { PractitionerHomeScreen as default } from '@/components/practitioner/practitioner-home-screen';

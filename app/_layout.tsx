@@ -1,0 +1,1 @@
+export { AppRoot as default } from '@/components/root/app-root';

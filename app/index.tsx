@@ -1,0 +1,1 @@
+export { StartRedirect as default } from '@/components/auth/start-redirect';

@@ -1,0 +1,111 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useRef, useState } from 'react';
+import { Controller, useForm } from 'react-hook-form';
+import { StyleSheet, View, type TextInput } from 'react-native';
+import { AppText } from '@/components/ui/app-text';
+import { Button } from '@/components/ui/button';
+import { TextField } from '@/components/ui/text-field';
+import { colors, radii, space } from '@/constants/theme';
+import type { ApiResult } from '@/hooks/api/result';
+import { offlineMessage } from '@/hooks/api/result';
+import { signInRequestSchema, type SignInRequest, type SignInResponse } from '@/shared/protocol';
+
+type Props = { onSubmit: (values: SignInRequest) => Promise<ApiResult<SignInResponse>> };
+
+export function messageForSignInFailure(result: Exclude<ApiResult<SignInResponse>, { kind: 'ok' }>): string {
+  switch (result.kind) {
+    case 'unauthorized':
+    case 'rate-limited':
+    case 'rejected':
+      return result.message;
+    case 'offline':
+      return `${offlineMessage} Signing in needs the clinic server once; after that the device works offline.`;
+    case 'server':
+      return result.message;
+    default:
+      return 'Signing in failed. Try again, and tell your admin if it keeps happening.';
+  }
+}
+
+export function SignInForm({ onSubmit }: Props) {
+  const [formError, setFormError] = useState<string | null>(null);
+  const passwordRef = useRef<TextInput>(null);
+  const {
+    control,
+    handleSubmit,
+    formState: { errors, isSubmitting },
+  } = useForm<SignInRequest>({
+    resolver: zodResolver(signInRequestSchema),
+    defaultValues: { email: '', password: '' },
+  });
+
+  const submit = handleSubmit(async (values) => {
+    setFormError(null);
+    const result = await onSubmit({ email: values.email.trim().toLowerCase(), password: values.password });
+    if (result.kind !== 'ok') setFormError(messageForSignInFailure(result));
+  });
+
+  return (
+    <View style={styles.form} testID="sign-in-form">
+      <Controller
+        control={control}
+        name="email"
+        render={({ field }) => (
+          <TextField
+            label="E-mail"
+            testID="sign-in-email"
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={errors.email?.message}
+            autoCapitalize="none"
+            autoComplete="email"
+            keyboardType="email-address"
+            inputMode="email"
+            returnKeyType="next"
+            onSubmitEditing={() => passwordRef.current?.focus()}
+            placeholder="name@clinic.example"
+          />
+        )}
+      />
+      <Controller
+        control={control}
+        name="password"
+        render={({ field }) => (
+          <TextField
+            ref={passwordRef}
+            label="Password"
+            testID="sign-in-password"
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={errors.password?.message}
+            secureTextEntry
+            autoComplete="current-password"
+            returnKeyType="go"
+            onSubmitEditing={() => void submit()}
+          />
+        )}
+      />
+      {formError ? (
+        <View style={styles.formError} testID="sign-in-error" accessibilityRole="alert">
+          <AppText variant="small" color={colors.danger}>
+            {formError}
+          </AppText>
+        </View>
+      ) : null}
+      <Button label="Sign in" testID="sign-in-submit" busy={isSubmitting} onPress={() => void submit()} />
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  form: { gap: space.lg },
+  formError: {
+    backgroundColor: colors.dangerSoft,
+    borderRadius: radii.md,
+    padding: space.md,
+    borderWidth: 1,
+    borderColor: colors.danger,
+  },
+});

@@ -1,0 +1,35 @@
+import { Tabs } from 'expo-router/js-tabs';
+import type { ComponentType } from 'react';
+import type { IconProps } from '@/components/ui/icons';
+import { colors } from '@/constants/theme';
+import { useLayout } from '@/hooks/use-layout';
+import { NavBar } from './nav-bar';
+
+export type TabSpec = { name: string; title: string; Icon: ComponentType<IconProps> };
+
+/** One navigator per role group; its tabs are the role's sections. */
+export function RoleTabs({ tabs }: { tabs: readonly TabSpec[] }) {
+  const { isWide } = useLayout();
+  return (
+    <Tabs
+      tabBar={(props) => <NavBar {...props} wide={isWide} />}
+      screenOptions={{
+        headerShown: false,
+        tabBarPosition: isWide ? 'left' : 'bottom',
+        sceneStyle: { backgroundColor: colors.paper },
+      }}
+    >
+      {tabs.map(({ name, title, Icon }) => (
+        <Tabs.Screen
+          key={name}
+          name={name}
+          options={{
+            title,
+            tabBarButtonTestID: `nav-${name}`,
+            tabBarIcon: ({ color, size }) => <Icon color={color} size={size} />,
+          }}
+        />
+      ))}
+    </Tabs>
+  );
+}

@@ -1,0 +1,54 @@
+import { StyleSheet, View } from 'react-native';
+import { AppText } from '@/components/ui/app-text';
+import { Badge } from '@/components/ui/badge';
+import { formatDate } from '@/components/ui/format';
+import { colors, radii, space } from '@/constants/theme';
+import type { ClientSummary } from '@/shared/protocol';
+
+export function ClientRow({ client }: { client: ClientSummary }) {
+  const initials = `${client.firstName.charAt(0)}${client.lastName.charAt(0)}`.toUpperCase();
+  return (
+    <View style={styles.row} testID={`client-row-${client.id}`}>
+      <View style={styles.avatar}>
+        <AppText variant="smallStrong" color={colors.textOnInk}>
+          {initials}
+        </AppText>
+      </View>
+      <View style={styles.main}>
+        <AppText variant="bodyStrong" color={colors.ink} numberOfLines={1}>
+          {client.firstName} {client.lastName}
+        </AppText>
+        <AppText variant="number" color={colors.textMuted}>
+          {client.dateOfBirth ? `born ${formatDate(client.dateOfBirth)}` : 'date of birth not given'}
+        </AppText>
+      </View>
+      <Badge
+        label={client.hasConsent ? 'Consent on file' : 'Needs consent'}
+        tone={client.hasConsent ? 'good' : 'caution'}
+        testID={`client-consent-${client.id}`}
+      />
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  row: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: space.md,
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    padding: space.md,
+  },
+  avatar: {
+    width: 40,
+    height: 40,
+    borderRadius: radii.pill,
+    backgroundColor: colors.inkSoft,
+    alignItems: 'center',
+    justifyContent: 'center',
+  },
+  main: { flex: 1, gap: 2 },
+});

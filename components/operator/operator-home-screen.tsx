@@ -1,0 +1,82 @@
+import { useState } from 'react';
+import { StyleSheet, TextInput, View } from 'react-native';
+import { AppText } from '@/components/ui/app-text';
+import { CautionNote } from '@/components/ui/caution-note';
+import { SearchIcon } from '@/components/ui/icons';
+import { ScreenFrame } from '@/components/ui/screen-frame';
+import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-views';
+import { colors, fonts, radii, space } from '@/constants/theme';
+import { useClientsQuery } from '@/hooks/data/clients';
+import { useDebouncedValue } from '@/hooks/use-debounced-value';
+import { ClientRow } from './client-row';
+
+export function OperatorHomeScreen() {
+  const [search, setSearch] = useState('');
+  const q = useDebouncedValue(search);
+  const clients = useClientsQuery(q);
+
+  const searchBox = (
+    <View style={styles.search}>
+      <SearchIcon color={colors.textMuted} />
+      <TextInput
+        testID="client-search"
+        accessibilityLabel="Search clients"
+        placeholder="Search clients by name or e-mail"
+        placeholderTextColor={colors.textMuted}
+        value={search}
+        onChangeText={setSearch}
+        autoCapitalize="none"
+        autoCorrect={false}
+        style={styles.searchInput}
+      />
+    </View>
+  );
+
+  let body;
+  if (clients.isPending) {
+    body = <LoadingState label="Loading clients…" testID="clients-loading" />;
+  } else if (clients.isError) {
+    body = <ErrorState message={clients.error.message} onRetry={() => void clients.refetch()} testID="clients-error" />;
+  } else if (clients.data.length === 0) {
+    body = q.trim() ? (
+      <EmptyState title="No match" detail={`No client matches “${q.trim()}”. Check the spelling or search by e-mail.`} testID="clients-empty" />
+    ) : (
+      <EmptyState title="No clients yet" detail="Clients added by your clinic appear here." testID="clients-empty" />
+    );
+  } else {
+    body = (
+      <View style={styles.list} testID="clients-list">
+        <AppText variant="caption" color={colors.textMuted}>
+          {clients.data.length === 1 ? '1 CLIENT' : `${clients.data.length} CLIENTS`}
+        </AppText>
+        {clients.data.map((c) => (
+          <ClientRow key={c.id} client={c} />
+        ))}
+      </View>
+    );
+  }
+
+  return (
+    <ScreenFrame title="Clients" subtitle="Find the client, then record the four sites." testID="operator-home" header={searchBox}>
+      {body}
+      <CautionNote compact />
+    </ScreenFrame>
+  );
+}
+
+const styles = StyleSheet.create({
+  search: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: space.sm,
+    marginTop: space.sm,
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    paddingHorizontal: space.md,
+    maxWidth: 640,
+  },
+  searchInput: { flex: 1, minHeight: 46, fontFamily: fonts.body, fontSize: 16, color: colors.text },
+  list: { gap: space.sm, maxWidth: 640 },
+});

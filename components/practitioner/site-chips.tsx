@@ -1,0 +1,43 @@
+import { StyleSheet, View } from 'react-native';
+import { AppText } from '@/components/ui/app-text';
+import { sites } from '@/constants/sites';
+import { colors, radii, space } from '@/constants/theme';
+import type { SiteVerdict } from '@/shared/protocol';
+import { siteVerdictLook } from './session-labels';
+
+const toneColors = {
+  good: { bg: colors.pulseSoft, fg: colors.pulse },
+  caution: { bg: colors.cautionSoft, fg: colors.caution },
+  danger: { bg: colors.dangerSoft, fg: colors.danger },
+  neutral: { bg: colors.surfaceMuted, fg: colors.textMuted },
+  ink: { bg: colors.ink, fg: colors.textOnInk },
+};
+
+/** One chip per site in capture order, coloured by recording quality. */
+export function SiteChips({ verdicts, testID }: { verdicts: SiteVerdict[]; testID: string }) {
+  return (
+    <View style={styles.row} testID={testID}>
+      {sites.map((site) => {
+        const v = verdicts.find((x) => x.site === site.id);
+        const look = v ? siteVerdictLook(v) : { label: 'not recorded', tone: 'neutral' as const };
+        const c = toneColors[look.tone];
+        return (
+          <View
+            key={site.id}
+            style={[styles.chip, { backgroundColor: c.bg }]}
+            accessibilityLabel={`${site.label}: ${look.label}`}
+          >
+            <AppText variant="caption" color={c.fg}>
+              {site.label.charAt(0)}
+            </AppText>
+          </View>
+        );
+      })}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  row: { flexDirection: 'row', gap: space.xs },
+  chip: { width: 26, height: 26, borderRadius: radii.sm, alignItems: 'center', justifyContent: 'center' },
+});

@@ -1,0 +1,11 @@
+// Text from the product brief's "Cautions" section; shown wherever results appear.
+export const cautionParagraphs = [
+  'Fourpoint records and measures heart sounds for wellness follow-up. It is not a diagnostic device and does not diagnose, treat or prevent disease.',
+  'A possible murmur, an irregular rhythm, or a rate outside the clinic\'s range is shown as "refer to a licensed clinician", never as a diagnosis.',
+  'Follow local regulations and the scope of your licence. The product makes no claim linking a recording to organs, hormones, stress or supplements.',
+] as const;
+
+export const cautionText = cautionParagraphs.join(' ');
+
+/** The only wording for anything outside range or possibly abnormal. */
+export const referToClinician = 'refer to a licensed clinician';

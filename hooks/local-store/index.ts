@@ -1,0 +1,8 @@
+export * from './clients';
+export * from './database';
+export * from './finish-session';
+export * from './outbox';
+export * from './queries';
+export * from './records';
+export * from './sessions';
+export { cachedClinicKey, refreshClinicKey } from './clinic-key';

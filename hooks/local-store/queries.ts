@@ -1,0 +1,93 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useEffect } from 'react';
+import { addClient, currentConsent, getClient, listClients, recordConsent, type NewClient, type NewConsent } from './clients';
+import { refreshClinicKey } from './clinic-key';
+import { finishSession } from './finish-session';
+import { listOutbox, pendingOutboxCount } from './outbox';
+import { getSession, listRecordings, listSessionsForClient, startSession } from './sessions';
+
+export const localKeys = {
+  root: ['local'] as const,
+  clients: (search: string) => ['local', 'clients', search] as const,
+  client: (id: string) => ['local', 'client', id] as const,
+  consent: (clientId: string, version: string) => ['local', 'consent', clientId, version] as const,
+  sessionsOf: (clientId: string) => ['local', 'sessions-of', clientId] as const,
+  session: (id: string) => ['local', 'session', id] as const,
+  outbox: ['local', 'outbox'] as const,
+  outboxCount: ['local', 'outbox-count'] as const,
+};
+
+// Local reads are cheap and offline; never treat them as stale network data or retry them.
+const localQuery = { networkMode: 'always', retry: false, staleTime: 0 } as const;
+
+export function useLocalClients(search: string) {
+  return useQuery({ ...localQuery, queryKey: localKeys.clients(search), queryFn: () => listClients(search) });
+}
+
+export function useLocalClient(id: string) {
+  return useQuery({ ...localQuery, queryKey: localKeys.client(id), queryFn: () => getClient(id) });
+}
+
+export function useCurrentConsent(clientId: string, textVersion: string) {
+  return useQuery({ ...localQuery, queryKey: localKeys.consent(clientId, textVersion), queryFn: () => currentConsent(clientId, textVersion) });
+}
+
+export function useClientSessions(clientId: string) {
+  return useQuery({ ...localQuery, queryKey: localKeys.sessionsOf(clientId), queryFn: () => listSessionsForClient(clientId) });
+}
+
+export function useLocalSession(id: string) {
+  return useQuery({
+    ...localQuery,
+    queryKey: localKeys.session(id),
+    queryFn: async () => {
+      const session = await getSession(id);
+      return session ? { session, recordings: await listRecordings(id) } : null;
+    },
+  });
+}
+
+export function useOutbox() {
+  return useQuery({ ...localQuery, queryKey: localKeys.outbox, queryFn: listOutbox, refetchInterval: 3_000 });
+}
+
+/** The number shown beside the outbox in the navigation: items not yet delivered. */
+export function useOutboxCount() {
+  return useQuery({ ...localQuery, queryKey: localKeys.outboxCount, queryFn: pendingOutboxCount, refetchInterval: 5_000 });
+}
+
+function useInvalidateLocal() {
+  const queryClient = useQueryClient();
+  return () => queryClient.invalidateQueries({ queryKey: localKeys.root });
+}
+
+export function useAddClient() {
+  const invalidate = useInvalidateLocal();
+  return useMutation({ networkMode: 'always', mutationFn: (input: NewClient) => addClient(input), onSuccess: invalidate });
+}
+
+export function useRecordConsent() {
+  const invalidate = useInvalidateLocal();
+  return useMutation({ networkMode: 'always', mutationFn: (input: NewConsent) => recordConsent(input), onSuccess: invalidate });
+}
+
+export function useStartSession() {
+  const invalidate = useInvalidateLocal();
+  return useMutation({
+    networkMode: 'always',
+    mutationFn: (input: { clientId: string; consentId: string; clipSeconds?: number }) => startSession(input),
+    onSuccess: invalidate,
+  });
+}
+
+export function useFinishSession() {
+  const invalidate = useInvalidateLocal();
+  return useMutation({ networkMode: 'always', mutationFn: (sessionId: string) => finishSession(sessionId), onSuccess: invalidate });
+}
+
+/** Fetches the clinic's sealing key while online, so sessions finished offline can still be sealed. */
+export function useClinicKeyPrefetch(): void {
+  useEffect(() => {
+    void refreshClinicKey().catch(() => undefined);
+  }, []);
+}

@@ -1,0 +1,86 @@
+import type { AnalysisResult } from '@/shared/analysis/types';
+import type { Site } from '@/shared/protocol';
+
+export type LocalClient = {
+  id: string;
+  firstName: string;
+  lastName: string;
+  dateOfBirth: string | null;
+  email: string | null;
+  phone: string | null;
+  origin: 'device' | 'server';
+  version: number;
+  createdAt: string;
+  updatedAt: string;
+};
+
+export type LocalConsent = {
+  id: string;
+  clientId: string;
+  signedName: string;
+  signedOn: string;
+  textVersion: string;
+  createdAt: string;
+};
+
+export type SessionStatus = 'in_progress' | 'completed';
+
+export type LocalSession = {
+  id: string;
+  clientId: string;
+  consentId: string;
+  status: SessionStatus;
+  currentSite: Site;
+  clipSeconds: number;
+  startedAt: string;
+  finishedAt: string | null;
+  version: number;
+  updatedAt: string;
+};
+
+/** A min/max pair per display column, from traceForDisplay. */
+export type DisplayTrace = { min: number[]; max: number[]; durationS: number };
+
+export type RecordingSource = 'microphone' | 'import';
+
+export type SiteRecording = {
+  id: string;
+  sessionId: string;
+  site: Site;
+  outcome: 'recorded' | 'skipped';
+  source: RecordingSource | null;
+  skipReason: string | null;
+  note: string | null;
+  verdict: AnalysisResult['quality']['verdict'] | null;
+  heartRateBpm: number | null;
+  durationS: number | null;
+  sampleRate: number | null;
+  analysis: AnalysisResult | null;
+  trace: DisplayTrace | null;
+  /** Plain clip while the session is open; cleared once the session is sealed. */
+  hasPlainClip: boolean;
+  blobHash: string | null;
+  sizeBytes: number | null;
+  updatedAt: string;
+};
+
+export type OutboxState = 'waiting' | 'sending' | 'sent' | 'failed' | 'conflict';
+
+/** The sync engine's queue item, as stored on the device. */
+export type OutboxItem = {
+  id: string;
+  kind: 'mutation' | 'clip';
+  entity?: string;
+  rowId: string;
+  mutation?: unknown;
+  blobHash?: string;
+  sizeBytes: number;
+  state: OutboxState;
+  attempts: number;
+  lastError?: string;
+  nextAttemptAt: number;
+  progress: number;
+  createdAt: string;
+};
+
+export type OutboxRow = OutboxItem & { label: string | null };

@@ -1,0 +1,62 @@
+// Builds the web export into dist/, skipping the build when dist/ is newer than every input.
+import { spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+const dist = path.join(root, 'dist');
+const marker = path.join(dist, 'index.html');
+const inputDirs = ['app', 'components', 'hooks', 'constants', 'shared', 'assets', 'public'];
+const inputFiles = ['app.json', 'metro.config.js', 'tsconfig.json', 'package.json', 'package-lock.json', 'babel.config.js'];
+
+function newestMtime(target) {
+  let stat;
+  try {
+    stat = fs.statSync(target);
+  } catch {
+    return 0;
+  }
+  if (!stat.isDirectory()) return stat.mtimeMs;
+  let newest = stat.mtimeMs;
+  for (const entry of fs.readdirSync(target)) {
+    if (entry === 'node_modules' || entry.startsWith('.')) continue;
+    newest = Math.max(newest, newestMtime(path.join(target, entry)));
+  }
+  return newest;
+}
+
+function upToDate() {
+  if (!fs.existsSync(marker)) return false;
+  const built = fs.statSync(marker).mtimeMs;
+  const inputs = [...inputDirs, ...inputFiles].map((p) => newestMtime(path.join(root, p)));
+  return Math.max(...inputs) < built;
+}
+
+const force = process.argv.includes('--force');
+if (!force && upToDate()) {
+  console.log('Web export is up to date (dist/).');
+  process.exit(0);
+}
+
+console.log('Building the web export into dist/ ...');
+const started = Date.now();
+const result = spawnSync('npx', ['expo', 'export', '--platform', 'web', '--output-dir', 'dist'], {
+  cwd: root,
+  env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1' },
+  encoding: 'utf8',
+  maxBuffer: 64 * 1024 * 1024,
+});
+if (result.status !== 0 || !fs.existsSync(marker)) {
+  const output = `${result.stdout ?? ''}\n${result.stderr ?? ''}`;
+  fs.mkdirSync(path.join(root, '.data'), { recursive: true });
+  const logFile = path.join(root, '.data', 'build-web.log');
+  fs.writeFileSync(logFile, output);
+  const firstError = output.split('\n').find((line) => /error/i.test(line))?.trim() ?? 'see the log';
+  console.error(`Web export failed: ${firstError.slice(0, 300)} (full log: ${path.relative(root, logFile)})`);
+  process.exit(1);
+}
+// Touch the marker so an export that reused cached files still counts as newer than its inputs.
+const now = new Date();
+fs.utimesSync(marker, now, now);
+console.log(`Web export built in ${((Date.now() - started) / 1000).toFixed(1)} s.`);
