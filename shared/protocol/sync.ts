@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { clipStateSchema, qualityVerdictSchema, sessionStatusSchema, siteSchema } from './clinic';
+import { qualityVerdictSchema, sessionStatusSchema, siteSchema } from './clinic';
 
 // Bumped when a device and the server could misread each other; the server refuses other versions with 426.
 export const SYNC_PROTOCOL_VERSION = 1;
@@ -44,7 +44,10 @@ export const syncFieldSchemas = {
     sessionId: z.uuid(),
     site: siteSchema,
     qualityVerdict: qualityVerdictSchema.nullable(),
-    clipSha256: z.string().regex(/^[0-9a-f]{64}$/).nullable(),
+    clipSha256: z
+      .string()
+      .regex(/^[0-9a-f]{64}$/)
+      .nullable(),
     durationS: z.number().nonnegative().max(600).nullable(),
     recordedAt: isoTime.nullable(),
     skippedReason: text(500).nullable(),
@@ -81,7 +84,13 @@ export const pushRequestSchema = z.object({
 });
 export type PushRequest = z.infer<typeof pushRequestSchema>;
 
-export const rejectionCodeSchema = z.enum(['invalid_change', 'unknown_row', 'missing_parent', 'forbidden', 'server_error']);
+export const rejectionCodeSchema = z.enum([
+  'invalid_change',
+  'unknown_row',
+  'missing_parent',
+  'forbidden',
+  'server_error',
+]);
 export type RejectionCode = z.infer<typeof rejectionCodeSchema>;
 
 export const mutationResultSchema = z.discriminatedUnion('status', [
@@ -100,7 +109,12 @@ export const mutationResultSchema = z.discriminatedUnion('status', [
     conflictId: z.uuid(),
     serverVersion: z.number().int().nonnegative(),
   }),
-  z.object({ mutationId: z.uuid(), status: z.literal('rejected'), code: rejectionCodeSchema, reason: z.string() }),
+  z.object({
+    mutationId: z.uuid(),
+    status: z.literal('rejected'),
+    code: rejectionCodeSchema,
+    reason: z.string(),
+  }),
 ]);
 export type MutationResult = z.infer<typeof mutationResultSchema>;
 
@@ -177,7 +191,9 @@ export const conflictSummarySchema = z.object({
 });
 export type ConflictSummary = z.infer<typeof conflictSummarySchema>;
 
-export const conflictListQuerySchema = z.object({ status: z.enum(['open', 'resolved', 'all']).default('open') });
+export const conflictListQuerySchema = z.object({
+  status: z.enum(['open', 'resolved', 'all']).default('open'),
+});
 export const conflictListResponseSchema = z.object({ conflicts: z.array(conflictSummarySchema) });
 export type ConflictListResponse = z.infer<typeof conflictListResponseSchema>;
 
@@ -191,7 +207,12 @@ export const conflictDetailSchema = conflictSummarySchema.extend({
   /** The row on the server now (it may have moved on since). */
   current: conflictSideSchema.nullable(),
   resolution: z
-    .object({ note: z.string(), resolvedBy: z.string().nullable(), resolvedAt: z.string(), newVersion: z.number().int() })
+    .object({
+      note: z.string(),
+      resolvedBy: z.string().nullable(),
+      resolvedAt: z.string(),
+      newVersion: z.number().int(),
+    })
     .nullable(),
 });
 export type ConflictDetail = z.infer<typeof conflictDetailSchema>;
@@ -210,5 +231,8 @@ export const resolveConflictRequestSchema = z
     path: ['fields'],
   });
 export type ResolveConflictRequest = z.infer<typeof resolveConflictRequestSchema>;
-export const resolveConflictResponseSchema = z.object({ conflict: conflictDetailSchema, newVersion: z.number().int() });
+export const resolveConflictResponseSchema = z.object({
+  conflict: conflictDetailSchema,
+  newVersion: z.number().int(),
+});
 export type ResolveConflictResponse = z.infer<typeof resolveConflictResponseSchema>;

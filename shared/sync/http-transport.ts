@@ -1,0 +1,140 @@
+import axios, { type AxiosInstance } from 'axios';
+import * as tus from 'tus-js-client';
+import {
+  SYNC_PROTOCOL_HEADER,
+  SYNC_PROTOCOL_VERSION,
+  blobStatusResponseSchema,
+  pullResponseSchema,
+  pushResponseSchema,
+  type PullRequest,
+  type PushRequest,
+} from '@/shared/protocol/sync';
+import { TransportError, type ClipUpload, type SyncTransport } from './transport';
+
+export interface HttpTransportOptions {
+  baseUrl: string;
+  getAccessToken: () => string | null | Promise<string | null>;
+  timeoutMs?: number;
+  chunkSize?: number;
+  axiosInstance?: AxiosInstance;
+}
+
+export const SYNC_PATHS = {
+  push: '/api/sync/push',
+  pull: '/api/sync/pull',
+  uploads: '/api/sync/uploads',
+  blob: (sha256: string) => `/api/sync/blobs/${sha256}`,
+} as const;
+
+function messageOf(data: unknown, fallback: string): string {
+  const error = (data as { error?: { message?: unknown } } | undefined)?.error;
+  return typeof error?.message === 'string' ? error.message : fallback;
+}
+
+function fromStatus(status: number | undefined, message: string): TransportError {
+  if (status === undefined) return new TransportError(message, { temporary: true });
+  if (status === 426) return new TransportError(message, { temporary: false, status, outdated: true });
+  // 401: the app refreshes the token and the next run succeeds; 408/429/5xx pass.
+  const temporary = status === 401 || status === 408 || status === 429 || status >= 500;
+  return new TransportError(message, { temporary, status });
+}
+
+export function toTransportError(error: unknown): TransportError {
+  if (error instanceof TransportError) return error;
+  if (axios.isAxiosError(error)) {
+    const status = error.response?.status;
+    const fallback = status ? `The server answered ${status}.` : 'The clinic server cannot be reached.';
+    return fromStatus(status, messageOf(error.response?.data, fallback));
+  }
+  return new TransportError(error instanceof Error ? error.message : String(error), { temporary: true });
+}
+
+/** The sync transport over HTTP: axios for rows, tus (resumable) for clips. */
+export function createHttpTransport(options: HttpTransportOptions): SyncTransport {
+  const http =
+    options.axiosInstance ?? axios.create({ baseURL: options.baseUrl, timeout: options.timeoutMs ?? 20_000 });
+  const headers = async (): Promise<Record<string, string>> => {
+    const token = await options.getAccessToken();
+    return {
+      [SYNC_PROTOCOL_HEADER]: String(SYNC_PROTOCOL_VERSION),
+      ...(token ? { authorization: `Bearer ${token}` } : {}),
+    };
+  };
+  const url = (path: string) => (options.axiosInstance ? `${options.baseUrl}${path}` : path);
+
+  return {
+    async push(request: PushRequest) {
+      try {
+        const response = await http.post(url(SYNC_PATHS.push), request, { headers: await headers() });
+        return pushResponseSchema.parse(response.data);
+      } catch (error) {
+        throw toTransportError(error);
+      }
+    },
+    async pull(request: PullRequest) {
+      try {
+        const response = await http.post(url(SYNC_PATHS.pull), request, { headers: await headers() });
+        return pullResponseSchema.parse(response.data);
+      } catch (error) {
+        throw toTransportError(error);
+      }
+    },
+    async blobStatus(sha256: string) {
+      try {
+        const response = await http.get(url(SYNC_PATHS.blob(sha256)), { headers: await headers() });
+        return blobStatusResponseSchema.parse(response.data);
+      } catch (error) {
+        throw toTransportError(error);
+      }
+    },
+    async uploadClip(upload: ClipUpload) {
+      const requestHeaders = await headers();
+      await new Promise<void>((resolve, reject) => {
+        const input = toUploadInput(upload.bytes);
+        const task = new tus.Upload(input as never, {
+          endpoint: `${options.baseUrl}${SYNC_PATHS.uploads}`,
+          uploadUrl: upload.uploadUrl ?? null,
+          headers: requestHeaders,
+          metadata: {
+            sha256: upload.sha256,
+            filename: `${upload.sha256}.fpsl`,
+            filetype: 'application/octet-stream',
+          },
+          uploadSize: upload.bytes.byteLength,
+          chunkSize: options.chunkSize ?? 256 * 1024,
+          // The engine owns retries and their backoff; the URL is kept on the outbox item, not in tus's own store.
+          retryDelays: [],
+          storeFingerprintForResuming: false,
+          fingerprint: async () => `fourpoint-clip-${upload.sha256}`,
+          onUploadUrlAvailable: () => {
+            if (task.url) void upload.onUploadUrl(task.url);
+          },
+          onProgress: (sent, total) => upload.onProgress(sent, total),
+          onSuccess: () => resolve(),
+          onError: (error) => {
+            const detailed = error as tus.DetailedError;
+            const status = detailed.originalResponse?.getStatus();
+            const body = detailed.originalResponse?.getBody();
+            let message = status ? `The clip upload failed (${status}).` : 'The clip upload was cut off.';
+            try {
+              if (body) message = messageOf(JSON.parse(body), body.length < 300 ? body : message);
+            } catch {
+              if (body && body.length < 300) message = body.trim();
+            }
+            reject(fromStatus(status || undefined, message));
+          },
+        });
+        task.start();
+      });
+    },
+  };
+}
+
+function toUploadInput(bytes: Uint8Array): unknown {
+  const nodeBuffer = (globalThis as { Buffer?: { from(b: Uint8Array): unknown } }).Buffer;
+  const isNode =
+    typeof (globalThis as { process?: { versions?: { node?: string } } }).process?.versions?.node ===
+    'string';
+  if (isNode && nodeBuffer) return nodeBuffer.from(bytes);
+  return new Blob([bytes as BlobPart]);
+}

@@ -1,0 +1,40 @@
+import type {
+  BlobStatusResponse,
+  PullRequest,
+  PullResponse,
+  PushRequest,
+  PushResponse,
+} from '@/shared/protocol/sync';
+
+/** Why a call failed; `temporary` decides whether the engine retries it later. */
+export class TransportError extends Error {
+  readonly temporary: boolean;
+  readonly status?: number;
+  /** The server refused this app version (426): retrying will not help until the app is updated. */
+  readonly outdated: boolean;
+
+  constructor(message: string, opts: { temporary: boolean; status?: number; outdated?: boolean }) {
+    super(message);
+    this.name = 'TransportError';
+    this.temporary = opts.temporary;
+    this.status = opts.status;
+    this.outdated = opts.outdated ?? false;
+  }
+}
+
+export interface ClipUpload {
+  sha256: string;
+  bytes: Uint8Array;
+  /** Resume this upload when set. */
+  uploadUrl?: string;
+  onUploadUrl(url: string): void | Promise<void>;
+  onProgress(sent: number, total: number): void;
+}
+
+/** How the engine reaches the server: HTTP (axios + tus-js-client) in the app and the fault tests. */
+export interface SyncTransport {
+  push(request: PushRequest): Promise<PushResponse>;
+  pull(request: PullRequest): Promise<PullResponse>;
+  blobStatus(sha256: string): Promise<BlobStatusResponse>;
+  uploadClip(upload: ClipUpload): Promise<void>;
+}
