@@ -22,7 +22,11 @@ const syncable = () => ({
   version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
   ...timestamps(),
   deleted_at: { type: DataTypes.DATE, allowNull: true },
-  change_seq: { type: DataTypes.BIGINT, allowNull: false, defaultValue: Sequelize.literal(`nextval('${CHANGE_SEQ}')`) },
+  change_seq: {
+    type: DataTypes.BIGINT,
+    allowNull: false,
+    defaultValue: Sequelize.literal(`nextval('${CHANGE_SEQ}')`),
+  },
 });
 
 export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
@@ -31,7 +35,11 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
     const opts = { transaction };
     await q(`CREATE SEQUENCE ${CHANGE_SEQ} AS bigint`);
 
-    await qi.createTable('clinics', { id: id(), name: { type: DataTypes.TEXT, allowNull: false }, ...timestamps() }, opts);
+    await qi.createTable(
+      'clinics',
+      { id: id(), name: { type: DataTypes.TEXT, allowNull: false }, ...timestamps() },
+      opts,
+    );
 
     await qi.createTable(
       'users',
@@ -47,7 +55,9 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       },
       opts,
     );
-    await q(`ALTER TABLE users ADD CONSTRAINT users_role_check CHECK (role IN ('operator','practitioner','admin'))`);
+    await q(
+      `ALTER TABLE users ADD CONSTRAINT users_role_check CHECK (role IN ('operator','practitioner','admin'))`,
+    );
     await q(`ALTER TABLE users ADD CONSTRAINT users_email_lower_check CHECK (email = lower(email))`);
     await qi.addIndex('users', ['clinic_id'], opts);
 
@@ -55,7 +65,12 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       'refresh_tokens',
       {
         id: id(),
-        user_id: { type: DataTypes.UUID, allowNull: false, references: { model: 'users', key: 'id' }, onDelete: 'CASCADE' },
+        user_id: {
+          type: DataTypes.UUID,
+          allowNull: false,
+          references: { model: 'users', key: 'id' },
+          onDelete: 'CASCADE',
+        },
         family_id: { type: DataTypes.UUID, allowNull: false },
         token_hash: { type: DataTypes.TEXT, allowNull: false, unique: true },
         expires_at: { type: DataTypes.DATE, allowNull: false },
@@ -105,12 +120,26 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       'consents',
       {
         id: id(),
-        client_id: { type: DataTypes.UUID, allowNull: false, references: { model: 'clients', key: 'id' }, onDelete: 'CASCADE' },
-        consent_text_id: { type: DataTypes.UUID, allowNull: false, references: { model: 'consent_texts', key: 'id' } },
+        client_id: {
+          type: DataTypes.UUID,
+          allowNull: false,
+          references: { model: 'clients', key: 'id' },
+          onDelete: 'CASCADE',
+        },
+        consent_text_id: {
+          type: DataTypes.UUID,
+          allowNull: false,
+          references: { model: 'consent_texts', key: 'id' },
+        },
         consent_text_version: { type: DataTypes.INTEGER, allowNull: false },
         typed_name: { type: DataTypes.TEXT, allowNull: false },
         consent_date: { type: DataTypes.DATEONLY, allowNull: false },
-        recorded_by: { type: DataTypes.UUID, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL' },
+        recorded_by: {
+          type: DataTypes.UUID,
+          allowNull: true,
+          references: { model: 'users', key: 'id' },
+          onDelete: 'SET NULL',
+        },
         ...syncable(),
       },
       opts,
@@ -120,15 +149,30 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       'recording_sessions',
       {
         id: id(),
-        client_id: { type: DataTypes.UUID, allowNull: false, references: { model: 'clients', key: 'id' }, onDelete: 'CASCADE' },
-        operator_id: { type: DataTypes.UUID, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL' },
+        client_id: {
+          type: DataTypes.UUID,
+          allowNull: false,
+          references: { model: 'clients', key: 'id' },
+          onDelete: 'CASCADE',
+        },
+        operator_id: {
+          type: DataTypes.UUID,
+          allowNull: true,
+          references: { model: 'users', key: 'id' },
+          onDelete: 'SET NULL',
+        },
         status: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'in_progress' },
         started_at: { type: DataTypes.DATE, allowNull: false },
         finished_at: { type: DataTypes.DATE, allowNull: true },
         findings: { type: DataTypes.TEXT, allowNull: true },
         plan: { type: DataTypes.TEXT, allowNull: true },
         follow_up_date: { type: DataTypes.DATEONLY, allowNull: true },
-        reviewed_by: { type: DataTypes.UUID, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL' },
+        reviewed_by: {
+          type: DataTypes.UUID,
+          allowNull: true,
+          references: { model: 'users', key: 'id' },
+          onDelete: 'SET NULL',
+        },
         reviewed_at: { type: DataTypes.DATE, allowNull: true },
         ...syncable(),
       },
@@ -151,8 +195,12 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       },
       opts,
     );
-    await q(`ALTER TABLE clip_blobs ADD CONSTRAINT clip_blobs_sha256_check CHECK (sha256 ~ '^[0-9a-f]{64}$')`);
-    await q(`ALTER TABLE clip_blobs ADD CONSTRAINT clip_blobs_state_check CHECK (state IN ('receiving','stored','failed'))`);
+    await q(
+      `ALTER TABLE clip_blobs ADD CONSTRAINT clip_blobs_sha256_check CHECK (sha256 ~ '^[0-9a-f]{64}$')`,
+    );
+    await q(
+      `ALTER TABLE clip_blobs ADD CONSTRAINT clip_blobs_state_check CHECK (state IN ('receiving','stored','failed'))`,
+    );
     await qi.addIndex('clip_blobs', ['clinic_id'], opts);
 
     await qi.createTable(
@@ -178,21 +226,30 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       },
       opts,
     );
-    await q(`ALTER TABLE site_recordings ADD CONSTRAINT site_recordings_site_check CHECK (site IN ('mitral','tricuspid','aortic','pulmonic'))`);
+    await q(
+      `ALTER TABLE site_recordings ADD CONSTRAINT site_recordings_site_check CHECK (site IN ('mitral','tricuspid','aortic','pulmonic'))`,
+    );
     await q(
       `ALTER TABLE site_recordings ADD CONSTRAINT site_recordings_verdict_check CHECK (quality_verdict IS NULL OR quality_verdict IN ('good','usable','retake'))`,
     );
     await q(
       `ALTER TABLE site_recordings ADD CONSTRAINT site_recordings_clip_state_check CHECK (clip_state IN ('none','pending','uploading','stored','failed'))`,
     );
-    await q(`CREATE UNIQUE INDEX site_recordings_one_per_site ON site_recordings (session_id, site) WHERE deleted_at IS NULL`);
+    await q(
+      `CREATE UNIQUE INDEX site_recordings_one_per_site ON site_recordings (session_id, site) WHERE deleted_at IS NULL`,
+    );
 
     await qi.createTable(
       'applied_mutations',
       {
         mutation_id: { type: DataTypes.UUID, primaryKey: true, allowNull: false },
         clinic_id: clinicRef(),
-        user_id: { type: DataTypes.UUID, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL' },
+        user_id: {
+          type: DataTypes.UUID,
+          allowNull: true,
+          references: { model: 'users', key: 'id' },
+          onDelete: 'SET NULL',
+        },
         entity: { type: DataTypes.TEXT, allowNull: false },
         row_id: { type: DataTypes.UUID, allowNull: false },
         result: { type: DataTypes.JSONB, allowNull: false },
@@ -213,20 +270,32 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
         client_version: { type: DataTypes.JSONB, allowNull: false },
         status: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'open' },
         resolution: { type: DataTypes.JSONB, allowNull: true },
-        resolved_by: { type: DataTypes.UUID, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL' },
+        resolved_by: {
+          type: DataTypes.UUID,
+          allowNull: true,
+          references: { model: 'users', key: 'id' },
+          onDelete: 'SET NULL',
+        },
         resolved_at: { type: DataTypes.DATE, allowNull: true },
         ...timestamps(),
       },
       opts,
     );
-    await q(`ALTER TABLE sync_conflicts ADD CONSTRAINT sync_conflicts_status_check CHECK (status IN ('open','resolved'))`);
+    await q(
+      `ALTER TABLE sync_conflicts ADD CONSTRAINT sync_conflicts_status_check CHECK (status IN ('open','resolved'))`,
+    );
     await qi.addIndex('sync_conflicts', ['clinic_id', 'status'], opts);
 
     await qi.createTable(
       'audit_events',
       {
         id: { type: DataTypes.BIGINT, autoIncrement: true, primaryKey: true },
-        clinic_id: { type: DataTypes.UUID, allowNull: true, references: { model: 'clinics', key: 'id' }, onDelete: 'CASCADE' },
+        clinic_id: {
+          type: DataTypes.UUID,
+          allowNull: true,
+          references: { model: 'clinics', key: 'id' },
+          onDelete: 'CASCADE',
+        },
         user_id: { type: DataTypes.UUID, allowNull: true },
         action: { type: DataTypes.TEXT, allowNull: false },
         entity: { type: DataTypes.TEXT, allowNull: true },
@@ -242,7 +311,9 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
     // The log is append-only: the database itself refuses edits (a clinic's erase removes the whole clinic by cascade).
     await q(`CREATE FUNCTION audit_events_append_only() RETURNS trigger LANGUAGE plpgsql AS $$
       BEGIN RAISE EXCEPTION 'audit_events is append-only'; END $$`);
-    await q(`CREATE TRIGGER audit_events_no_update BEFORE UPDATE ON audit_events FOR EACH ROW EXECUTE FUNCTION audit_events_append_only()`);
+    await q(
+      `CREATE TRIGGER audit_events_no_update BEFORE UPDATE ON audit_events FOR EACH ROW EXECUTE FUNCTION audit_events_append_only()`,
+    );
     await q(`CREATE TRIGGER audit_events_no_delete BEFORE DELETE ON audit_events FOR EACH ROW WHEN (pg_trigger_depth() = 0)
       EXECUTE FUNCTION audit_events_append_only()`);
 
@@ -251,7 +322,9 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       BEGIN NEW.change_seq := nextval('${CHANGE_SEQ}'); RETURN NEW; END $$`);
     for (const table of SYNCABLE) {
       await q(`CREATE INDEX ${table}_clinic_change_seq ON ${table} (clinic_id, change_seq)`);
-      await q(`CREATE TRIGGER ${table}_change_seq BEFORE UPDATE ON ${table} FOR EACH ROW EXECUTE FUNCTION bump_change_seq()`);
+      await q(
+        `CREATE TRIGGER ${table}_change_seq BEFORE UPDATE ON ${table} FOR EACH ROW EXECUTE FUNCTION bump_change_seq()`,
+      );
     }
   });
 };
@@ -274,9 +347,12 @@ export const down: MigrationFn<QueryInterface> = async ({ context: qi }) => {
     ]) {
       await qi.dropTable(table, { transaction });
     }
-    await qi.sequelize.query('DROP FUNCTION IF EXISTS bump_change_seq(); DROP FUNCTION IF EXISTS audit_events_append_only();', {
-      transaction,
-    });
+    await qi.sequelize.query(
+      'DROP FUNCTION IF EXISTS bump_change_seq(); DROP FUNCTION IF EXISTS audit_events_append_only();',
+      {
+        transaction,
+      },
+    );
     await qi.sequelize.query(`DROP SEQUENCE IF EXISTS ${CHANGE_SEQ}`, { transaction });
   });
 };

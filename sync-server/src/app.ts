@@ -45,7 +45,11 @@ export function createApp(deps: AppDeps): Express {
   );
   app.use('/api', express.json({ limit: '1mb' }));
 
-  registerApiRoutes(app, { sequelize: deps.sequelize, jwtSecret: deps.jwtSecret }, { signInLimits: deps.signInLimits ?? DEFAULT_SIGN_IN_LIMITS });
+  registerApiRoutes(
+    app,
+    { sequelize: deps.sequelize, jwtSecret: deps.jwtSecret },
+    { signInLimits: deps.signInLimits ?? DEFAULT_SIGN_IN_LIMITS },
+  );
   app.use('/api', () => {
     throw new AppError('not_found', 'There is no such API route.', 404);
   });
@@ -65,7 +69,8 @@ function serveWebExport(app: Express, webDist: string): void {
       setHeaders: (res, filePath) => {
         for (const [name, value] of Object.entries(isolationHeaders)) res.setHeader(name, value);
         if (filePath.endsWith('.wasm')) res.setHeader('Content-Type', 'application/wasm');
-        if (filePath.endsWith('index.html') || filePath.endsWith('sw.js')) res.setHeader('Cache-Control', 'no-cache');
+        if (filePath.endsWith('index.html') || filePath.endsWith('sw.js'))
+          res.setHeader('Cache-Control', 'no-cache');
       },
     }),
   );

@@ -11,5 +11,6 @@ export class AppError extends Error {
   }
 }
 
-export const unauthenticated = (message = 'Sign in to continue.') => new AppError('unauthenticated', message, 401);
+export const unauthenticated = (message = 'Sign in to continue.') =>
+  new AppError('unauthenticated', message, 401);
 export const forbidden = () => new AppError('forbidden', 'Your role does not allow this.', 403);

@@ -27,9 +27,11 @@ function fail(message: string): never {
 function main(): void {
   const port = Number(process.env.PORT ?? 8080);
   const host = process.env.HOST ?? '127.0.0.1';
-  if (!Number.isInteger(port) || port < 0 || port > 65535) fail(`PORT must be a whole number from 0 to 65535, not "${process.env.PORT}".`);
+  if (!Number.isInteger(port) || port < 0 || port > 65535)
+    fail(`PORT must be a whole number from 0 to 65535, not "${process.env.PORT}".`);
   const databaseUrl = process.env.DATABASE_URL;
-  if (!databaseUrl) fail('DATABASE_URL is not set: run `npm start`, which sets up the database, or set it yourself.');
+  if (!databaseUrl)
+    fail('DATABASE_URL is not set: run `npm start`, which sets up the database, or set it yourself.');
   const webDist = process.env.WEB_DIST ? path.resolve(process.env.WEB_DIST) : undefined;
 
   const sequelize = createSequelize(databaseUrl);
@@ -43,8 +45,10 @@ function main(): void {
     console.log(`Fourpoint is running at http://${shown}:${actual}`);
   });
   server.on('error', (error: NodeJS.ErrnoException) => {
-    if (error.code === 'EADDRINUSE') fail(`Port ${port} is in use: stop what uses it or set PORT=... npm start`);
-    if (error.code === 'EACCES') fail(`Port ${port} needs more rights than this user has: set PORT=... npm start`);
+    if (error.code === 'EADDRINUSE')
+      fail(`Port ${port} is in use: stop what uses it or set PORT=... npm start`);
+    if (error.code === 'EACCES')
+      fail(`Port ${port} needs more rights than this user has: set PORT=... npm start`);
     fail(`The server could not start: ${error.message}`);
   });
 

@@ -5,15 +5,25 @@ import type { ApiError } from '@/shared/protocol';
 import { AppError } from '../errors';
 
 const describeZod = (error: ZodError) =>
-  error.issues.map((issue) => (issue.path.length ? `${issue.path.join('.')}: ${issue.message}` : issue.message)).join('; ');
+  error.issues
+    .map((issue) => (issue.path.length ? `${issue.path.join('.')}: ${issue.message}` : issue.message))
+    .join('; ');
 
 export function errorHandler(logger: Logger): ErrorRequestHandler {
   return (error: unknown, req, res, _next) => {
     let status = 500;
-    let body: ApiError = { error: { code: 'internal', message: 'Something went wrong on the server. Try again.' } };
+    let body: ApiError = {
+      error: { code: 'internal', message: 'Something went wrong on the server. Try again.' },
+    };
     if (error instanceof AppError) {
       status = error.httpStatus;
-      body = { error: { code: error.code, message: error.message, ...(error.details === undefined ? {} : { details: error.details }) } };
+      body = {
+        error: {
+          code: error.code,
+          message: error.message,
+          ...(error.details === undefined ? {} : { details: error.details }),
+        },
+      };
     } else if (error instanceof ZodError) {
       status = 400;
       body = { error: { code: 'validation_failed', message: describeZod(error), details: error.issues } };

@@ -10,7 +10,11 @@ export interface SignInLimitOptions {
   perAddress: number;
 }
 
-export const DEFAULT_SIGN_IN_LIMITS: SignInLimitOptions = { windowMs: 15 * 60 * 1000, perAccountAndAddress: 10, perAddress: 50 };
+export const DEFAULT_SIGN_IN_LIMITS: SignInLimitOptions = {
+  windowMs: 15 * 60 * 1000,
+  perAccountAndAddress: 10,
+  perAddress: 50,
+};
 
 const tooMany = (windowMs: number): ApiError => ({
   error: {

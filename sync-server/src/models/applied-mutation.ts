@@ -1,6 +1,16 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
+} from 'sequelize';
 
-export class AppliedMutation extends Model<InferAttributes<AppliedMutation>, InferCreationAttributes<AppliedMutation>> {
+export class AppliedMutation extends Model<
+  InferAttributes<AppliedMutation>,
+  InferCreationAttributes<AppliedMutation>
+> {
   declare mutationId: string;
   declare clinicId: string;
   declare userId: CreationOptional<string | null>;

@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
+} from 'sequelize';
 import { syncableAttributes, syncableOptions, type SyncableColumns } from './syncable';
 
-export class Client extends Model<InferAttributes<Client>, InferCreationAttributes<Client>> implements SyncableColumns {
+export class Client
+  extends Model<InferAttributes<Client>, InferCreationAttributes<Client>>
+  implements SyncableColumns
+{
   declare id: string;
   declare firstName: string;
   declare lastName: string;

@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
+} from 'sequelize';
 import { syncableAttributes, syncableOptions, type SyncableColumns } from './syncable';
 
-export class Consent extends Model<InferAttributes<Consent>, InferCreationAttributes<Consent>> implements SyncableColumns {
+export class Consent
+  extends Model<InferAttributes<Consent>, InferCreationAttributes<Consent>>
+  implements SyncableColumns
+{
   declare id: string;
   declare clientId: string;
   declare consentTextId: string;

@@ -1,8 +1,18 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
+} from 'sequelize';
 import type { ClipState, QualityVerdict, Site } from '@/shared/protocol';
 import { syncableAttributes, syncableOptions, type SyncableColumns } from './syncable';
 
-export class SiteRecording extends Model<InferAttributes<SiteRecording>, InferCreationAttributes<SiteRecording>> implements SyncableColumns {
+export class SiteRecording
+  extends Model<InferAttributes<SiteRecording>, InferCreationAttributes<SiteRecording>>
+  implements SyncableColumns
+{
   declare id: string;
   declare sessionId: string;
   declare site: Site;

@@ -1,6 +1,16 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
+} from 'sequelize';
 
-export class SyncConflict extends Model<InferAttributes<SyncConflict>, InferCreationAttributes<SyncConflict>> {
+export class SyncConflict extends Model<
+  InferAttributes<SyncConflict>,
+  InferCreationAttributes<SyncConflict>
+> {
   declare id: string;
   declare clinicId: string;
   declare entity: string;

@@ -15,9 +15,12 @@ export async function listClients(clinicId: string, q?: string): Promise<ClientS
         { firstName: { [Op.iLike]: pattern } },
         { lastName: { [Op.iLike]: pattern } },
         { email: { [Op.iLike]: pattern } },
-        Sequelize.where(Sequelize.fn('concat_ws', ' ', Sequelize.col('first_name'), Sequelize.col('last_name')), {
-          [Op.iLike]: pattern,
-        }),
+        Sequelize.where(
+          Sequelize.fn('concat_ws', ' ', Sequelize.col('first_name'), Sequelize.col('last_name')),
+          {
+            [Op.iLike]: pattern,
+          },
+        ),
       ],
     });
   }

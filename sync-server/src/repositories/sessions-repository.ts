@@ -10,7 +10,12 @@ export async function listSessions(clinicId: string): Promise<SessionSummary[]> 
     include: [
       { model: Client, as: 'client', attributes: ['firstName', 'lastName'], where: { clinicId } },
       { model: User, as: 'operator', attributes: ['name'], required: false },
-      { model: SiteRecording, as: 'siteRecordings', attributes: ['site', 'qualityVerdict', 'skippedReason'], required: false },
+      {
+        model: SiteRecording,
+        as: 'siteRecordings',
+        attributes: ['site', 'qualityVerdict', 'skippedReason'],
+        required: false,
+      },
     ],
     order: [
       ['startedAt', 'DESC'],

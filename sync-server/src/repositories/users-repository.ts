@@ -26,12 +26,19 @@ export async function findUserByEmailForSignIn(email: string): Promise<UserRecor
 }
 
 /** A refresh token names its user but no clinic; the user row supplies it. */
-export async function findUserForRefreshToken(userId: string, transaction?: Transaction): Promise<UserRecord | null> {
+export async function findUserForRefreshToken(
+  userId: string,
+  transaction?: Transaction,
+): Promise<UserRecord | null> {
   const user = await User.findByPk(userId, { transaction });
   return user ? toRecord(user) : null;
 }
 
-export async function findUserInClinic(clinicId: string, userId: string, transaction?: Transaction): Promise<UserRecord | null> {
+export async function findUserInClinic(
+  clinicId: string,
+  userId: string,
+  transaction?: Transaction,
+): Promise<UserRecord | null> {
   const user = await User.findOne({ where: { id: userId, clinicId }, transaction });
   return user ? toRecord(user) : null;
 }
@@ -50,7 +57,11 @@ export interface NewUser {
   disabled?: boolean;
 }
 
-export async function createUser(clinicId: string, input: NewUser, transaction?: Transaction): Promise<UserRecord> {
+export async function createUser(
+  clinicId: string,
+  input: NewUser,
+  transaction?: Transaction,
+): Promise<UserRecord> {
   const user = await User.create({ ...input, email: normaliseEmail(input.email), clinicId }, { transaction });
   return toRecord(user);
 }

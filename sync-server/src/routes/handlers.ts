@@ -28,7 +28,11 @@ export const signInHandler: HandlerFactory = (deps) => async (req, res) => {
 };
 
 export const refreshHandler: HandlerFactory = (deps) => async (req, res) => {
-  const body: SignInResponse = await refreshSession(deps, refreshRequestSchema.parse(req.body), req.ip ?? null);
+  const body: SignInResponse = await refreshSession(
+    deps,
+    refreshRequestSchema.parse(req.body),
+    req.ip ?? null,
+  );
   res.json(body);
 };
 

@@ -27,7 +27,9 @@ export function signAccessToken(claims: AccessClaims, secret: string, ttlS = ACC
 /** Returns the claims, or null for a token that is malformed, forged or expired. */
 export function verifyAccessToken(token: string, secret: string): AccessClaims | null {
   try {
-    const payload = payloadSchema.safeParse(jwt.verify(token, secret, { issuer: ISSUER, algorithms: ['HS256'] }));
+    const payload = payloadSchema.safeParse(
+      jwt.verify(token, secret, { issuer: ISSUER, algorithms: ['HS256'] }),
+    );
     if (!payload.success) return null;
     return { userId: payload.data.sub, role: payload.data.role, clinicId: payload.data.clinicId };
   } catch {

@@ -8,18 +8,31 @@ import {
   revokeRefreshToken,
   revokeRefreshTokenFamily,
 } from '../repositories/refresh-tokens-repository';
-import { findUserByEmailForSignIn, findUserForRefreshToken, findUserInClinic, type UserRecord } from '../repositories/users-repository';
+import {
+  findUserByEmailForSignIn,
+  findUserForRefreshToken,
+  findUserInClinic,
+  type UserRecord,
+} from '../repositories/users-repository';
 import { verifyPassword } from '../services/passwords';
 import { hashRefreshToken, newRefreshToken, REFRESH_TOKEN_TTL_MS, signAccessToken } from '../services/tokens';
 import type { Transaction } from 'sequelize';
 import type { UseCaseDeps } from './context';
 
-const wrongCredentials = () => new AppError('invalid_credentials', 'The e-mail or password is not right.', 401);
-const refreshRefused = () => new AppError('invalid_refresh_token', 'Your session has ended. Sign in again.', 401);
+const wrongCredentials = () =>
+  new AppError('invalid_credentials', 'The e-mail or password is not right.', 401);
+const refreshRefused = () =>
+  new AppError('invalid_refresh_token', 'Your session has ended. Sign in again.', 401);
 export const accountDisabled = () =>
   new AppError('account_disabled', "This account is disabled. Ask your clinic's admin.", 401);
 
-export const toPublicUser = (u: UserRecord): User => ({ id: u.id, email: u.email, role: u.role, clinicId: u.clinicId, name: u.name });
+export const toPublicUser = (u: UserRecord): User => ({
+  id: u.id,
+  email: u.email,
+  role: u.role,
+  clinicId: u.clinicId,
+  name: u.name,
+});
 
 async function issueTokens(
   deps: UseCaseDeps,
@@ -41,24 +54,45 @@ async function issueTokens(
     },
     transaction,
   );
-  const accessToken = signAccessToken({ userId: user.id, role: user.role, clinicId: user.clinicId }, deps.jwtSecret);
+  const accessToken = signAccessToken(
+    { userId: user.id, role: user.role, clinicId: user.clinicId },
+    deps.jwtSecret,
+  );
   return { accessToken, refreshToken, refreshTokenId, user: toPublicUser(user) };
 }
 
-export async function signIn(deps: UseCaseDeps, input: SignInRequest, ip: string | null): Promise<SignInResponse> {
+export async function signIn(
+  deps: UseCaseDeps,
+  input: SignInRequest,
+  ip: string | null,
+): Promise<SignInResponse> {
   const user = await findUserByEmailForSignIn(input.email);
   const passwordOk = await verifyPassword(input.password, user?.passwordHash);
   if (!user || !passwordOk) throw wrongCredentials();
   if (user.disabled) throw accountDisabled();
   return deps.sequelize.transaction(async (transaction) => {
     const { refreshTokenId: _id, ...tokens } = await issueTokens(deps, user, randomUUID(), ip, transaction);
-    await recordAuditEvent({ clinicId: user.clinicId, userId: user.id, action: 'auth.sign_in', entity: 'user', entityId: user.id, ip }, transaction);
+    await recordAuditEvent(
+      {
+        clinicId: user.clinicId,
+        userId: user.id,
+        action: 'auth.sign_in',
+        entity: 'user',
+        entityId: user.id,
+        ip,
+      },
+      transaction,
+    );
     return tokens;
   });
 }
 
 /** Swaps a refresh token for a new pair; presenting an already-used token ends that whole sign-in. */
-export async function refreshSession(deps: UseCaseDeps, input: RefreshRequest, ip: string | null): Promise<SignInResponse> {
+export async function refreshSession(
+  deps: UseCaseDeps,
+  input: RefreshRequest,
+  ip: string | null,
+): Promise<SignInResponse> {
   const outcome = await deps.sequelize.transaction(async (transaction) => {
     const stored = await findRefreshTokenByHash(hashRefreshToken(input.refreshToken), transaction);
     if (!stored) return { kind: 'unknown' as const };
@@ -93,7 +127,14 @@ export async function signOut(deps: UseCaseDeps, input: RefreshRequest, ip: stri
     if (await revokeRefreshToken(stored.id, null, transaction)) {
       const user = await findUserForRefreshToken(stored.userId, transaction);
       await recordAuditEvent(
-        { clinicId: user?.clinicId ?? null, userId: stored.userId, action: 'auth.sign_out', entity: 'user', entityId: stored.userId, ip },
+        {
+          clinicId: user?.clinicId ?? null,
+          userId: stored.userId,
+          action: 'auth.sign_out',
+          entity: 'user',
+          entityId: stored.userId,
+          ip,
+        },
         transaction,
       );
     }

@@ -21,7 +21,10 @@ export interface TestContext {
 
 export function databaseUrl(): string {
   const url = process.env.DATABASE_URL;
-  if (!url) throw new Error('DATABASE_URL is not set: run server tests through jest, whose global setup provides it.');
+  if (!url)
+    throw new Error(
+      'DATABASE_URL is not set: run server tests through jest, whose global setup provides it.',
+    );
   return url;
 }
 
@@ -31,6 +34,16 @@ export function makeTestContext(overrides: Partial<AppDeps> = {}): TestContext {
   const jwtSecret = `test-secret-${randomUUID()}`;
   const app = createApp({ sequelize, jwtSecret, logger: pino({ level: 'silent' }), ...overrides });
   return { sequelize, app, jwtSecret, close: () => sequelize.close() };
+}
+
+/** Another app on the same connection (models bind to one Sequelize), e.g. with its own rate limits. */
+export function makeSiblingApp(ctx: TestContext, overrides: Partial<AppDeps> = {}): Express {
+  return createApp({
+    sequelize: ctx.sequelize,
+    jwtSecret: ctx.jwtSecret,
+    logger: pino({ level: 'silent' }),
+    ...overrides,
+  });
 }
 
 export interface TestUser {
@@ -67,12 +80,14 @@ export async function makeClinic(label = 'Clinic'): Promise<TestClinic> {
 
 export async function signIn(app: Express, email: string, password = TEST_PASSWORD): Promise<SignInResponse> {
   const res = await request(app).post('/api/auth/sign-in').send({ email, password });
-  if (res.status !== 200) throw new Error(`sign-in of ${email} answered ${res.status}: ${JSON.stringify(res.body)}`);
+  if (res.status !== 200)
+    throw new Error(`sign-in of ${email} answered ${res.status}: ${JSON.stringify(res.body)}`);
   return res.body as SignInResponse;
 }
 
 export async function tokensFor(app: Express, clinic: TestClinic): Promise<Record<Role, string>> {
   const tokens = {} as Record<Role, string>;
-  for (const role of ['operator', 'practitioner', 'admin'] as const) tokens[role] = (await signIn(app, clinic.users[role].email)).accessToken;
+  for (const role of ['operator', 'practitioner', 'admin'] as const)
+    tokens[role] = (await signIn(app, clinic.users[role].email)).accessToken;
   return tokens;
 }

@@ -1,0 +1,212 @@
+import { z } from 'zod';
+import { qualityVerdictSchema, sessionStatusSchema, siteSchema, siteVerdictSchema } from './clinic';
+
+const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a YYYY-MM-DD date.' });
+const boolParam = z.enum(['true', 'false']).transform((v) => v === 'true');
+
+export const reviewSortSchema = z.enum(['startedAt', 'clientName', 'operatorName', 'status']);
+export type ReviewSort = z.infer<typeof reviewSortSchema>;
+
+export const reviewSessionQuerySchema = z.object({
+  limit: z.coerce.number().int().min(1).max(100).default(25),
+  cursor: z.string().max(500).optional(),
+  sort: reviewSortSchema.default('startedAt'),
+  dir: z.enum(['asc', 'desc']).default('desc'),
+  clientId: z.uuid().optional(),
+  operatorId: z.uuid().optional(),
+  from: isoDate.optional(),
+  to: isoDate.optional(),
+  status: sessionStatusSchema.optional(),
+  flagged: boolParam.optional(),
+  quality: qualityVerdictSchema.optional(),
+  q: z.string().trim().max(100).optional(),
+});
+export type ReviewSessionQuery = z.input<typeof reviewSessionQuerySchema>;
+
+export const reviewSessionRowSchema = z.object({
+  id: z.uuid(),
+  clientId: z.uuid(),
+  clientName: z.string(),
+  operatorId: z.uuid().nullable(),
+  operatorName: z.string().nullable(),
+  status: sessionStatusSchema,
+  startedAt: z.string(),
+  followUpDate: z.string().nullable(),
+  worstQuality: qualityVerdictSchema.nullable(),
+  flagged: z.boolean(),
+  sites: z.array(siteVerdictSchema),
+});
+export type ReviewSessionRow = z.infer<typeof reviewSessionRowSchema>;
+
+export const reviewSessionPageSchema = z.object({
+  sessions: z.array(reviewSessionRowSchema),
+  nextCursor: z.string().nullable(),
+  total: z.number().int().nonnegative(),
+});
+export type ReviewSessionPage = z.infer<typeof reviewSessionPageSchema>;
+
+export const measurementStatusSchema = z.enum(['in_range', 'below', 'above', 'no_range', 'no_value']);
+export type MeasurementStatus = z.infer<typeof measurementStatusSchema>;
+
+export const measurementSchema = z.object({
+  key: z.string(),
+  label: z.string(),
+  unit: z.string(),
+  value: z.number().nullable(),
+  range: z.object({ low: z.number().nullable(), high: z.number().nullable(), source: z.string() }).nullable(),
+  status: measurementStatusSchema,
+  /** The reading in words; anything outside range says "refer to a licensed clinician". */
+  reading: z.string(),
+});
+export type Measurement = z.infer<typeof measurementSchema>;
+
+export const soundMarkSchema = z.object({ type: z.enum(['S1', 'S2']), startS: z.number(), endS: z.number() });
+export type SoundMark = z.infer<typeof soundMarkSchema>;
+
+export const reviewSiteSchema = z.object({
+  site: siteSchema,
+  recordingId: z.uuid().nullable(),
+  qualityVerdict: qualityVerdictSchema.nullable(),
+  qualityReasons: z.array(z.string()),
+  clipState: z.string(),
+  hasAudio: z.boolean(),
+  durationS: z.number().nullable(),
+  skippedReason: z.string().nullable(),
+  heartRateBpm: z.number().nullable(),
+  irregularRhythm: z.boolean(),
+  sounds: z.array(soundMarkSchema),
+  measurements: z.array(measurementSchema),
+  referral: z.boolean(),
+});
+export type ReviewSite = z.infer<typeof reviewSiteSchema>;
+
+export const reviewNotesSchema = z.object({
+  findings: z.string().nullable(),
+  plan: z.string().nullable(),
+  followUpDate: z.string().nullable(),
+  version: z.number().int(),
+  reviewedBy: z.string().nullable(),
+  reviewedAt: z.string().nullable(),
+});
+export type ReviewNotes = z.infer<typeof reviewNotesSchema>;
+
+export const reviewSessionDetailSchema = z.object({
+  id: z.uuid(),
+  clinicName: z.string(),
+  client: z.object({
+    id: z.uuid(),
+    firstName: z.string(),
+    lastName: z.string(),
+    dateOfBirth: z.string().nullable(),
+    email: z.string().nullable(),
+  }),
+  operatorName: z.string().nullable(),
+  status: sessionStatusSchema,
+  startedAt: z.string(),
+  finishedAt: z.string().nullable(),
+  notes: reviewNotesSchema,
+  sites: z.array(reviewSiteSchema),
+  flagged: z.boolean(),
+});
+export type ReviewSessionDetail = z.infer<typeof reviewSessionDetailSchema>;
+
+export const traceSchema = z.object({
+  site: siteSchema,
+  durationS: z.number(),
+  /** Pairs of min and max per bucket, evenly spaced; values in -1..1. */
+  bucketsPerSecond: z.number(),
+  min: z.array(z.number()),
+  max: z.array(z.number()),
+  sounds: z.array(soundMarkSchema),
+});
+export type Trace = z.infer<typeof traceSchema>;
+
+export const earlierVisitSchema = z.object({
+  id: z.uuid(),
+  startedAt: z.string(),
+  status: sessionStatusSchema,
+  worstQuality: qualityVerdictSchema.nullable(),
+});
+export const earlierVisitsSchema = z.object({ visits: z.array(earlierVisitSchema) });
+export type EarlierVisit = z.infer<typeof earlierVisitSchema>;
+
+export const comparisonRowSchema = z.object({
+  site: siteSchema,
+  key: z.string(),
+  label: z.string(),
+  unit: z.string(),
+  then: z.number().nullable(),
+  now: z.number().nullable(),
+  change: z.number().nullable(),
+});
+export type ComparisonRow = z.infer<typeof comparisonRowSchema>;
+
+export const comparisonSchema = z.object({
+  now: z.object({ id: z.uuid(), startedAt: z.string() }),
+  then: z.object({ id: z.uuid(), startedAt: z.string() }),
+  rows: z.array(comparisonRowSchema),
+  /** First S1 onset per site in each visit, so traces can be laid over each other aligned on S1. */
+  firstS1: z.array(z.object({ site: siteSchema, now: z.number().nullable(), then: z.number().nullable() })),
+});
+export type Comparison = z.infer<typeof comparisonSchema>;
+
+export const trendSeriesSchema = z.object({
+  site: siteSchema,
+  key: z.string(),
+  label: z.string(),
+  unit: z.string(),
+  range: z.object({ low: z.number().nullable(), high: z.number().nullable(), source: z.string() }).nullable(),
+  points: z.array(z.object({ sessionId: z.uuid(), startedAt: z.string(), value: z.number().nullable(), status: measurementStatusSchema })),
+});
+export const trendsSchema = z.object({
+  client: z.object({ id: z.uuid(), firstName: z.string(), lastName: z.string() }),
+  series: z.array(trendSeriesSchema),
+});
+export type TrendSeries = z.infer<typeof trendSeriesSchema>;
+export type Trends = z.infer<typeof trendsSchema>;
+
+const notesText = z.string().max(20000, { error: 'At most 20 000 characters.' });
+export const saveNotesRequestSchema = z.object({
+  findings: notesText.nullable(),
+  plan: notesText.nullable(),
+  followUpDate: isoDate.nullable(),
+  baseVersion: z.number().int().positive(),
+});
+export type SaveNotesRequest = z.infer<typeof saveNotesRequestSchema>;
+export const staleNotesDetailsSchema = z.object({ current: reviewNotesSchema, yours: saveNotesRequestSchema });
+export type StaleNotesDetails = z.infer<typeof staleNotesDetailsSchema>;
+
+export const reportMailStateSchema = z.enum(['queued', 'sending', 'sent', 'failed']);
+export const reportMailSchema = z.object({
+  id: z.uuid(),
+  sessionId: z.uuid(),
+  to: z.string(),
+  subject: z.string(),
+  state: reportMailStateSchema,
+  attempts: z.number().int(),
+  lastError: z.string().nullable(),
+  createdAt: z.string(),
+  sentAt: z.string().nullable(),
+});
+export type ReportMail = z.infer<typeof reportMailSchema>;
+export const reportMailResponseSchema = z.object({ mail: reportMailSchema });
+export const reportMailListSchema = z.object({ mails: z.array(reportMailSchema) });
+export const sendReportRequestSchema = z.object({
+  compareWith: z.uuid().nullable().optional(),
+  to: z.email({ error: 'Enter a valid e-mail address.' }).max(254).optional(),
+});
+export type SendReportRequest = z.infer<typeof sendReportRequestSchema>;
+export const reportQuerySchema = z.object({ compareWith: z.uuid().optional() });
+
+export const mailboxMessageSchema = z.object({
+  id: z.string(),
+  receivedAt: z.string(),
+  from: z.string(),
+  to: z.string(),
+  subject: z.string(),
+  attachments: z.array(z.object({ index: z.number(), filename: z.string().nullable(), contentType: z.string(), size: z.number() })),
+});
+export const mailboxListSchema = z.object({ messages: z.array(mailboxMessageSchema) });
+export const mailboxMessageDetailSchema = mailboxMessageSchema.extend({ text: z.string().nullable(), html: z.string().nullable() });
+export type MailboxMessage = z.infer<typeof mailboxMessageSchema>;
+export type MailboxMessageDetail = z.infer<typeof mailboxMessageDetailSchema>;

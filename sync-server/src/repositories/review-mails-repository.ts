@@ -1,0 +1,107 @@
+import { QueryTypes, type Sequelize } from 'sequelize';
+import type { ReportMail } from '@/shared/protocol/review';
+
+type Row = {
+  id: string;
+  session_id: string;
+  to_address: string;
+  subject: string;
+  state: ReportMail['state'];
+  attempts: number;
+  last_error: string | null;
+  created_at: string;
+  sent_at: string | null;
+};
+
+const toMail = (r: Row): ReportMail => ({
+  id: r.id,
+  sessionId: r.session_id,
+  to: r.to_address,
+  subject: r.subject,
+  state: r.state,
+  attempts: Number(r.attempts),
+  lastError: r.last_error,
+  createdAt: new Date(r.created_at).toISOString(),
+  sentAt: r.sent_at ? new Date(r.sent_at).toISOString() : null,
+});
+
+const COLUMNS = 'id, session_id, to_address, subject, state, attempts, last_error, created_at, sent_at';
+
+export type NewReportMail = {
+  id: string;
+  clinicId: string;
+  sessionId: string;
+  compareSessionId: string | null;
+  to: string;
+  subject: string;
+  bodyText: string;
+  attachmentName: string;
+  attachment: Buffer;
+  createdBy: string;
+};
+
+export async function insertReportMail(sequelize: Sequelize, mail: NewReportMail): Promise<ReportMail> {
+  const rows = await sequelize.query<Row>(
+    `INSERT INTO report_mails (id, clinic_id, session_id, compare_session_id, to_address, subject, body_text, attachment_name, attachment, created_by)
+     VALUES (:id, :clinicId, :sessionId, :compareSessionId, :to, :subject, :bodyText, :attachmentName, :attachment, :createdBy)
+     RETURNING ${COLUMNS}`,
+    { replacements: { ...mail }, type: QueryTypes.SELECT },
+  );
+  return toMail(rows[0]);
+}
+
+/** Takes the mail for one send attempt; null if it is already sent or another attempt holds it. */
+export async function claimReportMail(sequelize: Sequelize, clinicId: string, mailId: string) {
+  const rows = await sequelize.query<Row & { body_text: string; attachment_name: string; attachment: Buffer }>(
+    `UPDATE report_mails SET state = 'sending', attempts = attempts + 1, updated_at = now()
+      WHERE clinic_id = :clinicId AND id = :mailId AND state IN ('queued', 'failed')
+      RETURNING ${COLUMNS}, body_text, attachment_name, attachment`,
+    { replacements: { clinicId, mailId }, type: QueryTypes.SELECT },
+  );
+  const r = rows[0];
+  return r ? { mail: toMail(r), bodyText: r.body_text, attachmentName: r.attachment_name, attachment: r.attachment } : null;
+}
+
+export async function finishReportMail(
+  sequelize: Sequelize,
+  clinicId: string,
+  mailId: string,
+  outcome: { state: 'sent'; messageId: string } | { state: 'failed'; error: string },
+): Promise<ReportMail> {
+  const rows = await sequelize.query<Row>(
+    `UPDATE report_mails
+        SET state = :state, updated_at = now(),
+            message_id = CASE WHEN :state = 'sent' THEN :messageId ELSE message_id END,
+            sent_at = CASE WHEN :state = 'sent' THEN now() ELSE sent_at END,
+            last_error = CASE WHEN :state = 'failed' THEN :error ELSE NULL END
+      WHERE clinic_id = :clinicId AND id = :mailId
+      RETURNING ${COLUMNS}`,
+    {
+      replacements: {
+        clinicId,
+        mailId,
+        state: outcome.state,
+        messageId: outcome.state === 'sent' ? outcome.messageId : null,
+        error: outcome.state === 'failed' ? outcome.error : null,
+      },
+      type: QueryTypes.SELECT,
+    },
+  );
+  return toMail(rows[0]);
+}
+
+export async function findReportMail(sequelize: Sequelize, clinicId: string, mailId: string): Promise<ReportMail | null> {
+  const rows = await sequelize.query<Row>(`SELECT ${COLUMNS} FROM report_mails WHERE clinic_id = :clinicId AND id = :mailId`, {
+    replacements: { clinicId, mailId },
+    type: QueryTypes.SELECT,
+  });
+  return rows[0] ? toMail(rows[0]) : null;
+}
+
+export async function listReportMails(sequelize: Sequelize, clinicId: string, sessionId: string): Promise<ReportMail[]> {
+  const rows = await sequelize.query<Row>(
+    `SELECT ${COLUMNS} FROM report_mails WHERE clinic_id = :clinicId AND session_id = :sessionId ORDER BY created_at DESC`,
+    { replacements: { clinicId, sessionId }, type: QueryTypes.SELECT },
+  );
+  return rows.map(toMail);
+}

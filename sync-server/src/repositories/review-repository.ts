@@ -1,0 +1,328 @@
+import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import type { QualityVerdict, ReviewSessionRow, ReviewSort, SessionStatus, Site } from '@/shared/protocol';
+
+const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
+const QUALITY_RANK: Record<QualityVerdict, number> = { good: 1, usable: 2, retake: 3 };
+const RANK_QUALITY: Record<number, QualityVerdict> = { 1: 'good', 2: 'usable', 3: 'retake' };
+
+/** Per-site limits beyond which a site reads "refer to a licensed clinician" (null: no limit). */
+export type ReferralLimits = Record<Site, { hrLow: number | null; hrHigh: number | null; systolicHigh: number | null; diastolicHigh: number | null }>;
+
+export type ReviewListFilter = {
+  clientId?: string;
+  operatorId?: string;
+  from?: string;
+  to?: string;
+  status?: SessionStatus;
+  flagged?: boolean;
+  quality?: QualityVerdict;
+  q?: string;
+};
+
+export type ReviewListOptions = {
+  filter: ReviewListFilter;
+  sort: ReviewSort;
+  dir: 'asc' | 'desc';
+  limit: number;
+  after?: { value: string; id: string };
+};
+
+const SORT_EXPR: Record<ReviewSort, { expr: string; cast: string }> = {
+  startedAt: { expr: 's.started_at', cast: 'timestamptz' },
+  clientName: { expr: `lower(c.last_name || ' ' || c.first_name)`, cast: 'text' },
+  operatorName: { expr: `lower(coalesce(u.name, ''))`, cast: 'text' },
+  status: { expr: 's.status', cast: 'text' },
+};
+
+const escapeLike = (text: string) => text.replace(/[\\%_]/g, (c) => `\\${c}`);
+
+function limitsValues(limits: ReferralLimits, replacements: Record<string, unknown>): string {
+  return SITES.map((site, i) => {
+    const l = limits[site];
+    replacements[`site${i}`] = site;
+    replacements[`hrLow${i}`] = l.hrLow;
+    replacements[`hrHigh${i}`] = l.hrHigh;
+    replacements[`sysHigh${i}`] = l.systolicHigh;
+    replacements[`diaHigh${i}`] = l.diastolicHigh;
+    return `(:site${i}, CAST(:hrLow${i} AS real), CAST(:hrHigh${i} AS real), CAST(:sysHigh${i} AS real), CAST(:diaHigh${i} AS real))`;
+  }).join(', ');
+}
+
+function fromAndWhere(clinicId: string, filter: ReviewListFilter, limits: ReferralLimits, replacements: Record<string, unknown>) {
+  replacements.clinicId = clinicId;
+  const where = ['s.clinic_id = :clinicId', 's.deleted_at IS NULL'];
+  if (filter.clientId) {
+    where.push('s.client_id = :clientId');
+    replacements.clientId = filter.clientId;
+  }
+  if (filter.operatorId) {
+    where.push('s.operator_id = :operatorId');
+    replacements.operatorId = filter.operatorId;
+  }
+  if (filter.from) {
+    where.push(`s.started_at >= CAST(:from AS date)`);
+    replacements.from = filter.from;
+  }
+  if (filter.to) {
+    // The end date is inclusive: everything before the next midnight.
+    where.push(`s.started_at < CAST(:to AS date) + 1`);
+    replacements.to = filter.to;
+  }
+  if (filter.status) {
+    where.push('s.status = :status');
+    replacements.status = filter.status;
+  }
+  if (filter.q) {
+    where.push(`(c.first_name || ' ' || c.last_name) ILIKE :q`);
+    replacements.q = `%${escapeLike(filter.q)}%`;
+  }
+  if (filter.flagged !== undefined) {
+    where.push('coalesce(f.flagged, false) = :flagged');
+    replacements.flagged = filter.flagged;
+  }
+  if (filter.quality) {
+    where.push('f.worst_rank = :qualityRank');
+    replacements.qualityRank = QUALITY_RANK[filter.quality];
+  }
+  const from = `
+    FROM recording_sessions s
+    JOIN clients c ON c.id = s.client_id AND c.clinic_id = s.clinic_id AND c.deleted_at IS NULL
+    LEFT JOIN users u ON u.id = s.operator_id AND u.clinic_id = s.clinic_id
+    LEFT JOIN LATERAL (
+      SELECT max(CASE sr.quality_verdict WHEN 'good' THEN 1 WHEN 'usable' THEN 2 WHEN 'retake' THEN 3 END) AS worst_rank,
+             bool_or(sr.review_irregular
+                  OR sr.review_heart_rate < r.hr_low OR sr.review_heart_rate > r.hr_high
+                  OR sr.review_systolic_activity > r.sys_high OR sr.review_diastolic_activity > r.dia_high) AS flagged,
+             json_agg(json_build_object('site', sr.site, 'verdict', sr.quality_verdict, 'skipped', sr.skipped_reason IS NOT NULL)) AS sites
+      FROM site_recordings sr
+      JOIN (VALUES ${limitsValues(limits, replacements)}) AS r(site, hr_low, hr_high, sys_high, dia_high) ON r.site = sr.site
+      WHERE sr.session_id = s.id AND sr.deleted_at IS NULL
+    ) f ON true`;
+  return { from, where };
+}
+
+type ListRow = {
+  id: string;
+  client_id: string;
+  client_name: string;
+  operator_id: string | null;
+  operator_name: string | null;
+  status: SessionStatus;
+  started_at: Date;
+  follow_up_date: string | null;
+  worst_rank: number | null;
+  flagged: boolean | null;
+  sites: { site: Site; verdict: QualityVerdict | null; skipped: boolean }[] | null;
+  sort_value: string;
+};
+
+export async function listReviewSessions(
+  sequelize: Sequelize,
+  clinicId: string,
+  options: ReviewListOptions,
+  limits: ReferralLimits,
+): Promise<{ rows: (ReviewSessionRow & { sortValue: string })[]; total: number; hasMore: boolean }> {
+  const replacements: Record<string, unknown> = {};
+  const { from, where } = fromAndWhere(clinicId, options.filter, limits, replacements);
+  const countRows = await sequelize.query<{ n: string }>(`SELECT count(*) AS n ${from} WHERE ${where.join(' AND ')}`, {
+    replacements: { ...replacements },
+    type: QueryTypes.SELECT,
+  });
+  const sort = SORT_EXPR[options.sort];
+  const op = options.dir === 'asc' ? '>' : '<';
+  const pageWhere = [...where];
+  if (options.after) {
+    pageWhere.push(`(${sort.expr}, s.id) ${op} (CAST(:afterValue AS ${sort.cast}), CAST(:afterId AS uuid))`);
+    replacements.afterValue = options.after.value;
+    replacements.afterId = options.after.id;
+  }
+  replacements.limit = options.limit + 1;
+  const rows = await sequelize.query<ListRow>(
+    `SELECT s.id, s.client_id, c.first_name || ' ' || c.last_name AS client_name, s.operator_id, u.name AS operator_name,
+            s.status, s.started_at, s.follow_up_date, f.worst_rank, f.flagged, f.sites, (${sort.expr})::text AS sort_value
+     ${from}
+     WHERE ${pageWhere.join(' AND ')}
+     ORDER BY ${sort.expr} ${options.dir}, s.id ${options.dir}
+     LIMIT :limit`,
+    { replacements, type: QueryTypes.SELECT },
+  );
+  const hasMore = rows.length > options.limit;
+  return {
+    total: Number(countRows[0]?.n ?? 0),
+    hasMore,
+    rows: rows.slice(0, options.limit).map((r) => ({
+      id: r.id,
+      clientId: r.client_id,
+      clientName: r.client_name,
+      operatorId: r.operator_id,
+      operatorName: r.operator_name,
+      status: r.status,
+      startedAt: new Date(r.started_at).toISOString(),
+      followUpDate: r.follow_up_date,
+      worstQuality: r.worst_rank ? RANK_QUALITY[r.worst_rank] : null,
+      flagged: r.flagged === true,
+      sites: (r.sites ?? []).sort((a, b) => SITES.indexOf(a.site) - SITES.indexOf(b.site)),
+      sortValue: r.sort_value,
+    })),
+  };
+}
+
+export type SessionRecord = {
+  id: string;
+  clinicId: string;
+  clinicName: string;
+  clientId: string;
+  clientFirstName: string;
+  clientLastName: string;
+  clientDateOfBirth: string | null;
+  clientEmail: string | null;
+  operatorName: string | null;
+  status: SessionStatus;
+  startedAt: Date;
+  finishedAt: Date | null;
+  findings: string | null;
+  plan: string | null;
+  followUpDate: string | null;
+  version: number;
+  reviewedByName: string | null;
+  reviewedAt: Date | null;
+};
+
+export type SiteRecord = {
+  id: string;
+  site: Site;
+  qualityVerdict: QualityVerdict | null;
+  clipSha256: string | null;
+  clipState: string;
+  durationS: number | null;
+  skippedReason: string | null;
+  analysis: AnalysisLike | null;
+};
+
+export type AnalysisLike = {
+  durationS?: number;
+  sampleRate?: number;
+  heartRateBpm?: number | null;
+  sounds?: { type: 'S1' | 'S2'; startS: number; endS: number }[];
+  metrics?: Record<string, unknown>;
+  quality?: { verdict?: string; reasons?: { code: string; message: string }[] };
+};
+
+export async function findSessionRecord(sequelize: Sequelize, clinicId: string, sessionId: string, transaction?: Transaction): Promise<SessionRecord | null> {
+  const rows = await sequelize.query<Record<string, unknown>>(
+    `SELECT s.id, s.clinic_id, k.name AS clinic_name, s.client_id, c.first_name, c.last_name, c.date_of_birth, c.email,
+            o.name AS operator_name, s.status, s.started_at, s.finished_at, s.findings, s.plan, s.follow_up_date, s.version,
+            r.name AS reviewed_by_name, s.reviewed_at
+       FROM recording_sessions s
+       JOIN clinics k ON k.id = s.clinic_id
+       JOIN clients c ON c.id = s.client_id AND c.clinic_id = s.clinic_id
+       LEFT JOIN users o ON o.id = s.operator_id
+       LEFT JOIN users r ON r.id = s.reviewed_by
+      WHERE s.clinic_id = :clinicId AND s.id = :sessionId AND s.deleted_at IS NULL`,
+    { replacements: { clinicId, sessionId }, type: QueryTypes.SELECT, transaction },
+  );
+  const r = rows[0];
+  if (!r) return null;
+  return {
+    id: r.id as string,
+    clinicId: r.clinic_id as string,
+    clinicName: r.clinic_name as string,
+    clientId: r.client_id as string,
+    clientFirstName: r.first_name as string,
+    clientLastName: r.last_name as string,
+    clientDateOfBirth: (r.date_of_birth as string | null) ?? null,
+    clientEmail: (r.email as string | null) ?? null,
+    operatorName: (r.operator_name as string | null) ?? null,
+    status: r.status as SessionStatus,
+    startedAt: new Date(r.started_at as string),
+    finishedAt: r.finished_at ? new Date(r.finished_at as string) : null,
+    findings: (r.findings as string | null) ?? null,
+    plan: (r.plan as string | null) ?? null,
+    followUpDate: (r.follow_up_date as string | null) ?? null,
+    version: Number(r.version),
+    reviewedByName: (r.reviewed_by_name as string | null) ?? null,
+    reviewedAt: r.reviewed_at ? new Date(r.reviewed_at as string) : null,
+  };
+}
+
+/** The sites of sessions, with their analysis of record; `full` false leaves out the per-beat detail. */
+export async function findSiteRecords(sequelize: Sequelize, clinicId: string, sessionIds: string[], full = true): Promise<Map<string, SiteRecord[]>> {
+  const out = new Map<string, SiteRecord[]>();
+  if (!sessionIds.length) return out;
+  const analysis = full ? 'sr.analysis' : `CASE WHEN sr.analysis IS NULL THEN NULL ELSE jsonb_set(sr.analysis - 'sounds', '{metrics}', (sr.analysis->'metrics') - 'beats') END`;
+  const rows = await sequelize.query<Record<string, unknown>>(
+    `SELECT sr.id, sr.session_id, sr.site, sr.quality_verdict, sr.clip_sha256, sr.clip_state, sr.duration_s, sr.skipped_reason, ${analysis} AS analysis
+       FROM site_recordings sr
+      WHERE sr.clinic_id = :clinicId AND sr.session_id IN (:sessionIds) AND sr.deleted_at IS NULL`,
+    { replacements: { clinicId, sessionIds }, type: QueryTypes.SELECT },
+  );
+  for (const r of rows) {
+    const list = out.get(r.session_id as string) ?? [];
+    list.push({
+      id: r.id as string,
+      site: r.site as Site,
+      qualityVerdict: (r.quality_verdict as QualityVerdict | null) ?? null,
+      clipSha256: (r.clip_sha256 as string | null) ?? null,
+      clipState: r.clip_state as string,
+      durationS: r.duration_s === null ? null : Number(r.duration_s),
+      skippedReason: (r.skipped_reason as string | null) ?? null,
+      analysis: (r.analysis as AnalysisLike | null) ?? null,
+    });
+    out.set(r.session_id as string, list);
+  }
+  return out;
+}
+
+export async function listClientSessions(
+  sequelize: Sequelize,
+  clinicId: string,
+  clientId: string,
+): Promise<{ id: string; startedAt: Date; status: SessionStatus }[]> {
+  const rows = await sequelize.query<{ id: string; started_at: string; status: SessionStatus }>(
+    `SELECT id, started_at, status FROM recording_sessions
+      WHERE clinic_id = :clinicId AND client_id = :clientId AND deleted_at IS NULL AND status <> 'cancelled'
+      ORDER BY started_at ASC, id ASC`,
+    { replacements: { clinicId, clientId }, type: QueryTypes.SELECT },
+  );
+  return rows.map((r) => ({ id: r.id, startedAt: new Date(r.started_at), status: r.status }));
+}
+
+export async function findClient(sequelize: Sequelize, clinicId: string, clientId: string) {
+  const rows = await sequelize.query<{ id: string; first_name: string; last_name: string }>(
+    `SELECT id, first_name, last_name FROM clients WHERE clinic_id = :clinicId AND id = :clientId AND deleted_at IS NULL`,
+    { replacements: { clinicId, clientId }, type: QueryTypes.SELECT },
+  );
+  const r = rows[0];
+  return r ? { id: r.id, firstName: r.first_name, lastName: r.last_name } : null;
+}
+
+/** Writes the notes only if the row is still at `baseVersion`; null means someone saved in between. */
+export async function updateNotesIfVersion(
+  sequelize: Sequelize,
+  clinicId: string,
+  sessionId: string,
+  baseVersion: number,
+  values: { findings: string | null; plan: string | null; followUpDate: string | null; reviewedBy: string },
+  transaction: Transaction,
+): Promise<{ version: number } | null> {
+  const [rows] = await sequelize.query(
+    `UPDATE recording_sessions
+        SET findings = :findings, plan = :plan, follow_up_date = :followUpDate, reviewed_by = :reviewedBy, reviewed_at = now(),
+            status = CASE WHEN status = 'completed' THEN 'reviewed' ELSE status END,
+            version = version + 1, updated_at = now()
+      WHERE clinic_id = :clinicId AND id = :sessionId AND version = :baseVersion AND deleted_at IS NULL
+      RETURNING version`,
+    { replacements: { clinicId, sessionId, baseVersion, ...values }, transaction },
+  );
+  const row = (rows as { version: number }[])[0];
+  return row ? { version: Number(row.version) } : null;
+}
+
+export async function findClipBlob(sequelize: Sequelize, clinicId: string, sha256: string) {
+  const rows = await sequelize.query<{ storage_key: string; content_type: string; state: string }>(
+    `SELECT storage_key, content_type, state FROM clip_blobs WHERE clinic_id = :clinicId AND sha256 = :sha256`,
+    { replacements: { clinicId, sha256 }, type: QueryTypes.SELECT },
+  );
+  const r = rows[0];
+  return r ? { storageKey: r.storage_key, contentType: r.content_type, state: r.state } : null;
+}

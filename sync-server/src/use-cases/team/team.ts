@@ -1,0 +1,187 @@
+import { createHmac, randomUUID, timingSafeEqual } from 'node:crypto';
+import type { SignInResponse } from '@/shared/protocol';
+import type {
+  AcceptInvitationRequest,
+  Invitation,
+  InvitationPreview,
+  InviteRequest,
+  TeamResponse,
+  TeamUser,
+  UpdateTeamUserRequest,
+} from '@/shared/protocol/practice';
+import { AppError } from '../../errors';
+import { recordAuditEvent } from '../../repositories/audit-repository';
+import { iso } from '../../repositories/practice-db';
+import * as repo from '../../repositories/team-repository';
+import { createUser, normaliseEmail } from '../../repositories/users-repository';
+import { hashPassword } from '../../services/passwords';
+import { practiceServices } from '../../services/practice-services';
+import { signIn } from '../auth';
+import type { Caller, UseCaseDeps } from '../context';
+
+export const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
+
+const invalidLink = () => new AppError('invitation_invalid', 'This invitation link is not valid. Ask your admin for a new one.', 404);
+
+/** The link carries the invitation id and its expiry, signed with the server's secret. */
+export function signInvitationToken(id: string, expiresAt: Date, secret: string): string {
+  const payload = Buffer.from(JSON.stringify({ i: id, e: expiresAt.getTime() })).toString('base64url');
+  const signature = createHmac('sha256', secret).update(`invitation.${payload}`).digest('base64url');
+  return `${payload}.${signature}`;
+}
+
+function readInvitationToken(token: string, secret: string): { id: string; expiresAt: number } {
+  const [payload, signature, extra] = token.split('.');
+  if (!payload || !signature || extra !== undefined) throw invalidLink();
+  const expected = createHmac('sha256', secret).update(`invitation.${payload}`).digest();
+  const given = Buffer.from(signature, 'base64url');
+  if (given.length !== expected.length || !timingSafeEqual(given, expected)) throw invalidLink();
+  try {
+    const parsed = JSON.parse(Buffer.from(payload, 'base64url').toString('utf8')) as { i?: unknown; e?: unknown };
+    if (typeof parsed.i !== 'string' || typeof parsed.e !== 'number') throw invalidLink();
+    return { id: parsed.i, expiresAt: parsed.e };
+  } catch {
+    throw invalidLink();
+  }
+}
+
+const invitationStatus = (row: repo.InvitationRow): Invitation['status'] =>
+  row.accepted_at ? 'accepted' : row.revoked_at ? 'revoked' : row.expires_at.getTime() <= Date.now() ? 'expired' : 'pending';
+
+function checkUsable(row: repo.InvitationRow, linkExpiry: number): void {
+  if (row.accepted_at) throw new AppError('invitation_used', 'This invitation has already been used. Sign in instead.', 409);
+  if (row.revoked_at) throw new AppError('invitation_revoked', 'This invitation was withdrawn. Ask your admin for a new one.', 410);
+  if (Math.min(linkExpiry, row.expires_at.getTime()) <= Date.now()) {
+    throw new AppError('invitation_expired', 'This invitation link has expired. Ask your admin to send a new one.', 410);
+  }
+}
+
+export async function getTeam(deps: UseCaseDeps, caller: Caller): Promise<TeamResponse> {
+  const [users, invitations] = await Promise.all([
+    repo.listTeamUsers(deps.sequelize, caller.clinicId),
+    repo.listInvitations(deps.sequelize, caller.clinicId),
+  ]);
+  return {
+    users: users.map((u): TeamUser => ({ id: u.id, email: u.email, name: u.name, role: u.role, disabled: u.disabled, createdAt: iso(u.created_at)! })),
+    invitations: invitations.map((i) => ({
+      id: i.id,
+      email: i.email,
+      name: i.name,
+      role: i.role,
+      status: invitationStatus(i),
+      expiresAt: iso(i.expires_at)!,
+      createdAt: iso(i.created_at)!,
+    })),
+  };
+}
+
+export async function inviteUser(
+  deps: UseCaseDeps,
+  caller: Caller,
+  input: InviteRequest,
+  linkBase: string,
+): Promise<{ invitation: Invitation; emailed: boolean }> {
+  const email = normaliseEmail(input.email);
+  if (await repo.emailTaken(deps.sequelize, email)) {
+    throw new AppError('email_in_use', 'Someone already signs in with this e-mail address.', 409);
+  }
+  const id = randomUUID();
+  const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
+  await deps.sequelize.transaction(async (transaction) => {
+    await repo.insertInvitation(deps.sequelize, { id, clinicId: caller.clinicId, email, name: input.name, role: input.role, invitedBy: caller.userId, expiresAt }, transaction);
+    await recordAuditEvent(
+      { clinicId: caller.clinicId, userId: caller.userId, action: 'team.invite', entity: 'invitation', entityId: id, ip: caller.ip, details: { role: input.role } },
+      transaction,
+    );
+  });
+  const row = (await repo.findInvitation(deps.sequelize, id))!;
+  const link = `${linkBase}/invite/${signInvitationToken(id, expiresAt, deps.jwtSecret)}`;
+  let emailed = true;
+  try {
+    await practiceServices().mail.send({
+      to: email,
+      subject: `You are invited to ${row.clinic_name} on Fourpoint`,
+      text: [
+        `Hello ${input.name},`,
+        '',
+        `You have been invited to join ${row.clinic_name} on Fourpoint as ${input.role}.`,
+        `Open this link to set your password (it works once and expires on ${expiresAt.toUTCString()}):`,
+        link,
+        '',
+        'If you did not expect this, ignore this e-mail.',
+      ].join('\n'),
+    });
+  } catch {
+    emailed = false;
+  }
+  return {
+    emailed,
+    invitation: { id, email, name: input.name, role: input.role, status: 'pending', expiresAt: expiresAt.toISOString(), createdAt: iso(row.created_at)! },
+  };
+}
+
+export async function previewInvitation(deps: UseCaseDeps, token: string): Promise<InvitationPreview> {
+  const link = readInvitationToken(token, deps.jwtSecret);
+  const row = await repo.findInvitation(deps.sequelize, link.id);
+  if (!row) throw invalidLink();
+  checkUsable(row, link.expiresAt);
+  return { email: row.email, name: row.name, role: row.role, clinicName: row.clinic_name, expiresAt: iso(row.expires_at)! };
+}
+
+export async function acceptInvitation(
+  deps: UseCaseDeps,
+  token: string,
+  input: AcceptInvitationRequest,
+  ip: string | null,
+): Promise<SignInResponse> {
+  const link = readInvitationToken(token, deps.jwtSecret);
+  const passwordHash = await hashPassword(input.password);
+  const email = await deps.sequelize.transaction(async (transaction) => {
+    // The row lock makes a second, simultaneous use of the same link wait and then see it used.
+    const row = await repo.findInvitation(deps.sequelize, link.id, transaction, true);
+    if (!row) throw invalidLink();
+    checkUsable(row, link.expiresAt);
+    if (await repo.emailTaken(deps.sequelize, row.email, transaction)) {
+      throw new AppError('email_in_use', 'Someone already signs in with this e-mail address.', 409);
+    }
+    const userId = randomUUID();
+    await createUser(row.clinic_id, { id: userId, email: row.email, name: input.name, role: row.role, passwordHash }, transaction);
+    await repo.markInvitationAccepted(deps.sequelize, row.id, userId, transaction);
+    await recordAuditEvent(
+      { clinicId: row.clinic_id, userId, action: 'team.invitation_accepted', entity: 'invitation', entityId: row.id, ip, details: { role: row.role } },
+      transaction,
+    );
+    return row.email;
+  });
+  return signIn(deps, { email, password: input.password }, ip);
+}
+
+export async function withdrawInvitation(deps: UseCaseDeps, caller: Caller, invitationId: string): Promise<void> {
+  const changed = await repo.revokeInvitation(deps.sequelize, caller.clinicId, invitationId);
+  if (changed === 0) throw new AppError('not_found', 'There is no open invitation with this id.', 404);
+  await recordAuditEvent({ clinicId: caller.clinicId, userId: caller.userId, action: 'team.invitation_revoked', entity: 'invitation', entityId: invitationId, ip: caller.ip });
+}
+
+export async function changeTeamUser(deps: UseCaseDeps, caller: Caller, userId: string, input: UpdateTeamUserRequest): Promise<TeamUser> {
+  return deps.sequelize.transaction(async (transaction) => {
+    const admins = await repo.lockActiveAdmins(deps.sequelize, caller.clinicId, transaction);
+    const user = await repo.findTeamUser(deps.sequelize, caller.clinicId, userId, transaction);
+    if (!user) throw new AppError('not_found', 'There is no such user in this clinic.', 404);
+    const next = { role: input.role ?? user.role, disabled: input.disabled ?? user.disabled };
+    const wasActiveAdmin = user.role === 'admin' && !user.disabled;
+    const staysActiveAdmin = next.role === 'admin' && !next.disabled;
+    if (wasActiveAdmin && !staysActiveAdmin && admins.length <= 1) {
+      throw new AppError('last_admin', 'This is the clinic’s last active admin: make someone else an admin first.', 409);
+    }
+    await repo.updateTeamUser(deps.sequelize, userId, next, transaction);
+    if (next.disabled && !user.disabled) await repo.revokeUserRefreshTokens(deps.sequelize, userId, transaction);
+    const details: Record<string, unknown> = {};
+    if (next.role !== user.role) details.role = { from: user.role, to: next.role };
+    if (next.disabled !== user.disabled) details.disabled = next.disabled;
+    await recordAuditEvent(
+      { clinicId: caller.clinicId, userId: caller.userId, action: 'team.user_changed', entity: 'user', entityId: userId, ip: caller.ip, details },
+      transaction,
+    );
+    return { id: user.id, email: user.email, name: user.name, role: next.role, disabled: next.disabled, createdAt: iso(user.created_at)! };
+  });
+}

@@ -1,0 +1,257 @@
+import jwt from 'jsonwebtoken';
+import request from 'supertest';
+import { meResponseSchema, signInResponseSchema } from '@/shared/protocol';
+import { AuditEvent, RefreshToken } from '@/sync-server/src/models';
+import { setUserDisabled } from '@/sync-server/src/repositories/users-repository';
+import { hashRefreshToken } from '@/sync-server/src/services/tokens';
+import {
+  makeClinic,
+  makeSiblingApp,
+  makeTestContext,
+  signIn,
+  TEST_PASSWORD,
+  type TestClinic,
+} from './helpers/test-app';
+
+const ctx = makeTestContext();
+let clinic: TestClinic;
+
+beforeAll(async () => {
+  clinic = await makeClinic('Auth');
+});
+afterAll(() => ctx.close());
+
+describe('sign-in', () => {
+  test('when the e-mail and password are right, then it answers tokens and the user', async () => {
+    const user = clinic.users.practitioner;
+    const res = await request(ctx.app)
+      .post('/api/auth/sign-in')
+      .send({ email: user.email, password: TEST_PASSWORD });
+    expect(res.status).toBe(200);
+    const body = signInResponseSchema.parse(res.body);
+    expect(body.user).toEqual({
+      id: user.id,
+      email: user.email,
+      role: 'practitioner',
+      clinicId: clinic.id,
+      name: user.name,
+    });
+    const claims = jwt.verify(body.accessToken, ctx.jwtSecret) as jwt.JwtPayload;
+    expect(claims).toMatchObject({ sub: user.id, role: 'practitioner', clinicId: clinic.id });
+    // 15 minutes: the brief's lifetime for access tokens.
+    expect(claims.exp! - claims.iat!).toBe(15 * 60);
+    const audit = await AuditEvent.findOne({ where: { userId: user.id, action: 'auth.sign_in' } });
+    expect(audit?.clinicId).toBe(clinic.id);
+  });
+
+  test('when the e-mail differs only in case and spaces, then it still signs in', async () => {
+    const res = await request(ctx.app)
+      .post('/api/auth/sign-in')
+      .send({ email: `  ${clinic.users.operator.email.toUpperCase()} `.trim(), password: TEST_PASSWORD });
+    expect(res.status).toBe(200);
+  });
+
+  test('when the password is wrong or the e-mail unknown, then both answers are the same 401', async () => {
+    const wrong = await request(ctx.app)
+      .post('/api/auth/sign-in')
+      .send({ email: clinic.users.admin.email, password: 'not-it' });
+    const unknown = await request(ctx.app)
+      .post('/api/auth/sign-in')
+      .send({ email: `nobody.${clinic.id}@test.fourpoint.test`, password: 'not-it' });
+    expect(wrong.status).toBe(401);
+    expect(unknown.status).toBe(401);
+    expect(wrong.body).toEqual(unknown.body);
+    expect(wrong.body.error.code).toBe('invalid_credentials');
+  });
+
+  test('when the body is not an e-mail and password, then it is 400 with a readable message', async () => {
+    const res = await request(ctx.app).post('/api/auth/sign-in').send({ email: 'not-an-email' });
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe('validation_failed');
+    expect(res.body.error.message).toMatch(/e-mail/);
+  });
+
+  test('when the body is malformed JSON, then it is 400 malformed_json', async () => {
+    const res = await request(ctx.app)
+      .post('/api/auth/sign-in')
+      .set('content-type', 'application/json')
+      .send('{"email":');
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe('malformed_json');
+  });
+
+  test('when one address fails ten times for one account, then the eleventh try is 429 JSON even with the right password', async () => {
+    const limited = makeSiblingApp(ctx);
+    {
+      const email = clinic.users.operator.email;
+      for (let i = 0; i < 10; i++) {
+        const res = await request(limited)
+          .post('/api/auth/sign-in')
+          .send({ email, password: `wrong-${i}` });
+        expect(res.status).toBe(401);
+      }
+      const blocked = await request(limited)
+        .post('/api/auth/sign-in')
+        .send({ email, password: TEST_PASSWORD });
+      expect(blocked.status).toBe(429);
+      expect(blocked.body.error).toEqual({
+        code: 'too_many_attempts',
+        message: expect.stringMatching(/Wait 15 minutes/),
+      });
+      // Another account from the same address still gets its own ten tries.
+      const other = await request(limited)
+        .post('/api/auth/sign-in')
+        .send({ email: clinic.users.admin.email, password: TEST_PASSWORD });
+      expect(other.status).toBe(200);
+    }
+  });
+
+  test('when one address tries many accounts, then the per-address limit stops it', async () => {
+    const limited = makeSiblingApp(ctx, {
+      signInLimits: { windowMs: 60_000, perAccountAndAddress: 10, perAddress: 3 },
+    });
+    {
+      for (let i = 0; i < 3; i++) {
+        const res = await request(limited)
+          .post('/api/auth/sign-in')
+          .send({ email: `guess${i}.${clinic.id}@test.fourpoint.test`, password: 'x' });
+        expect(res.status).toBe(401);
+      }
+      const res = await request(limited)
+        .post('/api/auth/sign-in')
+        .send({ email: `guess9.${clinic.id}@test.fourpoint.test`, password: 'x' });
+      expect(res.status).toBe(429);
+    }
+  });
+});
+
+describe('refresh and sign-out', () => {
+  test('when a refresh token is used, then a new pair comes back and the old token is revoked', async () => {
+    const first = await signIn(ctx.app, clinic.users.operator.email);
+    const res = await request(ctx.app).post('/api/auth/refresh').send({ refreshToken: first.refreshToken });
+    expect(res.status).toBe(200);
+    const second = signInResponseSchema.parse(res.body);
+    expect(second.refreshToken).not.toBe(first.refreshToken);
+    expect(second.user.id).toBe(clinic.users.operator.id);
+    const old = await RefreshToken.findOne({ where: { tokenHash: hashRefreshToken(first.refreshToken) } });
+    expect(old?.revokedAt).toBeInstanceOf(Date);
+    expect(old?.replacedBy).not.toBeNull();
+    const me = await request(ctx.app).get('/api/me').set('authorization', `Bearer ${second.accessToken}`);
+    expect(me.status).toBe(200);
+  });
+
+  test('when a revoked refresh token is used again, then it is refused and its successor stops working too', async () => {
+    const first = await signIn(ctx.app, clinic.users.operator.email);
+    const rotated = (
+      await request(ctx.app).post('/api/auth/refresh').send({ refreshToken: first.refreshToken })
+    ).body as { refreshToken: string };
+    const replay = await request(ctx.app)
+      .post('/api/auth/refresh')
+      .send({ refreshToken: first.refreshToken });
+    expect(replay.status).toBe(401);
+    expect(replay.body.error.code).toBe('invalid_refresh_token');
+    const successor = await request(ctx.app)
+      .post('/api/auth/refresh')
+      .send({ refreshToken: rotated.refreshToken });
+    expect(successor.status).toBe(401);
+  });
+
+  test('when the same refresh token is sent twice at once, then exactly one request gets a new pair', async () => {
+    const first = await signIn(ctx.app, clinic.users.admin.email);
+    const answers = await Promise.all(
+      [1, 2].map(() => request(ctx.app).post('/api/auth/refresh').send({ refreshToken: first.refreshToken })),
+    );
+    expect(answers.map((a) => a.status).sort()).toEqual([200, 401]);
+  });
+
+  test('when a made-up refresh token is sent, then it is 401', async () => {
+    const res = await request(ctx.app).post('/api/auth/refresh').send({ refreshToken: 'made-up-token' });
+    expect(res.status).toBe(401);
+  });
+
+  test('when a user signs out, then that refresh token no longer refreshes', async () => {
+    const session = await signIn(ctx.app, clinic.users.practitioner.email);
+    const out = await request(ctx.app)
+      .post('/api/auth/sign-out')
+      .send({ refreshToken: session.refreshToken });
+    expect(out.status).toBe(204);
+    const res = await request(ctx.app).post('/api/auth/refresh').send({ refreshToken: session.refreshToken });
+    expect(res.status).toBe(401);
+    const again = await request(ctx.app)
+      .post('/api/auth/sign-out')
+      .send({ refreshToken: session.refreshToken });
+    expect(again.status).toBe(204);
+  });
+});
+
+describe('GET /api/me', () => {
+  test('when a valid bearer token is sent, then it answers that user', async () => {
+    const session = await signIn(ctx.app, clinic.users.admin.email);
+    const res = await request(ctx.app).get('/api/me').set('authorization', `Bearer ${session.accessToken}`);
+    expect(res.status).toBe(200);
+    expect(meResponseSchema.parse(res.body).user).toEqual(session.user);
+  });
+
+  test('when no token is sent, then it is 401 JSON', async () => {
+    const res = await request(ctx.app).get('/api/me');
+    expect(res.status).toBe(401);
+    expect(res.body.error.code).toBe('unauthenticated');
+  });
+
+  test('when the token is signed with another secret, then it is 401', async () => {
+    const forged = jwt.sign({ role: 'admin', clinicId: clinic.id }, 'someone-elses-secret', {
+      subject: clinic.users.admin.id,
+      issuer: 'fourpoint',
+    });
+    const res = await request(ctx.app).get('/api/me').set('authorization', `Bearer ${forged}`);
+    expect(res.status).toBe(401);
+  });
+
+  test('when the token has expired, then it is 401', async () => {
+    const expired = jwt.sign(
+      { role: 'admin', clinicId: clinic.id, exp: Math.floor(Date.now() / 1000) - 60 },
+      ctx.jwtSecret,
+      {
+        subject: clinic.users.admin.id,
+        issuer: 'fourpoint',
+      },
+    );
+    const res = await request(ctx.app).get('/api/me').set('authorization', `Bearer ${expired}`);
+    expect(res.status).toBe(401);
+  });
+
+  test('when the token names a clinic the user is not in, then it is 401', async () => {
+    const other = await makeClinic('Other');
+    const crossed = jwt.sign({ role: 'admin', clinicId: other.id }, ctx.jwtSecret, {
+      subject: clinic.users.admin.id,
+      issuer: 'fourpoint',
+    });
+    const res = await request(ctx.app).get('/api/me').set('authorization', `Bearer ${crossed}`);
+    expect(res.status).toBe(401);
+  });
+});
+
+describe('disabled users', () => {
+  test('when a signed-in user is disabled, then their access and refresh tokens stop working at once', async () => {
+    const own = await makeClinic('Disable');
+    const session = await signIn(ctx.app, own.users.operator.email);
+    expect(
+      (await request(ctx.app).get('/api/me').set('authorization', `Bearer ${session.accessToken}`)).status,
+    ).toBe(200);
+
+    await setUserDisabled(own.id, own.users.operator.id, true);
+
+    const me = await request(ctx.app).get('/api/me').set('authorization', `Bearer ${session.accessToken}`);
+    expect(me.status).toBe(401);
+    expect(me.body.error.code).toBe('account_disabled');
+    const refresh = await request(ctx.app)
+      .post('/api/auth/refresh')
+      .send({ refreshToken: session.refreshToken });
+    expect(refresh.status).toBe(401);
+    const again = await request(ctx.app)
+      .post('/api/auth/sign-in')
+      .send({ email: own.users.operator.email, password: TEST_PASSWORD });
+    expect(again.status).toBe(401);
+    expect(again.body.error.code).toBe('account_disabled');
+  });
+});
