@@ -1,6 +1,6 @@
 import { Redirect } from 'expo-router';
 import type { ReactNode } from 'react';
-import { useAuth } from '@/hooks/auth/auth-provider';
+import { useAuth } from '@/hooks/auth/auth-context';
 import { homeFor } from '@/hooks/auth/role-home';
 import type { Role } from '@/shared/protocol';
 import { Splash } from './splash';

@@ -8,7 +8,14 @@ import { TextField } from '@/components/ui/text-field';
 import { colors, radii, space } from '@/constants/theme';
 import type { ApiResult } from '@/hooks/api/result';
 import { offlineMessage } from '@/hooks/api/result';
+import { z } from 'zod';
 import { signInRequestSchema, type SignInRequest, type SignInResponse } from '@/shared/protocol';
+
+// Stray spaces and capitals in a typed e-mail are not the user's mistake: tidy before checking.
+const formSchema = z.object({
+  email: z.string().trim().toLowerCase().pipe(signInRequestSchema.shape.email),
+  password: signInRequestSchema.shape.password,
+});
 
 type Props = { onSubmit: (values: SignInRequest) => Promise<ApiResult<SignInResponse>> };
 
@@ -34,14 +41,14 @@ export function SignInForm({ onSubmit }: Props) {
     control,
     handleSubmit,
     formState: { errors, isSubmitting },
-  } = useForm<SignInRequest>({
-    resolver: zodResolver(signInRequestSchema),
+  } = useForm<z.input<typeof formSchema>, unknown, SignInRequest>({
+    resolver: zodResolver(formSchema),
     defaultValues: { email: '', password: '' },
   });
 
   const submit = handleSubmit(async (values) => {
     setFormError(null);
-    const result = await onSubmit({ email: values.email.trim().toLowerCase(), password: values.password });
+    const result = await onSubmit(values);
     if (result.kind !== 'ok') setFormError(messageForSignInFailure(result));
   });
 

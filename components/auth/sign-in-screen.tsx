@@ -4,7 +4,7 @@ import { AppText } from '@/components/ui/app-text';
 import { BrandMark } from '@/components/ui/icons';
 import { sites } from '@/constants/sites';
 import { colors, radii, space } from '@/constants/theme';
-import { useAuth } from '@/hooks/auth/auth-provider';
+import { useAuth } from '@/hooks/auth/auth-context';
 import { homeFor } from '@/hooks/auth/role-home';
 import { useLayout } from '@/hooks/use-layout';
 import { SignInForm } from './sign-in-form';
@@ -49,7 +49,7 @@ export function SignInScreen() {
     <View style={[styles.root, styles.wide]} testID="sign-in-screen">
       <View style={styles.panel}>
         <View style={styles.panelBrand}>
-          <BrandMark size={48} color={colors.paper} accent={colors.accent} />
+          <BrandMark size={48} color={colors.paper} accent={colors.accent} line={colors.ink} />
           <AppText variant="display" color={colors.textOnInk}>
             Fourpoint
           </AppText>

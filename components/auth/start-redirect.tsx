@@ -1,5 +1,5 @@
 import { Redirect } from 'expo-router';
-import { useAuth } from '@/hooks/auth/auth-provider';
+import { useAuth } from '@/hooks/auth/auth-context';
 import { homeFor } from '@/hooks/auth/role-home';
 import { Splash } from './splash';
 

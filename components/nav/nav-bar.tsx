@@ -4,7 +4,7 @@ import { useSafeAreaInsets } from 'react-native-safe-area-context';
 import { AppText } from '@/components/ui/app-text';
 import { BrandMark } from '@/components/ui/icons';
 import { colors, radii, sideNavWidth, space } from '@/constants/theme';
-import { useAuth } from '@/hooks/auth/auth-provider';
+import { useAuth } from '@/hooks/auth/auth-context';
 import { roleLabels } from './role-labels';
 import { SignOutButton } from './sign-out-button';
 
@@ -62,7 +62,7 @@ export function NavBar({ state, descriptors, navigation, wide }: Props) {
   return (
     <View style={styles.side} testID="side-nav">
       <View style={styles.brand}>
-        <BrandMark size={36} color={colors.paper} accent={colors.accent} />
+        <BrandMark size={36} color={colors.paper} accent={colors.accent} line={colors.ink} />
         <AppText variant="heading" color={colors.textOnInk}>
           Fourpoint
         </AppText>
@@ -74,7 +74,10 @@ export function NavBar({ state, descriptors, navigation, wide }: Props) {
             {auth.user.name}
           </AppText>
           <AppText variant="caption" color={colors.textOnInkMuted}>
-            {roleLabels[auth.user.role]} · {auth.user.email}
+            {roleLabels[auth.user.role]}
+          </AppText>
+          <AppText variant="caption" color={colors.textOnInkMuted} numberOfLines={1}>
+            {auth.user.email}
           </AppText>
           <View style={styles.signOut}>
             <SignOutButton onInk />

@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { SignOutIcon } from '@/components/ui/icons';
-import { useAuth } from '@/hooks/auth/auth-provider';
+import { useAuth } from '@/hooks/auth/auth-context';
 
 export function SignOutButton({ onInk = false }: { onInk?: boolean }) {
   const { signOut } = useAuth();

@@ -18,9 +18,15 @@ export function ClientRow({ client }: { client: ClientSummary }) {
         <AppText variant="bodyStrong" color={colors.ink} numberOfLines={1}>
           {client.firstName} {client.lastName}
         </AppText>
-        <AppText variant="number" color={colors.textMuted}>
-          {client.dateOfBirth ? `born ${formatDate(client.dateOfBirth)}` : 'date of birth not given'}
-        </AppText>
+        {client.dateOfBirth ? (
+          <AppText variant="number" color={colors.textMuted}>
+            born {formatDate(client.dateOfBirth)}
+          </AppText>
+        ) : (
+          <AppText variant="small" color={colors.textMuted}>
+            No date of birth on file
+          </AppText>
+        )}
       </View>
       <Badge
         label={client.hasConsent ? 'Consent on file' : 'Needs consent'}

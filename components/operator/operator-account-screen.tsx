@@ -5,7 +5,7 @@ import { CautionNote } from '@/components/ui/caution-note';
 import { ScreenFrame } from '@/components/ui/screen-frame';
 import { sites } from '@/constants/sites';
 import { colors, radii, space } from '@/constants/theme';
-import { useAuth } from '@/hooks/auth/auth-provider';
+import { useAuth } from '@/hooks/auth/auth-context';
 
 export function OperatorAccountScreen() {
   const auth = useAuth();

@@ -7,6 +7,7 @@ import { colors, radii, space } from '@/constants/theme';
 import { useSessionsQuery } from '@/hooks/data/sessions';
 import { useLayout } from '@/hooks/use-layout';
 import { SessionsCards, SessionsTable } from './sessions-table';
+import { SiteLegend } from './site-chips';
 
 function Stat({ label, value, testID }: { label: string; value: number; testID: string }) {
   return (
@@ -42,6 +43,7 @@ export function PractitionerHomeScreen() {
           <Stat label="Reviewed" value={list.filter((s) => s.status === 'reviewed').length} testID="stat-reviewed" />
         </View>
         {isWide ? <SessionsTable sessions={list} /> : <SessionsCards sessions={list} />}
+        <SiteLegend />
       </>
     );
   }
@@ -57,7 +59,7 @@ export function PractitionerHomeScreen() {
 const styles = StyleSheet.create({
   stats: { flexDirection: 'row', gap: space.md, flexWrap: 'wrap' },
   stat: {
-    minWidth: 150,
+    flexBasis: 96,
     flexGrow: 1,
     backgroundColor: colors.surface,
     borderWidth: 1,

@@ -40,4 +40,33 @@ export function SiteChips({ verdicts, testID }: { verdicts: SiteVerdict[]; testI
 const styles = StyleSheet.create({
   row: { flexDirection: 'row', gap: space.xs },
   chip: { width: 26, height: 26, borderRadius: radii.sm, alignItems: 'center', justifyContent: 'center' },
+  legend: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md },
+  legendItem: { flexDirection: 'row', alignItems: 'center', gap: space.xs },
+  swatch: { width: 12, height: 12, borderRadius: 3, borderWidth: 1 },
 });
+
+const legend = [
+  { label: 'good', tone: 'good' },
+  { label: 'usable', tone: 'caution' },
+  { label: 'retake', tone: 'danger' },
+  { label: 'not recorded or skipped', tone: 'neutral' },
+] as const;
+
+/** Explains the chips: letters are sites, colours are recording quality (not findings). */
+export function SiteLegend() {
+  return (
+    <View style={styles.legend} testID="site-legend">
+      <AppText variant="caption" color={colors.textMuted}>
+        {sites.map((s) => `${s.label.charAt(0)} ${s.label.toLowerCase()}`).join(' · ')}. Colour is recording quality:
+      </AppText>
+      {legend.map((l) => (
+        <View key={l.label} style={styles.legendItem}>
+          <View style={[styles.swatch, { backgroundColor: toneColors[l.tone].bg, borderColor: toneColors[l.tone].fg }]} />
+          <AppText variant="caption" color={colors.textMuted}>
+            {l.label}
+          </AppText>
+        </View>
+      ))}
+    </View>
+  );
+}

@@ -77,7 +77,7 @@ export function CautionIcon({ color, size = 18 }: IconProps) {
 }
 
 /** Fourpoint's mark: four listening points in a diamond joined by one beat. */
-export function BrandMark({ size = 32, color, accent }: { size?: number; color: string; accent: string }) {
+export function BrandMark({ size = 32, color, accent, line = '#F6F3EC' }: { size?: number; color: string; accent: string; line?: string }) {
   return (
     <Svg width={size} height={size} viewBox="0 0 32 32">
       <Rect x={1} y={1} width={30} height={30} rx={9} fill={color} />
@@ -85,7 +85,7 @@ export function BrandMark({ size = 32, color, accent }: { size?: number; color: 
       <Circle cx={24.5} cy={16} r={2.4} fill={accent} />
       <Circle cx={16} cy={24.5} r={2.4} fill={accent} />
       <Circle cx={7.5} cy={16} r={2.4} fill={accent} />
-      <Path d="M10.5 16h2.5l1.5-3.5 3 7 1.5-3.5h2.5" stroke="#F6F3EC" strokeWidth={1.7} strokeLinecap="round" strokeLinejoin="round" fill="none" />
+      <Path d="M10.5 16h2.5l1.5-3.5 3 7 1.5-3.5h2.5" stroke={line} strokeWidth={1.7} strokeLinecap="round" strokeLinejoin="round" fill="none" />
     </Svg>
   );
 }

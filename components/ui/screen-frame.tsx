@@ -3,7 +3,7 @@ import { ScrollView, StyleSheet, View } from 'react-native';
 import { useSafeAreaInsets } from 'react-native-safe-area-context';
 import { SignOutButton } from '@/components/nav/sign-out-button';
 import { colors, space } from '@/constants/theme';
-import { useAuth } from '@/hooks/auth/auth-provider';
+import { useAuth } from '@/hooks/auth/auth-context';
 import { useLayout } from '@/hooks/use-layout';
 import { AppText } from './app-text';
 import { BrandMark } from './icons';

@@ -1,28 +1,10 @@
 import { useQueryClient } from '@tanstack/react-query';
-import { createContext, useCallback, useContext, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import { connectSession } from '@/hooks/api/client';
-import type { ApiResult } from '@/hooks/api/result';
-import type { SignInRequest, SignInResponse, User } from '@/shared/protocol';
+import type { SignInRequest } from '@/shared/protocol';
+import { AuthContext, type AuthState } from './auth-context';
 import { postSignIn, postSignOut } from './auth-api';
 import { clearSession, loadSession, saveSession, type Session } from './session-store';
-
-export type AuthState =
-  | { status: 'loading'; user: null }
-  | { status: 'signed-out'; user: null }
-  | { status: 'signed-in'; user: User };
-
-export type AuthContextValue = AuthState & {
-  signIn: (credentials: SignInRequest) => Promise<ApiResult<SignInResponse>>;
-  signOut: () => Promise<void>;
-};
-
-export const AuthContext = createContext<AuthContextValue | null>(null);
-
-export function useAuth(): AuthContextValue {
-  const value = useContext(AuthContext);
-  if (!value) throw new Error('useAuth needs an <AuthProvider> above it.');
-  return value;
-}
 
 export function AuthProvider({ children }: { children: ReactNode }) {
   const queryClient = useQueryClient();

@@ -1,0 +1,1 @@
+export { CaptureScreen as default } from '@/components/capture/capture-screen';

@@ -1,0 +1,1 @@
+export { ClientDetailScreen as default } from '@/components/operator/client-detail-screen';

@@ -1,0 +1,81 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { Controller, useForm } from 'react-hook-form';
+import { StyleSheet, View } from 'react-native';
+import { z } from 'zod';
+import { AppText } from '@/components/ui/app-text';
+import { Button } from '@/components/ui/button';
+import { TextField } from '@/components/ui/text-field';
+import { colors, radii, space } from '@/constants/theme';
+import { consentText, consentTextVersion } from './consent-text';
+
+function today(): string {
+  const now = new Date();
+  const pad = (n: number) => String(n).padStart(2, '0');
+  return `${now.getFullYear()}-${pad(now.getMonth() + 1)}-${pad(now.getDate())}`;
+}
+
+export function consentFormSchema(clientName: string) {
+  const normal = (s: string) => s.trim().toLowerCase().replace(/\s+/g, ' ');
+  return z.object({
+    signedName: z
+      .string()
+      .trim()
+      .min(1, { error: 'The client types their full name to consent.' })
+      .refine((v) => normal(v) === normal(clientName), { error: `Type the name exactly as on file: ${clientName}.` }),
+    signedOn: z
+      .string()
+      .trim()
+      .regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use the form YYYY-MM-DD.' })
+      .refine((v) => v === today(), { error: 'Consent is dated today.' }),
+  });
+}
+export type ConsentFormValues = { signedName: string; signedOn: string };
+
+type Props = { clientName: string; onSubmit: (values: ConsentFormValues & { textVersion: string }) => Promise<void> };
+
+export function ConsentForm({ clientName, onSubmit }: Props) {
+  const {
+    control,
+    handleSubmit,
+    formState: { errors, isSubmitting },
+  } = useForm<ConsentFormValues>({ resolver: zodResolver(consentFormSchema(clientName)), defaultValues: { signedName: '', signedOn: today() } });
+  return (
+    <View style={styles.root} testID="consent-form">
+      <View style={styles.text}>
+        <AppText variant="caption" color={colors.textMuted}>
+          CONSENT · VERSION {consentTextVersion}
+        </AppText>
+        {consentText.map((p) => (
+          <AppText key={p} variant="small" color={colors.text}>
+            {p}
+          </AppText>
+        ))}
+      </View>
+      <Controller
+        control={control}
+        name="signedName"
+        render={({ field: { value, onChange, onBlur } }) => (
+          <TextField label="Client types their full name" testID="consent-name" value={value} onChangeText={onChange} onBlur={onBlur} error={errors.signedName?.message} autoComplete="off" />
+        )}
+      />
+      <Controller
+        control={control}
+        name="signedOn"
+        render={({ field: { value, onChange, onBlur } }) => (
+          <TextField label="Date" testID="consent-date" value={value} onChangeText={onChange} onBlur={onBlur} error={errors.signedOn?.message} />
+        )}
+      />
+      <Button
+        label="Record consent"
+        onPress={handleSubmit((values) => onSubmit({ ...values, textVersion: consentTextVersion }))}
+        testID="consent-submit"
+        busy={isSubmitting}
+      />
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  root: { gap: space.md },
+  text: { gap: space.sm, padding: space.md, borderRadius: radii.md, backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.line },
+});
