@@ -1,0 +1,420 @@
+// An invented clinic for `npm start`: every name, visit and clip here is made up.
+import type { Sequelize, Transaction } from 'sequelize';
+import { v5 as uuidv5 } from 'uuid';
+import type { Role, Site } from '@/shared/protocol';
+import { encodeWav16 } from '@/shared/analysis/wav';
+import {
+  Client,
+  ClipBlob,
+  Clinic,
+  Consent,
+  ConsentText,
+  RecordingSession,
+  SiteRecording,
+  User,
+  initModels,
+} from '../src/models';
+import type { BlobStore } from '../src/services/blob-store';
+import { hashPassword } from '../src/services/passwords';
+import { synthesizeHeartSounds } from './synthetic-heart-sounds';
+
+export const DEMO_PASSWORD = 'fourpoint-demo';
+const NAMESPACE = '5b0d1c3e-7a52-4f7e-9a63-2f4b8c1d9e70';
+export const demoId = (name: string) => uuidv5(`fourpoint-demo/${name}`, NAMESPACE);
+export const DEMO_CLINIC_ID = demoId('clinic');
+
+const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
+
+export const DEMO_USERS: readonly { key: string; role: Role; email: string; name: string }[] = [
+  { key: 'operator', role: 'operator', email: 'operator@demo.fourpoint.test', name: 'Rowan Ashby' },
+  {
+    key: 'practitioner',
+    role: 'practitioner',
+    email: 'practitioner@demo.fourpoint.test',
+    name: 'Mira Castellan',
+  },
+  { key: 'admin', role: 'admin', email: 'admin@demo.fourpoint.test', name: 'Theo Lindqvist' },
+];
+
+const CONSENT_TEXT = [
+  'I agree that Harbour Lane Wellness records the sounds of my heart at four places on my chest and keeps the recordings',
+  'and their measurements with my client record, to follow how they change over my visits.',
+  'I understand that this is for wellness follow-up only: it is not a diagnostic test and does not diagnose, treat or',
+  'prevent disease, and anything unusual will be shown to me as a reason to see a licensed clinician.',
+  'I can ask for a copy of my data, or for it to be erased, at any time.',
+].join(' ');
+
+interface DemoVisit {
+  date: string;
+  bpm: number;
+  s1s2Scale: number;
+  systolicHum: number;
+  reviewed: boolean;
+  findings?: string;
+  plan?: string;
+  followUp?: string;
+  /** A site left out of this visit, with the operator's reason. */
+  skipped?: { site: Site; reason: string };
+}
+
+interface DemoClient {
+  key: string;
+  firstName: string;
+  lastName: string;
+  dateOfBirth: string;
+  email: string;
+  consent: boolean;
+  visits: DemoVisit[];
+}
+
+const DEMO_CLIENTS: readonly DemoClient[] = [
+  {
+    key: 'wren-halloway',
+    firstName: 'Wren',
+    lastName: 'Halloway',
+    dateOfBirth: '1979-04-12',
+    email: 'wren.halloway@example.test',
+    consent: true,
+    // Drifts over the series: rate up, S1 softer, a little more between the sounds.
+    visits: [
+      {
+        date: '2026-05-06',
+        bpm: 64,
+        s1s2Scale: 1.1,
+        systolicHum: 0,
+        reviewed: true,
+        findings: 'Clear traces at all four sites.',
+        plan: 'Repeat in six to eight weeks.',
+        followUp: '2026-07-01',
+      },
+      {
+        date: '2026-07-01',
+        bpm: 69,
+        s1s2Scale: 1.0,
+        systolicHum: 0.03,
+        reviewed: true,
+        findings: 'Rate a little higher than in May.',
+        plan: 'Repeat in eight weeks.',
+        followUp: '2026-08-26',
+      },
+      {
+        date: '2026-08-26',
+        bpm: 74,
+        s1s2Scale: 0.9,
+        systolicHum: 0.06,
+        reviewed: true,
+        findings: 'Rate keeps rising across visits.',
+        plan: 'Repeat in six weeks; refer to a licensed clinician if the trend continues.',
+        followUp: '2026-10-07',
+      },
+      { date: '2026-10-07', bpm: 79, s1s2Scale: 0.8, systolicHum: 0.09, reviewed: false },
+    ],
+  },
+  {
+    key: 'tobias-fenwright',
+    firstName: 'Tobias',
+    lastName: 'Fenwright',
+    dateOfBirth: '1988-11-30',
+    email: 'tobias.fenwright@example.test',
+    consent: true,
+    visits: [
+      {
+        date: '2026-06-17',
+        bpm: 71,
+        s1s2Scale: 1,
+        systolicHum: 0,
+        reviewed: true,
+        findings: 'Steady rhythm.',
+        plan: 'Repeat in three months.',
+        followUp: '2026-09-16',
+      },
+      {
+        date: '2026-09-16',
+        bpm: 70,
+        s1s2Scale: 1,
+        systolicHum: 0,
+        reviewed: true,
+        findings: 'Much like June.',
+        plan: 'Repeat in three months.',
+        followUp: '2026-12-16',
+        skipped: { site: 'pulmonic', reason: 'Client asked to stop early.' },
+      },
+      { date: '2026-11-04', bpm: 72, s1s2Scale: 1, systolicHum: 0, reviewed: false },
+    ],
+  },
+  {
+    key: 'ines-marlowe-quist',
+    firstName: 'Ines',
+    lastName: 'Marlowe-Quist',
+    dateOfBirth: '1965-02-08',
+    email: 'ines.mq@example.test',
+    consent: true,
+    visits: [
+      {
+        date: '2026-08-12',
+        bpm: 62,
+        s1s2Scale: 1,
+        systolicHum: 0,
+        reviewed: true,
+        findings: 'Slow, even rate.',
+        plan: 'Repeat in four months.',
+        followUp: '2026-12-09',
+      },
+      { date: '2026-11-18', bpm: 63, s1s2Scale: 1, systolicHum: 0, reviewed: false },
+    ],
+  },
+  {
+    key: 'callum-brightwater',
+    firstName: 'Callum',
+    lastName: 'Brightwater',
+    dateOfBirth: '1992-07-21',
+    email: 'callum.b@example.test',
+    consent: true,
+    visits: [],
+  },
+  {
+    key: 'saoirse-pendleford',
+    firstName: 'Saoirse',
+    lastName: 'Pendleford',
+    dateOfBirth: '1983-09-03',
+    email: 'saoirse.p@example.test',
+    consent: true,
+    visits: [],
+  },
+  // No consent on file: the operator's flow asks for it first.
+  {
+    key: 'anselm-kettleby',
+    firstName: 'Anselm',
+    lastName: 'Kettleby',
+    dateOfBirth: '1971-12-15',
+    email: 'anselm.k@example.test',
+    consent: false,
+    visits: [],
+  },
+];
+
+export type AnalyseClip = (
+  samples: Float32Array,
+  sampleRate: number,
+  site: Site,
+) => { quality: { verdict: 'good' | 'usable' | 'retake' } } & object;
+
+export interface SeedDemoOptions {
+  sequelize: Sequelize;
+  blobStore: BlobStore;
+  /** The server's analysis of record; when absent, analysis and verdict stay empty. */
+  analyse?: AnalyseClip;
+  log?: (message: string) => void;
+}
+
+export interface SeedDemoSummary {
+  created: number;
+}
+
+const stableSeed = (text: string) => {
+  let h = 2166136261;
+  for (let i = 0; i < text.length; i++) h = Math.imul(h ^ text.charCodeAt(i), 16777619);
+  return h >>> 0;
+};
+
+/** Loads the demo clinic; every row has a fixed id, so a second run finds them all and adds nothing. */
+export async function seedDemo(options: SeedDemoOptions): Promise<SeedDemoSummary> {
+  const { sequelize, blobStore } = options;
+  initModels(sequelize);
+  let created = 0;
+  const count = (wasCreated: boolean) => {
+    if (wasCreated) created++;
+  };
+
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  const userIds: Record<string, string> = {};
+  await sequelize.transaction(async (transaction) => {
+    count(
+      (
+        await Clinic.findOrCreate({
+          where: { id: DEMO_CLINIC_ID },
+          defaults: { id: DEMO_CLINIC_ID, name: 'Harbour Lane Wellness' },
+          transaction,
+        })
+      )[1],
+    );
+    for (const u of DEMO_USERS) {
+      const id = demoId(`user/${u.key}`);
+      userIds[u.key] = id;
+      const [, made] = await User.findOrCreate({
+        where: { id },
+        defaults: { id, clinicId: DEMO_CLINIC_ID, email: u.email, name: u.name, role: u.role, passwordHash },
+        transaction,
+      });
+      count(made);
+    }
+    const textId = demoId('consent-text/1');
+    count(
+      (
+        await ConsentText.findOrCreate({
+          where: { id: textId },
+          defaults: {
+            id: textId,
+            clinicId: DEMO_CLINIC_ID,
+            version: 1,
+            title: 'Heart-sound recording consent',
+            body: CONSENT_TEXT,
+            isCurrent: true,
+          },
+          transaction,
+        })
+      )[1],
+    );
+    for (const c of DEMO_CLIENTS) {
+      const clientId = demoId(`client/${c.key}`);
+      count(
+        (
+          await Client.findOrCreate({
+            where: { id: clientId },
+            defaults: {
+              id: clientId,
+              clinicId: DEMO_CLINIC_ID,
+              firstName: c.firstName,
+              lastName: c.lastName,
+              dateOfBirth: c.dateOfBirth,
+              email: c.email,
+            },
+            paranoid: false,
+            transaction,
+          })
+        )[1],
+      );
+      if (c.consent) {
+        const consentId = demoId(`consent/${c.key}`);
+        count(
+          (
+            await Consent.findOrCreate({
+              where: { id: consentId },
+              defaults: {
+                id: consentId,
+                clinicId: DEMO_CLINIC_ID,
+                clientId,
+                consentTextId: textId,
+                consentTextVersion: 1,
+                typedName: `${c.firstName} ${c.lastName}`,
+                consentDate: c.visits[0]?.date ?? '2026-09-01',
+                recordedBy: userIds.operator,
+              },
+              paranoid: false,
+              transaction,
+            })
+          )[1],
+        );
+      }
+    }
+  });
+
+  for (const c of DEMO_CLIENTS) {
+    for (const [index, visit] of c.visits.entries()) {
+      created += await seedVisit(options, c, index, visit, userIds);
+    }
+  }
+  options.log?.(created ? `Demo data: ${created} rows added.` : 'Demo data: already loaded.');
+  return { created };
+}
+
+interface PlannedRecording {
+  site: Site;
+  skippedReason?: string;
+  stored?: { sha256: string; storageKey: string; sizeBytes: number };
+  analysis?: ReturnType<AnalyseClip> | null;
+  durationS?: number;
+  recordedAt?: Date;
+}
+
+async function seedVisit(
+  options: SeedDemoOptions,
+  client: DemoClient,
+  index: number,
+  visit: DemoVisit,
+  userIds: Record<string, string>,
+): Promise<number> {
+  const sessionId = demoId(`session/${client.key}/${index}`);
+  if (await RecordingSession.findByPk(sessionId, { paranoid: false })) return 0;
+  const startedAt = new Date(`${visit.date}T10:00:00Z`);
+
+  // Clips first, outside the transaction: blobs are content-addressed, so a rerun after a crash rewrites the same files.
+  const recordings: PlannedRecording[] = [];
+  for (const [siteIndex, site] of SITES.entries()) {
+    if (visit.skipped?.site === site) {
+      recordings.push({ site, skippedReason: visit.skipped.reason });
+      continue;
+    }
+    const clip = synthesizeHeartSounds({
+      seed: stableSeed(`${client.key}/${index}/${site}`),
+      site,
+      bpm: visit.bpm,
+      s1s2Scale: visit.s1s2Scale,
+      systolicHum: visit.systolicHum,
+    });
+    const wav = encodeWav16(clip.samples, clip.sampleRate);
+    const stored = await options.blobStore.put(wav);
+    const analysis = options.analyse ? options.analyse(clip.samples, clip.sampleRate, site) : null;
+    recordings.push({
+      site,
+      stored,
+      analysis,
+      durationS: clip.samples.length / clip.sampleRate,
+      recordedAt: new Date(startedAt.getTime() + (siteIndex + 1) * 90_000),
+    });
+  }
+
+  await options.sequelize.transaction(async (transaction: Transaction) => {
+    await RecordingSession.create(
+      {
+        id: sessionId,
+        clinicId: DEMO_CLINIC_ID,
+        clientId: demoId(`client/${client.key}`),
+        operatorId: userIds.operator,
+        status: visit.reviewed ? 'reviewed' : 'completed',
+        startedAt,
+        finishedAt: new Date(startedAt.getTime() + 8 * 60_000),
+        findings: visit.findings ?? null,
+        plan: visit.plan ?? null,
+        followUpDate: visit.followUp ?? null,
+        reviewedBy: visit.reviewed ? userIds.practitioner : null,
+        reviewedAt: visit.reviewed ? new Date(startedAt.getTime() + 26 * 3600_000) : null,
+      },
+      { transaction },
+    );
+    for (const r of recordings) {
+      if (r.stored) {
+        await ClipBlob.findOrCreate({
+          where: { sha256: r.stored.sha256 },
+          defaults: {
+            sha256: r.stored.sha256,
+            clinicId: DEMO_CLINIC_ID,
+            sizeBytes: r.stored.sizeBytes,
+            // Demo clips are stored as plain WAV; clips from devices arrive sealed.
+            contentType: 'audio/wav',
+            storageKey: r.stored.storageKey,
+            state: 'stored',
+          },
+          transaction,
+        });
+      }
+      await SiteRecording.create(
+        {
+          id: demoId(`site-recording/${client.key}/${index}/${r.site}`),
+          clinicId: DEMO_CLINIC_ID,
+          sessionId,
+          site: r.site,
+          clipSha256: r.stored?.sha256 ?? null,
+          clipState: r.stored ? 'stored' : 'none',
+          durationS: r.durationS ?? null,
+          recordedAt: r.recordedAt ?? null,
+          analysis: r.analysis ?? null,
+          qualityVerdict: r.analysis?.quality.verdict ?? null,
+          skippedReason: r.skippedReason ?? null,
+        },
+        { transaction },
+      );
+    }
+  });
+  return 1 + recordings.length;
+}
