@@ -156,7 +156,14 @@ export const trendSeriesSchema = z.object({
   label: z.string(),
   unit: z.string(),
   range: z.object({ low: z.number().nullable(), high: z.number().nullable(), source: z.string() }).nullable(),
-  points: z.array(z.object({ sessionId: z.uuid(), startedAt: z.string(), value: z.number().nullable(), status: measurementStatusSchema })),
+  points: z.array(
+    z.object({
+      sessionId: z.uuid(),
+      startedAt: z.string(),
+      value: z.number().nullable(),
+      status: measurementStatusSchema,
+    }),
+  ),
 });
 export const trendsSchema = z.object({
   client: z.object({ id: z.uuid(), firstName: z.string(), lastName: z.string() }),
@@ -173,7 +180,10 @@ export const saveNotesRequestSchema = z.object({
   baseVersion: z.number().int().positive(),
 });
 export type SaveNotesRequest = z.infer<typeof saveNotesRequestSchema>;
-export const staleNotesDetailsSchema = z.object({ current: reviewNotesSchema, yours: saveNotesRequestSchema });
+export const staleNotesDetailsSchema = z.object({
+  current: reviewNotesSchema,
+  yours: saveNotesRequestSchema,
+});
 export type StaleNotesDetails = z.infer<typeof staleNotesDetailsSchema>;
 
 export const reportMailStateSchema = z.enum(['queued', 'sending', 'sent', 'failed']);
@@ -204,9 +214,19 @@ export const mailboxMessageSchema = z.object({
   from: z.string(),
   to: z.string(),
   subject: z.string(),
-  attachments: z.array(z.object({ index: z.number(), filename: z.string().nullable(), contentType: z.string(), size: z.number() })),
+  attachments: z.array(
+    z.object({
+      index: z.number(),
+      filename: z.string().nullable(),
+      contentType: z.string(),
+      size: z.number(),
+    }),
+  ),
 });
 export const mailboxListSchema = z.object({ messages: z.array(mailboxMessageSchema) });
-export const mailboxMessageDetailSchema = mailboxMessageSchema.extend({ text: z.string().nullable(), html: z.string().nullable() });
+export const mailboxMessageDetailSchema = mailboxMessageSchema.extend({
+  text: z.string().nullable(),
+  html: z.string().nullable(),
+});
 export type MailboxMessage = z.infer<typeof mailboxMessageSchema>;
 export type MailboxMessageDetail = z.infer<typeof mailboxMessageDetailSchema>;

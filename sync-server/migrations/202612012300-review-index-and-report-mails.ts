@@ -8,7 +8,11 @@ const num = (key: string) =>
   `(CASE WHEN jsonb_typeof(analysis->'metrics'->'${key}') = 'number' THEN (analysis->'metrics'->>'${key}')::real END)`;
 const GENERATED = [
   ['review_heart_rate', 'real', num('heartRateBpm')],
-  ['review_irregular', 'boolean', `(coalesce(analysis->'metrics'->'irregularRhythm' = 'true'::jsonb, false))`],
+  [
+    'review_irregular',
+    'boolean',
+    `(coalesce(analysis->'metrics'->'irregularRhythm' = 'true'::jsonb, false))`,
+  ],
   ['review_systolic_activity', 'real', num('systolicActivity')],
   ['review_diastolic_activity', 'real', num('diastolicActivity')],
 ] as const;
@@ -22,9 +26,15 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
     await q(
       `CREATE INDEX recording_sessions_review_started ON recording_sessions (clinic_id, started_at DESC, id) WHERE deleted_at IS NULL`,
     );
-    await q(`CREATE INDEX recording_sessions_review_client ON recording_sessions (clinic_id, client_id, started_at) WHERE deleted_at IS NULL`);
-    await q(`CREATE INDEX recording_sessions_review_operator ON recording_sessions (clinic_id, operator_id) WHERE deleted_at IS NULL`);
-    await q(`CREATE INDEX recording_sessions_review_status ON recording_sessions (clinic_id, status, started_at DESC) WHERE deleted_at IS NULL`);
+    await q(
+      `CREATE INDEX recording_sessions_review_client ON recording_sessions (clinic_id, client_id, started_at) WHERE deleted_at IS NULL`,
+    );
+    await q(
+      `CREATE INDEX recording_sessions_review_operator ON recording_sessions (clinic_id, operator_id) WHERE deleted_at IS NULL`,
+    );
+    await q(
+      `CREATE INDEX recording_sessions_review_status ON recording_sessions (clinic_id, status, started_at DESC) WHERE deleted_at IS NULL`,
+    );
     await q(`CREATE INDEX clients_review_name ON clients (clinic_id, lower(last_name), lower(first_name))`);
 
     // Every report e-mail is a row first and a send second, so a failed send keeps its message and can be retried.
@@ -32,8 +42,18 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       'report_mails',
       {
         id: { type: DataTypes.UUID, primaryKey: true, allowNull: false },
-        clinic_id: { type: DataTypes.UUID, allowNull: false, references: { model: 'clinics', key: 'id' }, onDelete: 'CASCADE' },
-        session_id: { type: DataTypes.UUID, allowNull: false, references: { model: 'recording_sessions', key: 'id' }, onDelete: 'CASCADE' },
+        clinic_id: {
+          type: DataTypes.UUID,
+          allowNull: false,
+          references: { model: 'clinics', key: 'id' },
+          onDelete: 'CASCADE',
+        },
+        session_id: {
+          type: DataTypes.UUID,
+          allowNull: false,
+          references: { model: 'recording_sessions', key: 'id' },
+          onDelete: 'CASCADE',
+        },
         compare_session_id: { type: DataTypes.UUID, allowNull: true },
         to_address: { type: DataTypes.TEXT, allowNull: false },
         subject: { type: DataTypes.TEXT, allowNull: false },
@@ -44,14 +64,21 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
         attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         last_error: { type: DataTypes.TEXT, allowNull: true },
         message_id: { type: DataTypes.TEXT, allowNull: true },
-        created_by: { type: DataTypes.UUID, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL' },
+        created_by: {
+          type: DataTypes.UUID,
+          allowNull: true,
+          references: { model: 'users', key: 'id' },
+          onDelete: 'SET NULL',
+        },
         sent_at: { type: DataTypes.DATE, allowNull: true },
         created_at: { type: DataTypes.DATE, allowNull: false, defaultValue: Sequelize.fn('now') },
         updated_at: { type: DataTypes.DATE, allowNull: false, defaultValue: Sequelize.fn('now') },
       },
       { transaction },
     );
-    await q(`ALTER TABLE report_mails ADD CONSTRAINT report_mails_state_check CHECK (state IN ('queued','sending','sent','failed'))`);
+    await q(
+      `ALTER TABLE report_mails ADD CONSTRAINT report_mails_state_check CHECK (state IN ('queued','sending','sent','failed'))`,
+    );
     await q(`CREATE INDEX report_mails_session ON report_mails (clinic_id, session_id, created_at DESC)`);
   });
 };

@@ -52,14 +52,18 @@ export async function insertReportMail(sequelize: Sequelize, mail: NewReportMail
 
 /** Takes the mail for one send attempt; null if it is already sent or another attempt holds it. */
 export async function claimReportMail(sequelize: Sequelize, clinicId: string, mailId: string) {
-  const rows = await sequelize.query<Row & { body_text: string; attachment_name: string; attachment: Buffer }>(
+  const rows = await sequelize.query<
+    Row & { body_text: string; attachment_name: string; attachment: Buffer }
+  >(
     `UPDATE report_mails SET state = 'sending', attempts = attempts + 1, updated_at = now()
       WHERE clinic_id = :clinicId AND id = :mailId AND state IN ('queued', 'failed')
       RETURNING ${COLUMNS}, body_text, attachment_name, attachment`,
     { replacements: { clinicId, mailId }, type: QueryTypes.SELECT },
   );
   const r = rows[0];
-  return r ? { mail: toMail(r), bodyText: r.body_text, attachmentName: r.attachment_name, attachment: r.attachment } : null;
+  return r
+    ? { mail: toMail(r), bodyText: r.body_text, attachmentName: r.attachment_name, attachment: r.attachment }
+    : null;
 }
 
 export async function finishReportMail(
@@ -90,15 +94,26 @@ export async function finishReportMail(
   return toMail(rows[0]);
 }
 
-export async function findReportMail(sequelize: Sequelize, clinicId: string, mailId: string): Promise<ReportMail | null> {
-  const rows = await sequelize.query<Row>(`SELECT ${COLUMNS} FROM report_mails WHERE clinic_id = :clinicId AND id = :mailId`, {
-    replacements: { clinicId, mailId },
-    type: QueryTypes.SELECT,
-  });
+export async function findReportMail(
+  sequelize: Sequelize,
+  clinicId: string,
+  mailId: string,
+): Promise<ReportMail | null> {
+  const rows = await sequelize.query<Row>(
+    `SELECT ${COLUMNS} FROM report_mails WHERE clinic_id = :clinicId AND id = :mailId`,
+    {
+      replacements: { clinicId, mailId },
+      type: QueryTypes.SELECT,
+    },
+  );
   return rows[0] ? toMail(rows[0]) : null;
 }
 
-export async function listReportMails(sequelize: Sequelize, clinicId: string, sessionId: string): Promise<ReportMail[]> {
+export async function listReportMails(
+  sequelize: Sequelize,
+  clinicId: string,
+  sessionId: string,
+): Promise<ReportMail[]> {
   const rows = await sequelize.query<Row>(
     `SELECT ${COLUMNS} FROM report_mails WHERE clinic_id = :clinicId AND session_id = :sessionId ORDER BY created_at DESC`,
     { replacements: { clinicId, sessionId }, type: QueryTypes.SELECT },

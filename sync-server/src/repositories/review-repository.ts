@@ -1,12 +1,16 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
-import type { QualityVerdict, ReviewSessionRow, ReviewSort, SessionStatus, Site } from '@/shared/protocol';
+import type { QualityVerdict, SessionStatus, Site } from '@/shared/protocol';
+import type { ReviewSessionRow, ReviewSort } from '@/shared/protocol/review';
 
 const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
 const QUALITY_RANK: Record<QualityVerdict, number> = { good: 1, usable: 2, retake: 3 };
 const RANK_QUALITY: Record<number, QualityVerdict> = { 1: 'good', 2: 'usable', 3: 'retake' };
 
 /** Per-site limits beyond which a site reads "refer to a licensed clinician" (null: no limit). */
-export type ReferralLimits = Record<Site, { hrLow: number | null; hrHigh: number | null; systolicHigh: number | null; diastolicHigh: number | null }>;
+export type ReferralLimits = Record<
+  Site,
+  { hrLow: number | null; hrHigh: number | null; systolicHigh: number | null; diastolicHigh: number | null }
+>;
 
 export type ReviewListFilter = {
   clientId?: string;
@@ -48,7 +52,12 @@ function limitsValues(limits: ReferralLimits, replacements: Record<string, unkno
   }).join(', ');
 }
 
-function fromAndWhere(clinicId: string, filter: ReviewListFilter, limits: ReferralLimits, replacements: Record<string, unknown>) {
+function fromAndWhere(
+  clinicId: string,
+  filter: ReviewListFilter,
+  limits: ReferralLimits,
+  replacements: Record<string, unknown>,
+) {
   replacements.clinicId = clinicId;
   const where = ['s.clinic_id = :clinicId', 's.deleted_at IS NULL'];
   if (filter.clientId) {
@@ -124,10 +133,13 @@ export async function listReviewSessions(
 ): Promise<{ rows: (ReviewSessionRow & { sortValue: string })[]; total: number; hasMore: boolean }> {
   const replacements: Record<string, unknown> = {};
   const { from, where } = fromAndWhere(clinicId, options.filter, limits, replacements);
-  const countRows = await sequelize.query<{ n: string }>(`SELECT count(*) AS n ${from} WHERE ${where.join(' AND ')}`, {
-    replacements: { ...replacements },
-    type: QueryTypes.SELECT,
-  });
+  const countRows = await sequelize.query<{ n: string }>(
+    `SELECT count(*) AS n ${from} WHERE ${where.join(' AND ')}`,
+    {
+      replacements: { ...replacements },
+      type: QueryTypes.SELECT,
+    },
+  );
   const sort = SORT_EXPR[options.sort];
   const op = options.dir === 'asc' ? '>' : '<';
   const pageWhere = [...where];
@@ -208,7 +220,12 @@ export type AnalysisLike = {
   quality?: { verdict?: string; reasons?: { code: string; message: string }[] };
 };
 
-export async function findSessionRecord(sequelize: Sequelize, clinicId: string, sessionId: string, transaction?: Transaction): Promise<SessionRecord | null> {
+export async function findSessionRecord(
+  sequelize: Sequelize,
+  clinicId: string,
+  sessionId: string,
+  transaction?: Transaction,
+): Promise<SessionRecord | null> {
   const rows = await sequelize.query<Record<string, unknown>>(
     `SELECT s.id, s.clinic_id, k.name AS clinic_name, s.client_id, c.first_name, c.last_name, c.date_of_birth, c.email,
             o.name AS operator_name, s.status, s.started_at, s.finished_at, s.findings, s.plan, s.follow_up_date, s.version,
@@ -246,10 +263,17 @@ export async function findSessionRecord(sequelize: Sequelize, clinicId: string, 
 }
 
 /** The sites of sessions, with their analysis of record; `full` false leaves out the per-beat detail. */
-export async function findSiteRecords(sequelize: Sequelize, clinicId: string, sessionIds: string[], full = true): Promise<Map<string, SiteRecord[]>> {
+export async function findSiteRecords(
+  sequelize: Sequelize,
+  clinicId: string,
+  sessionIds: string[],
+  full = true,
+): Promise<Map<string, SiteRecord[]>> {
   const out = new Map<string, SiteRecord[]>();
   if (!sessionIds.length) return out;
-  const analysis = full ? 'sr.analysis' : `CASE WHEN sr.analysis IS NULL THEN NULL ELSE jsonb_set(sr.analysis - 'sounds', '{metrics}', (sr.analysis->'metrics') - 'beats') END`;
+  const analysis = full
+    ? 'sr.analysis'
+    : `CASE WHEN sr.analysis IS NULL THEN NULL ELSE jsonb_set(sr.analysis - 'sounds', '{metrics}', (sr.analysis->'metrics') - 'beats') END`;
   const rows = await sequelize.query<Record<string, unknown>>(
     `SELECT sr.id, sr.session_id, sr.site, sr.quality_verdict, sr.clip_sha256, sr.clip_state, sr.duration_s, sr.skipped_reason, ${analysis} AS analysis
        FROM site_recordings sr

@@ -1,5 +1,6 @@
 import { referToClinician } from '@/constants/cautions';
-import type { Measurement, MeasurementStatus, Site } from '@/shared/protocol';
+import type { Site } from '@/shared/protocol';
+import type { Measurement, MeasurementStatus } from '@/shared/protocol/review';
 
 export type MeasurementDef = { key: string; label: string; unit: string };
 export type Range = { low: number | null; high: number | null; source: string };
@@ -55,7 +56,11 @@ export function metricValue(metrics: MetricsLike | null | undefined, key: string
   return typeof v === 'number' && Number.isFinite(v) ? v : null;
 }
 
-export function evaluateSite(metrics: MetricsLike | null | undefined, site: Site, ranges: RangeLookup): Measurement[] {
+export function evaluateSite(
+  metrics: MetricsLike | null | undefined,
+  site: Site,
+  ranges: RangeLookup,
+): Measurement[] {
   return measurementDefs.map((def) => {
     const value = metricValue(metrics, def.key);
     const range = ranges(def.key, site);
@@ -65,7 +70,13 @@ export function evaluateSite(metrics: MetricsLike | null | undefined, site: Site
 }
 
 /** A site reads "refer to a licensed clinician" when its rhythm is irregular or a referral metric is out of range. */
-export function siteNeedsReferral(metrics: MetricsLike | null | undefined, measurements: Measurement[]): boolean {
+export function siteNeedsReferral(
+  metrics: MetricsLike | null | undefined,
+  measurements: Measurement[],
+): boolean {
   if (metrics?.irregularRhythm === true) return true;
-  return measurements.some((m) => (referralKeys as readonly string[]).includes(m.key) && (m.status === 'above' || m.status === 'below'));
+  return measurements.some(
+    (m) =>
+      (referralKeys as readonly string[]).includes(m.key) && (m.status === 'above' || m.status === 'below'),
+  );
 }

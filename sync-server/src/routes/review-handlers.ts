@@ -1,0 +1,155 @@
+import { z } from 'zod';
+import { siteSchema } from '@/shared/protocol';
+import {
+  reportQuerySchema,
+  reviewSessionQuerySchema,
+  saveNotesRequestSchema,
+  sendReportRequestSchema,
+  type Comparison,
+  type ReviewSessionDetail,
+  type ReviewSessionPage,
+  type Trace,
+  type Trends,
+} from '@/shared/protocol/review';
+import { AppError } from '../errors';
+import { callerOf } from '../middleware/authenticate';
+import { listSessionsForReview } from '../use-cases/review/list-sessions';
+import { readMailbox } from '../use-cases/review/mailbox';
+import { saveNotes } from '../use-cases/review/notes';
+import { renderReport, reportMails, retryReportMail, sendReport } from '../use-cases/review/report';
+import {
+  clientTrends,
+  compareSessions,
+  earlierVisits,
+  sessionDetail,
+  siteAudio,
+  siteTrace,
+} from '../use-cases/review/session-view';
+import type { HandlerFactory } from './handlers';
+
+const id = (value: unknown, what: string) => {
+  const parsed = z.uuid().safeParse(value);
+  if (!parsed.success) throw new AppError('not_found', `There is no such ${what}.`, 404);
+  return parsed.data;
+};
+const site = (value: unknown) => {
+  const parsed = siteSchema.safeParse(value);
+  if (!parsed.success)
+    throw new AppError('not_found', 'Sites are mitral, tricuspid, aortic and pulmonic.', 404);
+  return parsed.data;
+};
+
+export const reviewSessions: HandlerFactory = (deps) => async (req, res) => {
+  const body: ReviewSessionPage = await listSessionsForReview(
+    deps,
+    callerOf(req),
+    reviewSessionQuerySchema.parse(req.query),
+  );
+  res.json(body);
+};
+
+export const reviewSession: HandlerFactory = (deps) => async (req, res) => {
+  const body: ReviewSessionDetail = await sessionDetail(
+    deps,
+    callerOf(req),
+    id(req.params.sessionId, 'session'),
+  );
+  res.json(body);
+};
+
+export const reviewTrace: HandlerFactory = (deps) => async (req, res) => {
+  const body: Trace = await siteTrace(
+    deps,
+    callerOf(req),
+    id(req.params.sessionId, 'session'),
+    site(req.params.site),
+  );
+  res.setHeader('Cache-Control', 'private, max-age=300');
+  res.json(body);
+};
+
+export const reviewAudio: HandlerFactory = (deps) => async (req, res) => {
+  const bytes = await siteAudio(
+    deps,
+    callerOf(req),
+    id(req.params.sessionId, 'session'),
+    site(req.params.site),
+  );
+  res.setHeader('Cache-Control', 'private, no-store');
+  res.type('audio/wav').send(Buffer.from(bytes));
+};
+
+export const reviewEarlier: HandlerFactory = (deps) => async (req, res) => {
+  res.json({ visits: await earlierVisits(deps, callerOf(req), id(req.params.sessionId, 'session')) });
+};
+
+export const reviewCompare: HandlerFactory = (deps) => async (req, res) => {
+  const body: Comparison = await compareSessions(
+    deps,
+    callerOf(req),
+    id(req.params.sessionId, 'session'),
+    id(req.params.otherId, 'session'),
+  );
+  res.json(body);
+};
+
+export const reviewTrends: HandlerFactory = (deps) => async (req, res) => {
+  const body: Trends = await clientTrends(deps, callerOf(req), id(req.params.clientId, 'client'));
+  res.json(body);
+};
+
+export const reviewSaveNotes: HandlerFactory = (deps) => async (req, res) => {
+  const notes = await saveNotes(
+    deps,
+    callerOf(req),
+    id(req.params.sessionId, 'session'),
+    saveNotesRequestSchema.parse(req.body),
+  );
+  res.json({ notes });
+};
+
+export const reviewReportPdf: HandlerFactory = (deps) => async (req, res) => {
+  const { compareWith } = reportQuerySchema.parse(req.query);
+  const { pdf, fileName } = await renderReport(
+    deps,
+    callerOf(req),
+    id(req.params.sessionId, 'session'),
+    compareWith ?? null,
+  );
+  res.setHeader('Content-Disposition', `attachment; filename="${fileName}"`);
+  res.setHeader('Cache-Control', 'private, no-store');
+  res.type('application/pdf').send(pdf);
+};
+
+export const reviewSendReport: HandlerFactory = (deps) => async (req, res) => {
+  const mail = await sendReport(
+    deps,
+    callerOf(req),
+    id(req.params.sessionId, 'session'),
+    sendReportRequestSchema.parse(req.body ?? {}),
+  );
+  res.status(mail.state === 'sent' ? 201 : 202).json({ mail });
+};
+
+export const reviewReportMails: HandlerFactory = (deps) => async (req, res) => {
+  res.json({ mails: await reportMails(deps, callerOf(req), id(req.params.sessionId, 'session')) });
+};
+
+export const reviewRetryMail: HandlerFactory = (deps) => async (req, res) => {
+  res.json({ mail: await retryReportMail(deps, callerOf(req), id(req.params.mailId, 'report e-mail')) });
+};
+
+const forward =
+  (pathOf: (params: Record<string, string>) => string): HandlerFactory =>
+  () =>
+  async (req, res) => {
+    const params = req.params as Record<string, string>;
+    const answer = await readMailbox(pathOf(params));
+    if (answer.disposition) res.setHeader('Content-Disposition', answer.disposition);
+    res.status(answer.status).type(answer.contentType).send(answer.body);
+  };
+const safe = (v: string) => encodeURIComponent(v);
+
+export const mailboxList = forward(() => '');
+export const mailboxMessage = forward((p) => `/${safe(p.messageId)}`);
+export const mailboxAttachment = forward((p) => `/${safe(p.messageId)}/attachments/${safe(p.index)}`);

@@ -1,0 +1,62 @@
+import type { ReviewNotes, SaveNotesRequest } from '@/shared/protocol/review';
+import { AppError } from '../../errors';
+import { recordAuditEvent } from '../../repositories/audit-repository';
+import { findSessionRecord, updateNotesIfVersion } from '../../repositories/review-repository';
+import type { Caller, UseCaseDeps } from '../context';
+import { notesOf, sessionNotFound } from './session-view';
+
+/**
+ * Saves findings, plan and follow-up date only over the version the practitioner read. A save based on an
+ * older version is refused with both versions, so nothing anyone wrote is lost without a person choosing.
+ */
+export async function saveNotes(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+  request: SaveNotesRequest,
+): Promise<ReviewNotes> {
+  const clean = (v: string | null) => (v && v.trim() ? v : null);
+  const values = {
+    findings: clean(request.findings),
+    plan: clean(request.plan),
+    followUpDate: request.followUpDate,
+    reviewedBy: caller.userId,
+  };
+  return deps.sequelize.transaction(async (transaction) => {
+    const saved = await updateNotesIfVersion(
+      deps.sequelize,
+      caller.clinicId,
+      sessionId,
+      request.baseVersion,
+      values,
+      transaction,
+    );
+    const current = await findSessionRecord(deps.sequelize, caller.clinicId, sessionId, transaction);
+    if (!current) throw sessionNotFound();
+    if (!saved) {
+      throw new AppError(
+        'stale_edit',
+        `Someone saved this session after you opened it (now version ${current.version}, yours was based on ${request.baseVersion}). Compare both and save again.`,
+        409,
+        { current: notesOf(current), yours: request },
+      );
+    }
+    await recordAuditEvent(
+      {
+        clinicId: caller.clinicId,
+        userId: caller.userId,
+        action: 'review.findings.save',
+        entity: 'recording_sessions',
+        entityId: sessionId,
+        ip: caller.ip,
+        details: {
+          fromVersion: request.baseVersion,
+          toVersion: saved.version,
+          followUpDate: values.followUpDate,
+        },
+      },
+      transaction,
+    );
+    return notesOf(current);
+  });
+}

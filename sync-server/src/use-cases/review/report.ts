@@ -1,0 +1,244 @@
+import { randomUUID } from 'node:crypto';
+import { cautionText, referToClinician } from '@/constants/cautions';
+import type { Site } from '@/shared/protocol';
+import type { ReportMail, SendReportRequest } from '@/shared/protocol/review';
+import { AppError } from '../../errors';
+import { recordAuditEvent } from '../../repositories/audit-repository';
+import {
+  claimReportMail,
+  finishReportMail,
+  findReportMail,
+  insertReportMail,
+  listReportMails,
+} from '../../repositories/review-mails-repository';
+import { findSessionRecord, findSiteRecords } from '../../repositories/review-repository';
+import { MailSendError } from '../../services/mail';
+import { renderReportPdf, type ReportInput, type ReportSite } from '../../services/report-pdf';
+import type { Caller, UseCaseDeps } from '../context';
+import { clipBytes, compareSessions, loadSession, reviewSite, SITES, traceFromWav } from './session-view';
+import { rangesForClinic } from './ranges';
+import { reviewServices } from './services';
+
+const SITE_LABEL: Record<Site, string> = {
+  mitral: 'Mitral',
+  tricuspid: 'Tricuspid',
+  aortic: 'Aortic',
+  pulmonic: 'Pulmonic',
+};
+const REPORT_POINTS_PER_SECOND = 60;
+const day = (d: Date) => d.toISOString().slice(0, 10);
+
+async function reportInput(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+  compareWith: string | null,
+): Promise<ReportInput> {
+  const session = await loadSession(deps, caller, sessionId);
+  const ranges = await rangesForClinic(caller.clinicId);
+  const records = (await findSiteRecords(deps.sequelize, caller.clinicId, [sessionId])).get(sessionId) ?? [];
+  const sources: string[] = [];
+  const sites: ReportSite[] = [];
+  for (const site of SITES) {
+    const record = records.find((r) => r.site === site);
+    const view = reviewSite(site, record, ranges);
+    let trace: ReportSite['trace'] = null;
+    if (view.hasAudio) {
+      try {
+        // One value per point: the larger excursion of each bucket, keeping its sign.
+        const t = traceFromWav(await clipBytes(deps, caller, record), REPORT_POINTS_PER_SECOND);
+        trace = { durationS: t.durationS, values: t.max.map((hi, i) => (hi >= -t.min[i] ? hi : t.min[i])) };
+      } catch {
+        trace = null;
+      }
+    }
+    sites.push({
+      site,
+      label: SITE_LABEL[site],
+      quality: view.qualityVerdict,
+      trace,
+      sounds: view.sounds,
+      measurements: view.measurements.map((m) => {
+        let sourceIndex = -1;
+        if (m.range) {
+          sourceIndex = sources.indexOf(m.range.source);
+          if (sourceIndex < 0) sourceIndex = sources.push(m.range.source) - 1;
+        }
+        return {
+          label: m.label,
+          unit: m.unit,
+          value: m.value,
+          status: m.status,
+          range: m.range ? { low: m.range.low, high: m.range.high, sourceIndex } : null,
+        };
+      }),
+    });
+  }
+  let comparison: ReportInput['comparison'] = null;
+  if (compareWith) {
+    const c = await compareSessions(deps, caller, sessionId, compareWith);
+    comparison = {
+      date: c.then.startedAt.slice(0, 10),
+      rows: c.rows
+        .filter((r) => r.then !== null || r.now !== null)
+        .map((r) => ({ site: SITE_LABEL[r.site], label: r.label, unit: r.unit, then: r.then, now: r.now })),
+    };
+  }
+  return {
+    clinicName: session.clinicName,
+    clientName: `${session.clientFirstName} ${session.clientLastName}`,
+    clientDateOfBirth: session.clientDateOfBirth,
+    sessionDate: day(session.startedAt),
+    operatorName: session.operatorName,
+    practitionerName: session.reviewedByName,
+    sites,
+    comparison,
+    findings: session.findings,
+    plan: session.plan,
+    followUpDate: session.followUpDate,
+    sources,
+    generatedAt: `${new Date().toISOString().slice(0, 16).replace('T', ' ')} UTC`,
+  };
+}
+
+export function reportFileName(clientName: string, date: string): string {
+  return `fourpoint-report-${clientName
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '-')
+    .replace(/^-|-$/g, '')}-${date}.pdf`;
+}
+
+export async function renderReport(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+  compareWith: string | null,
+) {
+  const input = await reportInput(deps, caller, sessionId, compareWith);
+  const pdf = await renderReportPdf(input);
+  await recordAuditEvent({
+    clinicId: caller.clinicId,
+    userId: caller.userId,
+    action: 'review.report.download',
+    entity: 'recording_sessions',
+    entityId: sessionId,
+    ip: caller.ip,
+    details: { compareWith },
+  });
+  return { pdf, fileName: reportFileName(input.clientName, input.sessionDate), input };
+}
+
+function mailBody(input: ReportInput): string {
+  const flagged = input.sites.some((s) =>
+    s.measurements.some((m) => m.status === 'above' || m.status === 'below'),
+  );
+  return [
+    `Hello ${input.clientName},`,
+    '',
+    `Attached is the report of your heart-sound recording at ${input.clinicName} on ${input.sessionDate}.`,
+    flagged
+      ? `Some measurements are outside the clinic's range; the report marks them "${referToClinician}".`
+      : '',
+    input.followUpDate ? `Your follow-up is planned for ${input.followUpDate}.` : '',
+    '',
+    cautionText,
+    '',
+    input.clinicName,
+  ]
+    .filter((line, i, all) => line !== '' || all[i - 1] !== '')
+    .join('\n');
+}
+
+async function attemptSend(deps: UseCaseDeps, caller: Caller, mailId: string): Promise<ReportMail> {
+  const claimed = await claimReportMail(deps.sequelize, caller.clinicId, mailId);
+  if (!claimed) {
+    const mail = await findReportMail(deps.sequelize, caller.clinicId, mailId);
+    if (!mail) throw new AppError('not_found', 'There is no such report e-mail.', 404);
+    if (mail.state === 'sent')
+      throw new AppError('already_sent', 'This report e-mail was already delivered.', 409);
+    throw new AppError('send_in_progress', 'This report e-mail is being sent right now.', 409);
+  }
+  let result: ReportMail;
+  try {
+    const sent = await reviewServices().mail.send({
+      to: claimed.mail.to,
+      subject: claimed.mail.subject,
+      text: claimed.bodyText,
+      attachments: [
+        { filename: claimed.attachmentName, content: claimed.attachment, contentType: 'application/pdf' },
+      ],
+    });
+    result = await finishReportMail(deps.sequelize, caller.clinicId, mailId, {
+      state: 'sent',
+      messageId: sent.messageId,
+    });
+  } catch (error) {
+    const message =
+      error instanceof MailSendError
+        ? error.message
+        : `Sending failed: ${error instanceof Error ? error.message : String(error)}`;
+    result = await finishReportMail(deps.sequelize, caller.clinicId, mailId, {
+      state: 'failed',
+      error: message,
+    });
+  }
+  await recordAuditEvent({
+    clinicId: caller.clinicId,
+    userId: caller.userId,
+    action: result.state === 'sent' ? 'review.report.mail.sent' : 'review.report.mail.failed',
+    entity: 'recording_sessions',
+    entityId: result.sessionId,
+    ip: caller.ip,
+    details: { mailId, attempt: result.attempts, to: result.to, error: result.lastError },
+  });
+  return result;
+}
+
+/** Keeps the message (with its PDF) first, then sends; a failure leaves it stored and retryable. */
+export async function sendReport(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+  request: SendReportRequest,
+): Promise<ReportMail> {
+  const session = await findSessionRecord(deps.sequelize, caller.clinicId, sessionId);
+  if (!session) throw new AppError('not_found', 'There is no such session in this clinic.', 404);
+  const to = request.to ?? session.clientEmail;
+  if (!to)
+    throw new AppError(
+      'no_client_email',
+      'This client has no e-mail address on file: add one, or type the address to send to.',
+      400,
+    );
+  const { pdf, fileName, input } = await renderReport(deps, caller, sessionId, request.compareWith ?? null);
+  const mail = await insertReportMail(deps.sequelize, {
+    id: randomUUID(),
+    clinicId: caller.clinicId,
+    sessionId,
+    compareSessionId: request.compareWith ?? null,
+    to,
+    subject: `Your heart-sound report from ${input.clinicName}, ${input.sessionDate}`,
+    bodyText: mailBody(input),
+    attachmentName: fileName,
+    attachment: pdf,
+    createdBy: caller.userId,
+  });
+  return attemptSend(deps, caller, mail.id);
+}
+
+export async function retryReportMail(
+  deps: UseCaseDeps,
+  caller: Caller,
+  mailId: string,
+): Promise<ReportMail> {
+  return attemptSend(deps, caller, mailId);
+}
+
+export async function reportMails(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+): Promise<ReportMail[]> {
+  await loadSession(deps, caller, sessionId);
+  return listReportMails(deps.sequelize, caller.clinicId, sessionId);
+}

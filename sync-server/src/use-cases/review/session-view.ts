@@ -1,0 +1,363 @@
+import type { Site } from '@/shared/protocol';
+import type {
+  Comparison,
+  EarlierVisit,
+  ReviewSessionDetail,
+  ReviewSite,
+  Trace,
+  Trends,
+} from '@/shared/protocol/review';
+import { decodeWav } from '@/shared/analysis/wav';
+import { bandPass, toWorkingRate } from '@/shared/analysis/preprocess';
+import { isSealed } from '@/shared/seal';
+import { AppError } from '../../errors';
+import { recordAuditEvent } from '../../repositories/audit-repository';
+import {
+  findClient,
+  findClipBlob,
+  findSessionRecord,
+  findSiteRecords,
+  listClientSessions,
+  type SessionRecord,
+  type SiteRecord,
+} from '../../repositories/review-repository';
+import type { Caller, UseCaseDeps } from '../context';
+import {
+  evaluateSite,
+  measurementDefs,
+  metricValue,
+  siteNeedsReferral,
+  statusOf,
+  type RangeLookup,
+} from './measurements';
+import { rangesForClinic } from './ranges';
+import { reviewServices } from './services';
+
+export const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
+const TRACE_BUCKETS_PER_SECOND = 250;
+
+export const sessionNotFound = () =>
+  new AppError('not_found', 'There is no such session in this clinic.', 404);
+
+export async function loadSession(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+): Promise<SessionRecord> {
+  const session = await findSessionRecord(deps.sequelize, caller.clinicId, sessionId);
+  if (!session) throw sessionNotFound();
+  return session;
+}
+
+export function reviewSite(site: Site, record: SiteRecord | undefined, ranges: RangeLookup): ReviewSite {
+  const analysis = record?.analysis ?? null;
+  const metrics = (analysis?.metrics ?? null) as Record<string, unknown> | null;
+  const measurements = evaluateSite(metrics, site, ranges);
+  return {
+    site,
+    recordingId: record?.id ?? null,
+    qualityVerdict: record?.qualityVerdict ?? null,
+    qualityReasons: (analysis?.quality?.reasons ?? []).map((r) => r.message),
+    clipState: record?.clipState ?? 'none',
+    hasAudio: Boolean(record?.clipSha256) && record?.clipState === 'stored',
+    durationS: analysis?.durationS ?? record?.durationS ?? null,
+    skippedReason: record?.skippedReason ?? null,
+    heartRateBpm:
+      metricValue(metrics, 'heartRateBpm') ??
+      (typeof analysis?.heartRateBpm === 'number' ? analysis.heartRateBpm : null),
+    irregularRhythm: metrics?.irregularRhythm === true,
+    sounds: (analysis?.sounds ?? []).map((s) => ({ type: s.type, startS: s.startS, endS: s.endS })),
+    measurements,
+    referral: analysis ? siteNeedsReferral(metrics, measurements) : false,
+  };
+}
+
+export async function sessionDetail(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+): Promise<ReviewSessionDetail> {
+  const session = await loadSession(deps, caller, sessionId);
+  const ranges = await rangesForClinic(caller.clinicId);
+  const records = (await findSiteRecords(deps.sequelize, caller.clinicId, [sessionId])).get(sessionId) ?? [];
+  const sites = SITES.map((site) =>
+    reviewSite(
+      site,
+      records.find((r) => r.site === site),
+      ranges,
+    ),
+  );
+  await recordAuditEvent({
+    clinicId: caller.clinicId,
+    userId: caller.userId,
+    action: 'review.session.read',
+    entity: 'recording_sessions',
+    entityId: sessionId,
+    ip: caller.ip,
+    details: { findingsShown: true },
+  });
+  return {
+    id: session.id,
+    clinicName: session.clinicName,
+    client: {
+      id: session.clientId,
+      firstName: session.clientFirstName,
+      lastName: session.clientLastName,
+      dateOfBirth: session.clientDateOfBirth,
+      email: session.clientEmail,
+    },
+    operatorName: session.operatorName,
+    status: session.status,
+    startedAt: session.startedAt.toISOString(),
+    finishedAt: session.finishedAt?.toISOString() ?? null,
+    notes: notesOf(session),
+    sites,
+    flagged: sites.some((s) => s.referral),
+  };
+}
+
+export function notesOf(session: SessionRecord) {
+  return {
+    findings: session.findings,
+    plan: session.plan,
+    followUpDate: session.followUpDate,
+    version: session.version,
+    reviewedBy: session.reviewedByName,
+    reviewedAt: session.reviewedAt?.toISOString() ?? null,
+  };
+}
+
+/** The clip's WAV bytes, opened if sealed. */
+export async function clipBytes(
+  deps: UseCaseDeps,
+  caller: Caller,
+  record: SiteRecord | undefined,
+): Promise<Uint8Array> {
+  if (!record?.clipSha256) throw new AppError('no_clip', 'This site has no clip.', 404);
+  const blob = await findClipBlob(deps.sequelize, caller.clinicId, record.clipSha256);
+  if (!blob || blob.state !== 'stored')
+    throw new AppError('clip_not_stored', 'The clip for this site has not reached the server yet.', 409);
+  const services = reviewServices();
+  const bytes = await services.blobStore.get(blob.storageKey);
+  if (!bytes)
+    throw new AppError('clip_missing', 'The clip is recorded but its file is missing on the server.', 410);
+  if (!isSealed(bytes)) return bytes;
+  if (!services.openClip)
+    throw new AppError('clip_sealed', 'The clip is sealed and this server has no key to open it.', 409);
+  return services.openClip(caller.clinicId, bytes);
+}
+
+async function siteRecord(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+  site: Site,
+): Promise<SiteRecord | undefined> {
+  await loadSession(deps, caller, sessionId);
+  const records = (await findSiteRecords(deps.sequelize, caller.clinicId, [sessionId])).get(sessionId) ?? [];
+  return records.find((r) => r.site === site);
+}
+
+export async function siteAudio(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+  site: Site,
+): Promise<Uint8Array> {
+  const record = await siteRecord(deps, caller, sessionId, site);
+  const bytes = await clipBytes(deps, caller, record);
+  await recordAuditEvent({
+    clinicId: caller.clinicId,
+    userId: caller.userId,
+    action: 'review.recording.play',
+    entity: 'site_recordings',
+    entityId: record?.id,
+    ip: caller.ip,
+    details: { sessionId, site },
+  });
+  return bytes;
+}
+
+/** Min and max of the band-passed clip per display bucket, scaled to -1..1. */
+export function traceFromWav(
+  bytes: Uint8Array,
+  bucketsPerSecond = TRACE_BUCKETS_PER_SECOND,
+): { durationS: number; min: number[]; max: number[] } {
+  const wav = decodeWav(bytes);
+  const working = toWorkingRate(wav.samples, wav.sampleRate);
+  const signal = bandPass(working.signal, working.sampleRate);
+  const durationS = wav.samples.length / wav.sampleRate;
+  const buckets = Math.max(1, Math.round(durationS * bucketsPerSecond));
+  const per = signal.length / buckets;
+  const min = new Array<number>(buckets).fill(0);
+  const max = new Array<number>(buckets).fill(0);
+  let peak = 1e-9;
+  for (let b = 0; b < buckets; b++) {
+    let lo = Infinity;
+    let hi = -Infinity;
+    const end = Math.min(signal.length, Math.floor((b + 1) * per));
+    for (let i = Math.floor(b * per); i < end; i++) {
+      if (signal[i] < lo) lo = signal[i];
+      if (signal[i] > hi) hi = signal[i];
+    }
+    min[b] = Number.isFinite(lo) ? lo : 0;
+    max[b] = Number.isFinite(hi) ? hi : 0;
+    peak = Math.max(peak, Math.abs(min[b]), Math.abs(max[b]));
+  }
+  const round = (v: number) => Math.round((v / peak) * 1000) / 1000;
+  return { durationS, min: min.map(round), max: max.map(round) };
+}
+
+export async function siteTrace(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+  site: Site,
+): Promise<Trace> {
+  const record = await siteRecord(deps, caller, sessionId, site);
+  const bytes = await clipBytes(deps, caller, record);
+  let trace: ReturnType<typeof traceFromWav>;
+  try {
+    trace = traceFromWav(bytes);
+  } catch (error) {
+    throw new AppError(
+      'clip_unreadable',
+      `The clip could not be read: ${error instanceof Error ? error.message : String(error)}`,
+      422,
+    );
+  }
+  await recordAuditEvent({
+    clinicId: caller.clinicId,
+    userId: caller.userId,
+    action: 'review.recording.trace',
+    entity: 'site_recordings',
+    entityId: record?.id,
+    ip: caller.ip,
+    details: { sessionId, site },
+  });
+  return {
+    site,
+    durationS: trace.durationS,
+    bucketsPerSecond: TRACE_BUCKETS_PER_SECOND,
+    min: trace.min,
+    max: trace.max,
+    sounds: (record?.analysis?.sounds ?? []).map((s) => ({ type: s.type, startS: s.startS, endS: s.endS })),
+  };
+}
+
+export async function earlierVisits(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+): Promise<EarlierVisit[]> {
+  const session = await loadSession(deps, caller, sessionId);
+  const visits = (await listClientSessions(deps.sequelize, caller.clinicId, session.clientId)).filter(
+    (v) => v.id !== sessionId && v.startedAt < session.startedAt,
+  );
+  const records = await findSiteRecords(
+    deps.sequelize,
+    caller.clinicId,
+    visits.map((v) => v.id),
+    false,
+  );
+  const rank = { good: 1, usable: 2, retake: 3 } as const;
+  return visits.reverse().map((v) => {
+    const verdicts = (records.get(v.id) ?? [])
+      .map((r) => r.qualityVerdict)
+      .filter((q): q is 'good' | 'usable' | 'retake' => q !== null);
+    const worst = verdicts.sort((a, b) => rank[b] - rank[a])[0] ?? null;
+    return { id: v.id, startedAt: v.startedAt.toISOString(), status: v.status, worstQuality: worst };
+  });
+}
+
+export async function compareSessions(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+  otherId: string,
+): Promise<Comparison> {
+  const now = await loadSession(deps, caller, sessionId);
+  const then = await loadSession(deps, caller, otherId);
+  if (then.clientId !== now.clientId)
+    throw new AppError('other_client', 'Only visits of the same client can be compared.', 400);
+  const records = await findSiteRecords(deps.sequelize, caller.clinicId, [now.id, then.id]);
+  const ofSite = (id: string, site: Site) => records.get(id)?.find((r) => r.site === site);
+  const rows = SITES.flatMap((site) =>
+    measurementDefs.map((def) => {
+      const a = metricValue(ofSite(then.id, site)?.analysis?.metrics, def.key);
+      const b = metricValue(ofSite(now.id, site)?.analysis?.metrics, def.key);
+      return {
+        site,
+        key: def.key,
+        label: def.label,
+        unit: def.unit,
+        then: a,
+        now: b,
+        change: a !== null && b !== null ? b - a : null,
+      };
+    }),
+  );
+  const firstS1 = (id: string, site: Site) =>
+    ofSite(id, site)?.analysis?.sounds?.find((s) => s.type === 'S1')?.startS ?? null;
+  await recordAuditEvent({
+    clinicId: caller.clinicId,
+    userId: caller.userId,
+    action: 'review.session.compare',
+    entity: 'recording_sessions',
+    entityId: now.id,
+    ip: caller.ip,
+    details: { comparedWith: then.id },
+  });
+  return {
+    now: { id: now.id, startedAt: now.startedAt.toISOString() },
+    then: { id: then.id, startedAt: then.startedAt.toISOString() },
+    rows,
+    firstS1: SITES.map((site) => ({ site, now: firstS1(now.id, site), then: firstS1(then.id, site) })),
+  };
+}
+
+export async function clientTrends(deps: UseCaseDeps, caller: Caller, clientId: string): Promise<Trends> {
+  const client = await findClient(deps.sequelize, caller.clinicId, clientId);
+  if (!client) throw new AppError('not_found', 'There is no such client in this clinic.', 404);
+  const visits = await listClientSessions(deps.sequelize, caller.clinicId, clientId);
+  const records = await findSiteRecords(
+    deps.sequelize,
+    caller.clinicId,
+    visits.map((v) => v.id),
+    false,
+  );
+  const ranges = await rangesForClinic(caller.clinicId);
+  const series = SITES.flatMap((site) =>
+    measurementDefs.map((def) => {
+      const range = ranges(def.key, site);
+      return {
+        site,
+        key: def.key,
+        label: def.label,
+        unit: def.unit,
+        range,
+        points: visits.map((v) => {
+          const value = metricValue(
+            records.get(v.id)?.find((r) => r.site === site)?.analysis?.metrics,
+            def.key,
+          );
+          return {
+            sessionId: v.id,
+            startedAt: v.startedAt.toISOString(),
+            value,
+            status: statusOf(value, range),
+          };
+        }),
+      };
+    }),
+  );
+  await recordAuditEvent({
+    clinicId: caller.clinicId,
+    userId: caller.userId,
+    action: 'review.client.trends',
+    entity: 'clients',
+    entityId: clientId,
+    ip: caller.ip,
+  });
+  return { client, series };
+}

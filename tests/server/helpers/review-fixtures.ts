@@ -1,0 +1,130 @@
+import { randomUUID } from 'node:crypto';
+import type { QualityVerdict, SessionStatus, Site } from '@/shared/protocol';
+import { encodeWav16 } from '@/shared/analysis/wav';
+import { Client, ClipBlob, RecordingSession, SiteRecording } from '@/sync-server/src/models';
+import type { BlobStore } from '@/sync-server/src/services/blob-store';
+
+export const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
+
+export async function addClient(
+  clinicId: string,
+  firstName: string,
+  lastName: string,
+  email: string | null = null,
+) {
+  const id = randomUUID();
+  await Client.create({ id, clinicId, firstName, lastName, email });
+  return id;
+}
+
+export type SiteSpec = {
+  verdict?: QualityVerdict | null;
+  heartRateBpm?: number | null;
+  irregular?: boolean;
+  systolicActivity?: number | null;
+  sounds?: { type: 'S1' | 'S2'; startS: number; endS: number }[];
+  clip?: { sha256: string };
+};
+
+/** An analysis of record in the shape shared/analysis writes (AnalysisResult), with only what a test needs. */
+export function analysisOf(spec: SiteSpec) {
+  return {
+    sampleRate: 4000,
+    durationS: 4,
+    heartRateBpm: spec.heartRateBpm ?? null,
+    sounds: spec.sounds ?? [],
+    metrics: {
+      heartRateBpm: spec.heartRateBpm ?? null,
+      sdnnMs: 30,
+      rmssdMs: 25,
+      pnn50: 5,
+      irregularRhythm: spec.irregular ?? false,
+      s1DurationMs: 110,
+      s2DurationMs: 90,
+      systoleMs: 320,
+      diastoleMs: 500,
+      systoleDiastoleRatio: 0.64,
+      s1s2PeakRatio: 1.4,
+      s1s2EnergyRatio: 1.8,
+      systolicActivity: spec.systolicActivity ?? 0.1,
+      diastolicActivity: 0.08,
+      usableCycles: 5,
+      beats: [],
+    },
+    quality: { verdict: spec.verdict ?? 'good', reasons: [] },
+    analysisVersion: 'test',
+  };
+}
+
+export async function addSession(options: {
+  clinicId: string;
+  clientId: string;
+  operatorId?: string | null;
+  startedAt: Date;
+  status?: SessionStatus;
+  sites?: Partial<Record<Site, SiteSpec>>;
+  findings?: string | null;
+}) {
+  const id = randomUUID();
+  await RecordingSession.create({
+    id,
+    clinicId: options.clinicId,
+    clientId: options.clientId,
+    operatorId: options.operatorId ?? null,
+    status: options.status ?? 'completed',
+    startedAt: options.startedAt,
+    findings: options.findings ?? null,
+  });
+  const sites =
+    options.sites ?? Object.fromEntries(SITES.map((s) => [s, { verdict: 'good', heartRateBpm: 70 }]));
+  for (const site of SITES) {
+    const spec = sites[site];
+    if (!spec) continue;
+    await SiteRecording.create({
+      id: randomUUID(),
+      clinicId: options.clinicId,
+      sessionId: id,
+      site,
+      qualityVerdict: spec.verdict === undefined ? 'good' : spec.verdict,
+      analysis: analysisOf(spec),
+      clipSha256: spec.clip?.sha256 ?? null,
+      clipState: spec.clip ? 'stored' : 'none',
+      durationS: 4,
+    });
+  }
+  return id;
+}
+
+/**
+ * A 4 s, 4 kHz WAV with 50 ms bursts of a 100 Hz tone (inside the 25–400 Hz band) at known onsets and silence
+ * elsewhere, so where the trace is loud can be checked against where the bursts are.
+ */
+export function burstWav(onsetsS: number[], sampleRate = 4000, durationS = 4): Uint8Array {
+  const samples = new Float32Array(Math.round(sampleRate * durationS));
+  for (const onset of onsetsS) {
+    const start = Math.round(onset * sampleRate);
+    for (let i = 0; i < 0.05 * sampleRate; i++)
+      samples[start + i] = 0.8 * Math.sin((2 * Math.PI * 100 * i) / sampleRate);
+  }
+  return encodeWav16(samples, sampleRate);
+}
+
+export async function storeClip(
+  blobStore: BlobStore,
+  clinicId: string,
+  wav: Uint8Array,
+): Promise<{ sha256: string }> {
+  const stored = await blobStore.put(wav);
+  await ClipBlob.findOrCreate({
+    where: { sha256: stored.sha256 },
+    defaults: {
+      sha256: stored.sha256,
+      clinicId,
+      sizeBytes: stored.sizeBytes,
+      contentType: 'audio/wav',
+      storageKey: stored.storageKey,
+      state: 'stored',
+    },
+  });
+  return { sha256: stored.sha256 };
+}
