@@ -8,13 +8,15 @@ import { useAuth } from '@/hooks/auth/auth-context';
 import { roleLabels } from './role-labels';
 import { SignOutButton } from './sign-out-button';
 
-type Props = BottomTabBarProps & { wide: boolean };
+type Props = BottomTabBarProps & { wide: boolean; tabNames: readonly string[] };
 
 /** Our own tab bar: a side navigation on wide screens, bottom tabs on phones. */
-export function NavBar({ state, descriptors, navigation, wide }: Props) {
+export function NavBar({ state, descriptors, navigation, wide, tabNames }: Props) {
   const insets = useSafeAreaInsets();
   const auth = useAuth();
+  // Routes that are not tabs (detail pages, steppers) live in the group but stay out of the bar.
   const items = state.routes.map((route, index) => {
+    if (!tabNames.includes(route.name)) return null;
     const { options } = descriptors[route.key];
     const focused = state.index === index;
     const label = options.title ?? route.name;

@@ -12,7 +12,7 @@ export function RoleTabs({ tabs }: { tabs: readonly TabSpec[] }) {
   const { isWide } = useLayout();
   return (
     <Tabs
-      tabBar={(props) => <NavBar {...props} wide={isWide} />}
+      tabBar={(props) => <NavBar {...props} wide={isWide} tabNames={tabs.map((t) => t.name)} />}
       screenOptions={{
         headerShown: false,
         tabBarPosition: isWide ? 'left' : 'bottom',

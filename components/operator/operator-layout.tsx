@@ -1,9 +1,10 @@
 import { RoleGuard } from '@/components/auth/role-guard';
 import { RoleTabs, type TabSpec } from '@/components/nav/role-tabs';
-import { AccountIcon, ClientsIcon } from '@/components/ui/icons';
+import { AccountIcon, ClientsIcon, OutboxIcon } from '@/components/ui/icons';
 
 const tabs: readonly TabSpec[] = [
   { name: 'clients', title: 'Clients', Icon: ClientsIcon },
+  { name: 'outbox', title: 'Outbox', Icon: OutboxIcon },
   { name: 'account', title: 'Account', Icon: AccountIcon },
 ];
 

@@ -37,6 +37,16 @@ export function SessionsIcon({ color, size = 22 }: IconProps) {
   );
 }
 
+/** A tray with an arrow leaving it: items waiting to sync. */
+export function OutboxIcon({ color, size = 22 }: IconProps) {
+  return (
+    <Svg width={size} height={size} viewBox="0 0 24 24">
+      <Path d="M3.5 13.5h4.5l1.5 3h5l1.5-3h4.5V19a1.5 1.5 0 0 1-1.5 1.5h-14A1.5 1.5 0 0 1 3.5 19z" stroke={color} {...stroke} />
+      <Path d="M12 11V3.5M8.8 6.5 12 3.3l3.2 3.2" stroke={color} {...stroke} />
+    </Svg>
+  );
+}
+
 export function OverviewIcon({ color, size = 22 }: IconProps) {
   return (
     <Svg width={size} height={size} viewBox="0 0 24 24">
