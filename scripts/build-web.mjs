@@ -8,7 +8,14 @@ const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const dist = path.join(root, 'dist');
 const marker = path.join(dist, 'index.html');
 const inputDirs = ['app', 'components', 'hooks', 'constants', 'shared', 'assets', 'public'];
-const inputFiles = ['app.json', 'metro.config.js', 'tsconfig.json', 'package.json', 'package-lock.json', 'babel.config.js'];
+const inputFiles = [
+  'app.json',
+  'metro.config.js',
+  'tsconfig.json',
+  'package.json',
+  'package-lock.json',
+  'babel.config.js',
+];
 
 function newestMtime(target) {
   let stat;
@@ -33,8 +40,21 @@ function upToDate() {
   return Math.max(...inputs) < built;
 }
 
+// The analysis worker (Metro cannot bundle workers) and the offline layer (manifest, service worker) go on top.
+async function addWorkerAndOfflineLayer() {
+  const { buildWorker } = await import('./build-worker.mjs');
+  const { buildPwa } = await import('./build-pwa.mjs');
+  await buildWorker({ outDir: dist });
+  const { count } = await buildPwa({ dist });
+  console.log(`Analysis worker bundled; service worker precaches ${count} files.`);
+}
+
 const force = process.argv.includes('--force');
 if (!force && upToDate()) {
+  if (!fs.existsSync(path.join(dist, 'sw.js')) || !fs.existsSync(path.join(dist, 'workers/analysis.js'))) {
+    await addWorkerAndOfflineLayer();
+    fs.utimesSync(marker, new Date(), new Date());
+  }
   console.log('Web export is up to date (dist/).');
   process.exit(0);
 }
@@ -52,10 +72,15 @@ if (result.status !== 0 || !fs.existsSync(marker)) {
   fs.mkdirSync(path.join(root, '.data'), { recursive: true });
   const logFile = path.join(root, '.data', 'build-web.log');
   fs.writeFileSync(logFile, output);
-  const firstError = output.split('\n').find((line) => /error/i.test(line))?.trim() ?? 'see the log';
+  const firstError =
+    output
+      .split('\n')
+      .find((line) => /error/i.test(line))
+      ?.trim() ?? 'see the log';
   console.error(`Web export failed: ${firstError.slice(0, 300)} (full log: ${path.relative(root, logFile)})`);
   process.exit(1);
 }
+await addWorkerAndOfflineLayer();
 // Touch the marker so an export that reused cached files still counts as newer than its inputs.
 const now = new Date();
 fs.utimesSync(marker, now, now);

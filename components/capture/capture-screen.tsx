@@ -35,9 +35,22 @@ export function CaptureScreen() {
   const contentWidth = Math.min(contentMax, width - (isWide ? 320 : 32));
 
   if (loaded.isPending) return <LoadingState label="Opening the session…" testID="capture-loading" />;
-  if (loaded.isError) return <ErrorState message={loaded.error.message} onRetry={() => void loaded.refetch()} testID="capture-error" />;
+  if (loaded.isError)
+    return (
+      <ErrorState
+        message={loaded.error.message}
+        onRetry={() => void loaded.refetch()}
+        testID="capture-error"
+      />
+    );
   if (!loaded.data) {
-    return <ErrorState message="This session is not on this device. Sessions live on the device that recorded them until they sync." onRetry={() => router.replace('/clients')} testID="capture-missing" />;
+    return (
+      <ErrorState
+        message="This session is not on this device. Sessions live on the device that recorded them until they sync."
+        onRetry={() => router.replace('/clients')}
+        testID="capture-missing"
+      />
+    );
   }
   const { session, recordings } = loaded.data;
   const who = client.data ? `${client.data.firstName} ${client.data.lastName}` : '';
@@ -61,7 +74,16 @@ export function CaptureScreen() {
     void run(async () => {
       const settled = [...recordings.filter((r) => r.site !== site), { site } as SiteRecording];
       const wav = encodeWav16(result.pcm.samples, result.pcm.sampleRate);
-      await keepTake({ sessionId: id, site, source: result.source, wav, analysis: result.analysis, trace: result.trace, note, nextSite: after(site, settled) });
+      await keepTake({
+        sessionId: id,
+        site,
+        source: result.source,
+        wav,
+        analysis: result.analysis,
+        trace: result.trace,
+        note,
+        nextSite: after(site, settled),
+      });
     });
   const skip = (site: Site) => (reason: string) =>
     void run(async () => {
@@ -75,12 +97,18 @@ export function CaptureScreen() {
       <ScreenFrame title="Session sealed" subtitle={who} testID="capture-finished">
         <View style={[styles.column, { maxWidth: contentMax }]}>
           <AppText variant="body" color={colors.text} testID="finished-message">
-            The clips are sealed for the clinic and waiting in the outbox. They send themselves when the device is back online.
+            The clips are sealed for the clinic and waiting in the outbox. They send themselves when the
+            device is back online.
           </AppText>
           <SessionSummary recordings={recordings} />
           <CautionNote />
           <Button label="Open the outbox" onPress={() => router.push('/outbox')} testID="open-outbox" />
-          <Button label="Back to the client" onPress={() => router.replace(`/clients/${session.clientId}`)} testID="back-to-client" variant="secondary" />
+          <Button
+            label="Back to the client"
+            onPress={() => router.replace(`/clients/${session.clientId}`)}
+            testID="back-to-client"
+            variant="secondary"
+          />
         </View>
       </ScreenFrame>
     );
@@ -92,7 +120,11 @@ export function CaptureScreen() {
   const recordedCount = recordings.filter((r) => r.outcome === 'recorded').length;
 
   return (
-    <ScreenFrame title={current === 'review' ? 'Check and finish' : `Site ${index + 1} of 4`} subtitle={who} testID="capture-screen">
+    <ScreenFrame
+      title={current === 'review' ? 'Check and finish' : `Site ${index + 1} of 4`}
+      subtitle={who}
+      testID="capture-screen"
+    >
       <View style={[styles.column, { maxWidth: contentMax }]}>
         <CaptureStepper current={current} recordings={recordings} onSelect={goTo} disabled={saving} />
         {current === 'review' ? (
@@ -107,13 +139,20 @@ export function CaptureScreen() {
             ) : null}
             <CautionNote />
             <Button
-              label={recordedCount === 0 ? 'Record at least one site to finish' : 'Finish and seal the session'}
+              label={
+                recordedCount === 0 ? 'Record at least one site to finish' : 'Finish and seal the session'
+              }
               disabled={recordedCount === 0}
               busy={finish.isPending}
               onPress={() => finish.mutate(id)}
               testID="finish"
             />
-            <Button label="Back to pulmonic" onPress={() => goTo('pulmonic')} testID="review-back" variant="ghost" />
+            <Button
+              label="Back to pulmonic"
+              onPress={() => goTo('pulmonic')}
+              testID="review-back"
+              variant="ghost"
+            />
           </View>
         ) : (
           <SiteStep

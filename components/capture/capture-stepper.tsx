@@ -31,7 +31,12 @@ const marks: Record<StepState, { text: string; bg: string; fg: string }> = {
   skipped: { text: '–', bg: colors.surfaceMuted, fg: colors.textMuted },
 };
 
-type Props = { current: Site | 'review'; recordings: SiteRecording[]; onSelect: (site: Site) => void; disabled?: boolean };
+type Props = {
+  current: Site | 'review';
+  recordings: SiteRecording[];
+  onSelect: (site: Site) => void;
+  disabled?: boolean;
+};
 
 /** Four steps in capture order; any step can be opened again to redo it before finishing. */
 export function CaptureStepper({ current, recordings, onSelect, disabled = false }: Props) {
@@ -49,7 +54,10 @@ export function CaptureStepper({ current, recordings, onSelect, disabled = false
             accessibilityState={{ selected: state === 'current', disabled }}
             disabled={disabled}
             onPress={() => onSelect(site.id)}
-            style={[styles.step, { backgroundColor: mark.bg, borderColor: state === 'current' ? colors.ink : colors.line }]}
+            style={[
+              styles.step,
+              { backgroundColor: mark.bg, borderColor: state === 'current' ? colors.ink : colors.line },
+            ]}
           >
             <AppText variant="caption" color={mark.fg}>
               {index + 1} {mark.text}
@@ -66,5 +74,13 @@ export function CaptureStepper({ current, recordings, onSelect, disabled = false
 
 const styles = StyleSheet.create({
   row: { flexDirection: 'row', gap: space.xs },
-  step: { flex: 1, borderWidth: 1, borderRadius: radii.md, paddingVertical: space.sm, paddingHorizontal: space.xs, alignItems: 'center', gap: 2 },
+  step: {
+    flex: 1,
+    borderWidth: 1,
+    borderRadius: radii.md,
+    paddingVertical: space.sm,
+    paddingHorizontal: space.xs,
+    alignItems: 'center',
+    gap: 2,
+  },
 });

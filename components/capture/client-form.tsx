@@ -11,24 +11,43 @@ const isoDate = /^\d{4}-\d{2}-\d{2}$/;
 function realPastDate(value: string): boolean {
   if (!isoDate.test(value)) return false;
   const date = new Date(`${value}T00:00:00Z`);
-  return !Number.isNaN(date.getTime()) && date.toISOString().startsWith(value) && date.getTime() <= Date.now() && date.getUTCFullYear() >= 1900;
+  return (
+    !Number.isNaN(date.getTime()) &&
+    date.toISOString().startsWith(value) &&
+    date.getTime() <= Date.now() &&
+    date.getUTCFullYear() >= 1900
+  );
 }
 
 export const clientFormSchema = z.object({
-  firstName: z.string().trim().min(1, { error: 'Enter the first name.' }).max(80, { error: 'At most 80 characters.' }),
-  lastName: z.string().trim().min(1, { error: 'Enter the last name.' }).max(80, { error: 'At most 80 characters.' }),
+  firstName: z
+    .string()
+    .trim()
+    .min(1, { error: 'Enter the first name.' })
+    .max(80, { error: 'At most 80 characters.' }),
+  lastName: z
+    .string()
+    .trim()
+    .min(1, { error: 'Enter the last name.' })
+    .max(80, { error: 'At most 80 characters.' }),
   dateOfBirth: z
     .string()
     .trim()
-    .refine((v) => v === '' || realPastDate(v), { error: 'Use the form YYYY-MM-DD, a real date in the past.' }),
+    .refine((v) => v === '' || realPastDate(v), {
+      error: 'Use the form YYYY-MM-DD, a real date in the past.',
+    }),
   email: z
     .string()
     .trim()
-    .refine((v) => v === '' || z.email().safeParse(v).success, { error: 'Enter an e-mail address like name@example.com, or leave it empty.' }),
+    .refine((v) => v === '' || z.email().safeParse(v).success, {
+      error: 'Enter an e-mail address like name@example.com, or leave it empty.',
+    }),
   phone: z
     .string()
     .trim()
-    .refine((v) => v === '' || /^[+0-9 ()-]{6,20}$/.test(v), { error: 'Digits, spaces and + ( ) - only, 6 to 20 characters.' }),
+    .refine((v) => v === '' || /^[+0-9 ()-]{6,20}$/.test(v), {
+      error: 'Digits, spaces and + ( ) - only, 6 to 20 characters.',
+    }),
 });
 export type ClientFormValues = z.infer<typeof clientFormSchema>;
 
@@ -48,7 +67,15 @@ export function ClientForm({ onSubmit, submitLabel = 'Add client' }: Props) {
       control={control}
       name={name}
       render={({ field: { value, onChange, onBlur } }) => (
-        <TextField label={label} testID={`client-${name}`} value={value} onChangeText={onChange} onBlur={onBlur} error={errors[name]?.message} {...extra} />
+        <TextField
+          label={label}
+          testID={`client-${name}`}
+          value={value}
+          onChangeText={onChange}
+          onBlur={onBlur}
+          error={errors[name]?.message}
+          {...extra}
+        />
       )}
     />
   );
@@ -57,9 +84,17 @@ export function ClientForm({ onSubmit, submitLabel = 'Add client' }: Props) {
       {field('firstName', 'First name', { autoComplete: 'off' })}
       {field('lastName', 'Last name', { autoComplete: 'off' })}
       {field('dateOfBirth', 'Date of birth (optional, YYYY-MM-DD)', { placeholder: '1980-04-23' })}
-      {field('email', 'E-mail (optional, for consent and reports)', { autoCapitalize: 'none', keyboardType: 'email-address' })}
+      {field('email', 'E-mail (optional, for consent and reports)', {
+        autoCapitalize: 'none',
+        keyboardType: 'email-address',
+      })}
       {field('phone', 'Phone (optional)', { keyboardType: 'phone-pad' })}
-      <Button label={submitLabel} onPress={handleSubmit(onSubmit)} testID="client-submit" busy={isSubmitting} />
+      <Button
+        label={submitLabel}
+        onPress={handleSubmit(onSubmit)}
+        testID="client-submit"
+        busy={isSubmitting}
+      />
     </View>
   );
 }

@@ -21,7 +21,9 @@ export function consentFormSchema(clientName: string) {
       .string()
       .trim()
       .min(1, { error: 'The client types their full name to consent.' })
-      .refine((v) => normal(v) === normal(clientName), { error: `Type the name exactly as on file: ${clientName}.` }),
+      .refine((v) => normal(v) === normal(clientName), {
+        error: `Type the name exactly as on file: ${clientName}.`,
+      }),
     signedOn: z
       .string()
       .trim()
@@ -31,14 +33,20 @@ export function consentFormSchema(clientName: string) {
 }
 export type ConsentFormValues = { signedName: string; signedOn: string };
 
-type Props = { clientName: string; onSubmit: (values: ConsentFormValues & { textVersion: string }) => Promise<void> };
+type Props = {
+  clientName: string;
+  onSubmit: (values: ConsentFormValues & { textVersion: string }) => Promise<void>;
+};
 
 export function ConsentForm({ clientName, onSubmit }: Props) {
   const {
     control,
     handleSubmit,
     formState: { errors, isSubmitting },
-  } = useForm<ConsentFormValues>({ resolver: zodResolver(consentFormSchema(clientName)), defaultValues: { signedName: '', signedOn: today() } });
+  } = useForm<ConsentFormValues>({
+    resolver: zodResolver(consentFormSchema(clientName)),
+    defaultValues: { signedName: '', signedOn: today() },
+  });
   return (
     <View style={styles.root} testID="consent-form">
       <View style={styles.text}>
@@ -55,19 +63,34 @@ export function ConsentForm({ clientName, onSubmit }: Props) {
         control={control}
         name="signedName"
         render={({ field: { value, onChange, onBlur } }) => (
-          <TextField label="Client types their full name" testID="consent-name" value={value} onChangeText={onChange} onBlur={onBlur} error={errors.signedName?.message} autoComplete="off" />
+          <TextField
+            label="Client types their full name"
+            testID="consent-name"
+            value={value}
+            onChangeText={onChange}
+            onBlur={onBlur}
+            error={errors.signedName?.message}
+            autoComplete="off"
+          />
         )}
       />
       <Controller
         control={control}
         name="signedOn"
         render={({ field: { value, onChange, onBlur } }) => (
-          <TextField label="Date" testID="consent-date" value={value} onChangeText={onChange} onBlur={onBlur} error={errors.signedOn?.message} />
+          <TextField
+            label="Date"
+            testID="consent-date"
+            value={value}
+            onChangeText={onChange}
+            onBlur={onBlur}
+            error={errors.signedOn?.message}
+          />
         )}
       />
       <Button
         label="Record consent"
-        onPress={handleSubmit((values) => onSubmit({ ...values, textVersion: consentTextVersion }))}
+        onPress={handleSubmit((values) => onSubmit({ ...values, textVersion: String(consentTextVersion) }))}
         testID="consent-submit"
         busy={isSubmitting}
       />
@@ -77,5 +100,12 @@ export function ConsentForm({ clientName, onSubmit }: Props) {
 
 const styles = StyleSheet.create({
   root: { gap: space.md },
-  text: { gap: space.sm, padding: space.md, borderRadius: radii.md, backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.line },
+  text: {
+    gap: space.sm,
+    padding: space.md,
+    borderRadius: radii.md,
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+  },
 });

@@ -28,11 +28,26 @@ export function LevelMeter({ level }: { level: number }) {
   const hint = levelHint(clamped);
   const fill = hint === 'too-loud' ? colors.danger : hint === 'too-quiet' ? colors.caution : colors.pulse;
   return (
-    <View style={styles.root} testID="level-meter" accessibilityRole="progressbar" accessibilityValue={{ min: 0, max: 100, now: Math.round(clamped * 100) }}>
+    <View
+      style={styles.root}
+      testID="level-meter"
+      accessibilityRole="progressbar"
+      accessibilityValue={{ min: 0, max: 100, now: Math.round(clamped * 100) }}
+    >
       <View style={styles.track}>
-        <View testID="level-meter-fill" style={[styles.fill, { width: `${(shown * 100).toFixed(1)}%` as `${number}%`, backgroundColor: fill }]} />
+        <View
+          testID="level-meter-fill"
+          style={[
+            styles.fill,
+            { width: `${(shown * 100).toFixed(1)}%` as `${number}%`, backgroundColor: fill },
+          ]}
+        />
       </View>
-      <AppText variant="caption" color={hint === 'ok' ? colors.textMuted : fill} testID={`level-hint-${hint}`}>
+      <AppText
+        variant="caption"
+        color={hint === 'ok' ? colors.textMuted : fill}
+        testID={`level-hint-${hint}`}
+      >
         {hintText[hint]}
       </AppText>
     </View>
@@ -41,6 +56,13 @@ export function LevelMeter({ level }: { level: number }) {
 
 const styles = StyleSheet.create({
   root: { gap: space.xs },
-  track: { height: 14, borderRadius: radii.pill, backgroundColor: colors.surfaceMuted, overflow: 'hidden', borderWidth: 1, borderColor: colors.line },
+  track: {
+    height: 14,
+    borderRadius: radii.pill,
+    backgroundColor: colors.surfaceMuted,
+    overflow: 'hidden',
+    borderWidth: 1,
+    borderColor: colors.line,
+  },
   fill: { height: '100%', borderRadius: radii.pill },
 });

@@ -25,16 +25,29 @@ export function SessionSummary({ recordings }: { recordings: SiteRecording[] }) 
               ) : r.outcome === 'skipped' ? (
                 <Badge label="Skipped" tone="neutral" testID={`summary-${site.id}-skipped`} />
               ) : (
-                <Badge label={r.verdict ?? 'recorded'} tone={r.verdict ? verdictTone[r.verdict] : 'neutral'} testID={`summary-${site.id}-verdict`} />
+                <Badge
+                  label={r.verdict ?? 'recorded'}
+                  tone={r.verdict ? verdictTone[r.verdict] : 'neutral'}
+                  testID={`summary-${site.id}-verdict`}
+                />
               )}
             </View>
             {r?.outcome === 'recorded' ? (
               <>
                 <AppText variant="number" color={colors.text} testID={`summary-${site.id}-rate`}>
-                  {r.heartRateBpm === null ? '— bpm' : `${Math.round(r.heartRateBpm)} bpm`} · {r.durationS?.toFixed(1)} s · {r.source === 'import' ? 'imported' : 'recorded'}
+                  {r.heartRateBpm === null ? '— bpm' : `${Math.round(r.heartRateBpm)} bpm`} ·{' '}
+                  {r.durationS?.toFixed(1)} s · {r.source === 'import' ? 'imported' : 'recorded'}
                   {r.blobHash ? ' · sealed' : ''}
                 </AppText>
-                {r.trace && r.analysis ? <TraceView trace={r.trace} sounds={r.analysis.sounds} width={300} height={70} testID={`summary-${site.id}-trace`} /> : null}
+                {r.trace && r.analysis ? (
+                  <TraceView
+                    trace={r.trace}
+                    sounds={r.analysis.sounds}
+                    width={300}
+                    height={70}
+                    testID={`summary-${site.id}-trace`}
+                  />
+                ) : null}
                 {r.note ? (
                   <AppText variant="caption" color={colors.textMuted}>
                     Note: {r.note}
@@ -56,6 +69,13 @@ export function SessionSummary({ recordings }: { recordings: SiteRecording[] }) 
 
 const styles = StyleSheet.create({
   list: { gap: space.sm },
-  row: { padding: space.md, backgroundColor: colors.surface, borderRadius: radii.md, borderWidth: 1, borderColor: colors.line, gap: space.xs },
+  row: {
+    padding: space.md,
+    backgroundColor: colors.surface,
+    borderRadius: radii.md,
+    borderWidth: 1,
+    borderColor: colors.line,
+    gap: space.xs,
+  },
   head: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center' },
 });

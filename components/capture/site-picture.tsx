@@ -16,7 +16,13 @@ const ribs = [78, 96, 114, 132, 150, 168];
 
 export function SitePicture({ site, size = 180 }: { site: Site; size?: number }) {
   return (
-    <Svg width={size} height={size * 1.1} viewBox="0 0 200 220" testID={`site-picture-${site}`} accessibilityLabel={`Placement for the ${site} site`}>
+    <Svg
+      width={size}
+      height={size * 1.1}
+      viewBox="0 0 200 220"
+      testID={`site-picture-${site}`}
+      accessibilityLabel={`Placement for the ${site} site`}
+    >
       <Path
         d="M60 30 Q100 44 140 30 L172 52 Q182 120 168 206 L32 206 Q18 120 28 52 Z"
         fill={colors.surfaceMuted}
@@ -24,12 +30,31 @@ export function SitePicture({ site, size = 180 }: { site: Site; size?: number })
         strokeWidth={2}
       />
       <Path d="M80 34 Q100 50 120 34" fill="none" stroke={colors.inkSoft} strokeWidth={1.5} />
-      <Line x1={100} y1={58} x2={100} y2={150} stroke={colors.inkSoft} strokeWidth={6} strokeLinecap="round" opacity={0.35} />
+      <Line
+        x1={100}
+        y1={58}
+        x2={100}
+        y2={150}
+        stroke={colors.inkSoft}
+        strokeWidth={6}
+        strokeLinecap="round"
+        opacity={0.35}
+      />
       <G opacity={0.35}>
         {ribs.map((y) => (
           <G key={y}>
-            <Path d={`M92 ${y} Q66 ${y - 6} 42 ${y + 10}`} fill="none" stroke={colors.inkSoft} strokeWidth={1.5} />
-            <Path d={`M108 ${y} Q134 ${y - 6} 158 ${y + 10}`} fill="none" stroke={colors.inkSoft} strokeWidth={1.5} />
+            <Path
+              d={`M92 ${y} Q66 ${y - 6} 42 ${y + 10}`}
+              fill="none"
+              stroke={colors.inkSoft}
+              strokeWidth={1.5}
+            />
+            <Path
+              d={`M108 ${y} Q134 ${y - 6} 158 ${y + 10}`}
+              fill="none"
+              stroke={colors.inkSoft}
+              strokeWidth={1.5}
+            />
           </G>
         ))}
       </G>
@@ -39,8 +64,22 @@ export function SitePicture({ site, size = 180 }: { site: Site; size?: number })
         return (
           <G key={key}>
             {active ? <Circle cx={spot.x} cy={spot.y} r={16} fill={colors.accent} opacity={0.22} /> : null}
-            <Circle cx={spot.x} cy={spot.y} r={active ? 9 : 6} fill={active ? colors.accent : colors.surface} stroke={active ? colors.accent : colors.inkSoft} strokeWidth={1.5} />
-            <SvgText x={spot.x} y={spot.y + (active ? 28 : 20)} fontSize={11} fontWeight="bold" fill={active ? colors.accent : colors.textMuted} textAnchor="middle">
+            <Circle
+              cx={spot.x}
+              cy={spot.y}
+              r={active ? 9 : 6}
+              fill={active ? colors.accent : colors.surface}
+              stroke={active ? colors.accent : colors.inkSoft}
+              strokeWidth={1.5}
+            />
+            <SvgText
+              x={spot.x}
+              y={spot.y + (active ? 28 : 20)}
+              fontSize={11}
+              fontWeight="bold"
+              fill={active ? colors.accent : colors.textMuted}
+              textAnchor="middle"
+            >
               {spot.short}
             </SvgText>
           </G>

@@ -30,7 +30,17 @@ type Props = {
 };
 
 /** One site: where to place the chest piece, then a take (recorded or imported), its trace and verdict. */
-export function SiteStep({ site, defaultLengthS, existing, width, saving, saveError, onKeep, onSkip, onBack }: Props) {
+export function SiteStep({
+  site,
+  defaultLengthS,
+  existing,
+  width,
+  saving,
+  saveError,
+  onKeep,
+  onSkip,
+  onBack,
+}: Props) {
   const info = siteInfo(site);
   const [lengthS, setLengthS] = useState(defaultLengthS);
   const [skipping, setSkipping] = useState(false);
@@ -51,7 +61,9 @@ export function SiteStep({ site, defaultLengthS, existing, width, saving, saveEr
           </AppText>
           {existing ? (
             <AppText variant="caption" color={colors.textMuted} testID="site-existing">
-              {existing.outcome === 'skipped' ? `Skipped: ${existing.skipReason ?? ''}. Record now to replace.` : 'A take is kept for this site. A new one replaces it.'}
+              {existing.outcome === 'skipped'
+                ? `Skipped: ${existing.skipReason ?? ''}. Record now to replace.`
+                : 'A take is kept for this site. A new one replaces it.'}
             </AppText>
           ) : null}
         </View>
@@ -75,15 +87,30 @@ export function SiteStep({ site, defaultLengthS, existing, width, saving, saveEr
             <View style={styles.lengths}>
               {takeLengths.map((s) => (
                 <View key={s} style={styles.lengthButton}>
-                  <Button label={`${s} s`} variant={s === lengthS ? 'primary' : 'secondary'} onPress={() => setLengthS(s)} testID={`length-${s}`} />
+                  <Button
+                    label={`${s} s`}
+                    variant={s === lengthS ? 'primary' : 'secondary'}
+                    onPress={() => setLengthS(s)}
+                    testID={`length-${s}`}
+                  />
                 </View>
               ))}
             </View>
             <Button label={`Record ${lengthS} s`} onPress={() => void take.record()} testID="record" />
-            <Button label="Import a file instead" onPress={() => void take.importFile()} testID="import" variant="secondary" />
+            <Button
+              label="Import a file instead"
+              onPress={() => void take.importFile()}
+              testID="import"
+              variant="secondary"
+            />
             <View style={styles.row}>
               {onBack ? <Button label="Back" onPress={onBack} testID="step-back" variant="ghost" /> : null}
-              <Button label="Skip this site" onPress={() => setSkipping(true)} testID="skip" variant="ghost" />
+              <Button
+                label="Skip this site"
+                onPress={() => setSkipping(true)}
+                testID="skip"
+                variant="ghost"
+              />
             </View>
           </View>
         )
@@ -112,10 +139,15 @@ export function SiteStep({ site, defaultLengthS, existing, width, saving, saveEr
       {state.phase === 'done' ? (
         <View style={styles.controls} testID="take-result">
           <View style={styles.traceBox}>
-            <TraceView trace={state.result.trace} sounds={state.result.analysis.sounds} width={traceWidth - 2} />
+            <TraceView
+              trace={state.result.trace}
+              sounds={state.result.analysis.sounds}
+              width={traceWidth - 2}
+            />
           </View>
           <AppText variant="caption" color={colors.textMuted} testID="take-source">
-            {sourceLabel(state.result.source)} · {state.result.analysis.durationS.toFixed(1)} s · S1 shaded brick, S2 shaded mint
+            {sourceLabel(state.result.source)} · {state.result.analysis.durationS.toFixed(1)} s · S1 shaded
+            brick, S2 shaded mint
           </AppText>
           {saveError ? (
             <View style={styles.error} testID="save-error" accessibilityRole="alert">
@@ -124,7 +156,12 @@ export function SiteStep({ site, defaultLengthS, existing, width, saving, saveEr
               </AppText>
             </View>
           ) : null}
-          <VerdictPanel analysis={state.result.analysis} busy={saving} onRetake={take.reset} onKeep={(note) => onKeep(state.result, note)} />
+          <VerdictPanel
+            analysis={state.result.analysis}
+            busy={saving}
+            onRetake={take.reset}
+            onKeep={(note) => onKeep(state.result, note)}
+          />
           <CautionNote compact />
         </View>
       ) : null}
@@ -138,7 +175,16 @@ function sourceLabel(source: RecordingSource): string {
 
 const styles = StyleSheet.create({
   root: { gap: space.lg },
-  card: { flexDirection: 'row', gap: space.md, padding: space.md, backgroundColor: colors.surface, borderRadius: radii.lg, borderWidth: 1, borderColor: colors.line, alignItems: 'center' },
+  card: {
+    flexDirection: 'row',
+    gap: space.md,
+    padding: space.md,
+    backgroundColor: colors.surface,
+    borderRadius: radii.lg,
+    borderWidth: 1,
+    borderColor: colors.line,
+    alignItems: 'center',
+  },
   cardText: { flex: 1, gap: space.xs },
   controls: { gap: space.md },
   lengths: { flexDirection: 'row', gap: space.sm },

@@ -4,10 +4,22 @@ import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
 import { colors, fonts, radii, space } from '@/constants/theme';
 
-export const skipReasons = ['Client declined this site', 'Site not reachable (dressing, device, posture)', 'Sensor problem'] as const;
+export const skipReasons = [
+  'Client declined this site',
+  'Site not reachable (dressing, device, posture)',
+  'Sensor problem',
+] as const;
 
 /** Skipping needs a reason, picked or typed, so the practitioner knows why a site is missing. */
-export function SkipSiteForm({ onSkip, onCancel, busy }: { onSkip: (reason: string) => void; onCancel: () => void; busy: boolean }) {
+export function SkipSiteForm({
+  onSkip,
+  onCancel,
+  busy,
+}: {
+  onSkip: (reason: string) => void;
+  onCancel: () => void;
+  busy: boolean;
+}) {
   const [reason, setReason] = useState('');
   const [error, setError] = useState<string | null>(null);
   const submit = () => {
@@ -24,7 +36,13 @@ export function SkipSiteForm({ onSkip, onCancel, busy }: { onSkip: (reason: stri
       </AppText>
       <View style={styles.chips}>
         {skipReasons.map((r, i) => (
-          <Button key={r} label={r} variant={reason === r ? 'primary' : 'secondary'} onPress={() => (setReason(r), setError(null))} testID={`skip-reason-${i}`} />
+          <Button
+            key={r}
+            label={r}
+            variant={reason === r ? 'primary' : 'secondary'}
+            onPress={() => (setReason(r), setError(null))}
+            testID={`skip-reason-${i}`}
+          />
         ))}
       </View>
       <TextInput

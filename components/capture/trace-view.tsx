@@ -32,7 +32,16 @@ export function TraceView({ trace, sounds, width, height = 150, testID = 'trace'
           const w = Math.max(1.5, toX(sound.endS) - left);
           const tint = sound.type === 'S1' ? colors.accent : colors.pulse;
           return (
-            <Rect key={`b${i}`} testID={`mark-${sound.type}`} x={left} y={labelBand} width={w} height={height - labelBand} fill={tint} opacity={0.16} />
+            <Rect
+              key={`b${i}`}
+              testID={`mark-${sound.type}`}
+              x={left}
+              y={labelBand}
+              width={w}
+              height={height - labelBand}
+              fill={tint}
+              opacity={0.16}
+            />
           );
         })}
         <Line x1={0} y1={mid} x2={width} y2={mid} stroke={colors.line} strokeWidth={1} />
@@ -40,7 +49,15 @@ export function TraceView({ trace, sounds, width, height = 150, testID = 'trace'
         {sounds.map((sound, i) => {
           const tint = sound.type === 'S1' ? colors.accent : colors.pulse;
           return (
-            <SvgText key={`l${i}`} x={toX((sound.startS + sound.endS) / 2)} y={12} fontSize={9} fontWeight="bold" fill={tint} textAnchor="middle">
+            <SvgText
+              key={`l${i}`}
+              x={toX((sound.startS + sound.endS) / 2)}
+              y={12}
+              fontSize={9}
+              fontWeight="bold"
+              fill={tint}
+              textAnchor="middle"
+            >
               {sound.type}
             </SvgText>
           );

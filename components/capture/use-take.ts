@@ -2,7 +2,13 @@ import { useCallback, useEffect, useRef, useState } from 'react';
 import { analyseInWorker, warmAnalysisWorker } from '@/hooks/analysis-worker/analyse-in-worker';
 import type { DisplayTrace, RecordingSource } from '@/hooks/local-store/records';
 import { ImportError, pickAudioFile } from '@/hooks/recorder/import-file';
-import { decodeTake, openMicrophone, RecorderError, type LiveMicrophone, type Pcm } from '@/hooks/recorder/recorder';
+import {
+  decodeTake,
+  openMicrophone,
+  RecorderError,
+  type LiveMicrophone,
+  type Pcm,
+} from '@/hooks/recorder/recorder';
 import type { AnalysisResult } from '@/shared/analysis/types';
 import type { Site } from '@/shared/protocol';
 
@@ -26,7 +32,9 @@ declare global {
 
 function tooShort(pcm: Pcm): string | null {
   const seconds = pcm.samples.length / pcm.sampleRate;
-  return seconds < minimumTakeS ? `The clip lasts ${seconds.toFixed(1)} s; record or import at least ${minimumTakeS} s (the chosen length is best).` : null;
+  return seconds < minimumTakeS
+    ? `The clip lasts ${seconds.toFixed(1)} s; record or import at least ${minimumTakeS} s (the chosen length is best).`
+    : null;
 }
 
 /** One site's take: microphone with live level and countdown, or an imported file, then analysis off the UI thread. */
@@ -43,7 +51,11 @@ export function useTake(site: Site, lengthS: number) {
   // Runs after the trace has been committed to the screen: the figure the 300 ms target is about.
   useEffect(() => {
     if (state.phase !== 'done' || state.result.source !== 'microphone' || endedAt.current === null) return;
-    (globalThis.__fourpointTimings ??= []).push({ site, endToTraceMs: performance.now() - endedAt.current, workerMs: workerMs.current });
+    (globalThis.__fourpointTimings ??= []).push({
+      site,
+      endToTraceMs: performance.now() - endedAt.current,
+      workerMs: workerMs.current,
+    });
     endedAt.current = null;
   }, [state, site]);
 
@@ -68,7 +80,11 @@ export function useTake(site: Site, lengthS: number) {
         workerMs.current = out.workerMs;
         setState({ phase: 'done', result: { pcm, analysis: out.analysis, trace: out.trace, source } });
       } catch (error) {
-        setState({ phase: 'error', message: error instanceof Error ? error.message : 'The analysis failed.', kind: 'analysis' });
+        setState({
+          phase: 'error',
+          message: error instanceof Error ? error.message : 'The analysis failed.',
+          kind: 'analysis',
+        });
       }
     },
     [site],
@@ -89,7 +105,11 @@ export function useTake(site: Site, lengthS: number) {
       await analyse(pcm, 'microphone');
     } catch (error) {
       cleanup();
-      setState({ phase: 'error', message: error instanceof Error ? error.message : 'Recording failed.', kind: 'recorder' });
+      setState({
+        phase: 'error',
+        message: error instanceof Error ? error.message : 'Recording failed.',
+        kind: 'recorder',
+      });
     } finally {
       stopping.current = false;
     }
@@ -116,7 +136,11 @@ export function useTake(site: Site, lengthS: number) {
     } catch (error) {
       cleanup();
       const kind = error instanceof RecorderError ? error.kind : 'failed';
-      setState({ phase: 'error', message: error instanceof Error ? error.message : 'Recording failed.', kind });
+      setState({
+        phase: 'error',
+        message: error instanceof Error ? error.message : 'Recording failed.',
+        kind,
+      });
     }
   }, [cleanup, lengthS, stop]);
 
@@ -128,7 +152,8 @@ export function useTake(site: Site, lengthS: number) {
       endedAt.current = null;
       await analyse(picked, 'import');
     } catch (error) {
-      const message = error instanceof ImportError ? error.message : 'The file could not be read. Choose another file.';
+      const message =
+        error instanceof ImportError ? error.message : 'The file could not be read. Choose another file.';
       setState({ phase: 'error', message, kind: 'import' });
     }
   }, [analyse, cleanup]);

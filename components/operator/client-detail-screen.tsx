@@ -12,14 +12,20 @@ import { ErrorState, LoadingState } from '@/components/ui/state-views';
 import { colors, radii, space } from '@/constants/theme';
 import { useClientsQuery } from '@/hooks/data/clients';
 import { rememberServerClient } from '@/hooks/local-store/clients';
-import { useClientSessions, useCurrentConsent, useLocalClient, useRecordConsent, useStartSession } from '@/hooks/local-store/queries';
+import {
+  useClientSessions,
+  useCurrentConsent,
+  useLocalClient,
+  useRecordConsent,
+  useStartSession,
+} from '@/hooks/local-store/queries';
 
 export function ClientDetailScreen() {
   const { clientId } = useLocalSearchParams<{ clientId: string }>();
   const id = String(clientId ?? '');
   const local = useLocalClient(id);
   const server = useClientsQuery('');
-  const consent = useCurrentConsent(id, consentTextVersion);
+  const consent = useCurrentConsent(id, String(consentTextVersion));
   const sessions = useClientSessions(id);
   const record = useRecordConsent();
   const start = useStartSession();
@@ -34,10 +40,19 @@ export function ClientDetailScreen() {
   }, [local, fromServer]);
 
   if (local.isPending) return <LoadingState label="Opening the client…" testID="client-loading" />;
-  if (local.isError) return <ErrorState message={local.error.message} onRetry={() => void local.refetch()} testID="client-error" />;
+  if (local.isError)
+    return (
+      <ErrorState message={local.error.message} onRetry={() => void local.refetch()} testID="client-error" />
+    );
   if (!local.data) {
     if (server.isPending) return <LoadingState label="Opening the client…" testID="client-loading" />;
-    return <ErrorState message="This client is not on this device yet. Open them once while online." onRetry={() => router.replace('/clients')} testID="client-missing" />;
+    return (
+      <ErrorState
+        message="This client is not on this device yet. Open them once while online."
+        onRetry={() => router.replace('/clients')}
+        testID="client-missing"
+      />
+    );
   }
   const client = local.data;
   const name = `${client.firstName} ${client.lastName}`;
@@ -56,7 +71,11 @@ export function ClientDetailScreen() {
   };
 
   return (
-    <ScreenFrame title={name} subtitle={client.dateOfBirth ? `born ${formatDate(client.dateOfBirth)}` : 'date of birth not given'} testID="client-detail">
+    <ScreenFrame
+      title={name}
+      subtitle={client.dateOfBirth ? `born ${formatDate(client.dateOfBirth)}` : 'date of birth not given'}
+      testID="client-detail"
+    >
       <View style={styles.column}>
         {error ? (
           <View style={styles.error} accessibilityRole="alert" testID="client-detail-error">
@@ -69,7 +88,8 @@ export function ClientDetailScreen() {
           <View style={styles.card} testID="consent-on-file">
             <Badge label="Consent on file" tone="good" />
             <AppText variant="small" color={colors.text}>
-              Signed by {consent.data.signedName} on {formatDate(consent.data.signedOn)} (text {consent.data.textVersion}).
+              Signed by {consent.data.signedName} on {formatDate(consent.data.signedOn)} (text{' '}
+              {consent.data.textVersion}).
             </AppText>
           </View>
         ) : (
@@ -89,7 +109,11 @@ export function ClientDetailScreen() {
           </View>
         )}
         {open ? (
-          <Button label="Resume the open session" onPress={() => router.push(`/capture/${open.id}`)} testID="resume-session" />
+          <Button
+            label="Resume the open session"
+            onPress={() => router.push(`/capture/${open.id}`)}
+            testID="resume-session"
+          />
         ) : (
           <Button
             label={consent.data ? 'Start a session' : 'Record consent to start a session'}
@@ -105,7 +129,13 @@ export function ClientDetailScreen() {
               Sessions on this device
             </AppText>
             {done.map((s) => (
-              <Button key={s.id} label={`${formatDate(s.startedAt)} · sealed`} variant="secondary" onPress={() => router.push(`/capture/${s.id}`)} testID={`session-${s.id}`} />
+              <Button
+                key={s.id}
+                label={`${formatDate(s.startedAt)} · sealed`}
+                variant="secondary"
+                onPress={() => router.push(`/capture/${s.id}`)}
+                testID={`session-${s.id}`}
+              />
             ))}
           </View>
         ) : null}
@@ -116,6 +146,13 @@ export function ClientDetailScreen() {
 
 const styles = StyleSheet.create({
   column: { maxWidth: 640, width: '100%', gap: space.lg },
-  card: { padding: space.lg, gap: space.md, backgroundColor: colors.surface, borderRadius: radii.lg, borderWidth: 1, borderColor: colors.line },
+  card: {
+    padding: space.lg,
+    gap: space.md,
+    backgroundColor: colors.surface,
+    borderRadius: radii.lg,
+    borderWidth: 1,
+    borderColor: colors.line,
+  },
   error: { padding: space.md, borderRadius: radii.md, backgroundColor: colors.dangerSoft },
 });

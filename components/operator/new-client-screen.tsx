@@ -24,11 +24,17 @@ export function NewClientScreen() {
       });
       router.replace(`/clients/${client.id}`);
     } catch (e) {
-      setError(e instanceof Error ? e.message : 'The client could not be saved. Nothing was lost; try again.');
+      setError(
+        e instanceof Error ? e.message : 'The client could not be saved. Nothing was lost; try again.',
+      );
     }
   };
   return (
-    <ScreenFrame title="New client" subtitle="Saved on this device first; it reaches the clinic with the next sync." testID="new-client-screen">
+    <ScreenFrame
+      title="New client"
+      subtitle="Saved on this device first; it reaches the clinic with the next sync."
+      testID="new-client-screen"
+    >
       <View style={styles.column}>
         {error ? (
           <View style={styles.error} accessibilityRole="alert" testID="new-client-error">

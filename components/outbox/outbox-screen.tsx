@@ -24,10 +24,14 @@ export function formatBytes(bytes: number): string {
 function OutboxItemRow({ item }: { item: OutboxRow }) {
   const words = stateWords[item.state];
   return (
-    <View style={styles.row} testID={`outbox-item-${item.kind}`} accessibilityLabel={`${item.label ?? item.kind}, ${words.label}`}>
+    <View
+      style={styles.row}
+      testID={`outbox-item-${item.kind}`}
+      accessibilityLabel={`${item.label ?? item.kind}, ${words.label}`}
+    >
       <View style={styles.head}>
         <AppText variant="smallStrong" color={colors.ink} numberOfLines={1} style={styles.label}>
-          {item.label ?? (item.kind === 'clip' ? 'Sealed clip' : item.entity ?? 'Change')}
+          {item.label ?? (item.kind === 'clip' ? 'Sealed clip' : (item.entity ?? 'Change'))}
         </AppText>
         <Badge label={words.label} tone={words.tone} testID={`outbox-state-${item.state}`} />
       </View>
@@ -55,8 +59,22 @@ export function OutboxScreen() {
   const outbox = useOutbox();
   let body;
   if (outbox.isPending) body = <LoadingState label="Reading the outbox…" testID="outbox-loading" />;
-  else if (outbox.isError) body = <ErrorState message={outbox.error.message} onRetry={() => void outbox.refetch()} testID="outbox-error-state" />;
-  else if (outbox.data.length === 0) body = <EmptyState title="Nothing to send" detail="Finished sessions wait here, sealed, until the device reaches the clinic." testID="outbox-empty" />;
+  else if (outbox.isError)
+    body = (
+      <ErrorState
+        message={outbox.error.message}
+        onRetry={() => void outbox.refetch()}
+        testID="outbox-error-state"
+      />
+    );
+  else if (outbox.data.length === 0)
+    body = (
+      <EmptyState
+        title="Nothing to send"
+        detail="Finished sessions wait here, sealed, until the device reaches the clinic."
+        testID="outbox-empty"
+      />
+    );
   else {
     const pending = outbox.data.filter((i) => i.state !== 'sent');
     const total = pending.reduce((sum, i) => sum + i.sizeBytes, 0);
@@ -72,7 +90,11 @@ export function OutboxScreen() {
     );
   }
   return (
-    <ScreenFrame title="Outbox" subtitle="Sealed clips and session records, sent when the clinic can be reached." testID="outbox-screen">
+    <ScreenFrame
+      title="Outbox"
+      subtitle="Sealed clips and session records, sent when the clinic can be reached."
+      testID="outbox-screen"
+    >
       <View style={styles.column}>{body}</View>
     </ScreenFrame>
   );
@@ -81,7 +103,14 @@ export function OutboxScreen() {
 const styles = StyleSheet.create({
   column: { maxWidth: 720, width: '100%' },
   list: { gap: space.sm },
-  row: { padding: space.md, backgroundColor: colors.surface, borderRadius: radii.md, borderWidth: 1, borderColor: colors.line, gap: space.xs },
+  row: {
+    padding: space.md,
+    backgroundColor: colors.surface,
+    borderRadius: radii.md,
+    borderWidth: 1,
+    borderColor: colors.line,
+    gap: space.xs,
+  },
   head: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', gap: space.sm },
   label: { flex: 1 },
 });

@@ -23,6 +23,10 @@ scope.onmessage = (event) => {
       workerMs: performance.now() - started,
     });
   } catch (error) {
-    scope.postMessage({ id, ok: false, message: error instanceof Error ? error.message : 'The analysis failed on this clip.' });
+    scope.postMessage({
+      id,
+      ok: false,
+      message: error instanceof Error ? error.message : 'The analysis failed on this clip.',
+    });
   }
 };

@@ -54,7 +54,14 @@ export type NewClient = Pick<LocalClient, 'firstName' | 'lastName' | 'dateOfBirt
 
 export async function addClient(input: NewClient, now = new Date()): Promise<LocalClient> {
   const stamp = now.toISOString();
-  const client: LocalClient = { ...input, id: uuid(), origin: 'device', version: 0, createdAt: stamp, updatedAt: stamp };
+  const client: LocalClient = {
+    ...input,
+    id: uuid(),
+    origin: 'device',
+    version: 0,
+    createdAt: stamp,
+    updatedAt: stamp,
+  };
   await transaction(async (db) => {
     await db.runAsync(
       `INSERT INTO clients (id, first_name, last_name, date_of_birth, email, phone, origin, version, created_at, updated_at)
@@ -99,7 +106,10 @@ export async function rememberServerClient(
 
 export function getClient(id: string): Promise<LocalClient | null> {
   return read(async (db) => {
-    const row = await db.getFirstAsync<ClientRow>('SELECT * FROM clients WHERE id = ? AND deleted_at IS NULL', id);
+    const row = await db.getFirstAsync<ClientRow>(
+      'SELECT * FROM clients WHERE id = ? AND deleted_at IS NULL',
+      id,
+    );
     return row ? toClient(row) : null;
   });
 }

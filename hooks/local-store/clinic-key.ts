@@ -24,7 +24,10 @@ export async function cachedClinicKey(): Promise<Uint8Array | null> {
 
 /** Fetches and caches the clinic's sealing key; offline it keeps the cached one. */
 export async function refreshClinicKey(): Promise<Uint8Array | null> {
-  const result = await request({ method: 'GET', url: '/clinic/public-key', timeout: 8_000 }, keyResponseSchema);
+  const result = await request(
+    { method: 'GET', url: '/clinic/public-key', timeout: 8_000 },
+    keyResponseSchema,
+  );
   if (result.kind === 'ok') {
     await AsyncStorage.setItem(key, result.data.publicKey);
     return bytesOf(result.data.publicKey);

@@ -1,5 +1,7 @@
 import { v4 as uuid } from 'uuid';
 import { siteInfo } from '@/constants/sites';
+import { consentTextId } from '@/components/capture/consent-text';
+import type { Mutation, SyncEntity } from '@/shared/protocol/sync';
 import { sealClip, sha256Hex } from '@/shared/seal';
 import type { Site } from '@/shared/protocol';
 import { cachedClinicKey } from './clinic-key';
@@ -16,10 +18,6 @@ export class MissingClinicKeyError extends Error {
 }
 
 type PlainClip = { id: string; site: Site; clip_wav: Uint8Array };
-
-function mutation(entity: string, rowId: string, baseVersion: number, change: Record<string, unknown>) {
-  return { mutationId: uuid(), entity, rowId, baseVersion, change };
-}
 
 /**
  * Seals every clip of the session for the clinic and queues the session's rows and clips. Sealing happens in
@@ -42,16 +40,24 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
   const stamp = now.toISOString();
 
   await transaction(async (db) => {
-    const session = await db.getFirstAsync<Record<string, unknown> & { status: string; client_id: string; consent_id: string; version: number }>(
-      'SELECT * FROM sessions WHERE id = ?',
-      sessionId,
-    );
+    const session = await db.getFirstAsync<{
+      status: string;
+      client_id: string;
+      consent_id: string;
+      version: number;
+      started_at: string;
+    }>('SELECT * FROM sessions WHERE id = ?', sessionId);
     if (!session) throw new Error('This session is not on this device.');
     if (session.status !== 'in_progress') throw new Error('This session is already finished.');
-    const client = await db.getFirstAsync<Record<string, unknown> & { origin: string; first_name: string; last_name: string; version: number }>(
-      'SELECT * FROM clients WHERE id = ?',
-      session.client_id,
-    );
+    const client = await db.getFirstAsync<{
+      origin: string;
+      first_name: string;
+      last_name: string;
+      version: number;
+      date_of_birth: string | null;
+      email: string | null;
+      phone: string | null;
+    }>('SELECT * FROM clients WHERE id = ?', session.client_id);
     if (!client) throw new Error('The session’s client is missing on this device.');
     const who = `${client.first_name} ${client.last_name}`;
 
@@ -72,63 +78,136 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
       );
     }
 
-    const queued = await db.getFirstAsync<{ n: number }>(
-      "SELECT count(*) AS n FROM outbox WHERE entity = 'client' AND row_id = ?",
-      session.client_id,
-    );
-    if (client.origin === 'device' && !queued?.n) {
-      const change = { firstName: client.first_name, lastName: client.last_name, dateOfBirth: client.date_of_birth, email: client.email, phone: client.phone };
-      const body = mutation('client', session.client_id, client.version, change);
-      await enqueue(db, { kind: 'mutation', entity: 'client', rowId: session.client_id, mutation: body, sizeBytes: JSON.stringify(body).length, label: `Client ${who}` }, now);
+    const queue = async (
+      entity: SyncEntity,
+      rowId: string,
+      baseVersion: number,
+      change: Record<string, unknown>,
+      label: string,
+    ) => {
+      const body: Mutation = { mutationId: uuid(), entity, id: rowId, baseVersion, change };
+      await enqueue(
+        db,
+        { kind: 'mutation', entity, rowId, mutation: body, sizeBytes: JSON.stringify(body).length, label },
+        now,
+      );
+    };
+    const alreadyQueued = async (entity: SyncEntity, rowId: string) =>
+      Boolean(
+        (
+          await db.getFirstAsync<{ n: number }>(
+            'SELECT count(*) AS n FROM outbox WHERE entity = ? AND row_id = ?',
+            entity,
+            rowId,
+          )
+        )?.n,
+      );
+
+    if (client.origin === 'device' && !(await alreadyQueued('clients', session.client_id))) {
+      await queue(
+        'clients',
+        session.client_id,
+        client.version,
+        {
+          firstName: client.first_name,
+          lastName: client.last_name,
+          dateOfBirth: client.date_of_birth,
+          email: client.email,
+          phone: client.phone,
+          notes: null,
+        },
+        `Client ${who}`,
+      );
     }
-    const consent = await db.getFirstAsync<Record<string, unknown>>('SELECT * FROM consents WHERE id = ?', session.consent_id);
-    const consentQueued = await db.getFirstAsync<{ n: number }>(
-      "SELECT count(*) AS n FROM outbox WHERE entity = 'consent' AND row_id = ?",
-      session.consent_id,
-    );
-    if (consent && !consentQueued?.n) {
-      const body = mutation('consent', session.consent_id, 0, {
-        clientId: consent.client_id,
-        signedName: consent.signed_name,
-        signedOn: consent.signed_on,
-        textVersion: consent.text_version,
-      });
-      await enqueue(db, { kind: 'mutation', entity: 'consent', rowId: session.consent_id, mutation: body, sizeBytes: JSON.stringify(body).length, label: `Consent of ${who}` }, now);
+    const consent = await db.getFirstAsync<{
+      client_id: string;
+      signed_name: string;
+      signed_on: string;
+      text_version: string;
+    }>('SELECT * FROM consents WHERE id = ?', session.consent_id);
+    if (consent && !(await alreadyQueued('consents', session.consent_id))) {
+      await queue(
+        'consents',
+        session.consent_id,
+        0,
+        {
+          clientId: consent.client_id,
+          consentTextId,
+          consentTextVersion: Number(consent.text_version),
+          typedName: consent.signed_name,
+          consentDate: consent.signed_on,
+        },
+        `Consent of ${who}`,
+      );
     }
 
-    await db.runAsync("UPDATE sessions SET status = 'completed', finished_at = ?, updated_at = ? WHERE id = ?", stamp, stamp, sessionId);
-    const sessionBody = mutation('session', sessionId, session.version, {
-      clientId: session.client_id,
-      consentId: session.consent_id,
-      status: 'completed',
-      clipSeconds: session.clip_seconds,
-      startedAt: session.started_at,
-      finishedAt: stamp,
-    });
-    await enqueue(db, { kind: 'mutation', entity: 'session', rowId: sessionId, mutation: sessionBody, sizeBytes: JSON.stringify(sessionBody).length, label: `Session of ${who}` }, now);
-
-    const recordings = await db.getAllAsync<Record<string, unknown> & { id: string; site: Site }>(
-      'SELECT id, site, outcome, source, skip_reason, note, verdict, heart_rate_bpm, duration_s, sample_rate, blob_hash, size_bytes FROM site_recordings WHERE session_id = ?',
+    await db.runAsync(
+      "UPDATE sessions SET status = 'completed', finished_at = ?, updated_at = ? WHERE id = ?",
+      stamp,
+      stamp,
       sessionId,
     );
-    for (const recording of recordings) {
-      const body = mutation('site_recording', recording.id, 0, {
-        sessionId,
-        site: recording.site,
-        outcome: recording.outcome,
-        source: recording.source,
-        skipReason: recording.skip_reason,
-        note: recording.note,
-        verdict: recording.verdict,
-        heartRateBpm: recording.heart_rate_bpm,
-        durationS: recording.duration_s,
-        sampleRate: recording.sample_rate,
-        blobHash: recording.blob_hash,
-      });
-      await enqueue(db, { kind: 'mutation', entity: 'site_recording', rowId: recording.id, mutation: body, sizeBytes: JSON.stringify(body).length, label: `${siteInfo(recording.site).label} record · ${who}` }, now);
+    await queue(
+      'recording_sessions',
+      sessionId,
+      session.version,
+      {
+        clientId: session.client_id,
+        status: 'completed',
+        startedAt: session.started_at,
+        finishedAt: stamp,
+        findings: null,
+        plan: null,
+        followUpDate: null,
+      },
+      `Session of ${who}`,
+    );
+
+    const recordings = await db.getAllAsync<{
+      id: string;
+      site: Site;
+      outcome: string;
+      skip_reason: string | null;
+      note: string | null;
+      verdict: string | null;
+      duration_s: number | null;
+      blob_hash: string | null;
+      updated_at: string;
+    }>(
+      'SELECT id, site, outcome, skip_reason, note, verdict, duration_s, blob_hash, updated_at FROM site_recordings WHERE session_id = ?',
+      sessionId,
+    );
+    for (const r of recordings) {
+      const recorded = r.outcome === 'recorded';
+      await queue(
+        'site_recordings',
+        r.id,
+        0,
+        {
+          sessionId,
+          site: r.site,
+          qualityVerdict: recorded ? r.verdict : null,
+          clipSha256: r.blob_hash,
+          durationS: recorded ? r.duration_s : null,
+          recordedAt: recorded ? r.updated_at : null,
+          skippedReason: recorded ? null : r.skip_reason,
+          keepAnywayNote: r.note,
+        },
+        `${siteInfo(r.site).label} ${recorded ? 'record' : 'skip'} · ${who}`,
+      );
     }
     for (const clip of sealed) {
-      await enqueue(db, { kind: 'clip', rowId: clip.id, blobHash: clip.hash, sizeBytes: clip.sealed.byteLength, label: `${siteInfo(clip.site).label} clip (sealed) · ${who}` }, now);
+      await enqueue(
+        db,
+        {
+          kind: 'clip',
+          rowId: clip.id,
+          blobHash: clip.hash,
+          sizeBytes: clip.sealed.byteLength,
+          label: `${siteInfo(clip.site).label} clip (sealed) · ${who}`,
+        },
+        now,
+      );
     }
   });
   // Rebuild the file so no page of the old plaintext survives (secure_delete already zeroes freed cells).

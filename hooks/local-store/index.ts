@@ -6,3 +6,4 @@ export * from './queries';
 export * from './records';
 export * from './sessions';
 export { cachedClinicKey, refreshClinicKey } from './clinic-key';
+export { LocalSyncStorage, localSyncStorage } from './sync-storage';

@@ -1,6 +1,8 @@
 import { v4 as uuid } from 'uuid';
 import type { SQLiteDatabase } from 'expo-sqlite';
 import { read, write } from './database';
+import type { Mutation, SyncEntity } from '@/shared/protocol/sync';
+import type { OutboxItemPatch } from '@/shared/sync/storage';
 import type { OutboxItem, OutboxRow, OutboxState } from './records';
 
 type OutboxDbRow = {
@@ -16,7 +18,9 @@ type OutboxDbRow = {
   last_error: string | null;
   next_attempt_at: number;
   progress: number;
-  created_at: string;
+  created_at: number;
+  upload_url: string | null;
+  conflict_id: string | null;
   label: string | null;
 };
 
@@ -24,9 +28,9 @@ export function toOutboxRow(row: OutboxDbRow): OutboxRow {
   return {
     id: row.id,
     kind: row.kind,
-    ...(row.entity ? { entity: row.entity } : {}),
+    ...(row.entity ? { entity: row.entity as SyncEntity } : {}),
     rowId: row.row_id,
-    ...(row.mutation_json ? { mutation: JSON.parse(row.mutation_json) as unknown } : {}),
+    ...(row.mutation_json ? { mutation: JSON.parse(row.mutation_json) as Mutation } : {}),
     ...(row.blob_hash ? { blobHash: row.blob_hash } : {}),
     sizeBytes: row.size_bytes,
     state: row.state,
@@ -35,11 +39,16 @@ export function toOutboxRow(row: OutboxDbRow): OutboxRow {
     nextAttemptAt: row.next_attempt_at,
     progress: row.progress,
     createdAt: row.created_at,
+    ...(row.upload_url ? { uploadUrl: row.upload_url } : {}),
+    ...(row.conflict_id ? { conflictId: row.conflict_id } : {}),
     label: row.label,
   };
 }
 
-export type NewOutboxItem = Omit<OutboxItem, 'id' | 'state' | 'attempts' | 'nextAttemptAt' | 'progress' | 'createdAt'> & {
+export type NewOutboxItem = Omit<
+  OutboxItem,
+  'id' | 'state' | 'attempts' | 'nextAttemptAt' | 'progress' | 'createdAt' | 'uploadUrl' | 'conflictId'
+> & {
   label: string;
 };
 
@@ -58,7 +67,7 @@ export async function enqueue(db: SQLiteDatabase, item: NewOutboxItem, now: Date
     item.blobHash ?? null,
     item.sizeBytes,
     now.getTime(),
-    now.toISOString(),
+    now.getTime(),
     item.label,
   );
   return id;
@@ -66,7 +75,7 @@ export async function enqueue(db: SQLiteDatabase, item: NewOutboxItem, now: Date
 
 export function listOutbox(): Promise<OutboxRow[]> {
   return read(async (db) => {
-    const rows = await db.getAllAsync<OutboxDbRow>('SELECT * FROM outbox ORDER BY created_at, rowid');
+    const rows = await db.getAllAsync<OutboxDbRow>('SELECT * FROM outbox ORDER BY created_at, id');
     return rows.map(toOutboxRow);
   });
 }
@@ -74,31 +83,56 @@ export function listOutbox(): Promise<OutboxRow[]> {
 /** Items still to deliver or needing attention: everything not yet sent. */
 export function pendingOutboxCount(): Promise<number> {
   return read(async (db) => {
-    const row = await db.getFirstAsync<{ n: number }>("SELECT count(*) AS n FROM outbox WHERE state <> 'sent'");
+    const row = await db.getFirstAsync<{ n: number }>(
+      "SELECT count(*) AS n FROM outbox WHERE state <> 'sent'",
+    );
     return row?.n ?? 0;
   });
 }
 
 export function readSealedBlob(hash: string): Promise<Uint8Array | null> {
   return read(async (db) => {
-    const row = await db.getFirstAsync<{ bytes: Uint8Array }>('SELECT bytes FROM sealed_blobs WHERE hash = ?', hash);
+    const row = await db.getFirstAsync<{ bytes: Uint8Array }>(
+      'SELECT bytes FROM sealed_blobs WHERE hash = ?',
+      hash,
+    );
     return row ? new Uint8Array(row.bytes) : null;
   });
 }
 
-export function updateOutboxItem(
-  id: string,
-  change: Partial<Pick<OutboxItem, 'state' | 'attempts' | 'lastError' | 'nextAttemptAt' | 'progress'>>,
-): Promise<void> {
+const patchColumns: Record<keyof OutboxItemPatch, string> = {
+  entity: 'entity',
+  rowId: 'row_id',
+  mutation: 'mutation_json',
+  blobHash: 'blob_hash',
+  sizeBytes: 'size_bytes',
+  state: 'state',
+  attempts: 'attempts',
+  lastError: 'last_error',
+  nextAttemptAt: 'next_attempt_at',
+  progress: 'progress',
+  uploadUrl: 'upload_url',
+  conflictId: 'conflict_id',
+};
+
+export function updateOutboxItem(id: string, patch: OutboxItemPatch): Promise<void> {
   return write(async (db) => {
     const sets: string[] = [];
     const values: (string | number | null)[] = [];
-    if (change.state !== undefined) (sets.push('state = ?'), values.push(change.state));
-    if (change.attempts !== undefined) (sets.push('attempts = ?'), values.push(change.attempts));
-    if ('lastError' in change) (sets.push('last_error = ?'), values.push(change.lastError ?? null));
-    if (change.nextAttemptAt !== undefined) (sets.push('next_attempt_at = ?'), values.push(change.nextAttemptAt));
-    if (change.progress !== undefined) (sets.push('progress = ?'), values.push(change.progress));
+    for (const [field, column] of Object.entries(patchColumns) as [keyof OutboxItemPatch, string][]) {
+      if (!(field in patch)) continue;
+      const value = patch[field];
+      sets.push(`${column} = ?`);
+      values.push(
+        value === undefined
+          ? null
+          : field === 'mutation'
+            ? JSON.stringify(value)
+            : (value as string | number),
+      );
+    }
     if (sets.length === 0) return;
-    await db.runAsync(`UPDATE outbox SET ${sets.join(', ')} WHERE id = ?`, ...values, id);
+    const result = await db.runAsync(`UPDATE outbox SET ${sets.join(', ')} WHERE id = ?`, ...values, id);
+    if (result.changes === 0) throw new Error(`No outbox item ${id}`);
   });
 }

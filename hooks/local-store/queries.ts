@@ -1,6 +1,14 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useEffect } from 'react';
-import { addClient, currentConsent, getClient, listClients, recordConsent, type NewClient, type NewConsent } from './clients';
+import {
+  addClient,
+  currentConsent,
+  getClient,
+  listClients,
+  recordConsent,
+  type NewClient,
+  type NewConsent,
+} from './clients';
 import { refreshClinicKey } from './clinic-key';
 import { finishSession } from './finish-session';
 import { listOutbox, pendingOutboxCount } from './outbox';
@@ -29,11 +37,19 @@ export function useLocalClient(id: string) {
 }
 
 export function useCurrentConsent(clientId: string, textVersion: string) {
-  return useQuery({ ...localQuery, queryKey: localKeys.consent(clientId, textVersion), queryFn: () => currentConsent(clientId, textVersion) });
+  return useQuery({
+    ...localQuery,
+    queryKey: localKeys.consent(clientId, textVersion),
+    queryFn: () => currentConsent(clientId, textVersion),
+  });
 }
 
 export function useClientSessions(clientId: string) {
-  return useQuery({ ...localQuery, queryKey: localKeys.sessionsOf(clientId), queryFn: () => listSessionsForClient(clientId) });
+  return useQuery({
+    ...localQuery,
+    queryKey: localKeys.sessionsOf(clientId),
+    queryFn: () => listSessionsForClient(clientId),
+  });
 }
 
 export function useLocalSession(id: string) {
@@ -53,7 +69,12 @@ export function useOutbox() {
 
 /** The number shown beside the outbox in the navigation: items not yet delivered. */
 export function useOutboxCount() {
-  return useQuery({ ...localQuery, queryKey: localKeys.outboxCount, queryFn: pendingOutboxCount, refetchInterval: 5_000 });
+  return useQuery({
+    ...localQuery,
+    queryKey: localKeys.outboxCount,
+    queryFn: pendingOutboxCount,
+    refetchInterval: 5_000,
+  });
 }
 
 function useInvalidateLocal() {
@@ -63,12 +84,20 @@ function useInvalidateLocal() {
 
 export function useAddClient() {
   const invalidate = useInvalidateLocal();
-  return useMutation({ networkMode: 'always', mutationFn: (input: NewClient) => addClient(input), onSuccess: invalidate });
+  return useMutation({
+    networkMode: 'always',
+    mutationFn: (input: NewClient) => addClient(input),
+    onSuccess: invalidate,
+  });
 }
 
 export function useRecordConsent() {
   const invalidate = useInvalidateLocal();
-  return useMutation({ networkMode: 'always', mutationFn: (input: NewConsent) => recordConsent(input), onSuccess: invalidate });
+  return useMutation({
+    networkMode: 'always',
+    mutationFn: (input: NewConsent) => recordConsent(input),
+    onSuccess: invalidate,
+  });
 }
 
 export function useStartSession() {
@@ -82,7 +111,11 @@ export function useStartSession() {
 
 export function useFinishSession() {
   const invalidate = useInvalidateLocal();
-  return useMutation({ networkMode: 'always', mutationFn: (sessionId: string) => finishSession(sessionId), onSuccess: invalidate });
+  return useMutation({
+    networkMode: 'always',
+    mutationFn: (sessionId: string) => finishSession(sessionId),
+    onSuccess: invalidate,
+  });
 }
 
 /** Fetches the clinic's sealing key while online, so sessions finished offline can still be sealed. */

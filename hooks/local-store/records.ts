@@ -30,7 +30,8 @@ export type LocalSession = {
   clientId: string;
   consentId: string;
   status: SessionStatus;
-  currentSite: Site;
+  /** 'review' once every site is recorded or skipped. */
+  currentSite: Site | 'review';
   clipSeconds: number;
   startedAt: string;
   finishedAt: string | null;
@@ -64,23 +65,7 @@ export type SiteRecording = {
   updatedAt: string;
 };
 
-export type OutboxState = 'waiting' | 'sending' | 'sent' | 'failed' | 'conflict';
-
-/** The sync engine's queue item, as stored on the device. */
-export type OutboxItem = {
-  id: string;
-  kind: 'mutation' | 'clip';
-  entity?: string;
-  rowId: string;
-  mutation?: unknown;
-  blobHash?: string;
-  sizeBytes: number;
-  state: OutboxState;
-  attempts: number;
-  lastError?: string;
-  nextAttemptAt: number;
-  progress: number;
-  createdAt: string;
-};
+export type { OutboxItem, OutboxState } from '@/shared/sync/storage';
+import type { OutboxItem } from '@/shared/sync/storage';
 
 export type OutboxRow = OutboxItem & { label: string | null };

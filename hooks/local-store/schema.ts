@@ -83,8 +83,19 @@ const steps: string[] = [
     last_error TEXT,
     next_attempt_at INTEGER NOT NULL,
     progress REAL NOT NULL DEFAULT 0,
-    created_at TEXT NOT NULL,
+    created_at INTEGER NOT NULL,
+    upload_url TEXT,
+    conflict_id TEXT,
     label TEXT
+  );
+  CREATE TABLE synced_rows (
+    entity TEXT NOT NULL,
+    id TEXT NOT NULL,
+    version INTEGER NOT NULL,
+    change_seq TEXT NOT NULL,
+    deleted_at TEXT,
+    data_json TEXT NOT NULL,
+    PRIMARY KEY (entity, id)
   );
   CREATE INDEX outbox_by_state ON outbox(state, next_attempt_at);
   CREATE TABLE kv (

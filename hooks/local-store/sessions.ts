@@ -10,7 +10,7 @@ type SessionRow = {
   client_id: string;
   consent_id: string;
   status: LocalSession['status'];
-  current_site: Site;
+  current_site: Site | 'review';
   clip_seconds: number;
   started_at: string;
   finished_at: string | null;
@@ -115,7 +115,10 @@ export async function startSession(
 
 export function getSession(id: string): Promise<LocalSession | null> {
   return read(async (db) => {
-    const row = await db.getFirstAsync<SessionRow>('SELECT * FROM sessions WHERE id = ? AND deleted_at IS NULL', id);
+    const row = await db.getFirstAsync<SessionRow>(
+      'SELECT * FROM sessions WHERE id = ? AND deleted_at IS NULL',
+      id,
+    );
     return row ? toSession(row) : null;
   });
 }
@@ -159,7 +162,7 @@ export type KeptTake = {
   analysis: AnalysisResult;
   trace: DisplayTrace;
   note: string | null;
-  nextSite: Site;
+  nextSite: Site | 'review';
 };
 
 /** A kept take replaces any earlier one for the site, and the session moves on, in one transaction. */
@@ -196,7 +199,7 @@ export async function keepTake(take: KeptTake, now = new Date()): Promise<void> 
 }
 
 export async function skipSite(
-  input: { sessionId: string; site: Site; reason: string; nextSite: Site },
+  input: { sessionId: string; site: Site; reason: string; nextSite: Site | 'review' },
   now = new Date(),
 ): Promise<void> {
   const stamp = now.toISOString();
@@ -218,19 +221,40 @@ export async function skipSite(
   });
 }
 
-export async function setCurrentSite(sessionId: string, site: Site, now = new Date()): Promise<void> {
+export async function setCurrentSite(
+  sessionId: string,
+  site: Site | 'review',
+  now = new Date(),
+): Promise<void> {
   await transaction(async (db) => {
     await assertOpen(db, sessionId);
     await moveTo(db, sessionId, site, now.toISOString());
   });
 }
 
-async function moveTo(db: Parameters<Parameters<typeof transaction>[0]>[0], sessionId: string, site: Site, stamp: string) {
-  await db.runAsync('UPDATE sessions SET current_site = ?, updated_at = ? WHERE id = ?', site, stamp, sessionId);
+async function moveTo(
+  db: Parameters<Parameters<typeof transaction>[0]>[0],
+  sessionId: string,
+  site: Site | 'review',
+  stamp: string,
+) {
+  await db.runAsync(
+    'UPDATE sessions SET current_site = ?, updated_at = ? WHERE id = ?',
+    site,
+    stamp,
+    sessionId,
+  );
 }
 
-async function assertOpen(db: Parameters<Parameters<typeof transaction>[0]>[0], sessionId: string): Promise<void> {
-  const row = await db.getFirstAsync<{ status: string }>('SELECT status FROM sessions WHERE id = ?', sessionId);
+async function assertOpen(
+  db: Parameters<Parameters<typeof transaction>[0]>[0],
+  sessionId: string,
+): Promise<void> {
+  const row = await db.getFirstAsync<{ status: string }>(
+    'SELECT status FROM sessions WHERE id = ?',
+    sessionId,
+  );
   if (!row) throw new Error('This session is not on this device.');
-  if (row.status !== 'in_progress') throw new Error('This session is finished and sealed; start a new session to record again.');
+  if (row.status !== 'in_progress')
+    throw new Error('This session is finished and sealed; start a new session to record again.');
 }

@@ -32,16 +32,24 @@ export async function decodeImport(bytes: Uint8Array, name: string): Promise<Pcm
   try {
     return await decodeWithBrowser(bytes.slice().buffer);
   } catch {
-    throw new ImportError(`“${name}” is not audio this browser can read. Export it from the stethoscope as WAV and try again.`);
+    throw new ImportError(
+      `“${name}” is not audio this browser can read. Export it from the stethoscope as WAV and try again.`,
+    );
   }
 }
 
 /** Lets the operator pick a file; null when they cancel. */
 export async function pickAudioFile(): Promise<ImportedClip | null> {
-  const picked = await DocumentPicker.getDocumentAsync({ type: ['audio/*', '.wav', '.wave'], copyToCacheDirectory: false, multiple: false });
+  const picked = await DocumentPicker.getDocumentAsync({
+    type: ['audio/*', '.wav', '.wave'],
+    copyToCacheDirectory: false,
+    multiple: false,
+  });
   if (picked.canceled || !picked.assets?.[0]) return null;
   const asset = picked.assets[0];
-  const bytes = asset.file ? new Uint8Array(await asset.file.arrayBuffer()) : new Uint8Array(await (await fetch(asset.uri)).arrayBuffer());
+  const bytes = asset.file
+    ? new Uint8Array(await asset.file.arrayBuffer())
+    : new Uint8Array(await (await fetch(asset.uri)).arrayBuffer());
   const pcm = await decodeImport(bytes, asset.name);
   return { ...pcm, name: asset.name, bytes };
 }
