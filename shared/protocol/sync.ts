@@ -5,6 +5,14 @@ import { qualityVerdictSchema, sessionStatusSchema, siteSchema } from './clinic'
 export const SYNC_PROTOCOL_VERSION = 1;
 export const SYNC_PROTOCOL_HEADER = 'x-fourpoint-protocol';
 
+export const SYNC_PATHS = {
+  push: '/api/sync/push',
+  pull: '/api/sync/pull',
+  uploads: '/api/sync/uploads',
+  blob: (sha256: string) => `/api/sync/blobs/${sha256}`,
+  clinicPublicKey: '/api/clinic/public-key',
+} as const;
+
 export const syncEntitySchema = z.enum(['clients', 'consents', 'recording_sessions', 'site_recordings']);
 export type SyncEntity = z.infer<typeof syncEntitySchema>;
 export const syncEntities: readonly SyncEntity[] = syncEntitySchema.options;

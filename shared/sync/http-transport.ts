@@ -1,6 +1,7 @@
 import axios, { type AxiosInstance } from 'axios';
 import * as tus from 'tus-js-client';
 import {
+  SYNC_PATHS,
   SYNC_PROTOCOL_HEADER,
   SYNC_PROTOCOL_VERSION,
   blobStatusResponseSchema,
@@ -19,12 +20,7 @@ export interface HttpTransportOptions {
   axiosInstance?: AxiosInstance;
 }
 
-export const SYNC_PATHS = {
-  push: '/api/sync/push',
-  pull: '/api/sync/pull',
-  uploads: '/api/sync/uploads',
-  blob: (sha256: string) => `/api/sync/blobs/${sha256}`,
-} as const;
+export { SYNC_PATHS };
 
 function messageOf(data: unknown, fallback: string): string {
   const error = (data as { error?: { message?: unknown } } | undefined)?.error;

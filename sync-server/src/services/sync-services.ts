@@ -1,0 +1,48 @@
+import path from 'node:path';
+import type { Server } from '@tus/server';
+import type { Sequelize } from 'sequelize';
+import { receiveClip } from '../use-cases/sync/clips';
+import { LocalDiskBlobStore, type BlobStore } from './blob-store';
+import { ClinicKeyStore } from './clinic-keys';
+import { createTusServer } from './tus-uploads';
+
+export interface SyncServices {
+  blobStore: BlobStore;
+  clinicKeys: ClinicKeyStore;
+  uploadDir: string;
+  tus: Server;
+}
+
+const REPO_ROOT = path.resolve(__dirname, '../../..');
+const bySequelize = new WeakMap<Sequelize, SyncServices>();
+
+/**
+ * The sync routes' services, one set per database connection. Configuration: CLINIC_KEYS_DIR (private keys),
+ * BLOB_DIR (kept clips), UPLOAD_DIR (uploads in progress); all default under .data/.
+ */
+export function syncServicesFor(sequelize: Sequelize): SyncServices {
+  const existing = bySequelize.get(sequelize);
+  if (existing) return existing;
+  return provideSyncServices(sequelize, {});
+}
+
+export function provideSyncServices(
+  sequelize: Sequelize,
+  options: { blobStore?: BlobStore; clinicKeysDir?: string; uploadDir?: string },
+): SyncServices {
+  const data = path.join(REPO_ROOT, '.data');
+  const blobStore =
+    options.blobStore ?? new LocalDiskBlobStore(process.env.BLOB_DIR ?? path.join(data, 'blobs'));
+  const clinicKeys = new ClinicKeyStore(
+    options.clinicKeysDir ?? process.env.CLINIC_KEYS_DIR ?? path.join(data, 'clinic-keys'),
+  );
+  const uploadDir = options.uploadDir ?? process.env.UPLOAD_DIR ?? path.join(data, 'uploads');
+  const tus = createTusServer(uploadDir, {
+    onComplete: async (clinicId, sha256, bytes) => {
+      await receiveClip({ sequelize, blobStore, clinicKeys }, clinicId, sha256, bytes);
+    },
+  });
+  const services = { blobStore, clinicKeys, uploadDir, tus };
+  bySequelize.set(sequelize, services);
+  return services;
+}

@@ -1,0 +1,276 @@
+import { randomUUID } from 'node:crypto';
+import type { Sequelize } from 'sequelize';
+import {
+  serverOwnedFields,
+  syncFieldSchemas,
+  type Mutation,
+  type MutationResult,
+  type PushRequest,
+  type PushResponse,
+  type RejectionCode,
+  type RowData,
+} from '@/shared/protocol/sync';
+import { SyncRepository, parentsOf, type StoredRow } from '../../repositories/sync-repository';
+import type { Caller } from '../context';
+
+class Rejection extends Error {
+  constructor(
+    readonly code: RejectionCode,
+    message: string,
+  ) {
+    super(message);
+  }
+}
+
+const rejected = (m: Mutation, code: RejectionCode, reason: string): MutationResult => ({
+  mutationId: m.mutationId,
+  status: 'rejected',
+  code,
+  reason,
+});
+
+/** Splits a change into field values and the tombstone, refusing anything a device may not write. */
+export function checkChange(m: Mutation): { fields: RowData; deletedAt: string | undefined } {
+  const schema = syncFieldSchemas[m.entity];
+  const { deletedAt, ...fields } = m.change;
+  const serverOwned = serverOwnedFields[m.entity] as readonly string[];
+  for (const name of Object.keys(fields)) {
+    if (serverOwned.includes(name))
+      throw new Rejection('invalid_change', `${name} is set by the server, not by a device.`);
+    if (!(name in schema.shape)) throw new Rejection('invalid_change', `${m.entity} has no field ${name}.`);
+  }
+  if (deletedAt !== undefined && (typeof deletedAt !== 'string' || Number.isNaN(Date.parse(deletedAt)))) {
+    throw new Rejection(
+      'invalid_change',
+      'deletedAt must be a time: a deleted row cannot be brought back by a device.',
+    );
+  }
+  const parsed = schema.partial().safeParse(fields);
+  if (!parsed.success) {
+    const detail = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
+    throw new Rejection('invalid_change', `The change is not valid: ${detail}`);
+  }
+  return { fields: parsed.data as RowData, deletedAt };
+}
+
+function replayOf(mutationId: string, recorded: Record<string, unknown>): MutationResult {
+  if (recorded.status === 'conflict') {
+    return {
+      mutationId,
+      status: 'already_applied',
+      original: 'conflict',
+      conflictId: String(recorded.conflictId),
+    };
+  }
+  return {
+    mutationId,
+    status: 'already_applied',
+    original: 'applied',
+    newVersion: Number(recorded.newVersion),
+  };
+}
+
+const PG_RETRY = new Set(['40001', '40P01']);
+
+function pgCode(error: unknown): { code?: string; constraint?: string; detail?: string } {
+  const e = error as {
+    parent?: { code?: string; constraint?: string; detail?: string };
+    original?: { code?: string };
+  };
+  return e?.parent ?? {};
+}
+
+/** Applies each mutation in its own transaction, in order; one bad mutation does not stop the others. */
+export async function pushChanges(
+  sequelize: Sequelize,
+  caller: Caller,
+  request: PushRequest,
+): Promise<PushResponse> {
+  const results: MutationResult[] = [];
+  for (const mutation of request.mutations)
+    results.push(await applyOne(sequelize, caller, request.deviceId, mutation));
+  return { results };
+}
+
+async function applyOne(
+  sequelize: Sequelize,
+  caller: Caller,
+  deviceId: string,
+  m: Mutation,
+): Promise<MutationResult> {
+  let checked: ReturnType<typeof checkChange>;
+  try {
+    checked = checkChange(m);
+  } catch (error) {
+    if (error instanceof Rejection) return rejected(m, error.code, error.message);
+    throw error;
+  }
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await sequelize.transaction((transaction) =>
+        applyInTransaction(new SyncRepository(sequelize, transaction), caller, deviceId, m, checked),
+      );
+    } catch (error) {
+      if (error instanceof Rejection) return rejected(m, error.code, error.message);
+      const { code, constraint, detail } = pgCode(error);
+      // Two deliveries of one mutation at once: the second waits on the first's key, then finds it recorded.
+      if (code === '23505' && constraint === 'applied_mutations_pkey' && attempt < 4) continue;
+      if (code && PG_RETRY.has(code) && attempt < 4) continue;
+      if (code === '23505' && constraint === 'site_recordings_one_per_site') {
+        return rejected(
+          m,
+          'invalid_change',
+          'This session already has a recording for that site; change the existing one instead.',
+        );
+      }
+      if (code === '23505')
+        return rejected(m, 'invalid_change', `A row with this id already exists (${detail ?? constraint}).`);
+      if (code === '23503')
+        return rejected(m, 'missing_parent', 'A row this change points at is not on the server.');
+      if (code === '23514' || code === '22P02' || code === '22007' || code === '22008') {
+        return rejected(m, 'invalid_change', `The server cannot store this change (${constraint ?? code}).`);
+      }
+      return rejected(
+        m,
+        'server_error',
+        'The server could not apply this change just now; it will be sent again.',
+      );
+    }
+  }
+}
+
+async function applyInTransaction(
+  repo: SyncRepository,
+  caller: Caller,
+  deviceId: string,
+  m: Mutation,
+  { fields, deletedAt }: ReturnType<typeof checkChange>,
+): Promise<MutationResult> {
+  await repo.lockClinicForWrite(caller.clinicId);
+  const recorded = await repo.findAppliedMutation(m.mutationId);
+  if (recorded) {
+    if (recorded.clinicId !== caller.clinicId)
+      throw new Rejection('forbidden', 'This change id belongs to another clinic.');
+    return replayOf(m.mutationId, recorded.result);
+  }
+
+  const row = await repo.lockRow(m.entity, m.id);
+  if (row && row.clinicId !== caller.clinicId)
+    throw new Rejection('forbidden', 'This row belongs to another clinic.');
+
+  let result: MutationResult;
+  if (!row) {
+    if (m.baseVersion !== 0) {
+      throw new Rejection(
+        'unknown_row',
+        `There is no ${m.entity} row ${m.id} on the server to change (version ${m.baseVersion}).`,
+      );
+    }
+    const full = syncFieldSchemas[m.entity].safeParse(fields);
+    if (!full.success) {
+      const missing = full.error.issues.map((i) => i.path.join('.')).join(', ');
+      throw new Rejection(
+        'invalid_change',
+        `A new ${m.entity} row needs every field; missing or invalid: ${missing}.`,
+      );
+    }
+    await checkParents(repo, caller.clinicId, m, fields);
+    await repo.insertRow(
+      m.entity,
+      caller.clinicId,
+      m.id,
+      { ...fields, ...(await serverFieldsOnCreate(repo, caller, m, fields)) },
+      deletedAt ?? null,
+    );
+    result = { mutationId: m.mutationId, status: 'applied', newVersion: 1 };
+  } else if (row.version !== m.baseVersion) {
+    const conflictId = randomUUID();
+    await repo.insertConflict({
+      id: conflictId,
+      clinicId: caller.clinicId,
+      entity: m.entity,
+      rowId: m.id,
+      mutationId: m.mutationId,
+      deviceId,
+      userId: caller.userId,
+      serverVersion: { ...snapshot(row), lastWriter: await repo.lastWriterOf(m.id) },
+      clientVersion: {
+        version: m.baseVersion,
+        deletedAt: deletedAt ?? row.deletedAt,
+        data: { ...row.data, ...fields },
+        change: m.change,
+      },
+    });
+    result = { mutationId: m.mutationId, status: 'conflict', conflictId, serverVersion: row.version };
+  } else {
+    await checkParents(repo, caller.clinicId, m, fields);
+    const newVersion = row.version + 1;
+    await repo.updateRow(m.entity, m.id, fields, deletedAt, newVersion);
+    if (
+      m.entity === 'site_recordings' &&
+      'clipSha256' in fields &&
+      fields.clipSha256 !== row.data.clipSha256
+    ) {
+      await repo.setServerFields(
+        m.entity,
+        m.id,
+        await clipFields(repo, caller.clinicId, fields.clipSha256 as string | null),
+      );
+    }
+    result = { mutationId: m.mutationId, status: 'applied', newVersion };
+  }
+
+  await repo.recordMutation({
+    mutationId: m.mutationId,
+    clinicId: caller.clinicId,
+    userId: caller.userId,
+    deviceId,
+    entity: m.entity,
+    rowId: m.id,
+    result: result as unknown as Record<string, unknown>,
+  });
+  return result;
+}
+
+function snapshot(row: StoredRow): Record<string, unknown> {
+  return { version: row.version, deletedAt: row.deletedAt, data: row.data, updatedAt: row.updatedAt };
+}
+
+async function checkParents(
+  repo: SyncRepository,
+  clinicId: string,
+  m: Mutation,
+  fields: RowData,
+): Promise<void> {
+  for (const [field, table] of Object.entries(parentsOf[m.entity])) {
+    const id = fields[field];
+    if (typeof id !== 'string') continue;
+    if (!(await repo.parentExists(table, clinicId, id))) {
+      throw new Rejection(
+        'missing_parent',
+        `The ${field.replace(/Id$/, '')} this ${m.entity} row belongs to (${id}) is not on the server.`,
+      );
+    }
+  }
+}
+
+async function clipFields(repo: SyncRepository, clinicId: string, sha256: string | null): Promise<RowData> {
+  if (!sha256) return { clipState: 'none', analysis: null };
+  const blob = await repo.clipBlob(clinicId, sha256);
+  if (blob?.state === 'stored') return { clipState: 'stored', analysis: blob.analysis };
+  if (blob?.state === 'failed') return { clipState: 'failed', analysis: null };
+  return { clipState: 'pending', analysis: null };
+}
+
+async function serverFieldsOnCreate(
+  repo: SyncRepository,
+  caller: Caller,
+  m: Mutation,
+  fields: RowData,
+): Promise<RowData> {
+  if (m.entity === 'recording_sessions') return { operatorId: caller.userId };
+  if (m.entity === 'consents') return { recordedBy: caller.userId };
+  if (m.entity === 'site_recordings')
+    return clipFields(repo, caller.clinicId, (fields.clipSha256 as string | null) ?? null);
+  return {};
+}
