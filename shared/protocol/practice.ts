@@ -48,7 +48,10 @@ export const invitationSchema = z.object({
   createdAt: z.string(),
 });
 export type Invitation = z.infer<typeof invitationSchema>;
-export const teamResponseSchema = z.object({ users: z.array(teamUserSchema), invitations: z.array(invitationSchema) });
+export const teamResponseSchema = z.object({
+  users: z.array(teamUserSchema),
+  invitations: z.array(invitationSchema),
+});
 export type TeamResponse = z.infer<typeof teamResponseSchema>;
 
 export const inviteRequestSchema = z.object({
@@ -60,7 +63,9 @@ export type InviteRequest = z.infer<typeof inviteRequestSchema>;
 
 export const updateTeamUserRequestSchema = z
   .object({ role: roleSchema.optional(), disabled: z.boolean().optional() })
-  .refine((v) => v.role !== undefined || v.disabled !== undefined, { error: 'Change the role or the disabled flag.' });
+  .refine((v) => v.role !== undefined || v.disabled !== undefined, {
+    error: 'Change the role or the disabled flag.',
+  });
 export type UpdateTeamUserRequest = z.infer<typeof updateTeamUserRequestSchema>;
 
 export const invitationPreviewSchema = z.object({
@@ -101,14 +106,22 @@ export const clientRowSchema = z.object({
   nextFollowUp: z.string().nullable(),
 });
 export type ClientRow = z.infer<typeof clientRowSchema>;
-export const clientTableResponseSchema = z.object({ clients: z.array(clientRowSchema), pageInfo: pageInfoSchema });
+export const clientTableResponseSchema = z.object({
+  clients: z.array(clientRowSchema),
+  pageInfo: pageInfoSchema,
+});
 export type ClientTableResponse = z.infer<typeof clientTableResponseSchema>;
 
 export const clientDetailsSchema = z.object({
   firstName: trimmed(100, 'First name'),
   lastName: trimmed(100, 'Last name'),
   dateOfBirth: isoDate.nullable().optional(),
-  email: z.email({ error: 'Enter a valid e-mail address.' }).max(254).nullable().optional().or(z.literal('').transform(() => null)),
+  email: z
+    .email({ error: 'Enter a valid e-mail address.' })
+    .max(254)
+    .nullable()
+    .optional()
+    .or(z.literal('').transform(() => null)),
   phone: optionalText(40),
   notes: optionalText(4000),
 });
@@ -145,7 +158,11 @@ export const visitPackageSchema = z.object({
 });
 export type VisitPackage = z.infer<typeof visitPackageSchema>;
 export const clientRecordSchema = z.object({
-  client: clientRowSchema.extend({ notes: z.string().nullable(), version: z.number(), createdAt: z.string() }),
+  client: clientRowSchema.extend({
+    notes: z.string().nullable(),
+    version: z.number(),
+    createdAt: z.string(),
+  }),
   visits: z.array(visitSchema),
   consents: z.array(consentRecordSchema),
   packages: z.array(visitPackageSchema),
@@ -173,7 +190,10 @@ export const consentTextSchema = z.object({
 });
 export type ConsentText = z.infer<typeof consentTextSchema>;
 export const consentTextListResponseSchema = z.object({ texts: z.array(consentTextSchema) });
-export const publishConsentTextRequestSchema = z.object({ title: trimmed(200, 'Title'), body: trimmed(20000, 'Text') });
+export const publishConsentTextRequestSchema = z.object({
+  title: trimmed(200, 'Title'),
+  body: trimmed(20000, 'Text'),
+});
 export type PublishConsentTextRequest = z.infer<typeof publishConsentTextRequestSchema>;
 
 // Follow-ups
@@ -188,8 +208,14 @@ export const followUpDueSchema = z.object({
 export type FollowUpDue = z.infer<typeof followUpDueSchema>;
 export const followUpsDueResponseSchema = z.object({ due: z.array(followUpDueSchema) });
 export type FollowUpsDueResponse = z.infer<typeof followUpsDueResponseSchema>;
-export const followUpsDueQuerySchema = z.object({ withinDays: z.coerce.number().int().min(0).max(365).default(14) });
-export const reminderRunResponseSchema = z.object({ queued: z.number(), sent: z.number(), failed: z.number() });
+export const followUpsDueQuerySchema = z.object({
+  withinDays: z.coerce.number().int().min(0).max(365).default(14),
+});
+export const reminderRunResponseSchema = z.object({
+  queued: z.number(),
+  sent: z.number(),
+  failed: z.number(),
+});
 export type ReminderRunResponse = z.infer<typeof reminderRunResponseSchema>;
 
 // Billing
@@ -277,7 +303,9 @@ export const clinicSettingsSchema = z.object({
   logoDataUrl: z
     .string()
     .max(400_000, { error: 'The logo is too large; use an image under 300 KB.' })
-    .regex(/^data:image\/(png|jpeg);base64,[A-Za-z0-9+/=]+$/, { error: 'The logo must be a PNG or JPEG image.' })
+    .regex(/^data:image\/(png|jpeg);base64,[A-Za-z0-9+/=]+$/, {
+      error: 'The logo must be a PNG or JPEG image.',
+    })
     .nullable()
     .optional(),
   retentionMonths: z.number().int().min(1).max(600),
@@ -306,5 +334,7 @@ export const clinicRangesResponseSchema = z.object({ ranges: z.array(clinicRange
 export type ClinicRangesResponse = z.infer<typeof clinicRangesResponseSchema>;
 export const setRangeRequestSchema = z
   .object({ low: z.number().finite().nullable(), high: z.number().finite().nullable() })
-  .refine((r) => r.low === null || r.high === null || r.low <= r.high, { error: 'The low end must not be above the high end.' });
+  .refine((r) => r.low === null || r.high === null || r.low <= r.high, {
+    error: 'The low end must not be above the high end.',
+  });
 export type SetRangeRequest = z.infer<typeof setRangeRequestSchema>;

@@ -42,7 +42,9 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       },
       opts,
     );
-    await q(`ALTER TABLE invitations ADD CONSTRAINT invitations_role_check CHECK (role IN ('operator','practitioner','admin'))`);
+    await q(
+      `ALTER TABLE invitations ADD CONSTRAINT invitations_role_check CHECK (role IN ('operator','practitioner','admin'))`,
+    );
     await qi.addIndex('invitations', ['clinic_id', 'created_at'], opts);
 
     await qi.createTable(
@@ -59,8 +61,12 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       },
       opts,
     );
-    await q(`ALTER TABLE clinic_settings ADD CONSTRAINT clinic_settings_retention_check CHECK (retention_months BETWEEN 1 AND 600)`);
-    await q(`ALTER TABLE clinic_settings ADD CONSTRAINT clinic_settings_reminder_check CHECK (reminder_days_before BETWEEN 0 AND 60)`);
+    await q(
+      `ALTER TABLE clinic_settings ADD CONSTRAINT clinic_settings_retention_check CHECK (retention_months BETWEEN 1 AND 600)`,
+    );
+    await q(
+      `ALTER TABLE clinic_settings ADD CONSTRAINT clinic_settings_reminder_check CHECK (reminder_days_before BETWEEN 0 AND 60)`,
+    );
 
     await qi.createTable(
       'range_overrides',
@@ -78,7 +84,9 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       opts,
     );
     await qi.addIndex('range_overrides', ['clinic_id', 'metric', 'site'], { ...opts, unique: true });
-    await q(`ALTER TABLE range_overrides ADD CONSTRAINT range_overrides_order_check CHECK (low IS NULL OR high IS NULL OR low <= high)`);
+    await q(
+      `ALTER TABLE range_overrides ADD CONSTRAINT range_overrides_order_check CHECK (low IS NULL OR high IS NULL OR low <= high)`,
+    );
 
     await qi.createTable(
       'payments',
@@ -86,7 +94,12 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
         id: id(),
         clinic_id: clinicRef(),
         // Kept (without the client) when a client is erased: the practice's books still need the amount.
-        client_id: { type: DataTypes.UUID, allowNull: true, references: { model: 'clients', key: 'id' }, onDelete: 'SET NULL' },
+        client_id: {
+          type: DataTypes.UUID,
+          allowNull: true,
+          references: { model: 'clients', key: 'id' },
+          onDelete: 'SET NULL',
+        },
         offer_id: { type: DataTypes.TEXT, allowNull: false },
         description: { type: DataTypes.TEXT, allowNull: false },
         visits: { type: DataTypes.INTEGER, allowNull: false },
@@ -107,7 +120,9 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
     await q(
       `ALTER TABLE payments ADD CONSTRAINT payments_status_check CHECK (status IN ('pending','paid','failed','refunded','expired'))`,
     );
-    await q(`ALTER TABLE payments ADD CONSTRAINT payments_amount_check CHECK (amount_cents > 0 AND visits > 0)`);
+    await q(
+      `ALTER TABLE payments ADD CONSTRAINT payments_amount_check CHECK (amount_cents > 0 AND visits > 0)`,
+    );
     await qi.addIndex('payments', ['clinic_id', 'created_at'], opts);
     await qi.addIndex('payments', ['payment_intent_id'], opts);
 
@@ -117,7 +132,12 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       {
         event_id: { type: DataTypes.TEXT, primaryKey: true, allowNull: false },
         type: { type: DataTypes.TEXT, allowNull: false },
-        payment_id: { type: DataTypes.UUID, allowNull: true, references: { model: 'payments', key: 'id' }, onDelete: 'SET NULL' },
+        payment_id: {
+          type: DataTypes.UUID,
+          allowNull: true,
+          references: { model: 'payments', key: 'id' },
+          onDelete: 'SET NULL',
+        },
         received_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now() },
       },
       opts,
@@ -128,8 +148,19 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       {
         id: id(),
         clinic_id: clinicRef(),
-        client_id: { type: DataTypes.UUID, allowNull: false, references: { model: 'clients', key: 'id' }, onDelete: 'CASCADE' },
-        payment_id: { type: DataTypes.UUID, allowNull: true, unique: true, references: { model: 'payments', key: 'id' }, onDelete: 'SET NULL' },
+        client_id: {
+          type: DataTypes.UUID,
+          allowNull: false,
+          references: { model: 'clients', key: 'id' },
+          onDelete: 'CASCADE',
+        },
+        payment_id: {
+          type: DataTypes.UUID,
+          allowNull: true,
+          unique: true,
+          references: { model: 'payments', key: 'id' },
+          onDelete: 'SET NULL',
+        },
         description: { type: DataTypes.TEXT, allowNull: false },
         visits_total: { type: DataTypes.INTEGER, allowNull: false },
         visits_used: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
@@ -138,8 +169,12 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       },
       opts,
     );
-    await q(`ALTER TABLE visit_packages ADD CONSTRAINT visit_packages_status_check CHECK (status IN ('active','refunded'))`);
-    await q(`ALTER TABLE visit_packages ADD CONSTRAINT visit_packages_used_check CHECK (visits_used >= 0 AND visits_used <= visits_total)`);
+    await q(
+      `ALTER TABLE visit_packages ADD CONSTRAINT visit_packages_status_check CHECK (status IN ('active','refunded'))`,
+    );
+    await q(
+      `ALTER TABLE visit_packages ADD CONSTRAINT visit_packages_used_check CHECK (visits_used >= 0 AND visits_used <= visits_total)`,
+    );
     await qi.addIndex('visit_packages', ['client_id'], opts);
 
     await qi.createTable(
@@ -152,7 +187,12 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
           references: { model: 'recording_sessions', key: 'id' },
           onDelete: 'CASCADE',
         },
-        package_id: { type: DataTypes.UUID, allowNull: false, references: { model: 'visit_packages', key: 'id' }, onDelete: 'CASCADE' },
+        package_id: {
+          type: DataTypes.UUID,
+          allowNull: false,
+          references: { model: 'visit_packages', key: 'id' },
+          onDelete: 'CASCADE',
+        },
         created_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now() },
       },
       opts,
@@ -181,8 +221,18 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
       {
         id: id(),
         clinic_id: clinicRef(),
-        client_id: { type: DataTypes.UUID, allowNull: false, references: { model: 'clients', key: 'id' }, onDelete: 'CASCADE' },
-        session_id: { type: DataTypes.UUID, allowNull: true, references: { model: 'recording_sessions', key: 'id' }, onDelete: 'CASCADE' },
+        client_id: {
+          type: DataTypes.UUID,
+          allowNull: false,
+          references: { model: 'clients', key: 'id' },
+          onDelete: 'CASCADE',
+        },
+        session_id: {
+          type: DataTypes.UUID,
+          allowNull: true,
+          references: { model: 'recording_sessions', key: 'id' },
+          onDelete: 'CASCADE',
+        },
         follow_up_date: { type: DataTypes.DATEONLY, allowNull: false },
         status: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'pending' },
         attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
@@ -219,7 +269,10 @@ export const up: MigrationFn<QueryInterface> = async ({ context: qi }) => {
 
 export const down: MigrationFn<QueryInterface> = async ({ context: qi }) => {
   await qi.sequelize.transaction(async (transaction) => {
-    await qi.sequelize.query('DROP TRIGGER IF EXISTS recording_sessions_use_package_visit ON recording_sessions', { transaction });
+    await qi.sequelize.query(
+      'DROP TRIGGER IF EXISTS recording_sessions_use_package_visit ON recording_sessions',
+      { transaction },
+    );
     await qi.sequelize.query('DROP FUNCTION IF EXISTS use_package_visit()', { transaction });
     for (const table of [
       'client_erasures',

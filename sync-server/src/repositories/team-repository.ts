@@ -30,7 +30,15 @@ export const listInvitations = (sequelize: Sequelize, clinicId: string) =>
 
 export async function insertInvitation(
   sequelize: Sequelize,
-  row: { id: string; clinicId: string; email: string; name: string; role: Role; invitedBy: string; expiresAt: Date },
+  row: {
+    id: string;
+    clinicId: string;
+    email: string;
+    name: string;
+    role: Role;
+    invitedBy: string;
+    expiresAt: Date;
+  },
   transaction?: Transaction,
 ): Promise<void> {
   await execute(
@@ -42,7 +50,12 @@ export async function insertInvitation(
   );
 }
 
-export async function findInvitation(sequelize: Sequelize, id: string, transaction?: Transaction, lock = false) {
+export async function findInvitation(
+  sequelize: Sequelize,
+  id: string,
+  transaction?: Transaction,
+  lock = false,
+) {
   const rows = await selectRows<InvitationRow & { clinic_name: string }>(
     sequelize,
     `SELECT i.*, c.name AS clinic_name FROM invitations i JOIN clinics c ON c.id = i.clinic_id WHERE i.id = :id
@@ -53,7 +66,12 @@ export async function findInvitation(sequelize: Sequelize, id: string, transacti
   return rows[0] ?? null;
 }
 
-export const markInvitationAccepted = (sequelize: Sequelize, id: string, userId: string, transaction: Transaction) =>
+export const markInvitationAccepted = (
+  sequelize: Sequelize,
+  id: string,
+  userId: string,
+  transaction: Transaction,
+) =>
   execute(
     sequelize,
     `UPDATE invitations SET accepted_at = now(), accepted_user_id = :userId, updated_at = now()
@@ -71,7 +89,8 @@ export const revokeInvitation = (sequelize: Sequelize, clinicId: string, id: str
   );
 
 export const emailTaken = async (sequelize: Sequelize, email: string, transaction?: Transaction) =>
-  (await selectRows(sequelize, `SELECT 1 FROM users WHERE email = :email`, { email }, transaction)).length > 0;
+  (await selectRows(sequelize, `SELECT 1 FROM users WHERE email = :email`, { email }, transaction)).length >
+  0;
 
 /** Locks the clinic's admins, so two changes at once cannot both remove "the other" last admin. */
 export const lockActiveAdmins = (sequelize: Sequelize, clinicId: string, transaction: Transaction) =>
@@ -82,8 +101,20 @@ export const lockActiveAdmins = (sequelize: Sequelize, clinicId: string, transac
     transaction,
   );
 
-export async function findTeamUser(sequelize: Sequelize, clinicId: string, userId: string, transaction?: Transaction) {
-  const rows = await selectRows<{ id: string; role: Role; disabled: boolean; email: string; name: string; created_at: Date }>(
+export async function findTeamUser(
+  sequelize: Sequelize,
+  clinicId: string,
+  userId: string,
+  transaction?: Transaction,
+) {
+  const rows = await selectRows<{
+    id: string;
+    role: Role;
+    disabled: boolean;
+    email: string;
+    name: string;
+    created_at: Date;
+  }>(
     sequelize,
     `SELECT id, role, disabled, email, name, created_at FROM users WHERE id = :userId AND clinic_id = :clinicId FOR UPDATE`,
     { clinicId, userId },

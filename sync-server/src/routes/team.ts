@@ -1,5 +1,9 @@
 import { z } from 'zod';
-import { acceptInvitationRequestSchema, inviteRequestSchema, updateTeamUserRequestSchema } from '@/shared/protocol/practice';
+import {
+  acceptInvitationRequestSchema,
+  inviteRequestSchema,
+  updateTeamUserRequestSchema,
+} from '@/shared/protocol/practice';
 import { callerOf } from '../middleware/authenticate';
 import * as team from '../use-cases/team/team';
 import type { HandlerFactory } from './handlers';
@@ -13,7 +17,9 @@ export const listTeam: HandlerFactory = (deps) => async (req, res) => {
 };
 
 export const invite: HandlerFactory = (deps) => async (req, res) => {
-  res.status(201).json(await team.inviteUser(deps, callerOf(req), inviteRequestSchema.parse(req.body), linkBase(req)));
+  res
+    .status(201)
+    .json(await team.inviteUser(deps, callerOf(req), inviteRequestSchema.parse(req.body), linkBase(req)));
 };
 
 export const revokeInvitation: HandlerFactory = (deps) => async (req, res) => {
@@ -22,7 +28,14 @@ export const revokeInvitation: HandlerFactory = (deps) => async (req, res) => {
 };
 
 export const updateUser: HandlerFactory = (deps) => async (req, res) => {
-  res.json({ user: await team.changeTeamUser(deps, callerOf(req), idParam.parse(req.params).id, updateTeamUserRequestSchema.parse(req.body)) });
+  res.json({
+    user: await team.changeTeamUser(
+      deps,
+      callerOf(req),
+      idParam.parse(req.params).id,
+      updateTeamUserRequestSchema.parse(req.body),
+    ),
+  });
 };
 
 export const previewInvitation: HandlerFactory = (deps) => async (req, res) => {
@@ -31,5 +44,7 @@ export const previewInvitation: HandlerFactory = (deps) => async (req, res) => {
 
 export const acceptInvitation: HandlerFactory = (deps) => async (req, res) => {
   const token = tokenParam.parse(req.params).token;
-  res.status(201).json(await team.acceptInvitation(deps, token, acceptInvitationRequestSchema.parse(req.body), ipOf(req)));
+  res
+    .status(201)
+    .json(await team.acceptInvitation(deps, token, acceptInvitationRequestSchema.parse(req.body), ipOf(req)));
 };

@@ -1,5 +1,5 @@
+import fs from 'node:fs/promises';
 import path from 'node:path';
-import { LocalDiskBlobStore, type BlobStore } from './blob-store';
 import { mailServiceFromEnv, type MailService } from './mail';
 import { paymentsServiceFromEnv, type PaymentsService } from './payments';
 
@@ -7,23 +7,26 @@ import { paymentsServiceFromEnv, type PaymentsService } from './payments';
 export interface PracticeServices {
   mail: MailService;
   payments: PaymentsService;
-  blobs: BlobStore;
+  /** Removes a clip's bytes for good (erasure); BlobStore itself only adds and reads. */
+  deleteBlob(storageKey: string): Promise<void>;
   /** Where links in e-mails point (invitations, payment pages); otherwise taken from the request. */
   publicBaseUrl?: string;
   /** Register our webhook URL with the provider on first use (the local fake needs it). */
   registerWebhook: boolean;
 }
 
+const REPO_ROOT = path.resolve(__dirname, '../../..');
 let current: PracticeServices | undefined;
 
 export function practiceServices(): PracticeServices {
   if (!current) {
     const payments = paymentsServiceFromEnv();
-    const dataDir = process.env.FOURPOINT_DATA ?? path.resolve(__dirname, '../../../.data');
+    // The same folder the sync side keeps clips in (see sync-services.ts).
+    const blobDir = process.env.BLOB_DIR ?? path.join(REPO_ROOT, '.data', 'blobs');
     current = {
       mail: mailServiceFromEnv(),
       payments,
-      blobs: new LocalDiskBlobStore(process.env.BLOB_DIR ?? path.join(dataDir, 'blobs')),
+      deleteBlob: (storageKey) => deleteLocalBlob(blobDir, storageKey),
       publicBaseUrl: process.env.PUBLIC_BASE_URL,
       registerWebhook: payments.usesFake,
     };
@@ -33,4 +36,9 @@ export function practiceServices(): PracticeServices {
 
 export function setPracticeServices(services: PracticeServices): void {
   current = services;
+}
+
+export async function deleteLocalBlob(blobDir: string, storageKey: string): Promise<void> {
+  if (!/^[0-9a-f]{2}\/[0-9a-f]{64}$/.test(storageKey)) throw new Error(`Not a blob key: ${storageKey}`);
+  await fs.rm(path.join(blobDir, storageKey), { force: true });
 }

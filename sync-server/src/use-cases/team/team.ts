@@ -21,7 +21,8 @@ import type { Caller, UseCaseDeps } from '../context';
 
 export const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
 
-const invalidLink = () => new AppError('invitation_invalid', 'This invitation link is not valid. Ask your admin for a new one.', 404);
+const invalidLink = () =>
+  new AppError('invitation_invalid', 'This invitation link is not valid. Ask your admin for a new one.', 404);
 
 /** The link carries the invitation id and its expiry, signed with the server's secret. */
 export function signInvitationToken(id: string, expiresAt: Date, secret: string): string {
@@ -37,7 +38,10 @@ function readInvitationToken(token: string, secret: string): { id: string; expir
   const given = Buffer.from(signature, 'base64url');
   if (given.length !== expected.length || !timingSafeEqual(given, expected)) throw invalidLink();
   try {
-    const parsed = JSON.parse(Buffer.from(payload, 'base64url').toString('utf8')) as { i?: unknown; e?: unknown };
+    const parsed = JSON.parse(Buffer.from(payload, 'base64url').toString('utf8')) as {
+      i?: unknown;
+      e?: unknown;
+    };
     if (typeof parsed.i !== 'string' || typeof parsed.e !== 'number') throw invalidLink();
     return { id: parsed.i, expiresAt: parsed.e };
   } catch {
@@ -46,13 +50,29 @@ function readInvitationToken(token: string, secret: string): { id: string; expir
 }
 
 const invitationStatus = (row: repo.InvitationRow): Invitation['status'] =>
-  row.accepted_at ? 'accepted' : row.revoked_at ? 'revoked' : row.expires_at.getTime() <= Date.now() ? 'expired' : 'pending';
+  row.accepted_at
+    ? 'accepted'
+    : row.revoked_at
+      ? 'revoked'
+      : row.expires_at.getTime() <= Date.now()
+        ? 'expired'
+        : 'pending';
 
 function checkUsable(row: repo.InvitationRow, linkExpiry: number): void {
-  if (row.accepted_at) throw new AppError('invitation_used', 'This invitation has already been used. Sign in instead.', 409);
-  if (row.revoked_at) throw new AppError('invitation_revoked', 'This invitation was withdrawn. Ask your admin for a new one.', 410);
+  if (row.accepted_at)
+    throw new AppError('invitation_used', 'This invitation has already been used. Sign in instead.', 409);
+  if (row.revoked_at)
+    throw new AppError(
+      'invitation_revoked',
+      'This invitation was withdrawn. Ask your admin for a new one.',
+      410,
+    );
   if (Math.min(linkExpiry, row.expires_at.getTime()) <= Date.now()) {
-    throw new AppError('invitation_expired', 'This invitation link has expired. Ask your admin to send a new one.', 410);
+    throw new AppError(
+      'invitation_expired',
+      'This invitation link has expired. Ask your admin to send a new one.',
+      410,
+    );
   }
 }
 
@@ -62,7 +82,14 @@ export async function getTeam(deps: UseCaseDeps, caller: Caller): Promise<TeamRe
     repo.listInvitations(deps.sequelize, caller.clinicId),
   ]);
   return {
-    users: users.map((u): TeamUser => ({ id: u.id, email: u.email, name: u.name, role: u.role, disabled: u.disabled, createdAt: iso(u.created_at)! })),
+    users: users.map((u): TeamUser => ({
+      id: u.id,
+      email: u.email,
+      name: u.name,
+      role: u.role,
+      disabled: u.disabled,
+      createdAt: iso(u.created_at)!,
+    })),
     invitations: invitations.map((i) => ({
       id: i.id,
       email: i.email,
@@ -88,9 +115,29 @@ export async function inviteUser(
   const id = randomUUID();
   const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
   await deps.sequelize.transaction(async (transaction) => {
-    await repo.insertInvitation(deps.sequelize, { id, clinicId: caller.clinicId, email, name: input.name, role: input.role, invitedBy: caller.userId, expiresAt }, transaction);
+    await repo.insertInvitation(
+      deps.sequelize,
+      {
+        id,
+        clinicId: caller.clinicId,
+        email,
+        name: input.name,
+        role: input.role,
+        invitedBy: caller.userId,
+        expiresAt,
+      },
+      transaction,
+    );
     await recordAuditEvent(
-      { clinicId: caller.clinicId, userId: caller.userId, action: 'team.invite', entity: 'invitation', entityId: id, ip: caller.ip, details: { role: input.role } },
+      {
+        clinicId: caller.clinicId,
+        userId: caller.userId,
+        action: 'team.invite',
+        entity: 'invitation',
+        entityId: id,
+        ip: caller.ip,
+        details: { role: input.role },
+      },
       transaction,
     );
   });
@@ -116,7 +163,15 @@ export async function inviteUser(
   }
   return {
     emailed,
-    invitation: { id, email, name: input.name, role: input.role, status: 'pending', expiresAt: expiresAt.toISOString(), createdAt: iso(row.created_at)! },
+    invitation: {
+      id,
+      email,
+      name: input.name,
+      role: input.role,
+      status: 'pending',
+      expiresAt: expiresAt.toISOString(),
+      createdAt: iso(row.created_at)!,
+    },
   };
 }
 
@@ -125,7 +180,13 @@ export async function previewInvitation(deps: UseCaseDeps, token: string): Promi
   const row = await repo.findInvitation(deps.sequelize, link.id);
   if (!row) throw invalidLink();
   checkUsable(row, link.expiresAt);
-  return { email: row.email, name: row.name, role: row.role, clinicName: row.clinic_name, expiresAt: iso(row.expires_at)! };
+  return {
+    email: row.email,
+    name: row.name,
+    role: row.role,
+    clinicName: row.clinic_name,
+    expiresAt: iso(row.expires_at)!,
+  };
 }
 
 export async function acceptInvitation(
@@ -145,10 +206,22 @@ export async function acceptInvitation(
       throw new AppError('email_in_use', 'Someone already signs in with this e-mail address.', 409);
     }
     const userId = randomUUID();
-    await createUser(row.clinic_id, { id: userId, email: row.email, name: input.name, role: row.role, passwordHash }, transaction);
+    await createUser(
+      row.clinic_id,
+      { id: userId, email: row.email, name: input.name, role: row.role, passwordHash },
+      transaction,
+    );
     await repo.markInvitationAccepted(deps.sequelize, row.id, userId, transaction);
     await recordAuditEvent(
-      { clinicId: row.clinic_id, userId, action: 'team.invitation_accepted', entity: 'invitation', entityId: row.id, ip, details: { role: row.role } },
+      {
+        clinicId: row.clinic_id,
+        userId,
+        action: 'team.invitation_accepted',
+        entity: 'invitation',
+        entityId: row.id,
+        ip,
+        details: { role: row.role },
+      },
       transaction,
     );
     return row.email;
@@ -156,13 +229,29 @@ export async function acceptInvitation(
   return signIn(deps, { email, password: input.password }, ip);
 }
 
-export async function withdrawInvitation(deps: UseCaseDeps, caller: Caller, invitationId: string): Promise<void> {
+export async function withdrawInvitation(
+  deps: UseCaseDeps,
+  caller: Caller,
+  invitationId: string,
+): Promise<void> {
   const changed = await repo.revokeInvitation(deps.sequelize, caller.clinicId, invitationId);
   if (changed === 0) throw new AppError('not_found', 'There is no open invitation with this id.', 404);
-  await recordAuditEvent({ clinicId: caller.clinicId, userId: caller.userId, action: 'team.invitation_revoked', entity: 'invitation', entityId: invitationId, ip: caller.ip });
+  await recordAuditEvent({
+    clinicId: caller.clinicId,
+    userId: caller.userId,
+    action: 'team.invitation_revoked',
+    entity: 'invitation',
+    entityId: invitationId,
+    ip: caller.ip,
+  });
 }
 
-export async function changeTeamUser(deps: UseCaseDeps, caller: Caller, userId: string, input: UpdateTeamUserRequest): Promise<TeamUser> {
+export async function changeTeamUser(
+  deps: UseCaseDeps,
+  caller: Caller,
+  userId: string,
+  input: UpdateTeamUserRequest,
+): Promise<TeamUser> {
   return deps.sequelize.transaction(async (transaction) => {
     const admins = await repo.lockActiveAdmins(deps.sequelize, caller.clinicId, transaction);
     const user = await repo.findTeamUser(deps.sequelize, caller.clinicId, userId, transaction);
@@ -171,17 +260,37 @@ export async function changeTeamUser(deps: UseCaseDeps, caller: Caller, userId: 
     const wasActiveAdmin = user.role === 'admin' && !user.disabled;
     const staysActiveAdmin = next.role === 'admin' && !next.disabled;
     if (wasActiveAdmin && !staysActiveAdmin && admins.length <= 1) {
-      throw new AppError('last_admin', 'This is the clinic’s last active admin: make someone else an admin first.', 409);
+      throw new AppError(
+        'last_admin',
+        'This is the clinic’s last active admin: make someone else an admin first.',
+        409,
+      );
     }
     await repo.updateTeamUser(deps.sequelize, userId, next, transaction);
-    if (next.disabled && !user.disabled) await repo.revokeUserRefreshTokens(deps.sequelize, userId, transaction);
+    if (next.disabled && !user.disabled)
+      await repo.revokeUserRefreshTokens(deps.sequelize, userId, transaction);
     const details: Record<string, unknown> = {};
     if (next.role !== user.role) details.role = { from: user.role, to: next.role };
     if (next.disabled !== user.disabled) details.disabled = next.disabled;
     await recordAuditEvent(
-      { clinicId: caller.clinicId, userId: caller.userId, action: 'team.user_changed', entity: 'user', entityId: userId, ip: caller.ip, details },
+      {
+        clinicId: caller.clinicId,
+        userId: caller.userId,
+        action: 'team.user_changed',
+        entity: 'user',
+        entityId: userId,
+        ip: caller.ip,
+        details,
+      },
       transaction,
     );
-    return { id: user.id, email: user.email, name: user.name, role: next.role, disabled: next.disabled, createdAt: iso(user.created_at)! };
+    return {
+      id: user.id,
+      email: user.email,
+      name: user.name,
+      role: next.role,
+      disabled: next.disabled,
+      createdAt: iso(user.created_at)!,
+    };
   });
 }

@@ -1,0 +1,173 @@
+import type { Sequelize, Transaction } from 'sequelize';
+import type { ClientTableQuery } from '@/shared/protocol/practice';
+import { escapeLike, execute, selectRows } from './practice-db';
+
+export type ClientTableRow = {
+  id: string;
+  first_name: string;
+  last_name: string;
+  date_of_birth: string | null;
+  email: string | null;
+  phone: string | null;
+  notes: string | null;
+  version: number;
+  created_at: Date;
+  updated_at: Date;
+  last_visit: Date | null;
+  visits: string;
+  has_consent: boolean;
+  next_follow_up: string | null;
+};
+
+const SORT_SQL: Record<ClientTableQuery['sort'], string> = {
+  name: 'lower(c.last_name) %DIR%, lower(c.first_name) %DIR%',
+  dateOfBirth: 'c.date_of_birth %DIR% NULLS LAST',
+  lastVisit: 'last_visit %DIR% NULLS LAST',
+  updatedAt: 'c.updated_at %DIR%',
+};
+
+const CLIENT_COLUMNS = `c.id, c.first_name, c.last_name, c.date_of_birth, c.email, c.phone, c.notes, c.version, c.created_at, c.updated_at,
+  (SELECT max(s.started_at) FROM recording_sessions s WHERE s.client_id = c.id AND s.deleted_at IS NULL) AS last_visit,
+  (SELECT count(*) FROM recording_sessions s WHERE s.client_id = c.id AND s.deleted_at IS NULL) AS visits,
+  EXISTS (SELECT 1 FROM consents k WHERE k.client_id = c.id AND k.deleted_at IS NULL) AS has_consent,
+  (SELECT s.follow_up_date FROM recording_sessions s WHERE s.client_id = c.id AND s.deleted_at IS NULL AND s.follow_up_date IS NOT NULL
+     ORDER BY s.started_at DESC LIMIT 1) AS next_follow_up`;
+
+export async function pageClients(sequelize: Sequelize, clinicId: string, query: ClientTableQuery) {
+  const search = query.q ? `%${escapeLike(query.q)}%` : null;
+  const where = `c.clinic_id = :clinicId AND c.deleted_at IS NULL
+    AND (:search::text IS NULL OR concat_ws(' ', c.first_name, c.last_name) ILIKE :search OR c.email ILIKE :search OR c.phone ILIKE :search)`;
+  const order = SORT_SQL[query.sort].replaceAll('%DIR%', query.dir === 'desc' ? 'DESC' : 'ASC');
+  const replacements = { clinicId, search, limit: query.pageSize, offset: (query.page - 1) * query.pageSize };
+  const [rows, counts] = await Promise.all([
+    selectRows<ClientTableRow>(
+      sequelize,
+      `SELECT ${CLIENT_COLUMNS} FROM clients c WHERE ${where} ORDER BY ${order}, c.id LIMIT :limit OFFSET :offset`,
+      replacements,
+    ),
+    selectRows<{ total: string }>(
+      sequelize,
+      `SELECT count(*) AS total FROM clients c WHERE ${where}`,
+      replacements,
+    ),
+  ]);
+  return { rows, total: Number(counts[0]?.total ?? 0) };
+}
+
+export async function findClientRow(
+  sequelize: Sequelize,
+  clinicId: string,
+  clientId: string,
+  transaction?: Transaction,
+) {
+  const rows = await selectRows<ClientTableRow>(
+    sequelize,
+    `SELECT ${CLIENT_COLUMNS} FROM clients c WHERE c.clinic_id = :clinicId AND c.id = :clientId AND c.deleted_at IS NULL`,
+    { clinicId, clientId },
+    transaction,
+  );
+  return rows[0] ?? null;
+}
+
+export const listVisits = (sequelize: Sequelize, clinicId: string, clientId: string) =>
+  selectRows<{
+    id: string;
+    started_at: Date;
+    status: string;
+    operator_name: string | null;
+    follow_up_date: string | null;
+    consent_version: number | null;
+    sites_recorded: string;
+    paid_from_package: boolean;
+  }>(
+    sequelize,
+    `SELECT s.id, s.started_at, s.status, u.name AS operator_name, s.follow_up_date,
+       (SELECT k.consent_text_version FROM consents k WHERE k.client_id = s.client_id AND k.deleted_at IS NULL
+          AND k.consent_date <= s.started_at::date ORDER BY k.consent_date DESC, k.created_at DESC LIMIT 1) AS consent_version,
+       (SELECT count(*) FROM site_recordings r WHERE r.session_id = s.id AND r.deleted_at IS NULL AND r.skipped_reason IS NULL) AS sites_recorded,
+       EXISTS (SELECT 1 FROM package_visits p WHERE p.session_id = s.id) AS paid_from_package
+     FROM recording_sessions s LEFT JOIN users u ON u.id = s.operator_id
+     WHERE s.clinic_id = :clinicId AND s.client_id = :clientId AND s.deleted_at IS NULL
+     ORDER BY s.started_at DESC`,
+    { clinicId, clientId },
+  );
+
+export const listConsents = (sequelize: Sequelize, clinicId: string, clientId: string) =>
+  selectRows<{
+    id: string;
+    typed_name: string;
+    consent_date: string;
+    consent_text_version: number;
+    title: string;
+    created_at: Date;
+  }>(
+    sequelize,
+    `SELECT k.id, k.typed_name, k.consent_date, k.consent_text_version, t.title, k.created_at
+     FROM consents k JOIN consent_texts t ON t.id = k.consent_text_id
+     WHERE k.clinic_id = :clinicId AND k.client_id = :clientId AND k.deleted_at IS NULL
+     ORDER BY k.consent_date DESC, k.created_at DESC`,
+    { clinicId, clientId },
+  );
+
+export const listPackages = (sequelize: Sequelize, clinicId: string, clientId: string) =>
+  selectRows<{
+    id: string;
+    description: string;
+    visits_total: number;
+    visits_used: number;
+    status: 'active' | 'refunded';
+    created_at: Date;
+  }>(
+    sequelize,
+    `SELECT id, description, visits_total, visits_used, status, created_at FROM visit_packages
+     WHERE clinic_id = :clinicId AND client_id = :clientId ORDER BY created_at DESC`,
+    { clinicId, clientId },
+  );
+
+export async function insertClient(
+  sequelize: Sequelize,
+  row: {
+    id: string;
+    clinicId: string;
+    firstName: string;
+    lastName: string;
+    dateOfBirth: string | null;
+    email: string | null;
+    phone: string | null;
+    notes: string | null;
+  },
+  transaction?: Transaction,
+): Promise<void> {
+  await execute(
+    sequelize,
+    `INSERT INTO clients (id, clinic_id, first_name, last_name, date_of_birth, email, phone, notes)
+     VALUES (:id, :clinicId, :firstName, :lastName, :dateOfBirth, :email, :phone, :notes)`,
+    row,
+    transaction,
+  );
+}
+
+/** Bumps the version like a synced edit does, so devices pull the change; a stale version changes nothing. */
+export const updateClientIfVersion = (
+  sequelize: Sequelize,
+  clinicId: string,
+  clientId: string,
+  version: number,
+  fields: {
+    firstName: string;
+    lastName: string;
+    dateOfBirth: string | null;
+    email: string | null;
+    phone: string | null;
+    notes: string | null;
+  },
+  transaction?: Transaction,
+) =>
+  execute(
+    sequelize,
+    `UPDATE clients SET first_name = :firstName, last_name = :lastName, date_of_birth = :dateOfBirth, email = :email, phone = :phone,
+       notes = :notes, version = version + 1, updated_at = now()
+     WHERE clinic_id = :clinicId AND id = :clientId AND version = :version AND deleted_at IS NULL`,
+    { clinicId, clientId, version, ...fields },
+    transaction,
+  );

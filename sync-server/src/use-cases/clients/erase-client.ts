@@ -1,0 +1,86 @@
+import { randomUUID } from 'node:crypto';
+import type { EraseClientResponse } from '@/shared/protocol/practice';
+import { AppError } from '../../errors';
+import { recordAuditEvent } from '../../repositories/audit-repository';
+import * as repo from '../../repositories/erasure-repository';
+import { practiceServices } from '../../services/practice-services';
+import type { Caller, UseCaseDeps } from '../context';
+import { clientNotFound } from './client-records';
+
+/** Devices pull within this time in practice; the tombstones stay that long before the rows are purged. */
+export const PURGE_GRACE_MS = 30 * 24 * 60 * 60 * 1000;
+
+const normaliseName = (name: string) => name.trim().replace(/\s+/g, ' ').toLowerCase();
+
+export async function eraseClient(
+  deps: UseCaseDeps,
+  caller: Caller,
+  clientId: string,
+  confirmName: string,
+): Promise<EraseClientResponse> {
+  const erasureId = randomUUID();
+  const outcome = await deps.sequelize.transaction(async (transaction) => {
+    const client = await repo.lockClient(deps.sequelize, caller.clinicId, clientId, transaction);
+    if (!client) throw clientNotFound();
+    if (normaliseName(confirmName) !== normaliseName(`${client.first_name} ${client.last_name}`)) {
+      throw new AppError(
+        'confirmation_mismatch',
+        "The typed name does not match the client's name; nothing was erased.",
+        400,
+      );
+    }
+    const hashes = await repo.clipHashesOfClient(deps.sequelize, caller.clinicId, clientId, transaction);
+    const rowsTombstoned = await repo.tombstoneClient(deps.sequelize, caller.clinicId, clientId, transaction);
+    const blobs = await repo.deleteUnreferencedBlobs(deps.sequelize, caller.clinicId, hashes, transaction);
+    await repo.insertErasure(
+      deps.sequelize,
+      {
+        id: erasureId,
+        clinicId: caller.clinicId,
+        clientId,
+        requestedBy: caller.userId,
+        blobsDeleted: blobs.length,
+      },
+      transaction,
+    );
+    // The log keeps that an erasure happened, by whom and when, and counts: never the erased data.
+    await recordAuditEvent(
+      {
+        clinicId: caller.clinicId,
+        userId: caller.userId,
+        action: 'client.erase',
+        entity: 'client',
+        entityId: clientId,
+        ip: caller.ip,
+        details: { erasureId, rowsTombstoned, blobsDeleted: blobs.length },
+      },
+      transaction,
+    );
+    return { rowsTombstoned, storageKeys: blobs.map((b) => b.storage_key) };
+  });
+  // The rows no longer point at the files, so a failure here leaves only unreachable bytes; the next purge retries.
+  const services = practiceServices();
+  for (const key of outcome.storageKeys) await services.deleteBlob(key).catch(() => undefined);
+  return { erasureId, rowsTombstoned: outcome.rowsTombstoned, blobsDeleted: outcome.storageKeys.length };
+}
+
+export async function purgeErased(
+  deps: UseCaseDeps,
+  options: { graceMs?: number; clinicId?: string } = {},
+): Promise<number> {
+  const before = new Date(Date.now() - (options.graceMs ?? PURGE_GRACE_MS));
+  const purged = await deps.sequelize.transaction((transaction) =>
+    repo.purgeErasedClients(deps.sequelize, before, transaction, options.clinicId),
+  );
+  for (const p of purged) {
+    await recordAuditEvent({
+      clinicId: p.clinic_id,
+      userId: null,
+      action: 'client.purge',
+      entity: 'client',
+      entityId: p.client_id,
+      details: { erasureId: p.id },
+    });
+  }
+  return purged.length;
+}

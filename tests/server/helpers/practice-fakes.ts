@@ -1,0 +1,74 @@
+// In-process fakes for the practice tests: the SMTP fake and the payments fake on free ports, wired into the
+// server's practice services, with the app listening on a real port so the fake can post its webhooks.
+import fs from 'node:fs';
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
+import type { Express } from 'express';
+import {
+  startPaymentsFake,
+  FAKE_SECRET_KEY,
+  FAKE_WEBHOOK_SECRET,
+  type PaymentsFake,
+} from '@/sync-server/fakes/payments-fake';
+import { startSmtpFake, type SmtpFake } from '@/sync-server/fakes/smtp-fake';
+import { createSmtpMailService } from '@/sync-server/src/services/mail';
+import { createStripePaymentsService } from '@/sync-server/src/services/payments';
+import { deleteLocalBlob, setPracticeServices } from '@/sync-server/src/services/practice-services';
+
+export type PracticeFakes = {
+  mail: SmtpFake;
+  payments: PaymentsFake;
+  baseUrl: string;
+  blobDir: string;
+  close: () => Promise<void>;
+};
+
+export async function startPracticeFakes(app: Express): Promise<PracticeFakes> {
+  const server = http.createServer(app);
+  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+  const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  const mail = await startSmtpFake({ smtpPort: 0, httpPort: 0 });
+  const payments = await startPaymentsFake(0, { retryDelayMs: 50 });
+  const mailService = createSmtpMailService({
+    host: '127.0.0.1',
+    port: mail.smtpPort,
+    from: 'Fourpoint tests <tests@fourpoint.test>',
+  });
+  const blobDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-practice-blobs-'));
+  setPracticeServices({
+    mail: mailService,
+    payments: createStripePaymentsService({
+      secretKey: FAKE_SECRET_KEY,
+      webhookSecret: FAKE_WEBHOOK_SECRET,
+      api: { host: '127.0.0.1', port: payments.port, protocol: 'http' },
+    }),
+    deleteBlob: (key) => deleteLocalBlob(blobDir, key),
+    publicBaseUrl: baseUrl,
+    registerWebhook: true,
+  });
+  return {
+    mail,
+    payments,
+    baseUrl,
+    blobDir,
+    close: async () => {
+      mailService.close();
+      await payments.close();
+      await mail.close();
+      server.closeAllConnections();
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+    },
+  };
+}
+
+export function messagesTo(fake: SmtpFake, address: string) {
+  return fake.messages.filter((m) => m.envelopeTo.includes(address.toLowerCase()));
+}
+
+export const linkIn = (text: string | null, pattern: RegExp): string => {
+  const match = (text ?? '').match(pattern);
+  if (!match) throw new Error(`No link matching ${pattern} in: ${text}`);
+  return match[0];
+};
