@@ -1,4 +1,6 @@
+import { analysePcm } from '@/shared/analysis';
 import type { AnalyseClip } from './demo';
 
-// The shared analysis has no entry point (shared/analysis/index.ts) yet; until it does, demo clips carry no analysis.
-export const analyseDemoClip: AnalyseClip | undefined = undefined;
+/** The server's analysis of record, the same code the device runs. */
+export const analyseDemoClip: AnalyseClip = (samples, sampleRate, site) =>
+  analysePcm(samples, sampleRate, { site });

@@ -2,7 +2,7 @@
 import type { Sequelize, Transaction } from 'sequelize';
 import { v5 as uuidv5 } from 'uuid';
 import type { Role, Site } from '@/shared/protocol';
-import { encodeWav16 } from '@/shared/analysis/wav';
+import { encodeWav16, type AnalysisResult } from '@/shared/analysis';
 import {
   Client,
   ClipBlob,
@@ -193,11 +193,7 @@ const DEMO_CLIENTS: readonly DemoClient[] = [
   },
 ];
 
-export type AnalyseClip = (
-  samples: Float32Array,
-  sampleRate: number,
-  site: Site,
-) => { quality: { verdict: 'good' | 'usable' | 'retake' } } & object;
+export type AnalyseClip = (samples: Float32Array, sampleRate: number, site: Site) => AnalysisResult;
 
 export interface SeedDemoOptions {
   sequelize: Sequelize;
@@ -219,7 +215,7 @@ const stableSeed = (text: string) => {
 
 /** Loads the demo clinic; every row has a fixed id, so a second run finds them all and adds nothing. */
 export async function seedDemo(options: SeedDemoOptions): Promise<SeedDemoSummary> {
-  const { sequelize, blobStore } = options;
+  const { sequelize } = options;
   initModels(sequelize);
   let created = 0;
   const count = (wasCreated: boolean) => {

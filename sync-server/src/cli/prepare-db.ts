@@ -13,7 +13,9 @@ const oneLine = (error: unknown) =>
 async function main(): Promise<void> {
   const databaseUrl = process.env.DATABASE_URL;
   if (!databaseUrl) {
-    console.error('DATABASE_URL is not set: run `npm start`, which sets up the database, or set it yourself.');
+    console.error(
+      'DATABASE_URL is not set: run `npm start`, which sets up the database, or set it yourself.',
+    );
     process.exit(1);
   }
   try {
@@ -25,7 +27,12 @@ async function main(): Promise<void> {
   const sequelize = createSequelize(databaseUrl, { poolMax: 2 });
   try {
     const blobDir = path.resolve(REPO_ROOT, process.env.BLOB_DIR ?? '.data/blobs');
-    await seedDemo({ sequelize, blobStore: new LocalDiskBlobStore(blobDir), analyse: analyseDemoClip, log: console.log });
+    await seedDemo({
+      sequelize,
+      blobStore: new LocalDiskBlobStore(blobDir),
+      analyse: analyseDemoClip,
+      log: console.log,
+    });
   } catch (error) {
     console.error(`Loading the demo data failed: ${oneLine(error)}. Fix it, or delete .data/ to start over.`);
     process.exitCode = 1;
