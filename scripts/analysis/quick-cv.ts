@@ -17,7 +17,7 @@ for (let fold = 0; fold < folds; fold++) {
   const held = new Set(patients.filter((_, i) => i % folds === fold));
   const t1 = Date.now();
   const model = fitModel(prepared.filter((p) => !held.has(p.recording.patient)), 'cv');
-  if (fold === 0) console.log('fit', Date.now() - t1, 'ms', JSON.stringify(model.durations));
+  if (fold === 0) console.log('fit', Date.now() - t1, 'ms', JSON.stringify(model.durations), JSON.stringify(model.orientation));
   for (const p of prepared.filter((p) => held.has(p.recording.patient))) {
     const seg = segmentFrames(p.features, model);
     const sounds = stateRuns(seg.states)
@@ -29,7 +29,8 @@ for (let fold = 0; fold < folds; fold++) {
     c60 = addCounts(c60, b);
     const onsets = sounds.filter((s) => s.type === 'S1').map((s) => s.startS);
     const iv = onsets.slice(1).map((o, i) => o - onsets[i]).sort((x, y) => x - y);
-    const hr = iv.length ? 60 / iv[iv.length >> 1] : NaN;
+    const q = iv.slice(Math.floor(iv.length / 4), Math.ceil((3 * iv.length) / 4));
+    const hr = q.length ? 60 / (q.reduce((a, b) => a + b, 0) / q.length) : NaN;
     const truth = annotatedHeartRate(p.recording.segments);
     if (truth) {
       hrN++;

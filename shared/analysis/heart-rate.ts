@@ -33,6 +33,16 @@ export function autocorrelation(envelope: Float64Array, maxLag: number): Float64
   return out;
 }
 
+/** Normalised autocorrelation of the envelope at a lag of `cycleS`, interpolated between whole frames. */
+export function periodicityAt(envelope: Float64Array, frameRate: number, cycleS: number): number {
+  const lag = cycleS * frameRate;
+  const below = Math.floor(lag);
+  if (below + 1 >= envelope.length) return 0;
+  const ac = autocorrelation(envelope, below + 1);
+  const fraction = lag - below;
+  return ac[below] * (1 - fraction) + ac[below + 1] * fraction;
+}
+
 /** Vertex of the parabola through (i-1, i, i+1). */
 function refinePeak(y: Float64Array, i: number): number {
   if (i <= 0 || i >= y.length - 1) return i;

@@ -1,3 +1,5 @@
+import type { OrientationModel } from './orientation';
+
 /**
  * Duration-dependent hidden semi-Markov segmentation into S1 → systole → S2 → diastole
  * (Springer et al., "Logistic regression-HSMM-based heart sound segmentation", IEEE TBME 2016):
@@ -36,6 +38,7 @@ export interface HsmmModel {
   frameRate: number;
   emission: EmissionModel;
   durations: DurationParameters;
+  orientation?: OrientationModel;
 }
 
 export interface StateDuration {

@@ -22,6 +22,7 @@ function bandFilters(sampleRate: number) {
       low: butter(2, BAND_HIGH_HZ, sampleRate, 'lowpass'),
       high: butter(2, BAND_LOW_HZ, sampleRate, 'highpass'),
     };
+    if (filters.size > 8) filters.clear();
     filters.set(sampleRate, pair);
   }
   return pair;

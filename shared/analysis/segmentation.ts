@@ -1,5 +1,8 @@
+import { stateRuns } from './segmentation-runs';
+export { stateRuns, type StateRun } from './segmentation-runs';
 import { type FrameFeatures } from './features';
-import { rateCandidates, withSwappedSystole, type RateEstimate } from './heart-rate';
+import { periodicityAt, rateCandidates, withSwappedSystole, type RateEstimate } from './heart-rate';
+import { orientationFeatures, orientationScore, swapSounds } from './orientation';
 import { emissionLogLikelihoods, stateDurations, viterbiSegment, type HsmmModel } from './hsmm';
 
 export interface SegmentationResult {
@@ -23,25 +26,42 @@ export function segmentFrames(features: FrameFeatures, model: HsmmModel, candida
     const { states, logLikelihood } = viterbiSegment(emission, durations);
     if (logLikelihood > best.logLikelihood) best = { states, frameRate: features.frameRate, rate, logLikelihood };
   }
+  if (best.rate) {
+    // the autocorrelation peak is blurred by beat-to-beat variation; the first labelling measures the cycle better
+    const measured = measuredRate(best.states, features.frameRate, best.rate);
+    if (measured) {
+      const durations = stateDurations(model.durations, measured.cycleS, measured.systoleS, features.frameRate);
+      const { states, logLikelihood } = viterbiSegment(emission, durations);
+      if (logLikelihood > best.logLikelihood) best = { states, frameRate: features.frameRate, rate: measured, logLikelihood };
+    }
+  }
+  if (best.rate) best = { ...best, rate: { ...best.rate, periodicity: periodicityAt(features.homomorphic, features.frameRate, best.rate.cycleS) } };
+  if (model.orientation) {
+    const orientation = orientationFeatures(best.states, features.series);
+    if (orientation && orientationScore(orientation, model.orientation) < 0) best = { ...best, states: swapSounds(best.states) };
+  }
   return best;
 }
 
-export interface StateRun {
-  state: number;
-  /** First frame. */
-  start: number;
-  /** One past the last frame. */
-  end: number;
-}
 
-export function stateRuns(states: Uint8Array): StateRun[] {
-  const runs: StateRun[] = [];
-  let start = 0;
-  for (let t = 1; t <= states.length; t++) {
-    if (t === states.length || states[t] !== states[start]) {
-      runs.push({ state: states[start], start, end: t });
-      start = t;
-    }
+const median = (values: number[]) => {
+  const sorted = [...values].sort((a, b) => a - b);
+  const mid = sorted.length >> 1;
+  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
+};
+
+function measuredRate(states: Uint8Array, frameRate: number, estimate: RateEstimate): RateEstimate | null {
+  const sounds = stateRuns(states).filter((r) => r.state === 0 || r.state === 2);
+  const cycles: number[] = [];
+  const systoles: number[] = [];
+  let lastS1 = -1;
+  for (let i = 0; i < sounds.length; i++) {
+    if (sounds[i].state !== 0) continue;
+    if (lastS1 >= 0) cycles.push(sounds[i].start - lastS1);
+    lastS1 = sounds[i].start;
+    if (sounds[i + 1]?.state === 2) systoles.push(sounds[i + 1].start - sounds[i].start);
   }
-  return runs;
+  if (cycles.length < 3 || systoles.length < 3) return null;
+  const cycleS = median(cycles) / frameRate;
+  return { ...estimate, cycleS, heartRateBpm: 60 / cycleS, systoleS: median(systoles) / frameRate };
 }

@@ -19,6 +19,14 @@ export type QualityReason =
 export interface Quality {
   verdict: 'good' | 'usable' | 'retake';
   reasons: { code: QualityReason; message: string }[];
+  /** The figures the verdict was drawn from. */
+  measures: {
+    /** Envelope autocorrelation at the heart cycle, 0–1; null when no cycle was found. */
+    periodicity: number | null;
+    clippedFraction: number;
+    /** Smaller of the systolic and diastolic rest-interval activity: noise raises both, a murmur one. */
+    restActivity: number | null;
+  };
 }
 
 /** One S1 → S2 → next S1 cycle; times in seconds from the clip start. */

@@ -1,0 +1,15 @@
+export type {
+  AnalysisOptions,
+  AnalysisResult,
+  BeatDetail,
+  HeartSound,
+  Metrics,
+  Quality,
+  QualityReason,
+  SiteCode,
+  SoundType,
+} from './types';
+export { AnalysisError, type AnalysisErrorCode } from './errors';
+export { decodeWav, encodeWav16, type DecodedWav } from './wav';
+export { analysePcm, analyseWav, ANALYSIS_VERSION } from './analyse';
+export { traceForDisplay, type DisplayTrace } from './trace';
