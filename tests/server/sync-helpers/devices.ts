@@ -21,31 +21,35 @@ export interface SyncTestServer {
   services: SyncServices;
   url: string;
   dataDir: string;
-  close(): Promise<void>;
+  /** keepData leaves the folders for a restarted server, as a killed process would. */
+  close(keepData?: boolean): Promise<void>;
 }
 
 /** The real app on a loopback port with its own key, blob and upload folders. */
-export async function startSyncServer(): Promise<SyncTestServer> {
-  const ctx = makeTestContext();
-  const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-sync-'));
+export async function startSyncServer(
+  options: { dataDir?: string; jwtSecret?: string; port?: number } = {},
+): Promise<SyncTestServer> {
+  const ctx = makeTestContext(options.jwtSecret ? { jwtSecret: options.jwtSecret } : {});
+  if (options.jwtSecret) ctx.jwtSecret = options.jwtSecret;
+  const dataDir = options.dataDir ?? fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-sync-'));
   const services = provideSyncServices(ctx.sequelize, {
     blobStore: new LocalDiskBlobStore(path.join(dataDir, 'blobs')),
     clinicKeysDir: path.join(dataDir, 'keys'),
     uploadDir: path.join(dataDir, 'uploads'),
   });
   const server = http.createServer(ctx.app);
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+  await new Promise<void>((resolve) => server.listen(options.port ?? 0, '127.0.0.1', resolve));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   return {
     ctx,
     services,
     url,
     dataDir,
-    close: async () => {
+    close: async (keepData = false) => {
       server.closeAllConnections();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       await ctx.close();
-      fs.rmSync(dataDir, { recursive: true, force: true });
+      if (!keepData) fs.rmSync(dataDir, { recursive: true, force: true });
     },
   };
 }
