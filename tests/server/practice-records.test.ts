@@ -1,0 +1,362 @@
+import { execFileSync } from 'node:child_process';
+import { randomUUID } from 'node:crypto';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import request from 'supertest';
+import { sealClip } from '@/shared/seal';
+import { runFollowUpReminders } from '@/sync-server/src/jobs/follow-up-reminders';
+import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
+import { practiceServices } from '@/sync-server/src/services/practice-services';
+import { provideSyncServices } from '@/sync-server/src/services/sync-services';
+import { purgeErased } from '@/sync-server/src/use-cases/clients/erase-client';
+import { startPracticeFakes, messagesTo, type PracticeFakes } from './helpers/practice-fakes';
+import { insertClient, insertSession, isoDay } from './helpers/practice-rows';
+import { makeClinic, makeTestContext, tokensFor, type TestClinic } from './helpers/test-app';
+
+const ctx = makeTestContext();
+let fakes: PracticeFakes;
+let clinic: TestClinic;
+let tokens: Record<'operator' | 'practitioner' | 'admin', string>;
+let sync: ReturnType<typeof provideSyncServices>;
+
+beforeAll(async () => {
+  fakes = await startPracticeFakes(ctx.app);
+  sync = provideSyncServices(ctx.sequelize, {
+    blobStore: new LocalDiskBlobStore(fakes.blobDir),
+    clinicKeysDir: fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-keys-')),
+    uploadDir: fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-uploads-')),
+  });
+  clinic = await makeClinic('Records');
+  tokens = await tokensFor(ctx.app, clinic);
+});
+afterAll(async () => {
+  await fakes.close();
+  await ctx.close();
+});
+
+const q = <T>(sql: string, replacements: Record<string, unknown> = {}) =>
+  ctx.sequelize.query(sql, { replacements, type: 'SELECT' }) as Promise<T[]>;
+const as = (role: keyof typeof tokens) => ({ authorization: `Bearer ${tokens[role]}` });
+
+/** A 16-bit mono PCM WAV (RIFF layout as in the Microsoft/IBM RIFF specification, 1991). */
+function wav(seconds: number, rate = 4000): Buffer {
+  const samples = Math.round(seconds * rate);
+  const b = Buffer.alloc(44 + samples * 2);
+  b.write('RIFF', 0);
+  b.writeUInt32LE(36 + samples * 2, 4);
+  b.write('WAVEfmt ', 8);
+  b.writeUInt32LE(16, 16);
+  b.writeUInt16LE(1, 20);
+  b.writeUInt16LE(1, 22);
+  b.writeUInt32LE(rate, 24);
+  b.writeUInt32LE(rate * 2, 28);
+  b.writeUInt16LE(2, 32);
+  b.writeUInt16LE(16, 34);
+  b.write('data', 36);
+  b.writeUInt32LE(samples * 2, 40);
+  for (let i = 0; i < samples; i++)
+    b.writeInt16LE(Math.round(8000 * Math.sin((2 * Math.PI * 50 * i) / rate)), 44 + i * 2);
+  return b;
+}
+
+async function recordedClient() {
+  const clientId = await insertClient(ctx.sequelize, clinic.id);
+  const sessionId = await insertSession(ctx.sequelize, clinic.id, clientId, {
+    findings: 'Clear recordings at all four sites.',
+    status: 'reviewed',
+  });
+  const plain = wav(1);
+  const sealed = sealClip(plain, sync.clinicKeys.publicKey(clinic.id));
+  const stored = await sync.blobStore.put(sealed);
+  await ctx.sequelize.query(
+    `INSERT INTO clip_blobs (sha256, clinic_id, size_bytes, content_type, storage_key, state) VALUES (:sha, :clinicId, :size, 'application/octet-stream', :key, 'stored')`,
+    {
+      replacements: {
+        sha: stored.sha256,
+        clinicId: clinic.id,
+        size: stored.sizeBytes,
+        key: stored.storageKey,
+      },
+    },
+  );
+  await ctx.sequelize.query(
+    `INSERT INTO site_recordings (id, clinic_id, session_id, site, quality_verdict, clip_sha256, clip_state, duration_s, recorded_at, analysis)
+     VALUES (:id, :clinicId, :sessionId, 'mitral', 'good', :sha, 'stored', 1, now(), CAST(:analysis AS jsonb))`,
+    {
+      replacements: {
+        id: randomUUID(),
+        clinicId: clinic.id,
+        sessionId,
+        sha: stored.sha256,
+        analysis: JSON.stringify({ heartRateBpm: 71.5, sdnnMs: 42, trace: Array(50).fill(0) }),
+      },
+    },
+  );
+  return { clientId, sessionId, plain, storageKey: stored.storageKey };
+}
+
+describe('follow-up reminders', () => {
+  test('when the reminder job runs twice, then the client gets exactly one e-mail for the follow-up date', async () => {
+    const clientId = await insertClient(ctx.sequelize, clinic.id);
+    await insertSession(ctx.sequelize, clinic.id, clientId, { followUpDate: isoDay(2) });
+    const [{ email }] = await q<{ email: string }>(`SELECT email FROM clients WHERE id = :clientId`, {
+      clientId,
+    });
+    const mail = practiceServices().mail;
+    const first = await runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id });
+    const second = await runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id });
+    expect(first.sent).toBeGreaterThanOrEqual(1);
+    expect(second).toEqual({ queued: 0, sent: 0, failed: 0 });
+    const received = messagesTo(fakes.mail, email);
+    expect(received).toHaveLength(1);
+    expect(received[0].subject).toContain('follow-up');
+    expect(received[0].text).toContain('not a diagnostic device');
+  });
+
+  test('when two job runs start at the same moment, then still only one e-mail goes out', async () => {
+    const clientId = await insertClient(ctx.sequelize, clinic.id);
+    await insertSession(ctx.sequelize, clinic.id, clientId, { followUpDate: isoDay(1) });
+    const [{ email }] = await q<{ email: string }>(`SELECT email FROM clients WHERE id = :clientId`, {
+      clientId,
+    });
+    const mail = practiceServices().mail;
+    await Promise.all([
+      runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id }),
+      runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id }),
+    ]);
+    expect(messagesTo(fakes.mail, email)).toHaveLength(1);
+  });
+
+  test('when the mail relay defers a reminder, then it stays pending and the next run sends it once', async () => {
+    const clientId = await insertClient(ctx.sequelize, clinic.id);
+    await insertSession(ctx.sequelize, clinic.id, clientId, { followUpDate: isoDay(0) });
+    const [{ email }] = await q<{ email: string }>(`SELECT email FROM clients WHERE id = :clientId`, {
+      clientId,
+    });
+    fakes.mail.deferNext(1);
+    const first = await runFollowUpReminders(ctx.sequelize, practiceServices().mail, { clinicId: clinic.id });
+    expect(first.failed).toBe(1);
+    const [row] = await q<{ status: string }>(
+      `SELECT status FROM follow_up_reminders WHERE client_id = :clientId`,
+      { clientId },
+    );
+    expect(row.status).toBe('pending');
+    await runFollowUpReminders(ctx.sequelize, practiceServices().mail, { clinicId: clinic.id });
+    expect(messagesTo(fakes.mail, email)).toHaveLength(1);
+  });
+
+  test('when a follow-up is further off than the notice period, then no reminder is made yet, but the operator sees it as due soon', async () => {
+    const clientId = await insertClient(ctx.sequelize, clinic.id);
+    await insertSession(ctx.sequelize, clinic.id, clientId, { followUpDate: isoDay(10) });
+    await runFollowUpReminders(ctx.sequelize, practiceServices().mail, { clinicId: clinic.id });
+    expect(
+      await q(`SELECT 1 FROM follow_up_reminders WHERE client_id = :clientId`, { clientId }),
+    ).toHaveLength(0);
+    const due = await request(ctx.app).get('/api/follow-ups/due?withinDays=14').set(as('operator'));
+    expect(due.status).toBe(200);
+    expect(due.body.due.find((d: { clientId: string }) => d.clientId === clientId)).toMatchObject({
+      daysUntil: 10,
+      reminderStatus: 'none',
+    });
+  });
+});
+
+describe('audit log', () => {
+  test('when a client record is read, then the read is in the audit log with who, when and from where', async () => {
+    const clientId = await insertClient(ctx.sequelize, clinic.id);
+    expect(
+      (await request(ctx.app).get(`/api/client-records/${clientId}`).set(as('practitioner'))).status,
+    ).toBe(200);
+    const log = await request(ctx.app)
+      .get(`/api/audit?action=client.read&entityId=${clientId}`)
+      .set(as('admin'));
+    expect(log.status).toBe(200);
+    expect(log.body.events).toEqual([
+      expect.objectContaining({
+        action: 'client.read',
+        userId: clinic.users.practitioner.id,
+        entity: 'client',
+        ip: expect.any(String),
+      }),
+    ]);
+  });
+
+  test('when anyone tries to change or remove an audit row, then neither the API nor the database allows it', async () => {
+    const log = await request(ctx.app).get('/api/audit').set(as('admin'));
+    const id = log.body.events[0].id;
+    for (const method of ['put', 'patch', 'delete'] as const) {
+      const agent = request(ctx.app);
+      const res = await agent[method](`/api/audit/${id}`).set(as('admin')).send({ action: 'nothing' });
+      expect(res.status).toBe(404);
+    }
+    await expect(
+      ctx.sequelize.query(`UPDATE audit_events SET action = 'edited' WHERE id = :id`, {
+        replacements: { id },
+      }),
+    ).rejects.toThrow(/append-only/);
+    await expect(
+      ctx.sequelize.query(`DELETE FROM audit_events WHERE id = :id`, { replacements: { id } }),
+    ).rejects.toThrow(/append-only/);
+  });
+
+  test('when a practitioner asks for the audit log, then it is refused', async () => {
+    expect((await request(ctx.app).get('/api/audit').set(as('practitioner'))).status).toBe(403);
+  });
+});
+
+describe('client records', () => {
+  test('when two people edit the same client, then the second, stale edit is refused and loses nothing of the first', async () => {
+    const clientId = await insertClient(ctx.sequelize, clinic.id);
+    const rec = (await request(ctx.app).get(`/api/client-records/${clientId}`).set(as('admin'))).body;
+    const base = {
+      firstName: rec.client.firstName,
+      lastName: rec.client.lastName,
+      version: rec.client.version,
+    };
+    const first = await request(ctx.app)
+      .patch(`/api/client-records/${clientId}`)
+      .set(as('admin'))
+      .send({ ...base, phone: '555-0101' });
+    expect(first.status).toBe(200);
+    expect(first.body.client.version).toBe(base.version + 1);
+    const stale = await request(ctx.app)
+      .patch(`/api/client-records/${clientId}`)
+      .set(as('practitioner'))
+      .send({ ...base, phone: '555-0199' });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error.code).toBe('stale_edit');
+    const now = (await request(ctx.app).get(`/api/client-records/${clientId}`).set(as('admin'))).body;
+    expect(now.client.phone).toBe('555-0101');
+  });
+
+  test('when the client table is searched, sorted and paged, then it answers one page with the total', async () => {
+    const last = `Pager${randomUUID().slice(0, 6)}`;
+    for (const first of ['Cyd', 'Abe', 'Bea']) await insertClient(ctx.sequelize, clinic.id, { first, last });
+    const res = await request(ctx.app)
+      .get(`/api/client-records?q=${last}&sort=name&dir=asc&page=1&pageSize=2`)
+      .set(as('admin'));
+    expect(res.status).toBe(200);
+    expect(res.body.pageInfo).toEqual({ page: 1, pageSize: 2, total: 3 });
+    expect(res.body.clients.map((c: { firstName: string }) => c.firstName)).toEqual(['Abe', 'Bea']);
+  });
+
+  test('when a new consent text is published, then it gets the next version and becomes the current one', async () => {
+    const a = await request(ctx.app)
+      .post('/api/consent-texts')
+      .set(as('admin'))
+      .send({ title: 'Recording consent', body: 'I agree to heart-sound recording.' });
+    const b = await request(ctx.app)
+      .post('/api/consent-texts')
+      .set(as('admin'))
+      .send({ title: 'Recording consent', body: 'Revised wording.' });
+    expect(b.body.text.version).toBe(a.body.text.version + 1);
+    const list = await request(ctx.app).get('/api/consent-texts').set(as('operator'));
+    expect(
+      list.body.texts.filter((t: { isCurrent: boolean }) => t.isCurrent).map((t: { id: string }) => t.id),
+    ).toEqual([b.body.text.id]);
+  });
+});
+
+describe('export and erasure', () => {
+  test('when the admin exports a client, then the zip holds the CSVs, the clip as the WAV recorded, and the report', async () => {
+    const { clientId, plain } = await recordedClient();
+    const res = await request(ctx.app)
+      .get(`/api/client-records/${clientId}/export`)
+      .set(as('admin'))
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toBe('application/zip');
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-export-'));
+    const zipFile = path.join(dir, 'export.zip');
+    fs.writeFileSync(zipFile, res.body as Buffer);
+    // Debian's Info-ZIP unzip reads the archive: an outside check that the zip is well formed.
+    execFileSync('unzip', ['-q', zipFile, '-d', dir]);
+    const listing = fs.readdirSync(dir, { recursive: true }).map(String).sort();
+    expect(listing).toEqual(
+      expect.arrayContaining(['client.csv', 'consents.csv', 'visits.csv', 'measurements.csv', 'README.txt']),
+    );
+    const wavName = listing.find((f) => f.startsWith('clips/') && f.endsWith('.wav'))!;
+    expect(fs.readFileSync(path.join(dir, wavName)).equals(plain)).toBe(true);
+    expect(listing.some((f) => f.startsWith('reports/') && f.endsWith('.pdf'))).toBe(true);
+    const measurements = fs.readFileSync(path.join(dir, 'measurements.csv'), 'utf8');
+    expect(measurements).toContain('mitral');
+    expect(measurements).toContain('heartRateBpm,71.5');
+    expect(measurements).not.toContain('trace');
+    expect(fs.readFileSync(path.join(dir, 'visits.csv'), 'utf8')).toContain(
+      'Clear recordings at all four sites.',
+    );
+    const log = await request(ctx.app)
+      .get(`/api/audit?action=client.export&entityId=${clientId}`)
+      .set(as('admin'));
+    expect(log.body.events).toHaveLength(1);
+  });
+
+  test('when an operator asks for an export, then it is refused', async () => {
+    const clientId = await insertClient(ctx.sequelize, clinic.id);
+    expect(
+      (await request(ctx.app).get(`/api/client-records/${clientId}/export`).set(as('operator'))).status,
+    ).toBe(403);
+  });
+
+  test('when the admin erases a client, then rows are tombstoned without personal data, the clip is deleted, devices see the tombstones, and the log keeps only the fact', async () => {
+    const { clientId, sessionId, storageKey } = await recordedClient();
+    const [{ first_name, last_name, seq: seqBefore }] = await q<{
+      first_name: string;
+      last_name: string;
+      seq: string;
+    }>(`SELECT first_name, last_name, change_seq AS seq FROM clients WHERE id = :clientId`, { clientId });
+    const wrong = await request(ctx.app)
+      .post(`/api/client-records/${clientId}/erase`)
+      .set(as('admin'))
+      .send({ confirmName: 'Someone Else' });
+    expect(wrong.status).toBe(400);
+
+    const res = await request(ctx.app)
+      .post(`/api/client-records/${clientId}/erase`)
+      .set(as('admin'))
+      .send({ confirmName: `${first_name} ${last_name}` });
+    expect(res.status).toBe(200);
+    expect(res.body.blobsDeleted).toBe(1);
+    expect(fs.existsSync(path.join(fakes.blobDir, storageKey))).toBe(false);
+
+    const [client] = await q<{
+      deleted_at: Date | null;
+      first_name: string;
+      email: string | null;
+      seq: string;
+    }>(`SELECT deleted_at, first_name, email, change_seq AS seq FROM clients WHERE id = :clientId`, {
+      clientId,
+    });
+    expect(client.deleted_at).not.toBeNull();
+    expect(client.first_name).toBe('erased');
+    expect(client.email).toBeNull();
+    expect(BigInt(client.seq)).toBeGreaterThan(BigInt(seqBefore));
+    const [session] = await q<{ deleted_at: Date | null; findings: string | null }>(
+      `SELECT deleted_at, findings FROM recording_sessions WHERE id = :sessionId`,
+      { sessionId },
+    );
+    expect(session.deleted_at).not.toBeNull();
+    expect(session.findings).toBeNull();
+
+    expect((await request(ctx.app).get(`/api/client-records/${clientId}`).set(as('admin'))).status).toBe(404);
+    const log = await request(ctx.app)
+      .get(`/api/audit?action=client.erase&entityId=${clientId}`)
+      .set(as('admin'));
+    expect(log.body.events).toHaveLength(1);
+    expect(JSON.stringify(log.body.events[0])).not.toContain(first_name);
+
+    expect(await purgeErased(ctx, { graceMs: 0, clinicId: clinic.id })).toBeGreaterThanOrEqual(1);
+    expect(await q(`SELECT 1 FROM clients WHERE id = :clientId`, { clientId })).toHaveLength(0);
+    expect(await q(`SELECT 1 FROM recording_sessions WHERE id = :sessionId`, { sessionId })).toHaveLength(0);
+    const kept = await request(ctx.app)
+      .get(`/api/audit?action=client.erase&entityId=${clientId}`)
+      .set(as('admin'));
+    expect(kept.body.events).toHaveLength(1);
+  });
+});
