@@ -12,22 +12,26 @@ export const sites: readonly SiteInfo[] = [
   {
     id: 'mitral',
     label: 'Mitral',
-    placement: 'Apex, 5th intercostal space at the left mid-clavicular line; client turned slightly to the left, breathing normally.',
+    placement:
+      'Apex, 5th intercostal space at the left mid-clavicular line; client turned slightly to the left, breathing normally.',
   },
   {
     id: 'tricuspid',
     label: 'Tricuspid',
-    placement: '4th intercostal space at the lower left edge of the sternum; client lying on the back, breathing normally.',
+    placement:
+      '4th intercostal space at the lower left edge of the sternum; client lying on the back, breathing normally.',
   },
   {
     id: 'aortic',
     label: 'Aortic',
-    placement: '2nd intercostal space just right of the sternum; client sitting and leaning forward, holding the breath after breathing out.',
+    placement:
+      '2nd intercostal space just right of the sternum; client sitting and leaning forward, holding the breath after breathing out.',
   },
   {
     id: 'pulmonic',
     label: 'Pulmonic',
-    placement: '2nd intercostal space just left of the sternum; client sitting, holding the breath after breathing out.',
+    placement:
+      '2nd intercostal space just left of the sternum; client sitting, holding the breath after breathing out.',
   },
 ];
 

@@ -15,7 +15,9 @@ function paint(inside, color) {
   for (let y = 0; y < size; y++) {
     for (let x = 0; x < size; x++) {
       let hits = 0;
-      for (let sy = 0; sy < 4; sy++) for (let sx = 0; sx < 4; sx++) if (inside((x + (sx + 0.5) / 4) / size, (y + (sy + 0.5) / 4) / size)) hits++;
+      for (let sy = 0; sy < 4; sy++)
+        for (let sx = 0; sx < 4; sx++)
+          if (inside((x + (sx + 0.5) / 4) / size, (y + (sy + 0.5) / 4) / size)) hits++;
       if (!hits) continue;
       const a = hits / 16;
       const i = (y * size + x) * 4;
@@ -33,14 +35,30 @@ const tile = (u, v) => {
   return dx * dx + dy * dy <= r * r;
 };
 const dot = (cx, cy) => (u, v) => (u - cx) ** 2 + (v - cy) ** 2 <= 0.075 ** 2;
-const beat = [[0.33, 0.5], [0.41, 0.5], [0.46, 0.39], [0.55, 0.61], [0.6, 0.5], [0.67, 0.5]];
+const beat = [
+  [0.33, 0.5],
+  [0.41, 0.5],
+  [0.46, 0.39],
+  [0.55, 0.61],
+  [0.6, 0.5],
+  [0.67, 0.5],
+];
 function nearSegment(u, v, [ax, ay], [bx, by], w) {
-  const t = Math.max(0, Math.min(1, ((u - ax) * (bx - ax) + (v - ay) * (by - ay)) / ((bx - ax) ** 2 + (by - ay) ** 2)));
+  const t = Math.max(
+    0,
+    Math.min(1, ((u - ax) * (bx - ax) + (v - ay) * (by - ay)) / ((bx - ax) ** 2 + (by - ay) ** 2)),
+  );
   return (u - ax - t * (bx - ax)) ** 2 + (v - ay - t * (by - ay)) ** 2 <= w * w;
 }
 
 paint(tile, ink);
-for (const [cx, cy] of [[0.5, 0.23], [0.77, 0.5], [0.5, 0.77], [0.23, 0.5]]) paint(dot(cx, cy), brick);
+for (const [cx, cy] of [
+  [0.5, 0.23],
+  [0.77, 0.5],
+  [0.5, 0.77],
+  [0.23, 0.5],
+])
+  paint(dot(cx, cy), brick);
 paint((u, v) => beat.slice(1).some((p, i) => nearSegment(u, v, beat[i], p, 0.028)), paper);
 
 function crc32(buf) {
@@ -64,7 +82,8 @@ ihdr.writeUInt32BE(size, 0);
 ihdr.writeUInt32BE(size, 4);
 ihdr.set([8, 6, 0, 0, 0], 8);
 const raw = Buffer.alloc(size * (size * 4 + 1));
-for (let y = 0; y < size; y++) Buffer.from(px.buffer, y * size * 4, size * 4).copy(raw, y * (size * 4 + 1) + 1);
+for (let y = 0; y < size; y++)
+  Buffer.from(px.buffer, y * size * 4, size * 4).copy(raw, y * (size * 4 + 1) + 1);
 const png = Buffer.concat([
   Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
   chunk('IHDR', ihdr),

@@ -14,7 +14,11 @@ function Overview({ members }: { members: TeamMember[] }) {
   const active = members.filter((m) => !m.disabled);
   const cards = [
     { key: 'people', label: 'Active people', value: active.length },
-    ...roles.map((r) => ({ key: r, label: `${roleLabels[r]}s`, value: active.filter((m) => m.role === r).length })),
+    ...roles.map((r) => ({
+      key: r,
+      label: `${roleLabels[r]}s`,
+      value: active.filter((m) => m.role === r).length,
+    })),
     { key: 'disabled', label: 'Disabled accounts', value: members.length - active.length },
   ];
   return (
@@ -41,7 +45,9 @@ export function AdminHomeScreen() {
   if (team.isPending) {
     body = <LoadingState label="Loading the team…" testID="team-loading" />;
   } else if (team.isError) {
-    body = <ErrorState message={team.error.message} onRetry={() => void team.refetch()} testID="team-error" />;
+    body = (
+      <ErrorState message={team.error.message} onRetry={() => void team.refetch()} testID="team-error" />
+    );
   } else if (team.data.length === 0) {
     body = <EmptyState title="No team members" detail="People you invite appear here." testID="team-empty" />;
   } else {
@@ -57,7 +63,11 @@ export function AdminHomeScreen() {
   }
 
   return (
-    <ScreenFrame title="Clinic overview" subtitle="Who works in this clinic and in which role." testID="admin-home">
+    <ScreenFrame
+      title="Clinic overview"
+      subtitle="Who works in this clinic and in which role."
+      testID="admin-home"
+    >
       {body}
       <CautionNote compact />
     </ScreenFrame>

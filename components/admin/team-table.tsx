@@ -33,7 +33,9 @@ export function TeamTable({ members, wide }: { members: TeamMember[]; wide: bool
           </View>
           <View style={wide ? styles.flex1 : styles.badges}>
             <Badge label={roleLabels[m.role]} tone="ink" />
-            {!wide ? <Badge label={m.disabled ? 'Disabled' : 'Active'} tone={m.disabled ? 'danger' : 'good'} /> : null}
+            {!wide ? (
+              <Badge label={m.disabled ? 'Disabled' : 'Active'} tone={m.disabled ? 'danger' : 'good'} />
+            ) : null}
           </View>
           {wide ? (
             <View style={styles.flex1}>
@@ -47,7 +49,13 @@ export function TeamTable({ members, wide }: { members: TeamMember[]; wide: bool
 }
 
 const styles = StyleSheet.create({
-  table: { backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.line, borderRadius: radii.md, overflow: 'hidden' },
+  table: {
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    overflow: 'hidden',
+  },
   row: {
     flexDirection: 'row',
     alignItems: 'center',

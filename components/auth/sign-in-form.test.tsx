@@ -36,7 +36,9 @@ describe('sign-in form', () => {
   test('when submitted empty, then both fields say what is missing and nothing is sent', async () => {
     const onSubmit = setup(okAnswer);
     fill('', '');
-    expect(await screen.findByTestId('sign-in-email-error')).toHaveTextContent('Enter a valid e-mail address.');
+    expect(await screen.findByTestId('sign-in-email-error')).toHaveTextContent(
+      'Enter a valid e-mail address.',
+    );
     expect(screen.getByTestId('sign-in-password-error')).toHaveTextContent('Enter your password.');
     expect(onSubmit).not.toHaveBeenCalled();
   });
@@ -44,7 +46,9 @@ describe('sign-in form', () => {
   test('when the e-mail is malformed, then only the e-mail field shows an error', async () => {
     const onSubmit = setup(okAnswer);
     fill('not-an-address', 'secret');
-    expect(await screen.findByTestId('sign-in-email-error')).toHaveTextContent('Enter a valid e-mail address.');
+    expect(await screen.findByTestId('sign-in-email-error')).toHaveTextContent(
+      'Enter a valid e-mail address.',
+    );
     expect(screen.queryByTestId('sign-in-password-error')).toBeNull();
     expect(onSubmit).not.toHaveBeenCalled();
   });
@@ -52,20 +56,30 @@ describe('sign-in form', () => {
   test('when the fields are valid, then the trimmed lower-case e-mail and the password are sent', async () => {
     const onSubmit = setup(okAnswer);
     fill('  Someone@Clinic.Example ', 'pw');
-    await waitFor(() => expect(onSubmit).toHaveBeenCalledWith({ email: 'someone@clinic.example', password: 'pw' }));
+    await waitFor(() =>
+      expect(onSubmit).toHaveBeenCalledWith({ email: 'someone@clinic.example', password: 'pw' }),
+    );
     expect(screen.queryByTestId('sign-in-error')).toBeNull();
   });
 
   test("when the server answers 401, then the server's message is shown", async () => {
     setup({ kind: 'unauthorized', message: 'That e-mail and password do not match an account.' });
     fill('someone@clinic.example', 'wrong');
-    expect(await screen.findByTestId('sign-in-error')).toHaveTextContent('That e-mail and password do not match an account.');
+    expect(await screen.findByTestId('sign-in-error')).toHaveTextContent(
+      'That e-mail and password do not match an account.',
+    );
   });
 
   test("when the server answers 429, then the server's wait message is shown", async () => {
-    setup({ kind: 'rate-limited', message: 'Too many sign-in attempts. Try again in 15 minutes.', temporary: true });
+    setup({
+      kind: 'rate-limited',
+      message: 'Too many sign-in attempts. Try again in 15 minutes.',
+      temporary: true,
+    });
     fill('someone@clinic.example', 'wrong');
-    expect(await screen.findByTestId('sign-in-error')).toHaveTextContent('Too many sign-in attempts. Try again in 15 minutes.');
+    expect(await screen.findByTestId('sign-in-error')).toHaveTextContent(
+      'Too many sign-in attempts. Try again in 15 minutes.',
+    );
   });
 
   test('when the network is unreachable, then the form says so', async () => {

@@ -55,7 +55,10 @@ export function NavBar({ state, descriptors, navigation, wide, tabNames }: Props
 
   if (!wide) {
     return (
-      <View style={[styles.bottom, { paddingBottom: Math.max(insets.bottom, space.sm) }]} testID="bottom-tabs">
+      <View
+        style={[styles.bottom, { paddingBottom: Math.max(insets.bottom, space.sm) }]}
+        testID="bottom-tabs"
+      >
         {items}
       </View>
     );

@@ -1,4 +1,5 @@
-import { StyleSheet, View } from 'react-native';
+import { useRouter } from 'expo-router';
+import { Pressable, StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
 import { Badge } from '@/components/ui/badge';
 import { formatDate } from '@/components/ui/format';
@@ -6,9 +7,16 @@ import { colors, radii, space } from '@/constants/theme';
 import type { ClientSummary } from '@/shared/protocol';
 
 export function ClientRow({ client }: { client: ClientSummary }) {
+  const router = useRouter();
   const initials = `${client.firstName.charAt(0)}${client.lastName.charAt(0)}`.toUpperCase();
   return (
-    <View style={styles.row} testID={`client-row-${client.id}`}>
+    <Pressable
+      style={({ pressed }) => [styles.row, pressed && styles.pressed]}
+      testID={`client-row-${client.id}`}
+      accessibilityRole="button"
+      accessibilityLabel={`${client.firstName} ${client.lastName}`}
+      onPress={() => router.push({ pathname: '/clients/[clientId]', params: { clientId: client.id } })}
+    >
       <View style={styles.avatar}>
         <AppText variant="smallStrong" color={colors.textOnInk}>
           {initials}
@@ -33,7 +41,7 @@ export function ClientRow({ client }: { client: ClientSummary }) {
         tone={client.hasConsent ? 'good' : 'caution'}
         testID={`client-consent-${client.id}`}
       />
-    </View>
+    </Pressable>
   );
 }
 
@@ -48,6 +56,7 @@ const styles = StyleSheet.create({
     borderRadius: radii.md,
     padding: space.md,
   },
+  pressed: { backgroundColor: colors.surfaceMuted },
   avatar: {
     width: 40,
     height: 40,

@@ -10,7 +10,11 @@ import { useAuth } from '@/hooks/auth/auth-context';
 export function OperatorAccountScreen() {
   const auth = useAuth();
   return (
-    <ScreenFrame title="Account" subtitle="Who is signed in on this device, and the capture order." testID="operator-account">
+    <ScreenFrame
+      title="Account"
+      subtitle="Who is signed in on this device, and the capture order."
+      testID="operator-account"
+    >
       {auth.status === 'signed-in' ? (
         <View style={styles.card} testID="account-details">
           <AppText variant="caption" color={colors.textMuted}>

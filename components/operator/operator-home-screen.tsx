@@ -1,6 +1,8 @@
+import { useRouter } from 'expo-router';
 import { useState } from 'react';
 import { StyleSheet, TextInput, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
+import { Button } from '@/components/ui/button';
 import { CautionNote } from '@/components/ui/caution-note';
 import { SearchIcon } from '@/components/ui/icons';
 import { ScreenFrame } from '@/components/ui/screen-frame';
@@ -14,20 +16,29 @@ export function OperatorHomeScreen() {
   const [search, setSearch] = useState('');
   const q = useDebouncedValue(search);
   const clients = useClientsQuery(q);
+  const router = useRouter();
 
   const searchBox = (
-    <View style={styles.search}>
-      <SearchIcon color={colors.textMuted} />
-      <TextInput
-        testID="client-search"
-        accessibilityLabel="Search clients"
-        placeholder="Search clients by name or e-mail"
-        placeholderTextColor={colors.textMuted}
-        value={search}
-        onChangeText={setSearch}
-        autoCapitalize="none"
-        autoCorrect={false}
-        style={styles.searchInput}
+    <View style={styles.tools}>
+      <View style={styles.search}>
+        <SearchIcon color={colors.textMuted} />
+        <TextInput
+          testID="client-search"
+          accessibilityLabel="Search clients"
+          placeholder="Search clients by name or e-mail"
+          placeholderTextColor={colors.textMuted}
+          value={search}
+          onChangeText={setSearch}
+          autoCapitalize="none"
+          autoCorrect={false}
+          style={styles.searchInput}
+        />
+      </View>
+      <Button
+        label="New client"
+        testID="client-add"
+        variant="secondary"
+        onPress={() => router.push('/clients/new')}
       />
     </View>
   );
@@ -36,12 +47,26 @@ export function OperatorHomeScreen() {
   if (clients.isPending) {
     body = <LoadingState label="Loading clients…" testID="clients-loading" />;
   } else if (clients.isError) {
-    body = <ErrorState message={clients.error.message} onRetry={() => void clients.refetch()} testID="clients-error" />;
+    body = (
+      <ErrorState
+        message={clients.error.message}
+        onRetry={() => void clients.refetch()}
+        testID="clients-error"
+      />
+    );
   } else if (clients.data.length === 0) {
     body = q.trim() ? (
-      <EmptyState title="No match" detail={`No client matches “${q.trim()}”. Check the spelling or search by e-mail.`} testID="clients-empty" />
+      <EmptyState
+        title="No match"
+        detail={`No client matches “${q.trim()}”. Check the spelling or search by e-mail.`}
+        testID="clients-empty"
+      />
     ) : (
-      <EmptyState title="No clients yet" detail="Clients added by your clinic appear here." testID="clients-empty" />
+      <EmptyState
+        title="No clients yet"
+        detail="Clients added by your clinic appear here."
+        testID="clients-empty"
+      />
     );
   } else {
     body = (
@@ -57,7 +82,12 @@ export function OperatorHomeScreen() {
   }
 
   return (
-    <ScreenFrame title="Clients" subtitle="Find the client, then record the four sites." testID="operator-home" header={searchBox}>
+    <ScreenFrame
+      title="Clients"
+      subtitle="Find the client, then record the four sites."
+      testID="operator-home"
+      header={searchBox}
+    >
       {body}
       <CautionNote compact />
     </ScreenFrame>
@@ -65,17 +95,17 @@ export function OperatorHomeScreen() {
 }
 
 const styles = StyleSheet.create({
+  tools: { flexDirection: 'row', gap: space.sm, marginTop: space.sm, maxWidth: 640, alignItems: 'center' },
   search: {
+    flex: 1,
     flexDirection: 'row',
     alignItems: 'center',
     gap: space.sm,
-    marginTop: space.sm,
     backgroundColor: colors.surface,
     borderWidth: 1,
     borderColor: colors.line,
     borderRadius: radii.md,
     paddingHorizontal: space.md,
-    maxWidth: 640,
   },
   searchInput: { flex: 1, minHeight: 46, fontFamily: fonts.body, fontSize: 16, color: colors.text },
   list: { gap: space.sm, maxWidth: 640 },

@@ -30,17 +30,37 @@ export function PractitionerHomeScreen() {
   if (sessions.isPending) {
     body = <LoadingState label="Loading sessions…" testID="sessions-loading" />;
   } else if (sessions.isError) {
-    body = <ErrorState message={sessions.error.message} onRetry={() => void sessions.refetch()} testID="sessions-error" />;
+    body = (
+      <ErrorState
+        message={sessions.error.message}
+        onRetry={() => void sessions.refetch()}
+        testID="sessions-error"
+      />
+    );
   } else if (sessions.data.length === 0) {
-    body = <EmptyState title="No sessions yet" detail="Sessions appear here once a device has synced them." testID="sessions-empty" />;
+    body = (
+      <EmptyState
+        title="No sessions yet"
+        detail="Sessions appear here once a device has synced them."
+        testID="sessions-empty"
+      />
+    );
   } else {
     const list = sessions.data;
     body = (
       <>
         <View style={styles.stats}>
           <Stat label="Sessions" value={list.length} testID="stat-sessions" />
-          <Stat label="Ready for review" value={list.filter((s) => s.status === 'completed').length} testID="stat-to-review" />
-          <Stat label="Reviewed" value={list.filter((s) => s.status === 'reviewed').length} testID="stat-reviewed" />
+          <Stat
+            label="Ready for review"
+            value={list.filter((s) => s.status === 'completed').length}
+            testID="stat-to-review"
+          />
+          <Stat
+            label="Reviewed"
+            value={list.filter((s) => s.status === 'reviewed').length}
+            testID="stat-reviewed"
+          />
         </View>
         {isWide ? <SessionsTable sessions={list} /> : <SessionsCards sessions={list} />}
         <SiteLegend />
@@ -49,7 +69,11 @@ export function PractitionerHomeScreen() {
   }
 
   return (
-    <ScreenFrame title="Recent sessions" subtitle="Synced sessions from the clinic's devices, newest first." testID="practitioner-home">
+    <ScreenFrame
+      title="Recent sessions"
+      subtitle="Synced sessions from the clinic's devices, newest first."
+      testID="practitioner-home"
+    >
       <CautionNote compact={!isWide} />
       {body}
     </ScreenFrame>

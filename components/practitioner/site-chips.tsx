@@ -57,11 +57,17 @@ export function SiteLegend() {
   return (
     <View style={styles.legend} testID="site-legend">
       <AppText variant="caption" color={colors.textMuted}>
-        {sites.map((s) => `${s.label.charAt(0)} ${s.label.toLowerCase()}`).join(' · ')}. Colour is recording quality:
+        {sites.map((s) => `${s.label.charAt(0)} ${s.label.toLowerCase()}`).join(' · ')}. Colour is recording
+        quality:
       </AppText>
       {legend.map((l) => (
         <View key={l.label} style={styles.legendItem}>
-          <View style={[styles.swatch, { backgroundColor: toneColors[l.tone].bg, borderColor: toneColors[l.tone].fg }]} />
+          <View
+            style={[
+              styles.swatch,
+              { backgroundColor: toneColors[l.tone].bg, borderColor: toneColors[l.tone].fg },
+            ]}
+          />
           <AppText variant="caption" color={colors.textMuted}>
             {l.label}
           </AppText>

@@ -12,7 +12,15 @@ const tones: Record<BadgeTone, { bg: string; fg: string }> = {
   ink: { bg: colors.ink, fg: colors.textOnInk },
 };
 
-export function Badge({ label, tone = 'neutral', testID }: { label: string; tone?: BadgeTone; testID?: string }) {
+export function Badge({
+  label,
+  tone = 'neutral',
+  testID,
+}: {
+  label: string;
+  tone?: BadgeTone;
+  testID?: string;
+}) {
   const t = tones[tone];
   return (
     <View style={[styles.badge, { backgroundColor: t.bg }]} testID={testID}>
@@ -24,5 +32,10 @@ export function Badge({ label, tone = 'neutral', testID }: { label: string; tone
 }
 
 const styles = StyleSheet.create({
-  badge: { alignSelf: 'flex-start', paddingHorizontal: space.sm, paddingVertical: 2, borderRadius: radii.pill },
+  badge: {
+    alignSelf: 'flex-start',
+    paddingHorizontal: space.sm,
+    paddingVertical: 2,
+    borderRadius: radii.pill,
+  },
 });

@@ -16,13 +16,26 @@ type Props = {
 };
 
 const palette: Record<Variant, { bg: string; pressed: string; text: string; border: string }> = {
-  primary: { bg: colors.accent, pressed: colors.accentPressed, text: colors.textOnAccent, border: colors.accent },
+  primary: {
+    bg: colors.accent,
+    pressed: colors.accentPressed,
+    text: colors.textOnAccent,
+    border: colors.accent,
+  },
   secondary: { bg: colors.surface, pressed: colors.surfaceMuted, text: colors.ink, border: colors.line },
   ghost: { bg: 'transparent', pressed: colors.surfaceMuted, text: colors.ink, border: 'transparent' },
   'on-ink': { bg: 'transparent', pressed: colors.inkSoft, text: colors.textOnInk, border: colors.inkSoft },
 };
 
-export function Button({ label, onPress, testID, variant = 'primary', disabled = false, busy = false, icon }: Props) {
+export function Button({
+  label,
+  onPress,
+  testID,
+  variant = 'primary',
+  disabled = false,
+  busy = false,
+  icon,
+}: Props) {
   const p = palette[variant];
   const inactive = disabled || busy;
   return (

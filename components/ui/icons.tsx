@@ -41,7 +41,11 @@ export function SessionsIcon({ color, size = 22 }: IconProps) {
 export function OutboxIcon({ color, size = 22 }: IconProps) {
   return (
     <Svg width={size} height={size} viewBox="0 0 24 24">
-      <Path d="M3.5 13.5h4.5l1.5 3h5l1.5-3h4.5V19a1.5 1.5 0 0 1-1.5 1.5h-14A1.5 1.5 0 0 1 3.5 19z" stroke={color} {...stroke} />
+      <Path
+        d="M3.5 13.5h4.5l1.5 3h5l1.5-3h4.5V19a1.5 1.5 0 0 1-1.5 1.5h-14A1.5 1.5 0 0 1 3.5 19z"
+        stroke={color}
+        {...stroke}
+      />
       <Path d="M12 11V3.5M8.8 6.5 12 3.3l3.2 3.2" stroke={color} {...stroke} />
     </Svg>
   );
@@ -87,7 +91,17 @@ export function CautionIcon({ color, size = 18 }: IconProps) {
 }
 
 /** Fourpoint's mark: four listening points in a diamond joined by one beat. */
-export function BrandMark({ size = 32, color, accent, line = '#F6F3EC' }: { size?: number; color: string; accent: string; line?: string }) {
+export function BrandMark({
+  size = 32,
+  color,
+  accent,
+  line = '#F6F3EC',
+}: {
+  size?: number;
+  color: string;
+  accent: string;
+  line?: string;
+}) {
   return (
     <Svg width={size} height={size} viewBox="0 0 32 32">
       <Rect x={1} y={1} width={30} height={30} rx={9} fill={color} />
@@ -95,7 +109,14 @@ export function BrandMark({ size = 32, color, accent, line = '#F6F3EC' }: { size
       <Circle cx={24.5} cy={16} r={2.4} fill={accent} />
       <Circle cx={16} cy={24.5} r={2.4} fill={accent} />
       <Circle cx={7.5} cy={16} r={2.4} fill={accent} />
-      <Path d="M10.5 16h2.5l1.5-3.5 3 7 1.5-3.5h2.5" stroke={line} strokeWidth={1.7} strokeLinecap="round" strokeLinejoin="round" fill="none" />
+      <Path
+        d="M10.5 16h2.5l1.5-3.5 3 7 1.5-3.5h2.5"
+        stroke={line}
+        strokeWidth={1.7}
+        strokeLinecap="round"
+        strokeLinejoin="round"
+        fill="none"
+      />
     </Svg>
   );
 }

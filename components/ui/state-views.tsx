@@ -29,7 +29,15 @@ export function EmptyState({ title, detail, testID }: { title: string; detail?: 
   );
 }
 
-export function ErrorState({ message, onRetry, testID }: { message: string; onRetry: () => void; testID: string }) {
+export function ErrorState({
+  message,
+  onRetry,
+  testID,
+}: {
+  message: string;
+  onRetry: () => void;
+  testID: string;
+}) {
   return (
     <View style={[styles.box, styles.error]} testID={testID}>
       <AppText variant="bodyStrong" color={colors.danger}>

@@ -9,7 +9,10 @@ type Props = Omit<TextInputProps, 'style'> & {
   error?: string;
 };
 
-export const TextField = forwardRef<TextInput, Props>(function TextField({ label, testID, error, onFocus, onBlur, ...rest }, ref) {
+export const TextField = forwardRef<TextInput, Props>(function TextField(
+  { label, testID, error, onFocus, onBlur, ...rest },
+  ref,
+) {
   const [focused, setFocused] = useState(false);
   return (
     <View style={styles.wrap}>

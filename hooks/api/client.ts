@@ -21,7 +21,7 @@ export function connectSession(next: SessionBridge): void {
 
 export const api = axios.create({ baseURL: apiBaseUrl, timeout: timeoutMs });
 // A bare instance for the refresh call itself, so it never loops through the 401 handler.
-const bare = axios.create({ baseURL: apiBaseUrl, timeout: timeoutMs });
+export const refreshClient = axios.create({ baseURL: apiBaseUrl, timeout: timeoutMs });
 
 const noRefreshPaths = ['/auth/sign-in', '/auth/refresh', '/auth/sign-out'];
 
@@ -37,7 +37,7 @@ async function refreshOnce(): Promise<SignInResponse | null> {
   const current = bridge.get();
   if (!current) return null;
   try {
-    const response = await bare.post('/auth/refresh', { refreshToken: current.refreshToken });
+    const response = await refreshClient.post('/auth/refresh', { refreshToken: current.refreshToken });
     const parsed = refreshResponseSchema.safeParse(response.data);
     if (!parsed.success) return null;
     bridge.onRefreshed(parsed.data);
@@ -77,7 +77,10 @@ export async function request<S extends z.ZodType>(
     const response = await api.request(config);
     const parsed = schema.safeParse(response.data);
     if (!parsed.success) {
-      return { kind: 'bad-data', message: 'The clinic server answered in a shape this app does not understand. Update the app.' };
+      return {
+        kind: 'bad-data',
+        message: 'The clinic server answered in a shape this app does not understand. Update the app.',
+      };
     }
     return { kind: 'ok', data: parsed.data };
   } catch (error) {

@@ -42,14 +42,24 @@ export function failureFromError(error: unknown): ApiFailureResult {
   if (!response) return { kind: 'offline', message: offlineMessage, temporary: true };
   const status = response.status;
   const message = serverMessage(response.data);
-  if (status === 401) return { kind: 'unauthorized', message: message ?? 'Your sign-in has ended. Sign in again.' };
+  if (status === 401)
+    return { kind: 'unauthorized', message: message ?? 'Your sign-in has ended. Sign in again.' };
   if (status === 403) return { kind: 'forbidden', message: message ?? 'Your role does not allow this.' };
   if (status === 404) return { kind: 'not-found', message: message ?? 'Not found.' };
   if (status === 429) {
-    return { kind: 'rate-limited', message: message ?? 'Too many attempts. Wait a minute, then try again.', temporary: true };
+    return {
+      kind: 'rate-limited',
+      message: message ?? 'Too many attempts. Wait a minute, then try again.',
+      temporary: true,
+    };
   }
   if (status >= 500) {
-    return { kind: 'server', status, message: message ?? `The clinic server had a problem (${status}). Try again shortly.`, temporary: true };
+    return {
+      kind: 'server',
+      status,
+      message: message ?? `The clinic server had a problem (${status}). Try again shortly.`,
+      temporary: true,
+    };
   }
   return { kind: 'rejected', status, message: message ?? `The request was refused (${status}).` };
 }

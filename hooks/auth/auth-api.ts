@@ -9,7 +9,13 @@ export function postSignIn(body: SignInRequest): Promise<ApiResult<SignInRespons
 
 export function postSignOut(refreshToken: string, accessToken: string): Promise<ApiResult<unknown>> {
   return request(
-    { method: 'POST', url: '/auth/sign-out', data: { refreshToken }, headers: { Authorization: `Bearer ${accessToken}` }, timeout: 5_000 },
+    {
+      method: 'POST',
+      url: '/auth/sign-out',
+      data: { refreshToken },
+      headers: { Authorization: `Bearer ${accessToken}` },
+      timeout: 5_000,
+    },
     z.unknown(),
   );
 }

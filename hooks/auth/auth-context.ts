@@ -19,4 +19,3 @@ export function useAuth(): AuthContextValue {
   if (!value) throw new Error('useAuth needs an <AuthProvider> above it.');
   return value;
 }
-

@@ -9,7 +9,13 @@ const password = 'fourpoint-demo';
 
 const roles = [
   { role: 'operator', home: 'operator-home', path: '/clients', content: 'clients-list', row: 'client-row-' },
-  { role: 'practitioner', home: 'practitioner-home', path: '/sessions', content: 'sessions-table', row: 'session-row-' },
+  {
+    role: 'practitioner',
+    home: 'practitioner-home',
+    path: '/sessions',
+    content: 'sessions-table',
+    row: 'session-row-',
+  },
   { role: 'admin', home: 'admin-home', path: '/admin', content: 'team-list', row: 'team-row-' },
 ] as const;
 
@@ -50,7 +56,9 @@ describe.each(sizes)('at $name size', ({ name, viewport, nav }) => {
         await page.waitForURL((url) => url.pathname === path);
         await visible(page, home).waitFor();
         await visible(page, content).waitFor();
-        expect(await page.locator(`[data-testid^="${row}"]`).filter({ visible: true }).count()).toBeGreaterThan(0);
+        expect(
+          await page.locator(`[data-testid^="${row}"]`).filter({ visible: true }).count(),
+        ).toBeGreaterThan(0);
         await visible(page, 'caution-note').waitFor();
         await visible(page, nav).waitFor();
         expect(await visible(page, 'signed-in-name').textContent()).not.toBe('');
