@@ -1,0 +1,193 @@
+// Sync push benchmark: a four-site session (client, session, four site recordings: six mutations in one push)
+// from 1, 8 and 32 concurrent simulated devices over loopback HTTP, beside the raw insert rate of the same
+// PostgreSQL in the same run. Targets: p95 <= 50 ms at 32 devices; sessions/s >= 25 % of raw session inserts/s.
+import { randomUUID } from 'node:crypto';
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
+import pino from 'pino';
+import axios from 'axios';
+import { QueryTypes } from 'sequelize';
+import { SYNC_PROTOCOL_VERSION, type Mutation } from '@/shared/protocol/sync';
+import { createApp } from '@/sync-server/src/app';
+import { createSequelize } from '@/sync-server/src/db/database';
+import { runMigrations } from '@/sync-server/src/db/migrator';
+import { Clinic, initModels } from '@/sync-server/src/models';
+import { createUser } from '@/sync-server/src/repositories/users-repository';
+import { hashPassword } from '@/sync-server/src/services/passwords';
+
+const SITES = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
+const ROUNDS_PER_DEVICE = Number(process.env.BENCH_ROUNDS ?? 10);
+
+function sessionPush(deviceId: string) {
+  const clientId = randomUUID();
+  const sessionId = randomUUID();
+  const m = (entity: Mutation['entity'], id: string, change: Record<string, unknown>): Mutation => ({
+    mutationId: randomUUID(),
+    entity,
+    id,
+    baseVersion: 0,
+    change,
+  });
+  return {
+    protocolVersion: SYNC_PROTOCOL_VERSION,
+    deviceId,
+    mutations: [
+      m('clients', clientId, {
+        firstName: 'Bench',
+        lastName: 'Client',
+        dateOfBirth: null,
+        email: null,
+        phone: null,
+        notes: null,
+      }),
+      m('recording_sessions', sessionId, {
+        clientId,
+        status: 'completed',
+        startedAt: '2026-11-30T09:00:00.000Z',
+        finishedAt: '2026-11-30T09:12:00.000Z',
+        findings: null,
+        plan: null,
+        followUpDate: null,
+      }),
+      ...SITES.map((site) =>
+        m('site_recordings', randomUUID(), {
+          sessionId,
+          site,
+          qualityVerdict: 'good',
+          clipSha256: null,
+          durationS: 15,
+          recordedAt: '2026-11-30T09:03:00.000Z',
+          skippedReason: null,
+          keepAnywayNote: null,
+        }),
+      ),
+    ],
+  };
+}
+
+const pct = (sorted: number[], p: number) =>
+  sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
+
+async function main(): Promise<void> {
+  const databaseUrl = process.env.DATABASE_URL;
+  if (!databaseUrl)
+    throw new Error('DATABASE_URL is not set: run through `npm run bench`, which starts a database.');
+  await runMigrations(databaseUrl);
+  const sequelize = createSequelize(databaseUrl, { poolMax: 20 });
+  initModels(sequelize);
+  const jwtSecret = randomUUID();
+  const app = createApp({ sequelize, jwtSecret, logger: pino({ level: 'silent' }) });
+  const server = http.createServer(app);
+  await new Promise<void>((r) => server.listen(0, '127.0.0.1', r));
+  const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+
+  const clinic = await Clinic.create({ id: randomUUID(), name: `Bench ${randomUUID().slice(0, 6)}` });
+  const email = `bench.${randomUUID().slice(0, 8)}@bench.fourpoint.test`;
+  await createUser(clinic.id, {
+    id: randomUUID(),
+    email,
+    name: 'Bench Operator',
+    role: 'operator',
+    passwordHash: await hashPassword('bench password 1'),
+  });
+  const token = (await axios.post(`${url}/api/auth/sign-in`, { email, password: 'bench password 1' })).data
+    .accessToken as string;
+  const agent = new http.Agent({ keepAlive: true, maxSockets: 64 });
+  const client = axios.create({
+    baseURL: url,
+    httpAgent: agent,
+    headers: { authorization: `Bearer ${token}` },
+  });
+
+  // Raw rate: the same six rows per session as plain INSERTs, one transaction per session, same concurrency.
+  async function rawSessions(concurrency: number, perWorker: number): Promise<number> {
+    const start = performance.now();
+    await Promise.all(
+      Array.from({ length: concurrency }, async () => {
+        for (let i = 0; i < perWorker; i++) {
+          await sequelize.transaction(async (transaction) => {
+            const clientId = randomUUID();
+            const sessionId = randomUUID();
+            await sequelize.query(
+              `INSERT INTO clients (id, clinic_id, first_name, last_name) VALUES ($1, $2, 'Raw', 'Client')`,
+              { bind: [clientId, clinic.id], transaction },
+            );
+            await sequelize.query(
+              `INSERT INTO recording_sessions (id, clinic_id, client_id, status, started_at) VALUES ($1, $2, $3, 'completed', now())`,
+              {
+                bind: [sessionId, clinic.id, clientId],
+                transaction,
+              },
+            );
+            for (const site of SITES) {
+              await sequelize.query(
+                `INSERT INTO site_recordings (id, clinic_id, session_id, site) VALUES ($1, $2, $3, $4)`,
+                {
+                  bind: [randomUUID(), clinic.id, sessionId, site],
+                  transaction,
+                },
+              );
+            }
+          });
+        }
+      }),
+    );
+    return (concurrency * perWorker) / ((performance.now() - start) / 1000);
+  }
+
+  async function pushes(devices: number): Promise<{ p50: number; p95: number; rate: number }> {
+    const latencies: number[] = [];
+    const start = performance.now();
+    await Promise.all(
+      Array.from({ length: devices }, async () => {
+        const deviceId = randomUUID();
+        for (let i = 0; i < ROUNDS_PER_DEVICE; i++) {
+          const body = sessionPush(deviceId);
+          const t0 = performance.now();
+          const res = await client.post('/api/sync/push', body);
+          latencies.push(performance.now() - t0);
+          if (res.data.results.some((r: { status: string }) => r.status !== 'applied'))
+            throw new Error('a bench push was not applied');
+        }
+      }),
+    );
+    const seconds = (performance.now() - start) / 1000;
+    latencies.sort((a, b) => a - b);
+    return {
+      p50: pct(latencies, 50),
+      p95: pct(latencies, 95),
+      rate: (devices * ROUNDS_PER_DEVICE) / seconds,
+    };
+  }
+
+  await pushes(4); // warm-up: JIT, pool, prepared paths
+  console.log(
+    `sync push of a four-site session (6 mutations), ${ROUNDS_PER_DEVICE} sessions per device, loopback`,
+  );
+  console.log('devices | p50 ms | p95 ms | sessions/s | raw sessions/s | ratio');
+  let verdict = '';
+  for (const devices of [1, 8, 32]) {
+    const result = await pushes(devices);
+    const raw = await rawSessions(devices, ROUNDS_PER_DEVICE);
+    const ratio = result.rate / raw;
+    console.log(
+      `${String(devices).padStart(7)} | ${result.p50.toFixed(1).padStart(6)} | ${result.p95.toFixed(1).padStart(6)} | ${result.rate.toFixed(1).padStart(10)} | ${raw.toFixed(1).padStart(14)} | ${(ratio * 100).toFixed(0)} %`,
+    );
+    if (devices === 32) {
+      verdict = `target at 32 devices: p95 ${result.p95.toFixed(1)} ms (<= 50: ${result.p95 <= 50 ? 'met' : 'NOT met'}), ${(ratio * 100).toFixed(0)} % of raw (>= 25 %: ${ratio >= 0.25 ? 'met' : 'NOT met'})`;
+    }
+  }
+  const [{ count }] = await sequelize.query<{ count: string }>(
+    `SELECT count(*) FROM applied_mutations WHERE clinic_id = $1`,
+    { bind: [clinic.id], type: QueryTypes.SELECT },
+  );
+  console.log(`${verdict}; ${count} mutations recorded`);
+  agent.destroy();
+  server.close();
+  await sequelize.close();
+}
+
+main().catch((error) => {
+  console.error(error);
+  process.exit(1);
+});
