@@ -25,7 +25,7 @@ export function OperatorHomeScreen() {
         <TextInput
           testID="client-search"
           accessibilityLabel="Search clients"
-          placeholder="Search clients by name or e-mail"
+          placeholder="Search by name or e-mail"
           placeholderTextColor={colors.textMuted}
           value={search}
           onChangeText={setSearch}
@@ -98,6 +98,7 @@ const styles = StyleSheet.create({
   tools: { flexDirection: 'row', gap: space.sm, marginTop: space.sm, maxWidth: 640, alignItems: 'center' },
   search: {
     flex: 1,
+    minWidth: 0,
     flexDirection: 'row',
     alignItems: 'center',
     gap: space.sm,
@@ -107,6 +108,14 @@ const styles = StyleSheet.create({
     borderRadius: radii.md,
     paddingHorizontal: space.md,
   },
-  searchInput: { flex: 1, minHeight: 46, fontFamily: fonts.body, fontSize: 16, color: colors.text },
+  searchInput: {
+    flex: 1,
+    minWidth: 0,
+    width: '100%',
+    minHeight: 46,
+    fontFamily: fonts.body,
+    fontSize: 16,
+    color: colors.text,
+  },
   list: { gap: space.sm, maxWidth: 640 },
 });
