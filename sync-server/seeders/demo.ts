@@ -22,6 +22,7 @@ export const DEMO_PASSWORD = 'fourpoint-demo';
 const NAMESPACE = '5b0d1c3e-7a52-4f7e-9a63-2f4b8c1d9e70';
 export const demoId = (name: string) => uuidv5(`fourpoint-demo/${name}`, NAMESPACE);
 export const DEMO_CLINIC_ID = demoId('clinic');
+const SEED_LOCK_KEY = 4_207_118;
 
 const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
 
@@ -224,7 +225,9 @@ export async function seedDemo(options: SeedDemoOptions): Promise<SeedDemoSummar
 
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const userIds: Record<string, string> = {};
+  // One transaction under a lock: two processes seeding at once take turns, and a crash leaves no half-loaded clinic.
   await sequelize.transaction(async (transaction) => {
+    await sequelize.query(`SELECT pg_advisory_xact_lock(${SEED_LOCK_KEY})`, { transaction });
     count(
       (
         await Clinic.findOrCreate({
@@ -303,15 +306,62 @@ export async function seedDemo(options: SeedDemoOptions): Promise<SeedDemoSummar
         );
       }
     }
+    for (const c of DEMO_CLIENTS) {
+      for (const [index, visit] of c.visits.entries()) {
+        created += await seedVisit(options, c, index, visit, userIds, transaction);
+      }
+    }
   });
 
-  for (const c of DEMO_CLIENTS) {
-    for (const [index, visit] of c.visits.entries()) {
-      created += await seedVisit(options, c, index, visit, userIds);
+  options.log?.(created ? `Demo data: ${created} rows added or repaired.` : 'Demo data: already loaded.');
+  return { created };
+}
+
+const demoClip = (client: DemoClient, index: number, visit: DemoVisit, site: Site) =>
+  synthesizeHeartSounds({
+    seed: stableSeed(`${client.key}/${index}/${site}`),
+    site,
+    bpm: visit.bpm,
+    s1s2Scale: visit.s1s2Scale,
+    systolicHum: visit.systolicHum,
+  });
+
+/**
+ * A visit already loaded: rewrite clip files that have gone missing (the generator is deterministic, so the
+ * bytes hash the same) and add the analysis where an earlier run had none.
+ */
+async function repairVisit(
+  options: SeedDemoOptions,
+  client: DemoClient,
+  index: number,
+  visit: DemoVisit,
+  sessionId: string,
+  transaction: Transaction,
+): Promise<number> {
+  let repaired = 0;
+  const recordings = await SiteRecording.findAll({
+    where: { sessionId, clinicId: DEMO_CLINIC_ID },
+    transaction,
+  });
+  for (const recording of recordings) {
+    if (!recording.clipSha256) continue;
+    const blob = await ClipBlob.findByPk(recording.clipSha256, { transaction });
+    const fileMissing = !blob || !(await options.blobStore.has(blob.storageKey));
+    const analysisMissing = recording.analysis == null && options.analyse !== undefined;
+    if (!fileMissing && !analysisMissing) continue;
+    const clip = demoClip(client, index, visit, recording.site);
+    if (fileMissing) {
+      const stored = await options.blobStore.put(encodeWav16(clip.samples, clip.sampleRate));
+      if (stored.sha256 !== recording.clipSha256)
+        throw new Error(`Demo clip for ${recording.id} no longer matches its hash`);
+    }
+    if (analysisMissing && options.analyse) {
+      const analysis = options.analyse(clip.samples, clip.sampleRate, recording.site);
+      await recording.update({ analysis, qualityVerdict: analysis.quality.verdict }, { transaction });
+      repaired++;
     }
   }
-  options.log?.(created ? `Demo data: ${created} rows added.` : 'Demo data: already loaded.');
-  return { created };
+  return repaired;
 }
 
 interface PlannedRecording {
@@ -329,25 +379,22 @@ async function seedVisit(
   index: number,
   visit: DemoVisit,
   userIds: Record<string, string>,
+  transaction: Transaction,
 ): Promise<number> {
   const sessionId = demoId(`session/${client.key}/${index}`);
-  if (await RecordingSession.findByPk(sessionId, { paranoid: false })) return 0;
+  if (await RecordingSession.findByPk(sessionId, { paranoid: false, transaction })) {
+    return repairVisit(options, client, index, visit, sessionId, transaction);
+  }
   const startedAt = new Date(`${visit.date}T10:00:00Z`);
 
-  // Clips first, outside the transaction: blobs are content-addressed, so a rerun after a crash rewrites the same files.
+  // Blobs are content-addressed, so a rerun after a crash rewrites the same files under the same names.
   const recordings: PlannedRecording[] = [];
   for (const [siteIndex, site] of SITES.entries()) {
     if (visit.skipped?.site === site) {
       recordings.push({ site, skippedReason: visit.skipped.reason });
       continue;
     }
-    const clip = synthesizeHeartSounds({
-      seed: stableSeed(`${client.key}/${index}/${site}`),
-      site,
-      bpm: visit.bpm,
-      s1s2Scale: visit.s1s2Scale,
-      systolicHum: visit.systolicHum,
-    });
+    const clip = demoClip(client, index, visit, site);
     const wav = encodeWav16(clip.samples, clip.sampleRate);
     const stored = await options.blobStore.put(wav);
     const analysis = options.analyse ? options.analyse(clip.samples, clip.sampleRate, site) : null;
@@ -360,7 +407,7 @@ async function seedVisit(
     });
   }
 
-  await options.sequelize.transaction(async (transaction: Transaction) => {
+  {
     await RecordingSession.create(
       {
         id: sessionId,
@@ -411,6 +458,6 @@ async function seedVisit(
         { transaction },
       );
     }
-  });
+  }
   return 1 + recordings.length;
 }

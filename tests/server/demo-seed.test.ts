@@ -1,0 +1,84 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import request from 'supertest';
+import { decodeWav } from '@/shared/analysis';
+import { analyseDemoClip } from '@/sync-server/seeders/analyse-demo-clip';
+import { DEMO_CLINIC_ID, DEMO_PASSWORD, DEMO_USERS, seedDemo } from '@/sync-server/seeders/demo';
+import { Client, ClipBlob, Consent, RecordingSession, SiteRecording, User } from '@/sync-server/src/models';
+import { LocalDiskBlobStore, sha256Hex } from '@/sync-server/src/services/blob-store';
+import { makeTestContext } from './helpers/test-app';
+
+// The demo clinic has fixed ids by design, so this file shares it with any other run; it only reads and re-seeds.
+const ctx = makeTestContext();
+const blobDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-demo-blobs-'));
+const blobStore = new LocalDiskBlobStore(blobDir);
+jest.setTimeout(120_000);
+
+const counts = async () => ({
+  users: await User.count({ where: { clinicId: DEMO_CLINIC_ID } }),
+  clients: await Client.count({ where: { clinicId: DEMO_CLINIC_ID }, paranoid: false }),
+  consents: await Consent.count({ where: { clinicId: DEMO_CLINIC_ID }, paranoid: false }),
+  sessions: await RecordingSession.count({ where: { clinicId: DEMO_CLINIC_ID }, paranoid: false }),
+  sites: await SiteRecording.count({ where: { clinicId: DEMO_CLINIC_ID }, paranoid: false }),
+});
+
+beforeAll(async () => {
+  await seedDemo({ sequelize: ctx.sequelize, blobStore, analyse: analyseDemoClip });
+});
+afterAll(() => ctx.close());
+
+describe('demo seed', () => {
+  test('when it runs again, then it adds no rows', async () => {
+    const before = await counts();
+    const again = await seedDemo({ sequelize: ctx.sequelize, blobStore, analyse: analyseDemoClip });
+    expect(again.created).toBe(0);
+    expect(await counts()).toEqual(before);
+    expect(before.users).toBe(3);
+    expect(before.sessions).toBeGreaterThanOrEqual(6);
+    expect(before.sites).toBe(before.sessions * 4);
+  });
+
+  test('when two seeds run at the same time, then both finish and nothing is doubled', async () => {
+    const before = await counts();
+    await Promise.all(
+      [1, 2].map(() => seedDemo({ sequelize: ctx.sequelize, blobStore, analyse: analyseDemoClip })),
+    );
+    expect(await counts()).toEqual(before);
+  });
+
+  test.each(DEMO_USERS.map((u) => [u.email, u.role] as const))(
+    'when %s signs in with the demo password, then they get the %s role',
+    async (email, role) => {
+      const res = await request(ctx.app).post('/api/auth/sign-in').send({ email, password: DEMO_PASSWORD });
+      expect(res.status).toBe(200);
+      expect(res.body.user).toMatchObject({ role, clinicId: DEMO_CLINIC_ID });
+    },
+  );
+
+  test('when a seeded clip is read back, then its bytes match their hash and form a 4000 Hz mono WAV of about 15 s', async () => {
+    const site = await SiteRecording.findOne({ where: { clinicId: DEMO_CLINIC_ID, clipState: 'stored' } });
+    const blob = await ClipBlob.findByPk(site!.clipSha256!);
+    expect(blob).toMatchObject({ state: 'stored', contentType: 'audio/wav', clinicId: DEMO_CLINIC_ID });
+    // The store may be another run's folder; re-seeding here wrote the same content-addressed files.
+    const bytes = await blobStore.get(blob!.storageKey);
+    expect(bytes).not.toBeNull();
+    expect(sha256Hex(bytes!)).toBe(blob!.sha256);
+    expect(Number(blob!.sizeBytes)).toBe(bytes!.length);
+    const wav = decodeWav(new Uint8Array(bytes!));
+    expect(wav.sampleRate).toBe(4000);
+    expect(wav.channels).toBe(1);
+    expect(wav.samples.length / wav.sampleRate).toBeCloseTo(15, 1);
+  });
+
+  test('when the seed has run, then every stored clip has the analysis of record and its verdict, and skipped sites a reason', async () => {
+    const sites = await SiteRecording.findAll({ where: { clinicId: DEMO_CLINIC_ID } });
+    for (const s of sites) {
+      if (s.clipState === 'stored') {
+        expect(s.analysis).toMatchObject({ quality: { verdict: s.qualityVerdict } });
+      } else {
+        expect(s.skippedReason).toEqual(expect.any(String));
+      }
+    }
+  });
+});
