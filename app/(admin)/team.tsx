@@ -1,0 +1,1 @@
+export { TeamScreen as default } from '@/components/admin/team/team-screen';

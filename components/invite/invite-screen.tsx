@@ -1,0 +1,122 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useLocalSearchParams, useRouter } from 'expo-router';
+import { Controller, useForm } from 'react-hook-form';
+import { StyleSheet, View } from 'react-native';
+import { AppText } from '@/components/ui/app-text';
+import { Button } from '@/components/ui/button';
+import { ErrorState, LoadingState } from '@/components/ui/state-views';
+import { TextField } from '@/components/ui/text-field';
+import { colors, radii, space } from '@/constants/theme';
+import { useAcceptInvitationMutation, useInvitationPreviewQuery } from '@/hooks/api/team';
+import { acceptInvitationRequestSchema, type AcceptInvitationRequest } from '@/shared/protocol/practice';
+
+/** The page an invitation link opens: the invitee sets a password; then they sign in as usual. */
+export function InviteScreen() {
+  const { token } = useLocalSearchParams<{ token: string }>();
+  const router = useRouter();
+  const preview = useInvitationPreviewQuery(String(token ?? ''));
+  const accept = useAcceptInvitationMutation(String(token ?? ''));
+  const form = useForm<AcceptInvitationRequest>({
+    resolver: zodResolver(acceptInvitationRequestSchema),
+    defaultValues: { name: '', password: '' },
+  });
+
+  return (
+    <View style={styles.page} testID="invite-screen">
+      <View style={styles.card}>
+        {preview.isPending ? (
+          <LoadingState label="Checking the invitation…" testID="invite-loading" />
+        ) : preview.isError ? (
+          <ErrorState
+            message={preview.error.message}
+            onRetry={() => void preview.refetch()}
+            testID="invite-invalid"
+          />
+        ) : accept.isSuccess ? (
+          <>
+            <AppText variant="title" color={colors.ink} testID="invite-done">
+              Your account is ready
+            </AppText>
+            <AppText color={colors.text}>
+              Sign in with {preview.data.email} and the password you just chose.
+            </AppText>
+            <Button
+              label="Go to sign-in"
+              onPress={() => router.replace('/sign-in')}
+              testID="invite-to-sign-in"
+            />
+          </>
+        ) : (
+          <>
+            <AppText variant="title" color={colors.ink}>
+              Join {preview.data.clinicName}
+            </AppText>
+            <AppText color={colors.textMuted}>
+              {preview.data.email} is invited as {preview.data.role}. Choose a password of at least 10
+              characters.
+            </AppText>
+            <Controller
+              control={form.control}
+              name="name"
+              defaultValue={preview.data.name}
+              render={({ field, fieldState }) => (
+                <TextField
+                  label="Your name"
+                  testID="invite-accept-name"
+                  value={field.value || preview.data.name}
+                  onChangeText={field.onChange}
+                  error={fieldState.error?.message}
+                />
+              )}
+            />
+            <Controller
+              control={form.control}
+              name="password"
+              render={({ field, fieldState }) => (
+                <TextField
+                  label="Password"
+                  testID="invite-accept-password"
+                  secureTextEntry
+                  value={field.value}
+                  onChangeText={field.onChange}
+                  error={fieldState.error?.message}
+                />
+              )}
+            />
+            <Button
+              label={accept.isPending ? 'Setting up…' : 'Set password'}
+              disabled={accept.isPending}
+              testID="invite-accept"
+              onPress={() =>
+                void form.handleSubmit((v) => accept.mutate({ ...v, name: v.name || preview.data.name }))()
+              }
+            />
+            {accept.isError ? (
+              <AppText color={colors.danger} testID="invite-accept-error">
+                {accept.error.message}
+              </AppText>
+            ) : null}
+          </>
+        )}
+      </View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  page: {
+    flex: 1,
+    backgroundColor: colors.paper,
+    alignItems: 'center',
+    justifyContent: 'center',
+    padding: space.lg,
+  },
+  card: {
+    width: '100%',
+    maxWidth: 440,
+    backgroundColor: colors.surface,
+    borderRadius: radii.lg,
+    padding: space.xl,
+    gap: space.md,
+  },
+});
