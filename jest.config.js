@@ -27,6 +27,7 @@ module.exports = {
     {
       displayName: 'app',
       preset: 'jest-expo',
+      setupFiles: ['<rootDir>/tests/support/app-jest-setup.ts'],
       testMatch: ['<rootDir>/components/**/*.test.tsx', '<rootDir>/hooks/**/*.test.ts?(x)', '<rootDir>/constants/**/*.test.ts'],
       moduleNameMapper: { '^@/(.*)$': '<rootDir>/$1' },
     },

@@ -1,7 +1,7 @@
 // Debian's Chromium driven by playwright-core. The flags keep it off the (closed) network and out of
-// first-run flows; the fake-media flags let capture tests feed a WAV file as the microphone.
+// first-run flows; the fake-media flags let capture tests feed a WAV file as the microphone. Playwright
+// gives each launch a fresh temporary profile itself.
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 
@@ -16,7 +16,6 @@ export function baseUrl(): string {
 }
 
 export async function launchBrowser(options: { fakeMicrophoneWav?: string } = {}): Promise<Browser> {
-  const userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-chromium-'));
   const args = [
     '--headless',
     '--no-sandbox',
@@ -26,7 +25,6 @@ export async function launchBrowser(options: { fakeMicrophoneWav?: string } = {}
     '--disable-background-networking',
     '--disable-component-update',
     '--disable-sync',
-    `--user-data-dir=${userDataDir}`,
   ];
   if (options.fakeMicrophoneWav) {
     args.push(
