@@ -100,7 +100,13 @@ export function withSwappedSystole(rate: RateEstimate, closeness = 0.4): RateEst
   return { ...rate, systoleS: rate.cycleS - rate.systoleS };
 }
 
-/** The highest autocorrelation peak in the 30–200 bpm lag range. */
+/**
+ * The shortest cycle whose autocorrelation peak is nearly as high as the highest one in the 30–200 bpm range:
+ * a steady rhythm repeats at two and three cycles almost as strongly as at one.
+ */
 export function estimateRate(envelope: Float64Array, frameRate: number): RateEstimate | null {
-  return rateCandidates(envelope, frameRate, 1)[0] ?? null;
+  const candidates = rateCandidates(envelope, frameRate, 6);
+  if (candidates.length === 0) return null;
+  const top = candidates[0].periodicity;
+  return candidates.filter((c) => c.periodicity >= 0.9 * top).sort((a, b) => a.cycleS - b.cycleS)[0];
 }

@@ -11,6 +11,18 @@ export interface SoundSpan extends Span {
   type: 'S1' | 'S2';
 }
 
+/** Energy-weighted centre of a sound: finer than the frame grid its boundaries sit on. */
+export function centre(signal: Float64Array, { start, end }: Span): number {
+  let weight = 0;
+  let moment = 0;
+  for (let i = Math.max(0, start); i < Math.min(signal.length, end); i++) {
+    const e = signal[i] * signal[i];
+    weight += e;
+    moment += e * i;
+  }
+  return weight > 0 ? moment / weight : (start + end) / 2;
+}
+
 function rms(signal: Float64Array, { start, end }: Span): number {
   let sum = 0;
   const from = Math.max(0, start);
@@ -58,7 +70,7 @@ export function measure(signal: Float64Array, sampleRate: number, sounds: SoundS
       s2StartS: toS(s2.start),
       s2EndS: toS(s2.end),
       nextS1StartS: next ? toS(next.start) : null,
-      intervalMs: next ? ((next.start - s1.start) * 1000) / sampleRate : null,
+      intervalMs: next ? ((centre(signal, next) - centre(signal, s1)) * 1000) / sampleRate : null,
       systoleMs: ((s2.start - s1.start) * 1000) / sampleRate,
       diastoleMs: next ? ((next.start - s2.start) * 1000) / sampleRate : null,
       systolicActivity: systolic,

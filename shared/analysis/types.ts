@@ -36,7 +36,7 @@ export interface BeatDetail {
   s2StartS: number;
   s2EndS: number;
   nextS1StartS: number | null;
-  /** S1 onset to next S1 onset. */
+  /** Centre of S1 to centre of the next S1 (energy-weighted centres). */
   intervalMs: number | null;
   /** S1 onset to S2 onset. */
   systoleMs: number;

@@ -1,0 +1,29 @@
+/**
+ * Analysis speed on the development recordings, one core, warm: audio seconds analysed per second of compute
+ * (× real time) and milliseconds per 30 s of audio. Run: npx tsx scripts/analysis/bench.ts [--rounds N]
+ */
+import { analysePcm } from '../../shared/analysis/analyse';
+import { listRecordings, readSamples } from './circor';
+
+function main() {
+  const roundsArg = process.argv.indexOf('--rounds');
+  const rounds = roundsArg > 0 ? Number(process.argv[roundsArg + 1]) : 5;
+  const clips = listRecordings().map((r) => readSamples(r));
+  const audioS = clips.reduce((sum, c) => sum + c.samples.length / c.sampleRate, 0);
+  for (const clip of clips) analysePcm(clip.samples, clip.sampleRate);
+  const timings: number[] = [];
+  for (let round = 0; round < rounds; round++) {
+    const started = process.hrtime.bigint();
+    for (const clip of clips) analysePcm(clip.samples, clip.sampleRate);
+    timings.push(Number(process.hrtime.bigint() - started) / 1e9);
+  }
+  const best = Math.min(...timings);
+  const median = [...timings].sort((a, b) => a - b)[timings.length >> 1];
+  const memory = process.memoryUsage();
+  console.log(`analysis bench: ${clips.length} clips, ${audioS.toFixed(0)} s of audio, ${rounds} warm rounds`);
+  console.log(`best   ${(audioS / best).toFixed(0)}× real time, ${((best / audioS) * 30 * 1000).toFixed(2)} ms per 30 s clip`);
+  console.log(`median ${(audioS / median).toFixed(0)}× real time, ${((median / audioS) * 30 * 1000).toFixed(2)} ms per 30 s clip`);
+  console.log(`heap used ${(memory.heapUsed / 1e6).toFixed(0)} MB`);
+}
+
+main();

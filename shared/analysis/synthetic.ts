@@ -1,0 +1,72 @@
+/**
+ * Invented heart-sound-like test signals: S1 and S2 as decaying low-frequency tone bursts on a beat train of a
+ * chosen rate. For tests and demo clips only; no recording of a person.
+ */
+export interface BeatTrainOptions {
+  rateBpm: number;
+  durationS: number;
+  sampleRate: number;
+  /** S1 onset to S2 onset; defaults to min(0.1 s + cycle/4, 0.48 cycle) (common practice, no source). */
+  systoleS?: number;
+  s1Amplitude?: number;
+  s2Amplitude?: number;
+  /** Standard deviation of added white noise. */
+  noise?: number;
+  /** Beat-to-beat interval jitter as a fraction of the cycle (uniform ±). */
+  jitter?: number;
+  seed?: number;
+}
+
+export function seededRandom(seed: number): () => number {
+  let state = seed >>> 0 || 1;
+  return () => {
+    // xorshift32
+    state ^= state << 13;
+    state >>>= 0;
+    state ^= state >>> 17;
+    state ^= state << 5;
+    state >>>= 0;
+    return state / 4294967296;
+  };
+}
+
+export function gaussianRandom(random: () => number): () => number {
+  return () => Math.sqrt(-2 * Math.log(random() + 1e-12)) * Math.cos(2 * Math.PI * random());
+}
+
+function addBurst(out: Float32Array, sampleRate: number, onsetS: number, lengthS: number, frequencyHz: number, amplitude: number) {
+  const start = Math.round(onsetS * sampleRate);
+  const length = Math.round(lengthS * sampleRate);
+  for (let i = 0; i < length && start + i < out.length; i++) {
+    if (start + i < 0) continue;
+    const t = i / sampleRate;
+    const window = Math.sin((Math.PI * i) / length) ** 2;
+    out[start + i] += amplitude * window * Math.sin(2 * Math.PI * frequencyHz * t);
+  }
+}
+
+export interface BeatTrain {
+  samples: Float32Array;
+  s1OnsetsS: number[];
+  s2OnsetsS: number[];
+}
+
+export function syntheticBeatTrain(options: BeatTrainOptions): BeatTrain {
+  const { rateBpm, durationS, sampleRate } = options;
+  const cycleS = 60 / rateBpm;
+  const systoleS = options.systoleS ?? Math.min(0.1 + cycleS / 4, 0.48 * cycleS);
+  const random = seededRandom(options.seed ?? 7);
+  const gauss = gaussianRandom(random);
+  const samples = new Float32Array(Math.round(durationS * sampleRate));
+  const s1OnsetsS: number[] = [];
+  const s2OnsetsS: number[] = [];
+  const jitter = options.jitter ?? 0;
+  for (let onset = 0.1 + random() * cycleS; onset < durationS; onset += cycleS * (1 + jitter * (2 * random() - 1))) {
+    addBurst(samples, sampleRate, onset, 0.1, 55, options.s1Amplitude ?? 0.5);
+    addBurst(samples, sampleRate, onset + systoleS, 0.08, 80, options.s2Amplitude ?? 0.35);
+    s1OnsetsS.push(onset);
+    if (onset + systoleS < durationS) s2OnsetsS.push(onset + systoleS);
+  }
+  if (options.noise) for (let i = 0; i < samples.length; i++) samples[i] += options.noise * gauss();
+  return { samples, s1OnsetsS, s2OnsetsS };
+}
