@@ -1,0 +1,1 @@
+export { ConflictDetailScreen as default } from '@/components/admin/conflicts/conflict-detail-screen';

@@ -1,0 +1,1 @@
+export { ConflictsScreen as default } from '@/components/admin/conflicts/conflicts-screen';
