@@ -2,13 +2,7 @@ import { useCallback, useEffect, useRef, useState } from 'react';
 import { analyseInWorker, warmAnalysisWorker } from '@/hooks/analysis-worker/analyse-in-worker';
 import type { DisplayTrace, RecordingSource } from '@/hooks/local-store/records';
 import { ImportError, pickAudioFile } from '@/hooks/recorder/import-file';
-import {
-  decodeTake,
-  openMicrophone,
-  RecorderError,
-  type LiveMicrophone,
-  type Pcm,
-} from '@/hooks/recorder/recorder';
+import { openMicrophone, RecorderError, type LiveMicrophone, type Pcm } from '@/hooks/recorder/recorder';
 import type { AnalysisResult } from '@/shared/analysis/types';
 import type { Site } from '@/shared/protocol';
 
@@ -25,7 +19,7 @@ export type TakeState =
   | { phase: 'done'; result: TakeResult }
   | { phase: 'error'; message: string; kind: string };
 
-type Timing = { site: Site; endToTraceMs: number; workerMs: number };
+type Timing = { site: Site; endToTraceMs: number; workerMs: number; stopMs: number };
 declare global {
   var __fourpointTimings: Timing[] | undefined;
 }
@@ -46,6 +40,7 @@ export function useTake(site: Site, lengthS: number) {
   const endedAt = useRef<number | null>(null);
 
   const workerMs = useRef(0);
+  const stages = useRef({ stopMs: 0 });
   useEffect(() => warmAnalysisWorker(), []);
 
   // Runs after the trace has been committed to the screen: the figure the 300 ms target is about.
@@ -55,6 +50,7 @@ export function useTake(site: Site, lengthS: number) {
       site,
       endToTraceMs: performance.now() - endedAt.current,
       workerMs: workerMs.current,
+      ...stages.current,
     });
     endedAt.current = null;
   }, [state, site]);
@@ -96,12 +92,12 @@ export function useTake(site: Site, lengthS: number) {
     stopping.current = true;
     if (frame.current !== null) cancelAnimationFrame(frame.current);
     frame.current = null;
+    endedAt.current = performance.now();
     try {
-      const blob = await live.stop();
-      endedAt.current = performance.now();
+      const pcm = await live.stop();
+      stages.current.stopMs = performance.now() - (endedAt.current ?? 0);
       live.close();
       mic.current = null;
-      const pcm = await decodeTake(blob);
       await analyse(pcm, 'microphone');
     } catch (error) {
       cleanup();

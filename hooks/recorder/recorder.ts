@@ -1,4 +1,4 @@
-// The one place that knows how audio gets in and out. On the web target we talk to getUserMedia and MediaRecorder
+// The one place that knows how audio gets in and out. On the web target we talk to getUserMedia and Web Audio
 // directly: expo-audio's web recorder asks for `audio: true`, which leaves the browser's echo cancellation, noise
 // suppression and automatic gain on, and those reshape heart sounds; expo-av has no native build for SDK 55+.
 // Playback goes through expo-audio, the SDK's maintained audio module.
@@ -66,14 +66,52 @@ export type LiveMicrophone = {
   /** Peak level of the last few milliseconds, 0..1 of full scale. */
   level: () => number;
   start: () => void;
-  /** Ends the take and returns the recorded audio as the browser encoded it. */
-  stop: () => Promise<Blob>;
+  /** Ends the take and returns it as mono PCM at takeSampleRate. */
+  stop: () => Promise<Pcm>;
   close: () => void;
 };
 
+/**
+ * Takes are captured at 8 kHz: the heart sounds and murmurs we measure lie well below its 4 kHz Nyquist limit,
+ * and the analysis then runs on a sixth of the samples of a 48 kHz take.
+ */
+export const takeSampleRate = 8000;
+
+// Runs on the audio thread and hands the raw samples over in blocks of 2048.
+const tapSource = `class FourpointTap extends AudioWorkletProcessor {
+  constructor() { super(); this.block = new Float32Array(2048); this.filled = 0; }
+  process(inputs) {
+    const channel = inputs[0] && inputs[0][0];
+    if (channel) {
+      for (let i = 0; i < channel.length; i++) {
+        this.block[this.filled++] = channel[i];
+        if (this.filled === this.block.length) { this.port.postMessage(this.block); this.block = new Float32Array(2048); this.filled = 0; }
+      }
+    }
+    return true;
+  }
+}
+registerProcessor('fourpoint-tap', FourpointTap);`;
+
+function join(chunks: Float32Array[]): Float32Array {
+  const out = new Float32Array(chunks.reduce((n, c) => n + c.length, 0));
+  let at = 0;
+  for (const c of chunks) {
+    out.set(c, at);
+    at += c.length;
+  }
+  return out;
+}
+
+/**
+ * The take is tapped as raw PCM on the audio thread, in an 8 kHz context (the browser resamples the microphone
+ * natively). Nothing is left to encode or decode when the take ends, which keeps the time to the trace inside its
+ * 300 ms budget, and the signal never passes through a lossy voice codec.
+ */
 export async function openMicrophone(): Promise<LiveMicrophone> {
   const media = globalThis.navigator?.mediaDevices;
-  if (!media?.getUserMedia || typeof MediaRecorder === 'undefined') {
+  const Ctor = globalThis.AudioContext;
+  if (!media?.getUserMedia || !Ctor || typeof AudioWorkletNode === 'undefined') {
     throw new RecorderError('unsupported', recorderMessages.unsupported);
   }
   let stream: MediaStream;
@@ -86,48 +124,66 @@ export async function openMicrophone(): Promise<LiveMicrophone> {
     stream.getTracks().forEach((t) => t.stop());
     throw new RecorderError('no-microphone', recorderMessages['no-microphone']);
   }
-  const context = audioContext();
-  if (context.state === 'suspended') void context.resume().catch(() => undefined);
-  const source = context.createMediaStreamSource(stream);
-  const analyser = context.createAnalyser();
-  analyser.fftSize = 1024;
-  source.connect(analyser);
-  const buffer = new Float32Array(analyser.fftSize);
-  const recorder = new MediaRecorder(stream);
-  const chunks: Blob[] = [];
-  recorder.ondataavailable = (event) => {
-    if (event.data.size > 0) chunks.push(event.data);
-  };
-
-  const close = () => {
-    source.disconnect();
+  const context = new Ctor({ sampleRate: takeSampleRate });
+  const stopAll = () => {
     stream.getTracks().forEach((t) => t.stop());
+    void context.close().catch(() => undefined);
+  };
+  let tap: AudioWorkletNode;
+  let source: MediaStreamAudioSourceNode;
+  try {
+    const url = URL.createObjectURL(new Blob([tapSource], { type: 'text/javascript' }));
+    await context.audioWorklet.addModule(url);
+    URL.revokeObjectURL(url);
+    if (context.state === 'suspended') await context.resume();
+    source = context.createMediaStreamSource(stream);
+    tap = new AudioWorkletNode(context, 'fourpoint-tap', {
+      numberOfInputs: 1,
+      numberOfOutputs: 1,
+      channelCount: 1,
+      channelCountMode: 'explicit',
+    });
+  } catch (error) {
+    stopAll();
+    throw recorderErrorFrom(error);
+  }
+  const silent = context.createGain();
+  silent.gain.value = 0;
+  source.connect(tap);
+  tap.connect(silent);
+  silent.connect(context.destination);
+
+  const chunks: Float32Array[] = [];
+  let recording = false;
+  let lastPeak = 0;
+  tap.port.onmessage = (event: MessageEvent<Float32Array>) => {
+    const block = event.data;
+    let peak = 0;
+    for (let i = 0; i < block.length; i++) peak = Math.max(peak, Math.abs(block[i] ?? 0));
+    lastPeak = peak;
+    if (recording) chunks.push(block);
   };
 
   return {
-    level: () => {
-      analyser.getFloatTimeDomainData(buffer);
-      let peak = 0;
-      for (let i = 0; i < buffer.length; i++) peak = Math.max(peak, Math.abs(buffer[i] ?? 0));
-      return Math.min(1, peak);
+    level: () => Math.min(1, lastPeak),
+    start: () => {
+      chunks.length = 0;
+      recording = true;
     },
-    start: () => recorder.start(),
-    stop: () =>
-      new Promise<Blob>((resolve, reject) => {
-        if (recorder.state === 'inactive') {
-          resolve(new Blob(chunks, { type: recorder.mimeType }));
-          return;
-        }
-        recorder.onstop = () => resolve(new Blob(chunks, { type: recorder.mimeType }));
-        recorder.onerror = () => reject(new RecorderError('failed', recorderMessages.failed));
-        recorder.stop();
-      }),
-    close,
+    stop: async () => {
+      recording = false;
+      return { samples: join(chunks), sampleRate: context.sampleRate };
+    },
+    close: () => {
+      tap.port.onmessage = null;
+      source.disconnect();
+      stopAll();
+    },
   };
 }
 
-/** Decodes any format the browser knows into mono PCM, at `sampleRate` when given, else the device's rate. */
-export async function decodeWithBrowser(bytes: ArrayBuffer, sampleRate?: number): Promise<Pcm> {
+/** Decodes any compressed format the browser knows into mono PCM. */
+export async function decodeWithBrowser(bytes: ArrayBuffer, sampleRate = takeSampleRate): Promise<Pcm> {
   const buffer =
     sampleRate && typeof OfflineAudioContext !== 'undefined'
       ? await new OfflineAudioContext(1, 1, sampleRate).decodeAudioData(bytes.slice(0))
@@ -138,21 +194,6 @@ export async function decodeWithBrowser(bytes: ArrayBuffer, sampleRate?: number)
     for (let i = 0; i < data.length; i++) samples[i]! += data[i]! / buffer.numberOfChannels;
   }
   return { samples, sampleRate: buffer.sampleRate };
-}
-
-/**
- * Takes are decoded straight to 8 kHz: the heart sounds and murmurs we measure lie well below its 4 kHz Nyquist
- * limit, the browser's native resampler does the work during decoding, and the analysis then runs on a sixth of
- * the samples, which is what brings the trace in within the 300 ms target.
- */
-export const takeSampleRate = 8000;
-
-export async function decodeTake(blob: Blob): Promise<Pcm> {
-  try {
-    return await decodeWithBrowser(await blob.arrayBuffer(), takeSampleRate);
-  } catch {
-    throw new RecorderError('failed', 'The take could not be decoded. Record it again.');
-  }
 }
 
 let player: AudioPlayer | null = null;
