@@ -21,9 +21,25 @@ import { SiteChips } from './site-chips';
 const PAGE = 25;
 const dateOk = (v: string) => v === '' || /^\d{4}-\d{2}-\d{2}$/.test(v);
 
-function Chip({ label, on, onPress, testID }: { label: string; on: boolean; onPress: () => void; testID: string }) {
+function Chip({
+  label,
+  on,
+  onPress,
+  testID,
+}: {
+  label: string;
+  on: boolean;
+  onPress: () => void;
+  testID: string;
+}) {
   return (
-    <Pressable onPress={onPress} style={[styles.chip, on && styles.chipOn]} testID={testID} accessibilityRole="button" accessibilityState={{ selected: on }}>
+    <Pressable
+      onPress={onPress}
+      style={[styles.chip, on && styles.chipOn]}
+      testID={testID}
+      accessibilityRole="button"
+      accessibilityState={{ selected: on }}
+    >
       <AppText variant="small" color={on ? colors.textOnInk : colors.ink}>
         {label}
       </AppText>
@@ -31,7 +47,21 @@ function Chip({ label, on, onPress, testID }: { label: string; on: boolean; onPr
   );
 }
 
-function SortHeader({ label, sort, current, dir, onSort, flex }: { label: string; sort: ReviewSort | null; current: ReviewSort; dir: 'asc' | 'desc'; onSort: (s: ReviewSort) => void; flex: number }) {
+function SortHeader({
+  label,
+  sort,
+  current,
+  dir,
+  onSort,
+  flex,
+}: {
+  label: string;
+  sort: ReviewSort | null;
+  current: ReviewSort;
+  dir: 'asc' | 'desc';
+  onSort: (s: ReviewSort) => void;
+  flex: number;
+}) {
   const active = sort !== null && sort === current;
   const content = (
     <AppText variant="caption" color={active ? colors.ink : colors.textMuted}>
@@ -41,14 +71,20 @@ function SortHeader({ label, sort, current, dir, onSort, flex }: { label: string
   );
   if (!sort) return <View style={{ flex }}>{content}</View>;
   return (
-    <Pressable style={{ flex }} onPress={() => onSort(sort)} testID={`sort-${sort}`} accessibilityRole="button" accessibilityLabel={`Sort by ${label}`}>
+    <Pressable
+      style={{ flex }}
+      onPress={() => onSort(sort)}
+      testID={`sort-${sort}`}
+      accessibilityRole="button"
+      accessibilityLabel={`Sort by ${label}`}
+    >
       {content}
     </Pressable>
   );
 }
 
 /** The practitioner's table of synced sessions: server-paged, sorted and filtered. */
-export function ReviewSessionsScreen() {
+export function ReviewSessionsScreen({ testID = 'review-sessions' }: { testID?: string }) {
   const { isWide } = useLayout();
   const [search, setSearch] = useState('');
   const q = useDebouncedValue(search.trim(), 300);
@@ -93,30 +129,84 @@ export function ReviewSessionsScreen() {
 
   const filtersBar = (
     <View style={styles.filters} testID="session-filters">
-      <TextInput
-        value={search}
-        onChangeText={setSearch}
-        placeholder="Search client name"
-        placeholderTextColor={colors.textMuted}
-        style={[styles.input, styles.search]}
-        testID="filter-search"
-        accessibilityLabel="Search client name"
-      />
-      <TextInput value={from} onChangeText={setFrom} placeholder="From YYYY-MM-DD" placeholderTextColor={colors.textMuted} style={[styles.input, !dateOk(from) && styles.bad]} testID="filter-from" accessibilityLabel="From date" />
-      <TextInput value={to} onChangeText={setTo} placeholder="To YYYY-MM-DD" placeholderTextColor={colors.textMuted} style={[styles.input, !dateOk(to) && styles.bad]} testID="filter-to" accessibilityLabel="To date" />
+      <View style={[styles.inputs, isWide && styles.inputsWide]}>
+        <TextInput
+          value={search}
+          onChangeText={setSearch}
+          placeholder="Search client name"
+          placeholderTextColor={colors.textMuted}
+          style={[styles.input, styles.search]}
+          testID="filter-search"
+          accessibilityLabel="Search client name"
+        />
+        <TextInput
+          value={from}
+          onChangeText={setFrom}
+          placeholder="From YYYY-MM-DD"
+          placeholderTextColor={colors.textMuted}
+          style={[styles.input, !dateOk(from) && styles.bad]}
+          testID="filter-from"
+          accessibilityLabel="From date"
+        />
+        <TextInput
+          value={to}
+          onChangeText={setTo}
+          placeholder="To YYYY-MM-DD"
+          placeholderTextColor={colors.textMuted}
+          style={[styles.input, !dateOk(to) && styles.bad]}
+          testID="filter-to"
+          accessibilityLabel="To date"
+        />
+      </View>
       <View style={styles.chips}>
         {(['completed', 'reviewed', 'in_progress', 'cancelled'] as const).map((s) => (
-          <Chip key={s} label={statusLabels[s].label} on={status === s} onPress={() => setStatus(status === s ? undefined : s)} testID={`filter-status-${s}`} />
+          <Chip
+            key={s}
+            label={statusLabels[s].label}
+            on={status === s}
+            onPress={() => setStatus(status === s ? undefined : s)}
+            testID={`filter-status-${s}`}
+          />
         ))}
       </View>
       <View style={styles.chips}>
-        <Chip label="Flagged for referral" on={flagged === 'true'} onPress={() => setFlagged(flagged === 'true' ? undefined : 'true')} testID="filter-flagged" />
-        <Chip label="Not flagged" on={flagged === 'false'} onPress={() => setFlagged(flagged === 'false' ? undefined : 'false')} testID="filter-not-flagged" />
+        <Chip
+          label="Flagged for referral"
+          on={flagged === 'true'}
+          onPress={() => setFlagged(flagged === 'true' ? undefined : 'true')}
+          testID="filter-flagged"
+        />
+        <Chip
+          label="Not flagged"
+          on={flagged === 'false'}
+          onPress={() => setFlagged(flagged === 'false' ? undefined : 'false')}
+          testID="filter-not-flagged"
+        />
         {(['good', 'usable', 'retake'] as const).map((v) => (
-          <Chip key={v} label={`Worst quality: ${v}`} on={quality === v} onPress={() => setQuality(quality === v ? undefined : v)} testID={`filter-quality-${v}`} />
+          <Chip
+            key={v}
+            label={`Worst quality: ${v}`}
+            on={quality === v}
+            onPress={() => setQuality(quality === v ? undefined : v)}
+            testID={`filter-quality-${v}`}
+          />
         ))}
-        {client ? <Chip label={`Client: ${client.name} ✕`} on onPress={() => setClient(null)} testID="filter-client" /> : null}
-        {operator ? <Chip label={`Operator: ${operator.name} ✕`} on onPress={() => setOperator(null)} testID="filter-operator" /> : null}
+        {client ? (
+          <Chip
+            label={`Client: ${client.name} ✕`}
+            on
+            onPress={() => setClient(null)}
+            testID="filter-client"
+          />
+        ) : null}
+        {operator ? (
+          <Chip
+            label={`Operator: ${operator.name} ✕`}
+            on
+            onPress={() => setOperator(null)}
+            testID="filter-operator"
+          />
+        ) : null}
       </View>
       {!dateOk(from) || !dateOk(to) ? (
         <AppText variant="small" color={colors.danger}>
@@ -128,20 +218,57 @@ export function ReviewSessionsScreen() {
 
   let body;
   if (page.isPending) body = <LoadingState label="Loading sessions…" testID="sessions-loading" />;
-  else if (page.isError) body = <ErrorState message={page.error.message} onRetry={() => void page.refetch()} testID="sessions-error" />;
+  else if (page.isError)
+    body = (
+      <ErrorState message={page.error.message} onRetry={() => void page.refetch()} testID="sessions-error" />
+    );
   else if (page.data.sessions.length === 0)
-    body = <EmptyState title="No sessions match" detail="Change or clear the filters; new sessions appear once a device has synced them." testID="sessions-empty" />;
+    body = (
+      <EmptyState
+        title="No sessions match"
+        detail="Change or clear the filters; new sessions appear once a device has synced them."
+        testID="sessions-empty"
+      />
+    );
   else {
     const rows = page.data.sessions;
     body = (
       <>
         {isWide ? (
-          <View style={styles.table} testID="review-sessions-table">
+          <View style={styles.table} testID="sessions-table">
             <View style={[styles.row, styles.head]}>
-              <SortHeader label="Client" sort="clientName" current={sort} dir={dir} onSort={onSort} flex={2} />
-              <SortHeader label="Recorded" sort="startedAt" current={sort} dir={dir} onSort={onSort} flex={1.4} />
-              <SortHeader label="Operator" sort="operatorName" current={sort} dir={dir} onSort={onSort} flex={1.3} />
-              <SortHeader label="Sites (quality)" sort={null} current={sort} dir={dir} onSort={onSort} flex={1.6} />
+              <SortHeader
+                label="Client"
+                sort="clientName"
+                current={sort}
+                dir={dir}
+                onSort={onSort}
+                flex={2}
+              />
+              <SortHeader
+                label="Recorded"
+                sort="startedAt"
+                current={sort}
+                dir={dir}
+                onSort={onSort}
+                flex={1.4}
+              />
+              <SortHeader
+                label="Operator"
+                sort="operatorName"
+                current={sort}
+                dir={dir}
+                onSort={onSort}
+                flex={1.3}
+              />
+              <SortHeader
+                label="Sites (quality)"
+                sort={null}
+                current={sort}
+                dir={dir}
+                onSort={onSort}
+                flex={1.6}
+              />
               <SortHeader label="Status" sort="status" current={sort} dir={dir} onSort={onSort} flex={1.2} />
               <SortHeader label="Referral" sort={null} current={sort} dir={dir} onSort={onSort} flex={1.5} />
             </View>
@@ -150,9 +277,9 @@ export function ReviewSessionsScreen() {
             ))}
           </View>
         ) : (
-          <View style={styles.cards} testID="review-sessions-table">
+          <View style={styles.cards} testID="sessions-table">
             {rows.map((s) => (
-              <Link key={s.id} href={`/sessions/${s.id}`} testID={`review-row-${s.id}`} style={styles.card}>
+              <Link key={s.id} href={`/sessions/${s.id}`} testID={`session-row-${s.id}`} style={styles.card}>
                 <View style={styles.cardInner}>
                   <AppText variant="bodyStrong" color={colors.ink}>
                     {s.clientName}
@@ -174,7 +301,13 @@ export function ReviewSessionsScreen() {
           <AppText variant="small" color={colors.textMuted} testID="sessions-range">
             {first}–{first + rows.length - 1} of {page.data.total}
           </AppText>
-          <Button label="Previous" variant="secondary" testID="page-previous" disabled={cursors.length <= 1} onPress={() => setCursors(cursors.slice(0, -1))} />
+          <Button
+            label="Previous"
+            variant="secondary"
+            testID="page-previous"
+            disabled={cursors.length <= 1}
+            onPress={() => setCursors(cursors.slice(0, -1))}
+          />
           <Button
             label="Next"
             variant="secondary"
@@ -193,24 +326,43 @@ export function ReviewSessionsScreen() {
   }
 
   return (
-    <ScreenFrame title="Sessions" subtitle="Synced sessions from the clinic's devices. Open one to review it." testID="review-sessions" header={filtersBar}>
+    <ScreenFrame
+      title="Sessions"
+      subtitle="Synced sessions from the clinic's devices. Open one to review it."
+      testID={testID}
+      header={filtersBar}
+    >
       <CautionNote compact />
       {body}
     </ScreenFrame>
   );
 }
 
-function Row({ s, striped, onClient, onOperator }: { s: ReviewSessionRow; striped: boolean; onClient: (c: { id: string; name: string }) => void; onOperator: (o: { id: string; name: string }) => void }) {
+function Row({
+  s,
+  striped,
+  onClient,
+  onOperator,
+}: {
+  s: ReviewSessionRow;
+  striped: boolean;
+  onClient: (c: { id: string; name: string }) => void;
+  onOperator: (o: { id: string; name: string }) => void;
+}) {
   const status = statusLabels[s.status];
   return (
-    <View style={[styles.row, striped && styles.striped]} testID={`review-row-${s.id}`}>
+    <View style={[styles.row, striped && styles.striped]} testID={`session-row-${s.id}`}>
       <View style={[styles.cell, { flex: 2 }]}>
         <Link href={`/sessions/${s.id}`} testID={`open-session-${s.id}`}>
           <AppText variant="smallStrong" color={colors.accent} numberOfLines={1}>
             {s.clientName}
           </AppText>
         </Link>
-        <Pressable onPress={() => onClient({ id: s.clientId, name: s.clientName })} testID={`only-client-${s.id}`} accessibilityLabel={`Only ${s.clientName}`}>
+        <Pressable
+          onPress={() => onClient({ id: s.clientId, name: s.clientName })}
+          testID={`only-client-${s.id}`}
+          accessibilityLabel={`Only ${s.clientName}`}
+        >
           <AppText variant="caption" color={colors.textMuted}>
             only this client
           </AppText>
@@ -219,7 +371,12 @@ function Row({ s, striped, onClient, onOperator }: { s: ReviewSessionRow; stripe
       <AppText variant="number" color={colors.text} style={{ flex: 1.4 }}>
         {formatDate(s.startedAt)} {formatTime(s.startedAt)}
       </AppText>
-      <Pressable style={{ flex: 1.3 }} disabled={!s.operatorId} onPress={() => s.operatorId && onOperator({ id: s.operatorId, name: s.operatorName ?? '' })} accessibilityLabel="Only this operator">
+      <Pressable
+        style={{ flex: 1.3 }}
+        disabled={!s.operatorId}
+        onPress={() => s.operatorId && onOperator({ id: s.operatorId, name: s.operatorName ?? '' })}
+        accessibilityLabel="Only this operator"
+      >
         <AppText variant="small" color={colors.text} numberOfLines={1}>
           {s.operatorName ?? '—'}
         </AppText>
@@ -231,7 +388,13 @@ function Row({ s, striped, onClient, onOperator }: { s: ReviewSessionRow; stripe
         <Badge label={status.label} tone={status.tone} />
       </View>
       <View style={{ flex: 1.5 }}>
-        {s.flagged ? <Badge label={`⚠ ${referToClinician}`} tone="danger" testID={`flagged-${s.id}`} /> : <AppText variant="small" color={colors.textMuted}>none</AppText>}
+        {s.flagged ? (
+          <Badge label={`⚠ ${referToClinician}`} tone="danger" testID={`flagged-${s.id}`} />
+        ) : (
+          <AppText variant="small" color={colors.textMuted}>
+            none
+          </AppText>
+        )}
       </View>
     </View>
   );
@@ -250,18 +413,45 @@ const styles = StyleSheet.create({
     fontSize: 14,
     color: colors.text,
   },
-  search: { minWidth: 240 },
+  search: { flexGrow: 1, minWidth: 240 },
+  inputs: { gap: space.sm },
+  inputsWide: { flexDirection: 'row' },
   bad: { borderColor: colors.danger },
   chips: { flexDirection: 'row', gap: space.xs, flexWrap: 'wrap', alignItems: 'center' },
-  chip: { borderWidth: 1, borderColor: colors.line, borderRadius: radii.pill, paddingHorizontal: space.md, paddingVertical: 5, backgroundColor: colors.surface },
+  chip: {
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.pill,
+    paddingHorizontal: space.md,
+    paddingVertical: 5,
+    backgroundColor: colors.surface,
+  },
   chipOn: { backgroundColor: colors.ink, borderColor: colors.ink },
-  table: { backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.line, borderRadius: radii.md, overflow: 'hidden' },
-  row: { flexDirection: 'row', alignItems: 'center', gap: space.md, paddingHorizontal: space.lg, paddingVertical: space.sm },
+  table: {
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    overflow: 'hidden',
+  },
+  row: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: space.md,
+    paddingHorizontal: space.lg,
+    paddingVertical: space.sm,
+  },
   head: { backgroundColor: colors.surfaceMuted },
   striped: { backgroundColor: '#FBF9F4' },
   cell: { gap: 2 },
   cards: { gap: space.sm },
-  card: { backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.line, borderRadius: radii.md, padding: space.md },
+  card: {
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    padding: space.md,
+  },
   cardInner: { gap: space.xs },
   pager: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
 });

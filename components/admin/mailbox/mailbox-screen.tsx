@@ -18,19 +18,36 @@ export function MailboxScreen() {
 
   let body;
   if (list.isPending) body = <LoadingState label="Reading the mailbox…" testID="mailbox-loading" />;
-  else if (list.isError) body = <ErrorState message={list.error.message} onRetry={() => void list.refetch()} testID="mailbox-error" />;
-  else if (list.data.length === 0) body = <EmptyState title="No mail yet" detail="Invitations, reminders and reports sent by the server land here." testID="mailbox-empty" />;
+  else if (list.isError)
+    body = (
+      <ErrorState message={list.error.message} onRetry={() => void list.refetch()} testID="mailbox-error" />
+    );
+  else if (list.data.length === 0)
+    body = (
+      <EmptyState
+        title="No mail yet"
+        detail="Invitations, reminders and reports sent by the server land here."
+        testID="mailbox-empty"
+      />
+    );
   else
     body = (
       <View style={[styles.split, isWide && styles.splitWide]}>
         <View style={[styles.list, isWide && styles.listWide]} testID="mailbox-list">
           {list.data.map((m) => (
-            <Pressable key={m.id} onPress={() => setSelected(m.id)} style={[styles.item, selected === m.id && styles.itemOn]} testID={`mailbox-message-${m.id}`} accessibilityRole="button">
+            <Pressable
+              key={m.id}
+              onPress={() => setSelected(m.id)}
+              style={[styles.item, selected === m.id && styles.itemOn]}
+              testID={`mailbox-message-${m.id}`}
+              accessibilityRole="button"
+            >
               <AppText variant="smallStrong" color={colors.ink} numberOfLines={1}>
                 {m.subject}
               </AppText>
               <AppText variant="caption" color={colors.textMuted}>
-                to {m.to} · {new Date(m.receivedAt).toLocaleString()} {m.attachments.length ? `· ${m.attachments.length} attachment(s)` : ''}
+                to {m.to} · {new Date(m.receivedAt).toLocaleString()}{' '}
+                {m.attachments.length ? `· ${m.attachments.length} attachment(s)` : ''}
               </AppText>
             </Pressable>
           ))}
@@ -43,7 +60,11 @@ export function MailboxScreen() {
           ) : message.isPending ? (
             <LoadingState label="Opening…" testID="mailbox-message-loading" />
           ) : message.isError ? (
-            <ErrorState message={message.error.message} onRetry={() => void message.refetch()} testID="mailbox-message-error" />
+            <ErrorState
+              message={message.error.message}
+              onRetry={() => void message.refetch()}
+              testID="mailbox-message-error"
+            />
           ) : (
             <>
               <AppText variant="heading" color={colors.ink} testID="mailbox-subject">
@@ -64,7 +85,11 @@ export function MailboxScreen() {
                     label="Open"
                     variant="secondary"
                     testID={`mailbox-open-${a.index}`}
-                    onPress={() => openAttachment(message.data.id, a.index).catch((e: Error) => setAttachmentError(e.message))}
+                    onPress={() =>
+                      openAttachment(message.data.id, a.index).catch((e: Error) =>
+                        setAttachmentError(e.message),
+                      )
+                    }
                   />
                 </View>
               ))}
@@ -80,7 +105,11 @@ export function MailboxScreen() {
     );
 
   return (
-    <ScreenFrame title="Mailbox" subtitle="The local stand-in for the mail relay: what the server has sent." testID="mailbox-screen">
+    <ScreenFrame
+      title="Mailbox"
+      subtitle="The local stand-in for the mail relay: what the server has sent."
+      testID="mailbox-screen"
+    >
       {body}
     </ScreenFrame>
   );
@@ -91,9 +120,24 @@ const styles = StyleSheet.create({
   splitWide: { flexDirection: 'row', alignItems: 'flex-start' },
   list: { gap: space.xs },
   listWide: { width: 380 },
-  item: { backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.line, borderRadius: radii.md, padding: space.md, gap: 2 },
+  item: {
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    padding: space.md,
+    gap: 2,
+  },
   itemOn: { borderColor: colors.ink },
-  reader: { flex: 1, backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.line, borderRadius: radii.md, padding: space.lg, gap: space.sm },
+  reader: {
+    flex: 1,
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    padding: space.lg,
+    gap: space.sm,
+  },
   attachment: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
   flex: { flex: 1 },
 });

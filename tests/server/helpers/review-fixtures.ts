@@ -75,7 +75,7 @@ export async function addSession(options: {
     startedAt: options.startedAt,
     findings: options.findings ?? null,
   });
-  const sites =
+  const sites: Partial<Record<Site, SiteSpec>> =
     options.sites ?? Object.fromEntries(SITES.map((s) => [s, { verdict: 'good', heartRateBpm: 70 }]));
   for (const site of SITES) {
     const spec = sites[site];

@@ -1,0 +1,1 @@
+export { MailboxScreen as default } from '@/components/admin/mailbox/mailbox-screen';

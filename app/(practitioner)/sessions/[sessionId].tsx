@@ -1,0 +1,1 @@
+export { SessionViewScreen as default } from '@/components/review/session-view-screen';

@@ -1,0 +1,108 @@
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { AppText } from '@/components/ui/app-text';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { colors, radii, space } from '@/constants/theme';
+import {
+  downloadReport,
+  useReportMailsQuery,
+  useRetryMailMutation,
+  useSendReportMutation,
+} from '@/hooks/api/review';
+
+type Props = {
+  sessionId: string;
+  compareWith: string | null;
+  clientEmail: string | null;
+  fileName: string;
+  canSend: boolean;
+};
+
+const stateTone = { sent: 'good', failed: 'danger', queued: 'neutral', sending: 'caution' } as const;
+
+/** Download the report, e-mail it to the client, and see every send with its state; failed ones retry. */
+export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, canSend }: Props) {
+  const mails = useReportMailsQuery(sessionId);
+  const send = useSendReportMutation(sessionId);
+  const retry = useRetryMailMutation(sessionId);
+  const [downloadError, setDownloadError] = useState<string | null>(null);
+  const [downloading, setDownloading] = useState(false);
+  return (
+    <View style={styles.box} testID="report-panel">
+      <AppText variant="heading" color={colors.ink}>
+        Report
+      </AppText>
+      <AppText variant="small" color={colors.textMuted}>
+        {compareWith
+          ? 'The report includes the comparison with the chosen earlier visit.'
+          : 'Pick an earlier visit above to include a comparison.'}
+      </AppText>
+      <View style={styles.row}>
+        <Button
+          label="Download PDF"
+          variant="secondary"
+          testID="report-download"
+          busy={downloading}
+          onPress={() => {
+            setDownloading(true);
+            setDownloadError(null);
+            downloadReport(sessionId, compareWith, fileName)
+              .catch((e: Error) => setDownloadError(e.message))
+              .finally(() => setDownloading(false));
+          }}
+        />
+        <Button
+          label={clientEmail ? `E-mail to ${clientEmail}` : 'No client e-mail on file'}
+          testID="report-send"
+          disabled={!clientEmail || !canSend}
+          busy={send.isPending}
+          onPress={() => send.mutate({ compareWith })}
+        />
+      </View>
+      {downloadError ? (
+        <AppText variant="small" color={colors.danger}>
+          {downloadError}
+        </AppText>
+      ) : null}
+      {send.isError ? (
+        <AppText variant="small" color={colors.danger} testID="report-send-error">
+          {send.error.message}
+        </AppText>
+      ) : null}
+      {(mails.data ?? []).map((m) => (
+        <View key={m.id} style={styles.mail} testID={`report-mail-${m.state}`}>
+          <Badge label={m.state === 'failed' ? 'not delivered' : m.state} tone={stateTone[m.state]} />
+          <AppText variant="small" color={colors.text} style={styles.flex}>
+            {m.to} · {new Date(m.createdAt).toLocaleString()} · {m.attempts} attempt
+            {m.attempts === 1 ? '' : 's'}
+            {m.lastError ? ` · ${m.lastError}` : ''}
+          </AppText>
+          {m.state === 'failed' && canSend ? (
+            <Button
+              label="Retry"
+              variant="secondary"
+              testID={`report-retry-${m.id}`}
+              busy={retry.isPending}
+              onPress={() => retry.mutate(m.id)}
+            />
+          ) : null}
+        </View>
+      ))}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  box: {
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    padding: space.lg,
+    gap: space.sm,
+  },
+  row: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
+  mail: { flexDirection: 'row', gap: space.sm, alignItems: 'center' },
+  flex: { flex: 1 },
+});

@@ -1,0 +1,184 @@
+import { useEffect, useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { AppText } from '@/components/ui/app-text';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { LoadingState } from '@/components/ui/state-views';
+import { colors, radii, space } from '@/constants/theme';
+import { referToClinician } from '@/constants/cautions';
+import { siteInfo } from '@/constants/sites';
+import { fetchClipUrl, useTraceQuery } from '@/hooks/api/review';
+import type { ReviewSite } from '@/shared/protocol/review';
+import type { Playback } from './clip-playback';
+import { MeasurementsTable } from './measurements-table';
+import { TraceView, type TimeWindow } from './trace-view';
+
+type Props = {
+  sessionId: string;
+  site: ReviewSite;
+  playback: Playback;
+  compare: { sessionId: string; mode: 'beside' | 'over'; shiftS: number; label: string } | null;
+};
+
+const clampWindow = (w: TimeWindow, duration: number): TimeWindow => {
+  const span = Math.min(duration, Math.max(0.25, w.end - w.start));
+  const start = Math.min(Math.max(0, w.start), Math.max(0, duration - span));
+  return { start, end: start + span };
+};
+
+export function SiteCard({ sessionId, site, playback, compare }: Props) {
+  const info = siteInfo(site.site);
+  const trace = useTraceQuery(site.hasAudio ? sessionId : null, site.site);
+  const then = useTraceQuery(compare?.sessionId ?? null, site.site, Boolean(compare));
+  const duration = trace.data?.durationS ?? site.durationS ?? 1;
+  // A few seconds at first, so S1 and S2 read apart; zoom out shows the whole clip.
+  const initial = Math.min(duration, 5);
+  const [window, setWindow] = useState<TimeWindow>({ start: 0, end: initial });
+  useEffect(() => setWindow({ start: 0, end: initial }), [initial]);
+  const key = `${sessionId}/${site.site}`;
+  const playing = playback.playingKey === key;
+  const zoom = (factor: number) => {
+    const mid = (window.start + window.end) / 2;
+    const half = ((window.end - window.start) * factor) / 2;
+    setWindow(clampWindow({ start: mid - half, end: mid + half }, duration));
+  };
+  const pan = (fraction: number) => {
+    const shift = (window.end - window.start) * fraction;
+    setWindow(clampWindow({ start: window.start + shift, end: window.end + shift }, duration));
+  };
+  // While playing, the view follows the cursor when it leaves the zoomed window.
+  useEffect(() => {
+    if (!playing) return;
+    const t = playback.positionS;
+    if (t > window.end || t < window.start) {
+      const span = window.end - window.start;
+      setWindow(clampWindow({ start: t - span * 0.1, end: t + span * 0.9 }, duration));
+    }
+  }, [playing, playback.positionS, window, duration]);
+  const tid = `site-${site.site}`;
+
+  return (
+    <View style={styles.card} testID={tid}>
+      <View style={styles.head}>
+        <AppText variant="heading" color={colors.ink}>
+          {info.label}
+        </AppText>
+        {site.qualityVerdict ? (
+          <Badge
+            label={`quality: ${site.qualityVerdict}`}
+            tone={
+              site.qualityVerdict === 'good'
+                ? 'good'
+                : site.qualityVerdict === 'usable'
+                  ? 'caution'
+                  : 'danger'
+            }
+          />
+        ) : null}
+        {site.heartRateBpm !== null ? (
+          <AppText variant="number" color={colors.text}>
+            {Math.round(site.heartRateBpm)} bpm
+          </AppText>
+        ) : null}
+        {site.irregularRhythm ? (
+          <Badge label={`irregular rhythm: ${referToClinician}`} tone="danger" />
+        ) : null}
+      </View>
+      {site.skippedReason ? (
+        <AppText variant="small" color={colors.textMuted}>
+          Skipped: {site.skippedReason}
+        </AppText>
+      ) : null}
+      {!site.hasAudio ? (
+        <AppText variant="small" color={colors.textMuted} testID={`${tid}-no-clip`}>
+          No clip on the server for this site.
+        </AppText>
+      ) : trace.isPending ? (
+        <LoadingState label="Loading trace…" testID={`${tid}-trace-loading`} />
+      ) : trace.isError ? (
+        <AppText variant="small" color={colors.danger}>
+          The trace could not be loaded: {trace.error.message}
+        </AppText>
+      ) : (
+        <>
+          <TraceView
+            trace={trace.data}
+            window={window}
+            cursorS={playing ? playback.positionS : null}
+            overlay={
+              compare?.mode === 'over' && then.data ? { trace: then.data, shiftS: compare.shiftS } : null
+            }
+            testID={`${tid}-trace`}
+          />
+          {compare?.mode === 'beside' && then.data ? (
+            <View testID={`${tid}-then`}>
+              <AppText variant="caption" color={colors.textMuted}>
+                {compare.label} (aligned on S1)
+              </AppText>
+              <TraceView
+                trace={{
+                  ...then.data,
+                  sounds: then.data.sounds.map((s) => ({
+                    ...s,
+                    startS: s.startS + compare.shiftS,
+                    endS: s.endS + compare.shiftS,
+                  })),
+                }}
+                window={window}
+                height={90}
+                testID={`${tid}-then-trace`}
+                overlay={null}
+              />
+            </View>
+          ) : null}
+          {compare?.mode === 'over' ? (
+            <AppText variant="caption" color={colors.textMuted}>
+              Blue: {compare.label}, aligned on S1
+            </AppText>
+          ) : null}
+          <View style={styles.controls}>
+            <Button
+              label={playing ? 'Stop' : 'Play'}
+              variant={playing ? 'primary' : 'secondary'}
+              testID={`${tid}-play`}
+              onPress={() =>
+                playing ? playback.stop() : void playback.play(key, () => fetchClipUrl(sessionId, site.site))
+              }
+            />
+            <Button label="Zoom in" variant="ghost" testID={`${tid}-zoom-in`} onPress={() => zoom(0.5)} />
+            <Button label="Zoom out" variant="ghost" testID={`${tid}-zoom-out`} onPress={() => zoom(2)} />
+            <Button label="◀ Earlier" variant="ghost" testID={`${tid}-pan-left`} onPress={() => pan(-0.5)} />
+            <Button label="Later ▶" variant="ghost" testID={`${tid}-pan-right`} onPress={() => pan(0.5)} />
+            <AppText variant="caption" color={colors.textMuted} testID={`${tid}-window`}>
+              {window.start.toFixed(1)}–{window.end.toFixed(1)} s
+            </AppText>
+          </View>
+          {playing && playback.error ? (
+            <AppText variant="small" color={colors.danger}>
+              {playback.error}
+            </AppText>
+          ) : null}
+        </>
+      )}
+      {site.qualityReasons.length ? (
+        <AppText variant="caption" color={colors.caution}>
+          {site.qualityReasons.join(' ')}
+        </AppText>
+      ) : null}
+      <MeasurementsTable measurements={site.measurements} testID={`${tid}-measurements`} />
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  card: {
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    padding: space.md,
+    gap: space.sm,
+  },
+  head: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
+  controls: { flexDirection: 'row', alignItems: 'center', gap: space.xs, flexWrap: 'wrap' },
+});
