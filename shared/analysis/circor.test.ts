@@ -1,0 +1,104 @@
+import * as fs from 'fs';
+import * as path from 'path';
+import { analysePcm } from './analyse';
+import type { AnalysisResult, SiteCode } from './types';
+import { addCounts, emptyCounts, f1, scoreSounds, type AnnotatedSegment } from './scoring';
+import { decodeWav } from './wav';
+
+/*
+ * Development data: CirCor DigiScope Phonocardiogram Dataset v1.0.3, training subset of 24 patients × 4 sites
+ * (Oliveira et al., "The CirCor DigiScope Dataset: From Murmur Detection to Murmur Classification", IEEE JBHI 2022,
+ * doi:10.1109/JBHI.2021.3137048; PhysioNet doi:10.13026/tshs-mw03). These checks use the committed model, which
+ * was fitted on the same recordings: they are floors against regressions. The honest, cross-validated figures
+ * come from scripts/analysis/score.ts.
+ */
+const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(__dirname, '../../../shared/data/circor');
+const SITES: Record<string, SiteCode> = { AV: 'aortic', PV: 'pulmonic', TV: 'tricuspid', MV: 'mitral' };
+
+interface Case {
+  id: string;
+  site: SiteCode;
+  murmur: string;
+  segments: AnnotatedSegment[];
+  result: AnalysisResult;
+}
+
+const available = fs.existsSync(dataDir);
+const cases: Case[] = [];
+
+function load(): Case[] {
+  if (cases.length) return cases;
+  for (const name of fs.readdirSync(dataDir).filter((n) => n.endsWith('.wav')).sort()) {
+    const id = name.replace(/\.wav$/, '');
+    const [patient, siteCode] = id.split('_');
+    const header = fs.readFileSync(path.join(dataDir, `${patient}.txt`), 'utf8');
+    const segments = fs
+      .readFileSync(path.join(dataDir, `${id}.tsv`), 'utf8')
+      .trim()
+      .split('\n')
+      .map((line) => line.split('\t').map(Number))
+      .map(([startS, endS, label]) => ({ startS, endS, label }));
+    const { samples, sampleRate } = decodeWav(new Uint8Array(fs.readFileSync(path.join(dataDir, name))));
+    cases.push({
+      id,
+      site: SITES[siteCode],
+      murmur: /#Murmur:\s*(\S+)/.exec(header)?.[1] ?? 'Unknown',
+      segments,
+      result: analysePcm(samples, sampleRate, { site: SITES[siteCode] }),
+    });
+  }
+  return cases;
+}
+
+/** Heart-rate truth as the dataset README defines it: 60 / median interval between consecutive annotated S1 onsets. */
+function annotatedRate(segments: AnnotatedSegment[]): number | null {
+  const onsets = segments.filter((s) => s.label === 1).map((s) => s.startS);
+  const intervals = onsets.slice(1).map((t, i) => t - onsets[i]).sort((a, b) => a - b);
+  if (!intervals.length) return null;
+  const mid = intervals.length >> 1;
+  return 60 / (intervals.length % 2 ? intervals[mid] : (intervals[mid - 1] + intervals[mid]) / 2);
+}
+
+const describeIfData = available ? describe : describe.skip;
+
+describeIfData('CirCor development recordings', () => {
+  beforeAll(load, 60000);
+
+  // Scoring rule of Springer et al., "Logistic regression-HSMM-based heart sound segmentation", IEEE TBME 2016:
+  // a detected S1/S2 is correct when its midpoint is within 100 ms of an annotated one of the same kind;
+  // unannotated (label 0) stretches are skipped.
+  test('when all 96 recordings are segmented, then S1/S2 F1 at 100 ms is at least 95 %', () => {
+    let counts = emptyCounts();
+    for (const c of load()) counts = addCounts(counts, scoreSounds(c.result.sounds, c.segments, 0.1));
+    expect(f1(counts)).toBeGreaterThanOrEqual(0.95);
+  });
+
+  test('when all 96 recordings are analysed, then the heart rate is within 3 bpm of the annotation in at least 85 %', () => {
+    const rated = load().filter((c) => annotatedRate(c.segments) !== null);
+    const within = rated.filter((c) => Math.abs((c.result.heartRateBpm ?? -100) - (annotatedRate(c.segments) ?? 0)) <= 3);
+    expect(within.length / rated.length).toBeGreaterThanOrEqual(0.85);
+  });
+
+  // Textbook physiology, from memory: S1 is louder than S2 at the apex (mitral) and lower left sternal border
+  // (tricuspid), S2 louder at the base (aortic) — Bickley, Bates' Guide to Physical Examination and History
+  // Taking. Checked on the recordings whose header says "#Murmur: Absent", with S1:S2 energy.
+  const louderShare = (site: SiteCode) => {
+    const normal = load().filter((c) => c.site === site && c.murmur === 'Absent' && c.result.metrics.s1s2EnergyRatio !== null);
+    return { count: normal.length, s1Louder: normal.filter((c) => (c.result.metrics.s1s2EnergyRatio ?? 0) > 1).length };
+  };
+  test('when normal recordings are taken at the mitral site, then S1 is louder than S2 in most', () => {
+    const { count, s1Louder } = louderShare('mitral');
+    expect(count).toBeGreaterThan(5);
+    expect(s1Louder / count).toBeGreaterThan(0.5);
+  });
+  test('when normal recordings are taken at the tricuspid site, then S1 is louder than S2 in most', () => {
+    const { count, s1Louder } = louderShare('tricuspid');
+    expect(count).toBeGreaterThan(5);
+    expect(s1Louder / count).toBeGreaterThan(0.5);
+  });
+  test('when normal recordings are taken at the aortic site, then S2 is louder than S1 in most', () => {
+    const { count, s1Louder } = louderShare('aortic');
+    expect(count).toBeGreaterThan(5);
+    expect((count - s1Louder) / count).toBeGreaterThan(0.5);
+  });
+});
