@@ -2,27 +2,37 @@ import { createHash, randomUUID } from 'node:crypto';
 import fs from 'node:fs/promises';
 import path from 'node:path';
 
-/** Content-addressed storage for clip bytes; local disk now, object storage behind the same interface later. */
+/** Content-addressed storage for clip bytes: local disk by default, S3-compatible storage by configuration. */
 export interface BlobStore {
   /** Stores the bytes under their sha256 and returns the key; storing the same bytes again is a no-op. */
   put(bytes: Uint8Array): Promise<{ sha256: string; storageKey: string; sizeBytes: number }>;
+  /** null when nothing is stored under the key. */
   get(storageKey: string): Promise<Buffer | null>;
   has(storageKey: string): Promise<boolean>;
+  /** Removes the bytes for good (erasure); removing a missing key is not an error. */
+  delete(storageKey: string): Promise<void>;
 }
 
 export const sha256Hex = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
+
+/** Keys are `<first two hex digits>/<sha256>` in every store, so a database row's key works with either. */
+export const blobKeyFor = (sha256: string) => `${sha256.slice(0, 2)}/${sha256}`;
+
+export function assertBlobKey(storageKey: string): void {
+  if (!/^[0-9a-f]{2}\/[0-9a-f]{64}$/.test(storageKey)) throw new Error(`Not a blob key: ${storageKey}`);
+}
 
 export class LocalDiskBlobStore implements BlobStore {
   constructor(private readonly root: string) {}
 
   private fileFor(storageKey: string): string {
-    if (!/^[0-9a-f]{2}\/[0-9a-f]{64}$/.test(storageKey)) throw new Error(`Not a blob key: ${storageKey}`);
+    assertBlobKey(storageKey);
     return path.join(this.root, storageKey);
   }
 
   async put(bytes: Uint8Array) {
     const sha256 = sha256Hex(bytes);
-    const storageKey = `${sha256.slice(0, 2)}/${sha256}`;
+    const storageKey = blobKeyFor(sha256);
     const file = this.fileFor(storageKey);
     if (!(await this.has(storageKey))) {
       await fs.mkdir(path.dirname(file), { recursive: true });
@@ -50,5 +60,9 @@ export class LocalDiskBlobStore implements BlobStore {
     } catch {
       return false;
     }
+  }
+
+  async delete(storageKey: string) {
+    await fs.rm(this.fileFor(storageKey), { force: true });
   }
 }

@@ -2,7 +2,8 @@ import path from 'node:path';
 import type { Server } from '@tus/server';
 import type { Sequelize } from 'sequelize';
 import { receiveClip } from '../use-cases/sync/clips';
-import { LocalDiskBlobStore, type BlobStore } from './blob-store';
+import type { BlobStore } from './blob-store';
+import { blobStoreFromEnv } from './blob-store-config';
 import { ClinicKeyStore } from './clinic-keys';
 import { createTusServer } from './tus-uploads';
 
@@ -18,7 +19,8 @@ const bySequelize = new WeakMap<Sequelize, SyncServices>();
 
 /**
  * The sync routes' services, one set per database connection. Configuration: CLINIC_KEYS_DIR (private keys),
- * BLOB_DIR (kept clips), UPLOAD_DIR (uploads in progress); all default under .data/.
+ * BLOB_STORE with BLOB_DIR or S3_* (kept clips, see blob-store-config.ts), UPLOAD_DIR (uploads in progress);
+ * folders default under .data/.
  */
 export function syncServicesFor(sequelize: Sequelize): SyncServices {
   const existing = bySequelize.get(sequelize);
@@ -32,7 +34,7 @@ export function provideSyncServices(
 ): SyncServices {
   const data = path.join(REPO_ROOT, '.data');
   const blobStore =
-    options.blobStore ?? new LocalDiskBlobStore(process.env.BLOB_DIR ?? path.join(data, 'blobs'));
+    options.blobStore ?? blobStoreFromEnv(process.env, process.env.BLOB_DIR ?? path.join(data, 'blobs'));
   const clinicKeys = new ClinicKeyStore(
     options.clinicKeysDir ?? process.env.CLINIC_KEYS_DIR ?? path.join(data, 'clinic-keys'),
   );
