@@ -33,7 +33,7 @@ async function main() {
   fs.mkdirSync(artifacts, { recursive: true });
 
   const cluster = await startCluster({
-    dataDir: path.join(dataDir, 'test-pg'),
+    dataDir: process.env.FOURPOINT_TEST_PG_DIR ?? path.join(dataDir, 'test-pg'),
     port: Number(process.env.TEST_PGPORT ?? 54339),
     database: 'fourpoint_test',
     log: () => undefined,
