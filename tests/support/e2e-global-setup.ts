@@ -64,7 +64,8 @@ export default async function globalSetup(): Promise<void> {
   }
 
   const databaseUrl = await recreateDatabase(clusterUrl, 'fourpoint_e2e');
-  const stateDir = path.join(root, '.data/e2e');
+  // Per run, so two e2e runs on one machine (two contributors, or a rerun) do not share files.
+  const stateDir = path.join(root, '.data', `e2e-${process.pid}`);
   fs.rmSync(stateDir, { recursive: true, force: true });
   fs.mkdirSync(stateDir, { recursive: true });
   const tsx = path.join(root, 'node_modules/.bin/tsx');
