@@ -8,7 +8,9 @@ import { Client } from 'pg';
 
 const root = path.resolve(__dirname, '../..');
 type Cluster = { url: string; stop: () => void };
-type E2eGlobals = { __fourpointE2e?: { server: ChildProcess; fakes?: ChildProcess; cluster?: Cluster } };
+type E2eGlobals = {
+  __fourpointE2e?: { server: ChildProcess; fakes?: ChildProcess; cluster?: Cluster; clusterUrl: string; databaseName: string; stateDir: string };
+};
 
 function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
@@ -63,7 +65,8 @@ export default async function globalSetup(): Promise<void> {
     clusterUrl = cluster.url;
   }
 
-  const databaseUrl = await recreateDatabase(clusterUrl, 'fourpoint_e2e');
+  const databaseName = `fourpoint_e2e_${process.pid}`;
+  const databaseUrl = await recreateDatabase(clusterUrl, databaseName);
   // Per run, so two e2e runs on one machine (two contributors, or a rerun) do not share files.
   const stateDir = path.join(root, '.data', `e2e-${process.pid}`);
   fs.rmSync(stateDir, { recursive: true, force: true });
@@ -98,7 +101,7 @@ export default async function globalSetup(): Promise<void> {
     env: { ...env, PORT: String(port), WEB_DIST: path.join(root, 'dist') },
     stdio: ['ignore', 'ignore', 'inherit'],
   });
-  globals.__fourpointE2e = { server, fakes, cluster };
+  globals.__fourpointE2e = { server, fakes, cluster, clusterUrl, databaseName, stateDir };
   const url = `http://127.0.0.1:${port}`;
   await waitForHealth(url, server);
   process.env.E2E_BASE_URL = url;
