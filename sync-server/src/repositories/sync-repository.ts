@@ -42,6 +42,16 @@ export interface StoredRow {
 
 type Raw = Record<string, unknown>;
 
+export interface MutationRecord {
+  mutationId: string;
+  clinicId: string;
+  userId: string;
+  deviceId: string;
+  entity: SyncEntity;
+  rowId: string;
+  result: Raw;
+}
+
 const iso = (value: unknown): string | null =>
   value === null || value === undefined ? null : value instanceof Date ? value.toISOString() : String(value);
 
@@ -103,15 +113,7 @@ export class SyncRepository {
     return row ? { clinicId: row.clinic_id, result: row.result } : null;
   }
 
-  async recordMutation(args: {
-    mutationId: string;
-    clinicId: string;
-    userId: string;
-    deviceId: string;
-    entity: SyncEntity;
-    rowId: string;
-    result: Raw;
-  }): Promise<void> {
+  async recordMutation(args: MutationRecord): Promise<void> {
     await this.run(
       `INSERT INTO applied_mutations (mutation_id, clinic_id, user_id, device_id, entity, row_id, result, applied_at)
        VALUES ($1, $2, $3, $4, $5, $6, $7::jsonb, now())`,
@@ -125,6 +127,124 @@ export class SyncRepository {
         JSON.stringify(args.result),
       ],
     );
+  }
+
+  async findAppliedMutations(mutationIds: string[]): Promise<Map<string, { clinicId: string; result: Raw }>> {
+    const rows = await this.select<{ mutation_id: string; clinic_id: string; result: Raw }>(
+      `SELECT mutation_id, clinic_id, result FROM applied_mutations WHERE mutation_id = ANY($1::uuid[])`,
+      [mutationIds],
+    );
+    return new Map(rows.map((r) => [r.mutation_id, { clinicId: r.clinic_id, result: r.result }]));
+  }
+
+  /** Savepoints let one mutation of a batch fail alone inside the batch's transaction. */
+  async savepoint(name: string): Promise<void> {
+    await this.run(`SAVEPOINT ${name}`, []);
+  }
+
+  async releaseSavepoint(name: string): Promise<void> {
+    await this.run(`RELEASE SAVEPOINT ${name}`, []);
+  }
+
+  async rollbackToSavepoint(name: string): Promise<void> {
+    await this.run(`ROLLBACK TO SAVEPOINT ${name}`, []);
+  }
+
+  /**
+   * The usual create in one statement: inserts the row only when its id is free and every parent is a live row
+   * of the clinic, and records the mutation with it. False means nothing was written (the caller then finds out
+   * why the slow way); a unique or check violation still raises.
+   */
+  async insertRowRecorded(
+    entity: SyncEntity,
+    clinicId: string,
+    id: string,
+    fields: RowData,
+    deletedAt: string | null,
+    parents: Record<string, string>,
+    mutation: MutationRecord,
+  ): Promise<boolean> {
+    const names = Object.keys(fields);
+    const columns = ['id', 'clinic_id', 'version', 'deleted_at', ...names.map(snake)];
+    const bind: unknown[] = [id, clinicId, 1, deletedAt, ...names.map((n) => encode(fields[n]))];
+    const values = columns.map((_c, i) => `$${i + 1}`);
+    const guard = this.parentGuard(fields, parents, clinicId, bind);
+    const record = this.recordValues(mutation, bind);
+    const rows = await this.select(
+      `WITH written AS (
+         INSERT INTO ${entity} (${columns.join(', ')}) SELECT ${values.join(', ')} ${guard ? `WHERE ${guard}` : ''}
+         ON CONFLICT (id) DO NOTHING RETURNING id)
+       INSERT INTO applied_mutations (mutation_id, clinic_id, user_id, device_id, entity, row_id, result, applied_at)
+       SELECT ${record} FROM written RETURNING mutation_id`,
+      bind,
+    );
+    return rows.length === 1;
+  }
+
+  /**
+   * The usual edit in one statement: the version check, the change, the version bump and the mutation record.
+   * False means the row is missing, of another clinic, at another version, or a parent is missing.
+   */
+  async updateRowRecorded(
+    entity: SyncEntity,
+    clinicId: string,
+    id: string,
+    fields: RowData,
+    deletedAt: string | undefined,
+    baseVersion: number,
+    parents: Record<string, string>,
+    mutation: MutationRecord,
+  ): Promise<boolean> {
+    const names = Object.keys(fields);
+    const bind: unknown[] = [id, clinicId, baseVersion];
+    const sets = ['version = version + 1', 'updated_at = now()'];
+    for (const n of names) {
+      bind.push(encode(fields[n]));
+      sets.push(`${snake(n)} = $${bind.length}`);
+    }
+    if (deletedAt !== undefined) {
+      bind.push(deletedAt);
+      sets.push(`deleted_at = $${bind.length}`);
+    }
+    const guard = this.parentGuard(fields, parents, clinicId, bind);
+    const record = this.recordValues(mutation, bind);
+    const rows = await this.select(
+      `WITH written AS (
+         UPDATE ${entity} SET ${sets.join(', ')}
+         WHERE id = $1 AND clinic_id = $2 AND version = $3 ${guard ? `AND ${guard}` : ''} RETURNING id)
+       INSERT INTO applied_mutations (mutation_id, clinic_id, user_id, device_id, entity, row_id, result, applied_at)
+       SELECT ${record} FROM written RETURNING mutation_id`,
+      bind,
+    );
+    return rows.length === 1;
+  }
+
+  private parentGuard(
+    fields: RowData,
+    parents: Record<string, string>,
+    clinicId: string,
+    bind: unknown[],
+  ): string {
+    const checks: string[] = [];
+    for (const [field, table] of Object.entries(parents)) {
+      const parentId = fields[field];
+      if (typeof parentId !== 'string') continue;
+      bind.push(parentId);
+      const idParam = `$${bind.length}`;
+      bind.push(clinicId);
+      const live = table === 'consent_texts' ? '' : 'AND p.deleted_at IS NULL';
+      checks.push(
+        `EXISTS (SELECT 1 FROM ${table} p WHERE p.id = ${idParam} AND p.clinic_id = $${bind.length} ${live})`,
+      );
+    }
+    return checks.join(' AND ');
+  }
+
+  private recordValues(m: MutationRecord, bind: unknown[]): string {
+    const start = bind.length;
+    bind.push(m.mutationId, m.clinicId, m.userId, m.deviceId, m.entity, m.rowId, JSON.stringify(m.result));
+    const p = (i: number) => `$${start + i}`;
+    return `${p(1)}::uuid, ${p(2)}::uuid, ${p(3)}::uuid, ${p(4)}::uuid, ${p(5)}, ${p(6)}::uuid, ${p(7)}::jsonb, now()`;
   }
 
   async lockRow(entity: SyncEntity, id: string): Promise<StoredRow | null> {

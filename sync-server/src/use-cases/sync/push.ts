@@ -9,6 +9,7 @@ import {
   type PushResponse,
   type RejectionCode,
   type RowData,
+  type SyncEntity,
 } from '@/shared/protocol/sync';
 import { SyncRepository, parentsOf, type StoredRow } from '../../repositories/sync-repository';
 import type { Caller } from '../context';
@@ -29,6 +30,11 @@ const rejected = (m: Mutation, code: RejectionCode, reason: string): MutationRes
   reason,
 });
 
+// Built once: deriving a schema compiles it anew, which cost more than the rest of a push's checks.
+const partialSchemas = Object.fromEntries(
+  Object.entries(syncFieldSchemas).map(([entity, schema]) => [entity, schema.partial()]),
+) as { [E in SyncEntity]: ReturnType<(typeof syncFieldSchemas)[E]['partial']> };
+
 /** Splits a change into field values and the tombstone, refusing anything a device may not write. */
 export function checkChange(m: Mutation): { fields: RowData; deletedAt: string | undefined } {
   const schema = syncFieldSchemas[m.entity];
@@ -45,7 +51,7 @@ export function checkChange(m: Mutation): { fields: RowData; deletedAt: string |
       'deletedAt must be a time: a deleted row cannot be brought back by a device.',
     );
   }
-  const parsed = schema.partial().safeParse(fields);
+  const parsed = partialSchemas[m.entity].safeParse(fields);
   if (!parsed.success) {
     const detail = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
     throw new Rejection('invalid_change', `The change is not valid: ${detail}`);
@@ -73,88 +79,219 @@ function replayOf(mutationId: string, recorded: Record<string, unknown>): Mutati
 const PG_RETRY = new Set(['40001', '40P01']);
 
 function pgCode(error: unknown): { code?: string; constraint?: string; detail?: string } {
-  const e = error as {
-    parent?: { code?: string; constraint?: string; detail?: string };
-    original?: { code?: string };
-  };
+  const e = error as { parent?: { code?: string; constraint?: string; detail?: string } };
   return e?.parent ?? {};
 }
 
-/** Applies each mutation in its own transaction, in order; one bad mutation does not stop the others. */
+const serverError = (m: Mutation) =>
+  rejected(m, 'server_error', 'The server could not apply this change just now; it will be sent again.');
+
+/** What a database refusal of one mutation means to the device. */
+function refusalOf(m: Mutation, code: string, constraint?: string, detail?: string): MutationResult {
+  if (code === '23505' && constraint === 'site_recordings_one_per_site') {
+    return rejected(
+      m,
+      'invalid_change',
+      'This session already has a recording for that site; change the existing one instead.',
+    );
+  }
+  if (code === '23505')
+    return rejected(m, 'invalid_change', `A row with this id already exists (${detail ?? constraint}).`);
+  if (code === '23503')
+    return rejected(m, 'missing_parent', 'A row this change points at is not on the server.');
+  if (code === '23514' || code === '22P02' || code === '22007' || code === '22008') {
+    return rejected(m, 'invalid_change', `The server cannot store this change (${constraint ?? code}).`);
+  }
+  return serverError(m);
+}
+
+type Checked =
+  { m: Mutation; change: ReturnType<typeof checkChange> } | { m: Mutation; rejection: MutationResult };
+
+/**
+ * Applies a batch in one transaction, in order. The quick pass runs every mutation straight; if the database
+ * refuses one, the whole pass is undone and a careful pass runs each mutation under its own savepoint, so one bad
+ * mutation fails alone and the others still apply. Either way each applied mutation's id is recorded in the same
+ * transaction as its change, so a replay answers "already applied".
+ */
 export async function pushChanges(
   sequelize: Sequelize,
   caller: Caller,
   request: PushRequest,
 ): Promise<PushResponse> {
-  const results: MutationResult[] = [];
-  for (const mutation of request.mutations)
-    results.push(await applyOne(sequelize, caller, request.deviceId, mutation));
-  return { results };
-}
-
-async function applyOne(
-  sequelize: Sequelize,
-  caller: Caller,
-  deviceId: string,
-  m: Mutation,
-): Promise<MutationResult> {
-  let checked: ReturnType<typeof checkChange>;
-  try {
-    checked = checkChange(m);
-  } catch (error) {
-    if (error instanceof Rejection) return rejected(m, error.code, error.message);
-    throw error;
-  }
+  const checked: Checked[] = request.mutations.map((m) => {
+    try {
+      return { m, change: checkChange(m) };
+    } catch (error) {
+      if (error instanceof Rejection) return { m, rejection: rejected(m, error.code, error.message) };
+      throw error;
+    }
+  });
+  let careful = false;
   for (let attempt = 1; ; attempt++) {
     try {
       return await sequelize.transaction((transaction) =>
-        applyInTransaction(new SyncRepository(sequelize, transaction), caller, deviceId, m, checked),
+        applyBatch(new SyncRepository(sequelize, transaction), caller, request.deviceId, checked, careful),
       );
     } catch (error) {
-      if (error instanceof Rejection) return rejected(m, error.code, error.message);
-      const { code, constraint, detail } = pgCode(error);
-      // Two deliveries of one mutation at once: the second waits on the first's key, then finds it recorded.
-      if (code === '23505' && constraint === 'applied_mutations_pkey' && attempt < 4) continue;
-      if (code && PG_RETRY.has(code) && attempt < 4) continue;
-      if (code === '23505' && constraint === 'site_recordings_one_per_site') {
-        return rejected(
-          m,
-          'invalid_change',
-          'This session already has a recording for that site; change the existing one instead.',
-        );
+      const { code } = pgCode(error);
+      if (code && attempt < 4) {
+        if (!PG_RETRY.has(code)) careful = true;
+        continue;
       }
-      if (code === '23505')
-        return rejected(m, 'invalid_change', `A row with this id already exists (${detail ?? constraint}).`);
-      if (code === '23503')
-        return rejected(m, 'missing_parent', 'A row this change points at is not on the server.');
-      if (code === '23514' || code === '22P02' || code === '22007' || code === '22008') {
-        return rejected(m, 'invalid_change', `The server cannot store this change (${constraint ?? code}).`);
-      }
-      return rejected(
-        m,
-        'server_error',
-        'The server could not apply this change just now; it will be sent again.',
-      );
+      return { results: checked.map((c) => ('rejection' in c ? c.rejection : serverError(c.m))) };
     }
   }
 }
 
-async function applyInTransaction(
+async function applyBatch(
+  repo: SyncRepository,
+  caller: Caller,
+  deviceId: string,
+  checked: Checked[],
+  careful: boolean,
+): Promise<PushResponse> {
+  // No clinic lock here: the change-number trigger takes it (shared) at every row write, which is what pulls need.
+  const recorded = await repo.findAppliedMutations(
+    checked.filter((c) => 'change' in c).map((c) => c.m.mutationId),
+  );
+  const results: MutationResult[] = [];
+  for (const [index, c] of checked.entries()) {
+    if ('rejection' in c) {
+      results.push(c.rejection);
+      continue;
+    }
+    const prior = recorded.get(c.m.mutationId);
+    if (prior) {
+      results.push(
+        prior.clinicId === caller.clinicId
+          ? replayOf(c.m.mutationId, prior.result)
+          : rejected(c.m, 'forbidden', 'This change id belongs to another clinic.'),
+      );
+      continue;
+    }
+    results.push(
+      careful
+        ? await applyIsolated(repo, caller, deviceId, c.m, c.change, `mutation_${index}`)
+        : await applyOrReject(repo, caller, deviceId, c.m, c.change),
+    );
+  }
+  return { results };
+}
+
+async function applyOrReject(
+  repo: SyncRepository,
+  caller: Caller,
+  deviceId: string,
+  m: Mutation,
+  change: ReturnType<typeof checkChange>,
+): Promise<MutationResult> {
+  try {
+    return await applyOne(repo, caller, deviceId, m, change);
+  } catch (error) {
+    // Rejections are decided before anything of this mutation is written, so the transaction stays usable.
+    if (error instanceof Rejection) return rejected(m, error.code, error.message);
+    throw error;
+  }
+}
+
+async function applyIsolated(
+  repo: SyncRepository,
+  caller: Caller,
+  deviceId: string,
+  m: Mutation,
+  change: ReturnType<typeof checkChange>,
+  savepoint: string,
+): Promise<MutationResult> {
+  for (let attempt = 1; ; attempt++) {
+    await repo.savepoint(savepoint);
+    try {
+      const result = await applyOrReject(repo, caller, deviceId, m, change);
+      await repo.releaseSavepoint(savepoint);
+      return result;
+    } catch (error) {
+      const { code, constraint, detail } = pgCode(error);
+      // Not the mutation's fault (deadlock, serialization) or not the database's: the batch starts again.
+      if (!code || PG_RETRY.has(code)) throw error;
+      await repo.rollbackToSavepoint(savepoint);
+      // Two deliveries of one mutation at once: the second waits on the first's key, then finds it recorded.
+      if (code === '23505' && constraint === 'applied_mutations_pkey' && attempt < 3) continue;
+      return refusalOf(m, code, constraint, detail);
+    }
+  }
+}
+
+/**
+ * The usual create and edit go in one statement each (write, version check and mutation record together); only
+ * when that writes nothing does the mutation take the slow path, which finds out why.
+ */
+async function applyOne(
+  repo: SyncRepository,
+  caller: Caller,
+  deviceId: string,
+  m: Mutation,
+  change: ReturnType<typeof checkChange>,
+): Promise<MutationResult> {
+  const { fields, deletedAt } = change;
+  const record = (result: MutationResult) => ({
+    mutationId: m.mutationId,
+    clinicId: caller.clinicId,
+    userId: caller.userId,
+    deviceId,
+    entity: m.entity,
+    rowId: m.id,
+    result: result as unknown as Record<string, unknown>,
+  });
+  if (m.baseVersion === 0) {
+    if (syncFieldSchemas[m.entity].safeParse(fields).success) {
+      const result: MutationResult = { mutationId: m.mutationId, status: 'applied', newVersion: 1 };
+      const written = await repo.insertRowRecorded(
+        m.entity,
+        caller.clinicId,
+        m.id,
+        { ...fields, ...(await serverFieldsOnCreate(repo, caller, m, fields)) },
+        deletedAt ?? null,
+        parentsOf[m.entity],
+        record(result),
+      );
+      if (written) return result;
+    }
+  } else if (!(m.entity === 'site_recordings' && 'clipSha256' in fields)) {
+    const result: MutationResult = {
+      mutationId: m.mutationId,
+      status: 'applied',
+      newVersion: m.baseVersion + 1,
+    };
+    const written = await repo.updateRowRecorded(
+      m.entity,
+      caller.clinicId,
+      m.id,
+      fields,
+      deletedAt,
+      m.baseVersion,
+      parentsOf[m.entity],
+      record(result),
+    );
+    if (written) return result;
+  }
+  return applySlowly(repo, caller, deviceId, m, change);
+}
+
+async function applySlowly(
   repo: SyncRepository,
   caller: Caller,
   deviceId: string,
   m: Mutation,
   { fields, deletedAt }: ReturnType<typeof checkChange>,
 ): Promise<MutationResult> {
-  await repo.lockClinicForWrite(caller.clinicId);
+  const row = await repo.lockRow(m.entity, m.id);
+  // Read after the row lock: a delivery of the same mutation that held it has committed by now.
   const recorded = await repo.findAppliedMutation(m.mutationId);
   if (recorded) {
     if (recorded.clinicId !== caller.clinicId)
       throw new Rejection('forbidden', 'This change id belongs to another clinic.');
     return replayOf(m.mutationId, recorded.result);
   }
-
-  const row = await repo.lockRow(m.entity, m.id);
   if (row && row.clinicId !== caller.clinicId)
     throw new Rejection('forbidden', 'This row belongs to another clinic.');
 

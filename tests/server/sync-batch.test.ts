@@ -1,0 +1,133 @@
+// What this proves: a push batch runs in one transaction, yet a mutation the database refuses fails alone (the
+// ones before and after it still apply, and are recorded once); two deliveries of one batch at the same moment
+// apply each mutation once; an edit pointing at a missing parent is refused without moving the version.
+import { randomUUID } from 'node:crypto';
+import axios from 'axios';
+import { QueryTypes } from 'sequelize';
+import { SYNC_PROTOCOL_VERSION, type Mutation, type PushResponse } from '@/shared/protocol/sync';
+import {
+  clientFields,
+  clinicWithTokens,
+  sessionFields,
+  siteFields,
+  startSyncServer,
+  type SyncTestServer,
+} from './sync-helpers/devices';
+
+let server: SyncTestServer;
+beforeAll(async () => {
+  server = await startSyncServer();
+});
+afterAll(() => server.close());
+
+async function push(token: string, mutations: Mutation[], deviceId = randomUUID()): Promise<PushResponse> {
+  const res = await axios.post(
+    `${server.url}/api/sync/push`,
+    { protocolVersion: SYNC_PROTOCOL_VERSION, deviceId, mutations },
+    { headers: { authorization: `Bearer ${token}` } },
+  );
+  return res.data as PushResponse;
+}
+
+const m = (
+  entity: Mutation['entity'],
+  id: string,
+  change: Record<string, unknown>,
+  baseVersion = 0,
+): Mutation => ({ mutationId: randomUUID(), entity, id, baseVersion, change });
+
+async function count(sql: string, bind: unknown[]): Promise<number> {
+  const [row] = await server.ctx.sequelize.query<{ count: string }>(sql, { bind, type: QueryTypes.SELECT });
+  return Number(row.count);
+}
+
+test('when one mutation in the middle of a batch breaks a database rule, then it alone is refused and the rest apply once', async () => {
+  const { clinic, operator } = await clinicWithTokens(server, 'Middle');
+  const clientId = randomUUID();
+  const sessionId = randomUUID();
+  const batch = [
+    m('clients', clientId, clientFields('middle')),
+    m('recording_sessions', sessionId, sessionFields(clientId)),
+    m('site_recordings', randomUUID(), siteFields(sessionId, 'mitral')),
+    // A second mitral recording in one session: only the database's unique rule catches it.
+    m('site_recordings', randomUUID(), siteFields(sessionId, 'mitral')),
+    m('site_recordings', randomUUID(), siteFields(sessionId, 'tricuspid')),
+    m('clients', clientId, { notes: 'after the refused one' }, 1),
+  ];
+  const first = await push(operator, batch);
+  expect(first.results.map((r) => r.status)).toEqual([
+    'applied',
+    'applied',
+    'applied',
+    'rejected',
+    'applied',
+    'applied',
+  ]);
+  expect(first.results[3]).toMatchObject({
+    code: 'invalid_change',
+    reason: 'This session already has a recording for that site; change the existing one instead.',
+  });
+  expect(first.results[5]).toMatchObject({ newVersion: 2 });
+  expect(await count(`SELECT count(*) FROM site_recordings WHERE session_id = $1`, [sessionId])).toBe(2);
+  expect(await count(`SELECT count(*) FROM applied_mutations WHERE clinic_id = $1`, [clinic.id])).toBe(5);
+
+  const replay = await push(operator, batch);
+  expect(replay.results.map((r) => r.status)).toEqual([
+    'already_applied',
+    'already_applied',
+    'already_applied',
+    'rejected',
+    'already_applied',
+    'already_applied',
+  ]);
+  expect(await count(`SELECT count(*) FROM applied_mutations WHERE clinic_id = $1`, [clinic.id])).toBe(5);
+  const [client] = await server.ctx.sequelize.query<{ version: number; notes: string }>(
+    `SELECT version, notes FROM clients WHERE id = $1`,
+    { bind: [clientId], type: QueryTypes.SELECT },
+  );
+  expect(client).toEqual({ version: 2, notes: 'after the refused one' });
+});
+
+test('when the same batch is delivered twice at the same moment, then each mutation is applied by exactly one delivery', async () => {
+  const { clinic, operator } = await clinicWithTokens(server, 'Twice');
+  const deviceId = randomUUID();
+  const clientId = randomUUID();
+  const sessionId = randomUUID();
+  const batch = [
+    m('clients', clientId, clientFields('twice')),
+    m('recording_sessions', sessionId, sessionFields(clientId)),
+    m('site_recordings', randomUUID(), siteFields(sessionId, 'aortic')),
+    m('site_recordings', randomUUID(), siteFields(sessionId, 'pulmonic')),
+  ];
+  const [a, b] = await Promise.all([push(operator, batch, deviceId), push(operator, batch, deviceId)]);
+  batch.forEach((mutation, i) => {
+    const statuses = [a.results[i].status, b.results[i].status].sort();
+    expect({ mutation: mutation.entity, statuses }).toEqual({
+      mutation: mutation.entity,
+      statuses: ['already_applied', 'applied'],
+    });
+  });
+  expect(await count(`SELECT count(*) FROM applied_mutations WHERE clinic_id = $1`, [clinic.id])).toBe(4);
+  expect(await count(`SELECT count(*) FROM site_recordings WHERE session_id = $1`, [sessionId])).toBe(2);
+});
+
+test('when an edit points a session at a client that is not on the server, then it is refused and the version stays', async () => {
+  const { operator } = await clinicWithTokens(server, 'Parent');
+  const clientId = randomUUID();
+  const sessionId = randomUUID();
+  await push(operator, [
+    m('clients', clientId, clientFields('parent')),
+    m('recording_sessions', sessionId, sessionFields(clientId)),
+  ]);
+  const res = await push(operator, [
+    m('recording_sessions', sessionId, { clientId: randomUUID() }, 1),
+    m('recording_sessions', sessionId, { plan: 'Re-check in four weeks.' }, 1),
+  ]);
+  expect(res.results[0]).toMatchObject({ status: 'rejected', code: 'missing_parent' });
+  expect(res.results[1]).toMatchObject({ status: 'applied', newVersion: 2 });
+  const [session] = await server.ctx.sequelize.query<{ version: number; client_id: string }>(
+    `SELECT version, client_id FROM recording_sessions WHERE id = $1`,
+    { bind: [sessionId], type: QueryTypes.SELECT },
+  );
+  expect(session).toEqual({ version: 2, client_id: clientId });
+});
