@@ -1,7 +1,6 @@
 import { frameFeatures, FEATURE_NAMES, FRAME_RATE, type FrameFeatures } from '../../shared/analysis/features';
 import { estimateRate, type RateEstimate } from '../../shared/analysis/heart-rate';
 import { emissionInput, STATE_COUNT, type DurationParameters, type HsmmModel } from '../../shared/analysis/hsmm';
-import { orientationFeatures, ORIENTATION_FEATURES, type OrientationModel } from '../../shared/analysis/orientation';
 import { preprocess } from '../../shared/analysis/preprocess';
 import { annotatedHeartRate, frameLabels, readSamples, type Recording } from './circor';
 
@@ -211,56 +210,6 @@ function lbfgs(fn: (w: Float64Array, g: Float64Array) => number, start: Float64A
     if (improvement < 1e-9) break;
   }
   return w;
-}
-
-/** Logistic regression without bias on the annotated labelling (label 1) and its mirror image (label 0). */
-export function fitOrientation(training: PreparedRecording[]): OrientationModel {
-  const samples: number[][] = [];
-  for (const p of training) {
-    const f = orientationFeatures(p.labels, p.features.series);
-    if (f) samples.push(f);
-  }
-  const dims = ORIENTATION_FEATURES.length;
-  let w = new Array<number>(dims).fill(0);
-  const ridge = 1e-2;
-  for (let iteration = 0; iteration < 30; iteration++) {
-    const gradient = w.map((v) => ridge * v);
-    const hessian = Array.from({ length: dims }, (_, i) => Array.from({ length: dims }, (_, j) => (i === j ? ridge : 0)));
-    for (const x of samples) {
-      // the mirrored sample is -x with label 0, which contributes the same gradient and curvature
-      const z = x.reduce((a, v, i) => a + v * w[i], 0);
-      const p = 1 / (1 + Math.exp(-z));
-      for (let i = 0; i < dims; i++) {
-        gradient[i] += 2 * (p - 1) * x[i];
-        for (let j = 0; j < dims; j++) hessian[i][j] += 2 * p * (1 - p) * x[i] * x[j];
-      }
-    }
-    const step = solveSmall(hessian, gradient);
-    w = w.map((v, i) => v - step[i]);
-    if (Math.max(...step.map(Math.abs)) < 1e-8) break;
-  }
-  return { features: [...ORIENTATION_FEATURES], weights: w };
-}
-
-function solveSmall(matrix: number[][], rhs: number[]): number[] {
-  const n = rhs.length;
-  const m = matrix.map((row, i) => [...row, rhs[i]]);
-  for (let col = 0; col < n; col++) {
-    let pivot = col;
-    for (let row = col + 1; row < n; row++) if (Math.abs(m[row][col]) > Math.abs(m[pivot][col])) pivot = row;
-    [m[col], m[pivot]] = [m[pivot], m[col]];
-    for (let row = col + 1; row < n; row++) {
-      const factor = m[row][col] / m[col][col];
-      for (let k = col; k <= n; k++) m[row][k] -= factor * m[col][k];
-    }
-  }
-  const x = new Array<number>(n).fill(0);
-  for (let row = n - 1; row >= 0; row--) {
-    let sum = m[row][n];
-    for (let k = row + 1; k < n; k++) sum -= m[row][k] * x[k];
-    x[row] = sum / m[row][row];
-  }
-  return x;
 }
 
 export function fitModel(training: PreparedRecording[], version: string): HsmmModel {

@@ -26,11 +26,77 @@ export function hilbert(x: ArrayLike<number>, n = x.length): { re: Float64Array;
   return { re, im };
 }
 
-/** |analytic signal|; padded to a power of two for speed, as scipy.signal.hilbert(x, N) then cut to the input length. */
-export function hilbertEnvelope(x: ArrayLike<number>, fftLength = nextPowerOfTwo(x.length)): Float64Array {
-  const { re, im } = hilbert(x, fftLength);
+/**
+ * Imaginary part of scipy.signal.hilbert(x, n) for even n, through two half-length complex transforms
+ * (the real part is x itself): forward real FFT, multiply by −i·sign(k), inverse real FFT.
+ */
+export function hilbertTransform(x: ArrayLike<number>, n: number): Float64Array {
+  const m = n / 2;
+  const re = new Float64Array(m);
+  const im = new Float64Array(m);
+  for (let j = 0; j < m; j++) {
+    re[j] = 2 * j < x.length ? x[2 * j] : 0;
+    im[j] = 2 * j + 1 < x.length ? x[2 * j + 1] : 0;
+  }
+  fft(re, im);
+  // Y[k] = -i·X[k] for 0 < k < m, 0 at k = 0 and k = m; X[k] unpacked from the half-length transform
+  const yRe = new Float64Array(m + 1);
+  const yIm = new Float64Array(m + 1);
+  for (let k = 1; k < m; k++) {
+    const zr = re[k];
+    const zi = im[k];
+    const cr = re[m - k];
+    const ci = -im[m - k];
+    const er = (zr + cr) / 2;
+    const ei = (zi + ci) / 2;
+    // (Z − conj Z')/(2i)
+    const or = (zi - ci) / 2;
+    const oi = -(zr - cr) / 2;
+    const angle = (-2 * Math.PI * k) / n;
+    const wr = Math.cos(angle);
+    const wi = Math.sin(angle);
+    const xr = er + wr * or - wi * oi;
+    const xi = ei + wr * oi + wi * or;
+    yRe[k] = xi;
+    yIm[k] = -xr;
+  }
+  // inverse: E = (Y[k] + conj Y[m−k]) / 2, O = (Y[k] − conj Y[m−k]) · W^−k / 2, Z = E + i·O
+  for (let k = 0; k < m; k++) {
+    const ar = yRe[k];
+    const ai = yIm[k];
+    const br = yRe[m - k];
+    const bi = -yIm[m - k];
+    const er = (ar + br) / 2;
+    const ei = (ai + bi) / 2;
+    const dr = (ar - br) / 2;
+    const di = (ai - bi) / 2;
+    const angle = (2 * Math.PI * k) / n;
+    const wr = Math.cos(angle);
+    const wi = Math.sin(angle);
+    const or = dr * wr - di * wi;
+    const oi = dr * wi + di * wr;
+    re[k] = er - oi;
+    im[k] = ei + or;
+  }
+  fft(re, im, true);
+  const y = new Float64Array(n);
+  for (let j = 0; j < m; j++) {
+    y[2 * j] = re[j];
+    y[2 * j + 1] = im[j];
+  }
+  return y;
+}
+
+/** |analytic signal|; padded to a power of two for speed, as abs(scipy.signal.hilbert(x, N)) cut to the input length. */
+export function hilbertEnvelope(x: ArrayLike<number>, fftLength = Math.max(2, nextPowerOfTwo(x.length))): Float64Array {
   const out = new Float64Array(x.length);
-  for (let i = 0; i < x.length; i++) out[i] = Math.hypot(re[i], im[i]);
+  if (fftLength % 2 === 1) {
+    const { re, im } = hilbert(x, fftLength);
+    for (let i = 0; i < x.length; i++) out[i] = Math.hypot(re[i], im[i]);
+    return out;
+  }
+  const y = hilbertTransform(x, fftLength);
+  for (let i = 0; i < x.length; i++) out[i] = Math.sqrt(x[i] * x[i] + y[i] * y[i]);
   return out;
 }
 

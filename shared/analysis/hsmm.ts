@@ -1,5 +1,3 @@
-import type { OrientationModel } from './orientation';
-
 /**
  * Duration-dependent hidden semi-Markov segmentation into S1 → systole → S2 → diastole
  * (Springer et al., "Logistic regression-HSMM-based heart sound segmentation", IEEE TBME 2016):
@@ -38,7 +36,6 @@ export interface HsmmModel {
   frameRate: number;
   emission: EmissionModel;
   durations: DurationParameters;
-  orientation?: OrientationModel;
 }
 
 export interface StateDuration {
@@ -154,17 +151,21 @@ export function viterbiSegment(logEmission: Float64Array[], durations: StateDura
     return -Math.log(Math.max(mean / (mass || 1), 1));
   });
 
+  let bestScore = 0;
+  let bestLength = 0;
+  // writes the best score and duration of a segment in state s ending just before frame t into bestScore/bestLength
   const scoreEnd = (s: number, t: number, useSurvival: boolean) => {
     const d = durations[s];
     const c = cumulative[s];
     const prior = best[previous(s)];
+    const ct = c[t];
     let top = -Infinity;
     let arg = 0;
     const limit = Math.min(d.max, t - 1);
     const durationLog = useSurvival ? d.logSurvival : d.logPdf;
     for (let k = useSurvival ? 1 : d.min; k <= limit; k++) {
       const start = t - k;
-      const score = prior[start] + durationLog[k] + c[t] - c[start];
+      const score = prior[start] + durationLog[k] + ct - c[start];
       if (score > top) {
         top = score;
         arg = k;
@@ -172,30 +173,31 @@ export function viterbiSegment(logEmission: Float64Array[], durations: StateDura
     }
     if (t <= d.max) {
       // the clip may open partway through a state
-      const score = logStart + d.logSurvival[t] + firstLog[s] + c[t] - c[0];
+      const score = logStart + d.logSurvival[t] + firstLog[s] + ct - c[0];
       if (score > top) {
         top = score;
         arg = t;
       }
     }
-    return { top, arg };
+    bestScore = top;
+    bestLength = arg;
   };
 
   for (let t = 1; t < T; t++) {
     for (let s = 0; s < STATE_COUNT; s++) {
-      const { top, arg } = scoreEnd(s, t, false);
-      best[s][t] = top;
-      back[s][t] = arg;
+      scoreEnd(s, t, false);
+      best[s][t] = bestScore;
+      back[s][t] = bestLength;
     }
   }
   let endState = 0;
   let endScore = -Infinity;
   for (let s = 0; s < STATE_COUNT; s++) {
-    const { top: score, arg } = scoreEnd(s, T, true);
-    best[s][T] = score;
-    back[s][T] = arg;
-    if (score > endScore) {
-      endScore = score;
+    scoreEnd(s, T, true);
+    best[s][T] = bestScore;
+    back[s][T] = bestLength;
+    if (bestScore > endScore) {
+      endScore = bestScore;
       endState = s;
     }
   }

@@ -55,10 +55,11 @@ function designFilter(up: number, down: number): Float64Array {
   return h;
 }
 
-export function resamplePoly(x: ArrayLike<number>, up: number, down: number): Float64Array {
+export function resamplePoly(input: ArrayLike<number>, up: number, down: number): Float64Array {
   const g = gcd(up, down);
   up /= g;
   down /= g;
+  const x = input instanceof Float64Array ? input : Float64Array.from(input);
   const nIn = x.length;
   if (up === 1 && down === 1) return Float64Array.from(x);
   const nOut = Math.ceil((nIn * up) / down);
@@ -69,9 +70,22 @@ export function resamplePoly(x: ArrayLike<number>, up: number, down: number): Fl
     const centre = k * down + halfLen;
     const first = Math.max(0, Math.ceil((centre - 2 * halfLen) / up));
     const last = Math.min(nIn - 1, Math.floor(centre / up));
-    let sum = 0;
-    for (let i = first, tap = centre - first * up; i <= last; i++, tap -= up) sum += x[i] * h[tap];
-    y[k] = sum;
+    // four running sums keep the multiply-adds independent (the loop is latency-bound otherwise)
+    let s0 = 0;
+    let s1 = 0;
+    let s2 = 0;
+    let s3 = 0;
+    let i = first;
+    let tap = centre - first * up;
+    const up4 = 4 * up;
+    for (; i + 3 <= last; i += 4, tap -= up4) {
+      s0 += x[i] * h[tap];
+      s1 += x[i + 1] * h[tap - up];
+      s2 += x[i + 2] * h[tap - 2 * up];
+      s3 += x[i + 3] * h[tap - 3 * up];
+    }
+    for (; i <= last; i++, tap -= up) s0 += x[i] * h[tap];
+    y[k] = s0 + s1 + s2 + s3;
   }
   return y;
 }

@@ -2,7 +2,6 @@ import { stateRuns } from './segmentation-runs';
 export { stateRuns, type StateRun } from './segmentation-runs';
 import { type FrameFeatures } from './features';
 import { periodicityAt, rateCandidates, withSwappedSystole, type RateEstimate } from './heart-rate';
-import { orientationFeatures, orientationScore, swapSounds } from './orientation';
 import { emissionLogLikelihoods, stateDurations, viterbiSegment, type HsmmModel } from './hsmm';
 
 export interface SegmentationResult {
@@ -36,10 +35,6 @@ export function segmentFrames(features: FrameFeatures, model: HsmmModel, candida
     }
   }
   if (best.rate) best = { ...best, rate: { ...best.rate, periodicity: periodicityAt(features.homomorphic, features.frameRate, best.rate.cycleS) } };
-  if (model.orientation) {
-    const orientation = orientationFeatures(best.states, features.series);
-    if (orientation && orientationScore(orientation, model.orientation) < 0) best = { ...best, states: swapSounds(best.states) };
-  }
   return best;
 }
 
