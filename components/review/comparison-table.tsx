@@ -1,51 +1,57 @@
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
 import { formatDate } from '@/components/ui/format';
+import { sites } from '@/constants/sites';
 import { colors, radii, space } from '@/constants/theme';
-import { siteInfo } from '@/constants/sites';
 import type { Comparison } from '@/shared/protocol/review';
 import { formatValue } from './measurements-table';
 
-/** Then, now and the change for each measurement and site. */
+/** Each measurement then and now at every site, with the change. */
 export function ComparisonTable({ comparison }: { comparison: Comparison }) {
-  const rows = comparison.rows.filter((r) => r.then !== null || r.now !== null);
+  const keys = [
+    ...new Set(comparison.rows.filter((r) => r.then !== null || r.now !== null).map((r) => r.key)),
+  ];
   return (
     <View style={styles.box} testID="comparison-table">
       <AppText variant="heading" color={colors.ink}>
-        {formatDate(comparison.then.startedAt)} → {formatDate(comparison.now.startedAt)}
+        Then ({formatDate(comparison.then.startedAt)}) → now ({formatDate(comparison.now.startedAt)})
       </AppText>
       <View style={[styles.row, styles.head]}>
-        {['Site', 'Measurement', 'Then', 'Now', 'Change'].map((h) => (
-          <AppText
-            key={h}
-            variant="caption"
-            color={colors.textMuted}
-            style={h === 'Measurement' ? styles.wide : styles.cell}
-          >
-            {h.toUpperCase()}
+        <AppText variant="caption" color={colors.textMuted} style={styles.label}>
+          MEASUREMENT
+        </AppText>
+        {sites.map((s) => (
+          <AppText key={s.id} variant="caption" color={colors.textMuted} style={styles.cell}>
+            {s.label.toUpperCase()}
           </AppText>
         ))}
       </View>
-      {rows.map((r) => (
-        <View key={`${r.site}-${r.key}`} style={styles.row} testID={`compare-${r.site}-${r.key}`}>
-          <AppText variant="small" style={styles.cell}>
-            {siteInfo(r.site).label}
-          </AppText>
-          <AppText variant="small" style={styles.wide}>
-            {r.label}
-            {r.unit ? ` (${r.unit})` : ''}
-          </AppText>
-          <AppText variant="number" style={styles.cell}>
-            {formatValue(r.then)}
-          </AppText>
-          <AppText variant="number" style={styles.cell}>
-            {formatValue(r.now)}
-          </AppText>
-          <AppText variant="number" style={styles.cell}>
-            {r.change === null ? '—' : `${r.change > 0 ? '+' : ''}${formatValue(r.change)}`}
-          </AppText>
-        </View>
-      ))}
+      {keys.map((key) => {
+        const any = comparison.rows.find((r) => r.key === key)!;
+        return (
+          <View key={key} style={styles.row}>
+            <AppText variant="small" style={styles.label}>
+              {any.label}
+              {any.unit ? ` (${any.unit})` : ''}
+            </AppText>
+            {sites.map((s) => {
+              const r = comparison.rows.find((x) => x.key === key && x.site === s.id);
+              return (
+                <View key={s.id} style={styles.cell} testID={`compare-${s.id}-${key}`}>
+                  <AppText variant="number" color={colors.text}>
+                    {formatValue(r?.then ?? null)} → {formatValue(r?.now ?? null)}
+                  </AppText>
+                  <AppText variant="caption" color={colors.textMuted}>
+                    {r?.change === null || r?.change === undefined
+                      ? 'no change to show'
+                      : `change ${r.change > 0 ? '+' : ''}${formatValue(r.change)}`}
+                  </AppText>
+                </View>
+              );
+            })}
+          </View>
+        );
+      })}
     </View>
   );
 }
@@ -62,11 +68,12 @@ const styles = StyleSheet.create({
   row: {
     flexDirection: 'row',
     gap: space.sm,
-    paddingVertical: 3,
+    paddingVertical: 4,
     borderBottomWidth: 1,
     borderBottomColor: colors.line,
+    alignItems: 'center',
   },
   head: { borderBottomColor: colors.ink },
-  cell: { flex: 1 },
-  wide: { flex: 2.5 },
+  label: { flex: 2 },
+  cell: { flex: 1.3 },
 });

@@ -45,7 +45,7 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     // Search narrows the server-side list; newest first by default, so the first row is the latest visit.
     await visible(page, 'filter-search').fill('Halloway');
     await page.waitForFunction(() => {
-      const rows = [...document.querySelectorAll('[data-testid^="session-row-"]')];
+      const rows = Array.from(document.querySelectorAll('[data-testid^="session-row-"]'));
       return rows.length > 0 && rows.every((r) => r.textContent?.includes('Wren Halloway'));
     });
     const rows = page.locator('[data-testid^="session-row-"]').filter({ visible: true });
@@ -91,11 +91,12 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     await visits.last().click();
     await visible(page, 'comparison-table').waitFor();
     const row = await visible(page, 'compare-mitral-heartRateBpm').textContent();
-    expect(row).toMatch(/Heart rate/);
+    expect(row).toMatch(/\d → \d/);
     await visible(page, 'site-mitral-then-trace').waitFor();
     await screenshot(page, 'review-compare-beside');
     await visible(page, 'compare-mode-over').click();
     await page.getByTestId('site-mitral-trace-overlay').first().waitFor({ state: 'attached' });
+    await screenshot(page, 'review-compare-overlaid');
     await visible(page, 'comparison-table').scrollIntoViewIfNeeded();
     await screenshot(page, 'review-compare-table');
 

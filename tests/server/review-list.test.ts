@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import request from 'supertest';
 import type { Role } from '@/shared/protocol';
 import { reviewSessionPageSchema, type ReviewSessionRow } from '@/shared/protocol/review';
@@ -265,6 +266,40 @@ describe('paging while sessions keep arriving', () => {
     for (const id of original) expect(seen).toContain(id);
     // Among the originals, the order is the order they were listed in at the start: newest first.
     expect(seen.filter((id) => original.includes(id))).toEqual([...original].reverse());
+  });
+});
+
+describe('the clinic’s own ranges', () => {
+  test('when the clinic widens the heart-rate range at the aortic site only, then 105 bpm flags at mitral but not at aortic', async () => {
+    const own = await makeClinic('Own ranges');
+    const ownTokens = await tokensFor(ctx.app, own);
+    await ctx.sequelize.query(
+      `INSERT INTO range_overrides (id, clinic_id, metric, site, low, high, updated_by) VALUES (:id, :clinicId, 'heartRateBpm', 'aortic', 50, 110, :userId)`,
+      { replacements: { id: randomUUID(), clinicId: own.id, userId: own.users.admin.id } },
+    );
+    const client = await addClient(own.id, 'Ora', 'Ranges');
+    const atAortic = await addSession({
+      clinicId: own.id,
+      clientId: client,
+      startedAt: new Date('2026-11-01T09:00:00Z'),
+      sites: { aortic: { heartRateBpm: 105 } },
+    });
+    const atMitral = await addSession({
+      clinicId: own.id,
+      clientId: client,
+      startedAt: new Date('2026-11-02T09:00:00Z'),
+      sites: { mitral: { heartRateBpm: 105 } },
+    });
+    expect(ids((await list({ flagged: 'true' }, ownTokens.practitioner)).sessions)).toEqual([atMitral]);
+    expect(ids((await list({ flagged: 'false' }, ownTokens.practitioner)).sessions)).toEqual([atAortic]);
+    const detail = await request(ctx.app)
+      .get(`/api/review/sessions/${atAortic}`)
+      .set('authorization', `Bearer ${ownTokens.practitioner}`);
+    const rate = detail.body.sites[2].measurements.find((m: { key: string }) => m.key === 'heartRateBpm');
+    expect(rate).toMatchObject({
+      status: 'in_range',
+      range: { low: 50, high: 110, source: 'Set by the clinic.' },
+    });
   });
 });
 

@@ -31,6 +31,7 @@ let clientId: string;
 let earlier: string;
 let latest: string;
 const onsets = [0.5, 1.5, 2.5, 3.5];
+const salt = 1 + Math.floor(Math.random() * 30000);
 const auth = (token: string) => ({ authorization: `Bearer ${token}` });
 
 beforeAll(async () => {
@@ -49,7 +50,7 @@ beforeAll(async () => {
   tokens = await tokensFor(ctx.app, clinic);
   otherTokens = await tokensFor(ctx.app, other);
   clientId = await addClient(clinic.id, 'Tamsin', 'Oakridge', 'tamsin@example.test');
-  const clip = await storeClip(blobStore, clinic.id, burstWav(onsets));
+  const clip = await storeClip(blobStore, clinic.id, burstWav(onsets, salt));
   const sounds = onsets.map((t) => ({ type: 'S1' as const, startS: t, endS: t + 0.05 }));
   earlier = await addSession({
     clinicId: clinic.id,
@@ -125,7 +126,7 @@ describe('session view', () => {
       });
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toMatch(/audio\/wav/);
-    expect(Buffer.compare(res.body as Buffer, Buffer.from(burstWav(onsets)))).toBe(0);
+    expect(Buffer.compare(res.body as Buffer, Buffer.from(burstWav(onsets, salt)))).toBe(0);
     expect(
       await auditActions(
         (await AuditEvent.findOne({ where: { clinicId: clinic.id, action: 'review.recording.play' } }))!
@@ -304,7 +305,7 @@ describe('report', () => {
     );
     expect(text).toContain(clinic.name);
     expect(text).toContain('Tamsin Oakridge');
-    expect(text).toContain('above range: refer to a licensed clinician');
+    expect(text).toContain('Above range: refer to a licensed clinician');
     expect(text).toContain('Compared with the visit of 2026-09-01');
     expect(text).toContain('Rate high at mitral.');
     for (const p of cautionParagraphs) expect(text).toContain(p.slice(0, 60));

@@ -40,19 +40,32 @@ const SORT_EXPR: Record<ReviewSort, { expr: string; cast: string }> = {
 
 const escapeLike = (text: string) => text.replace(/[\\%_]/g, (c) => `\\${c}`);
 
-function limitsValues(limits: ReferralLimits, replacements: Record<string, unknown>): string {
-  return SITES.map((site, i) => {
-    const l = limits[site];
-    replacements[`site${i}`] = site;
-    replacements[`hrLow${i}`] = l.hrLow;
-    replacements[`hrHigh${i}`] = l.hrHigh;
-    replacements[`sysHigh${i}`] = l.systolicHigh;
-    replacements[`diaHigh${i}`] = l.diastolicHigh;
-    return `(:site${i}, CAST(:hrLow${i} AS real), CAST(:hrHigh${i} AS real), CAST(:sysHigh${i} AS real), CAST(:diaHigh${i} AS real))`;
-  }).join(', ');
+/** The clinic's limits as a join; one row for every site when they agree, which spares a join on the site name. */
+function limitsJoin(limits: ReferralLimits, replacements: Record<string, unknown>): string {
+  const same = SITES.every((site) => JSON.stringify(limits[site]) === JSON.stringify(limits.mitral));
+  const sites = same ? SITES.slice(0, 1) : SITES;
+  const rows = sites
+    .map((site, i) => {
+      const l = limits[site];
+      replacements[`site${i}`] = site;
+      replacements[`hrLow${i}`] = l.hrLow;
+      replacements[`hrHigh${i}`] = l.hrHigh;
+      replacements[`sysHigh${i}`] = l.systolicHigh;
+      replacements[`diaHigh${i}`] = l.diastolicHigh;
+      return `(:site${i}, CAST(:hrLow${i} AS real), CAST(:hrHigh${i} AS real), CAST(:sysHigh${i} AS real), CAST(:diaHigh${i} AS real))`;
+    })
+    .join(', ');
+  return `JOIN (VALUES ${rows}) AS r(site, hr_low, hr_high, sys_high, dia_high) ON ${same ? 'true' : 'r.site = sr.site'}`;
 }
 
-function fromAndWhere(
+// Per site: its quality rank, and whether it reads "refer to a licensed clinician" under the clinic's limits.
+const siteFacts = `
+  CASE sr.quality_verdict WHEN 'good' THEN 1 WHEN 'usable' THEN 2 WHEN 'retake' THEN 3 END AS rank,
+  (sr.review_irregular
+    OR sr.review_heart_rate < r.hr_low OR sr.review_heart_rate > r.hr_high
+    OR sr.review_systolic_activity > r.sys_high OR sr.review_diastolic_activity > r.dia_high) AS flag`;
+
+function filterSql(
   clinicId: string,
   filter: ReviewListFilter,
   limits: ReferralLimits,
@@ -85,6 +98,8 @@ function fromAndWhere(
     where.push(`(c.first_name || ' ' || c.last_name) ILIKE :q`);
     replacements.q = `%${escapeLike(filter.q)}%`;
   }
+  // Filters on what the analysis found aggregate all the clinic's sites once (a hash join), rather than per session.
+  const needsFacts = filter.flagged !== undefined || filter.quality !== undefined;
   if (filter.flagged !== undefined) {
     where.push('coalesce(f.flagged, false) = :flagged');
     replacements.flagged = filter.flagged;
@@ -93,21 +108,21 @@ function fromAndWhere(
     where.push('f.worst_rank = :qualityRank');
     replacements.qualityRank = QUALITY_RANK[filter.quality];
   }
+  const facts = needsFacts
+    ? `WITH f AS MATERIALIZED (
+         SELECT session_id, max(rank) AS worst_rank, bool_or(flag) AS flagged
+           FROM (SELECT sr.session_id, ${siteFacts}
+                   FROM site_recordings sr
+                   ${limitsJoin(limits, replacements)}
+                  WHERE sr.clinic_id = :clinicId AND sr.deleted_at IS NULL) x
+          GROUP BY session_id) `
+    : '';
   const from = `
     FROM recording_sessions s
     JOIN clients c ON c.id = s.client_id AND c.clinic_id = s.clinic_id AND c.deleted_at IS NULL
     LEFT JOIN users u ON u.id = s.operator_id AND u.clinic_id = s.clinic_id
-    LEFT JOIN LATERAL (
-      SELECT max(CASE sr.quality_verdict WHEN 'good' THEN 1 WHEN 'usable' THEN 2 WHEN 'retake' THEN 3 END) AS worst_rank,
-             bool_or(sr.review_irregular
-                  OR sr.review_heart_rate < r.hr_low OR sr.review_heart_rate > r.hr_high
-                  OR sr.review_systolic_activity > r.sys_high OR sr.review_diastolic_activity > r.dia_high) AS flagged,
-             json_agg(json_build_object('site', sr.site, 'verdict', sr.quality_verdict, 'skipped', sr.skipped_reason IS NOT NULL)) AS sites
-      FROM site_recordings sr
-      JOIN (VALUES ${limitsValues(limits, replacements)}) AS r(site, hr_low, hr_high, sys_high, dia_high) ON r.site = sr.site
-      WHERE sr.session_id = s.id AND sr.deleted_at IS NULL
-    ) f ON true`;
-  return { from, where };
+    ${needsFacts ? 'LEFT JOIN f ON f.session_id = s.id' : ''}`;
+  return { facts, from, where };
 }
 
 type ListRow = {
@@ -122,9 +137,12 @@ type ListRow = {
   worst_rank: number | null;
   flagged: boolean | null;
   sites: { site: Site; verdict: QualityVerdict | null; skipped: boolean }[] | null;
-  sort_value: string;
 };
 
+/**
+ * One page in three steps: the count, the page's ids in order (only what filtering and sorting need), then
+ * the display columns for those few rows, so the per-site work runs for 25 sessions and not for 10 000.
+ */
 export async function listReviewSessions(
   sequelize: Sequelize,
   clinicId: string,
@@ -132,14 +150,7 @@ export async function listReviewSessions(
   limits: ReferralLimits,
 ): Promise<{ rows: (ReviewSessionRow & { sortValue: string })[]; total: number; hasMore: boolean }> {
   const replacements: Record<string, unknown> = {};
-  const { from, where } = fromAndWhere(clinicId, options.filter, limits, replacements);
-  const countRows = await sequelize.query<{ n: string }>(
-    `SELECT count(*) AS n ${from} WHERE ${where.join(' AND ')}`,
-    {
-      replacements: { ...replacements },
-      type: QueryTypes.SELECT,
-    },
-  );
+  const { facts, from, where } = filterSql(clinicId, options.filter, limits, replacements);
   const sort = SORT_EXPR[options.sort];
   const op = options.dir === 'asc' ? '>' : '<';
   const pageWhere = [...where];
@@ -149,33 +160,74 @@ export async function listReviewSessions(
     replacements.afterId = options.after.id;
   }
   replacements.limit = options.limit + 1;
-  const rows = await sequelize.query<ListRow>(
-    `SELECT s.id, s.client_id, c.first_name || ' ' || c.last_name AS client_name, s.operator_id, u.name AS operator_name,
-            s.status, s.started_at, s.follow_up_date, f.worst_rank, f.flagged, f.sites, (${sort.expr})::text AS sort_value
+  // The total rides along as a window count, so the filter runs once for both.
+  const page = await sequelize.query<{ id: string; sort_value: string; total: string }>(
+    `${facts}SELECT s.id, (${sort.expr})::text AS sort_value, count(*) OVER () AS total
      ${from}
      WHERE ${pageWhere.join(' AND ')}
      ORDER BY ${sort.expr} ${options.dir}, s.id ${options.dir}
      LIMIT :limit`,
     { replacements, type: QueryTypes.SELECT },
   );
-  const hasMore = rows.length > options.limit;
+  const hasMore = page.length > options.limit;
+  // Past the last page no row carries the window count, and the keyset condition would skew it: count apart.
+  let total = Number(page[0]?.total ?? 0);
+  if (options.after || page.length === 0) {
+    const countReplacements = { ...replacements };
+    delete countReplacements.afterValue;
+    delete countReplacements.afterId;
+    const counted = await sequelize.query<{ n: string }>(
+      `${facts}SELECT count(*) AS n ${from} WHERE ${where.join(' AND ')}`,
+      {
+        replacements: countReplacements,
+        type: QueryTypes.SELECT,
+      },
+    );
+    total = Number(counted[0]?.n ?? 0);
+  }
+  const ids = page.slice(0, options.limit).map((r) => r.id);
+  const detailReplacements: Record<string, unknown> = { clinicId, ids };
+  const details = ids.length
+    ? await sequelize.query<ListRow>(
+        `SELECT s.id, s.client_id, c.first_name || ' ' || c.last_name AS client_name, s.operator_id, u.name AS operator_name,
+                s.status, s.started_at, s.follow_up_date, f.worst_rank, f.flagged, f.sites
+           FROM recording_sessions s
+           JOIN clients c ON c.id = s.client_id AND c.clinic_id = s.clinic_id
+           LEFT JOIN users u ON u.id = s.operator_id AND u.clinic_id = s.clinic_id
+           LEFT JOIN LATERAL (
+             SELECT max(rank) AS worst_rank, bool_or(flag) AS flagged,
+                    json_agg(json_build_object('site', site, 'verdict', quality_verdict, 'skipped', skipped)) AS sites
+               FROM (SELECT sr.site, sr.quality_verdict, sr.skipped_reason IS NOT NULL AS skipped, ${siteFacts}
+                       FROM site_recordings sr
+                       ${limitsJoin(limits, detailReplacements)}
+                      WHERE sr.session_id = s.id AND sr.deleted_at IS NULL) x
+           ) f ON true
+          WHERE s.clinic_id = :clinicId AND s.id IN (:ids)`,
+        { replacements: detailReplacements, type: QueryTypes.SELECT },
+      )
+    : [];
+  const byId = new Map(details.map((d) => [d.id, d]));
+  const sortValue = new Map(page.map((r) => [r.id, r.sort_value]));
   return {
-    total: Number(countRows[0]?.n ?? 0),
+    total,
     hasMore,
-    rows: rows.slice(0, options.limit).map((r) => ({
-      id: r.id,
-      clientId: r.client_id,
-      clientName: r.client_name,
-      operatorId: r.operator_id,
-      operatorName: r.operator_name,
-      status: r.status,
-      startedAt: new Date(r.started_at).toISOString(),
-      followUpDate: r.follow_up_date,
-      worstQuality: r.worst_rank ? RANK_QUALITY[r.worst_rank] : null,
-      flagged: r.flagged === true,
-      sites: (r.sites ?? []).sort((a, b) => SITES.indexOf(a.site) - SITES.indexOf(b.site)),
-      sortValue: r.sort_value,
-    })),
+    rows: ids
+      .map((id) => byId.get(id))
+      .filter((r): r is ListRow => Boolean(r))
+      .map((r) => ({
+        id: r.id,
+        clientId: r.client_id,
+        clientName: r.client_name,
+        operatorId: r.operator_id,
+        operatorName: r.operator_name,
+        status: r.status,
+        startedAt: new Date(r.started_at).toISOString(),
+        followUpDate: r.follow_up_date,
+        worstQuality: r.worst_rank ? RANK_QUALITY[r.worst_rank] : null,
+        flagged: r.flagged === true,
+        sites: (r.sites ?? []).sort((a, b) => SITES.indexOf(a.site) - SITES.indexOf(b.site)),
+        sortValue: sortValue.get(r.id) ?? '',
+      })),
   };
 }
 

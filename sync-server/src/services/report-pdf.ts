@@ -7,7 +7,10 @@ export type ReportSound = { type: 'S1' | 'S2'; startS: number; endS: number };
 /** A display trace: `values` in -1..1, evenly spaced over `durationS`. */
 export type ReportTrace = { durationS: number; values: number[] };
 export type ReportMeasurement = {
+  key: string;
   label: string;
+  /** The reading in words, as the screens show it. */
+  reading: string;
   unit: string;
   value: number | null;
   range: { low: number | null; high: number | null; sourceIndex: number } | null;
@@ -23,6 +26,7 @@ export type ReportSite = {
 };
 export type ReportComparisonRow = {
   site: string;
+  key: string;
   label: string;
   unit: string;
   then: number | null;
@@ -54,10 +58,11 @@ const PULSE = '#2E8C7E';
 const CAUTION_BG = '#FBF0D6';
 const CAUTION_FG = '#8A5A0B';
 const MARGIN = 40;
+const TRACE_SECONDS = 6;
 
 function fmt(value: number | null, digits = 2): string {
   if (value === null || !Number.isFinite(value)) return '–';
-  const d = Math.abs(value) >= 100 ? 0 : Math.abs(value) >= 10 ? 1 : digits;
+  const d = Number.isInteger(value) || Math.abs(value) >= 100 ? 0 : Math.abs(value) >= 10 ? 1 : digits;
   return value.toFixed(d);
 }
 
@@ -115,10 +120,15 @@ function drawTrace(
     doc.restore();
     return;
   }
-  const { durationS, values } = site.trace;
+  // A few seconds, so each S1 and S2 stays legible in print.
+  const durationS = Math.min(site.trace.durationS, TRACE_SECONDS);
+  const values = site.trace.values.slice(
+    0,
+    Math.max(2, Math.round((durationS / site.trace.durationS) * site.trace.values.length)),
+  );
   const tx = (t: number) => plot.x + (t / durationS) * plot.w;
   const mid = plot.y + plot.h / 2;
-  for (const s of site.sounds) {
+  for (const s of site.sounds.filter((x) => x.startS < durationS)) {
     const x0 = tx(Math.max(0, s.startS));
     const x1 = tx(Math.min(durationS, s.endS));
     doc
@@ -157,7 +167,7 @@ type Column = { title: string; width: number; align?: 'left' | 'right' };
 function table(
   doc: PDFKit.PDFDocument,
   columns: Column[],
-  rows: { cells: string[]; flag?: boolean }[],
+  rows: { cells: string[]; flagged?: boolean[] }[],
   startY: number,
 ): number {
   let y = startY;
@@ -197,7 +207,7 @@ function table(
     }
     let x = MARGIN;
     row.cells.forEach((cell, i) => {
-      const strong = row.flag && i === row.cells.length - 1;
+      const strong = row.flagged?.[i - (row.cells.length - (row.flagged?.length ?? 0))] === true;
       doc
         .font(strong ? FONT.strong : FONT.body)
         .fontSize(7.5)
@@ -305,47 +315,94 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
   y += 16;
 
   y = heading(doc, 'Measurements', y);
-  const columns: Column[] = [
-    { title: 'Site', width: 60 },
-    { title: 'Measurement', width: 140 },
-    { title: 'Value', width: 60, align: 'right' },
-    { title: 'Range [source]', width: 105 },
-    { title: 'Reading', width: width - 365 },
+  const siteW = (width - 150 - 110) / 4;
+  const grid: Column[] = [
+    { title: 'Measurement', width: 150 },
+    { title: 'Range [source]', width: 110 },
+    ...input.sites.map((s) => ({ title: s.label, width: siteW, align: 'right' as const })),
   ];
-  const rows = input.sites.flatMap((s) =>
-    s.measurements.map((m) => ({
-      cells: [
-        s.label,
-        m.unit ? `${m.label} (${m.unit})` : m.label,
-        fmt(m.value),
-        m.range ? `${rangeText(m.range)} [${m.range.sourceIndex + 1}]` : 'no range set',
-        statusText(m.status),
-      ],
-      flag: m.status === 'above' || m.status === 'below',
-    })),
+  const rowsOf = input.sites[0]?.measurements ?? [];
+  const mark = (m: ReportMeasurement | undefined) =>
+    !m
+      ? '–'
+      : m.status === 'above'
+        ? `${fmt(m.value)} above`
+        : m.status === 'below'
+          ? `${fmt(m.value)} below`
+          : fmt(m.value);
+  y = table(
+    doc,
+    grid,
+    rowsOf.map((first, i) => {
+      const cells = input.sites.map((s) => s.measurements[i]);
+      const sameRange = cells.every((m) => rangeText(m?.range ?? null) === rangeText(first.range));
+      return {
+        cells: [
+          first.unit ? `${first.label} (${first.unit})` : first.label,
+          sameRange
+            ? first.range
+              ? `${rangeText(first.range)} [${first.range.sourceIndex + 1}]`
+              : 'no range set'
+            : 'by site, see below',
+          ...cells.map(mark),
+        ],
+        flagged: cells.map((m) => m?.status === 'above' || m?.status === 'below'),
+      };
+    }),
+    y,
   );
-  y = table(doc, columns, rows, y);
+  const outside = input.sites.flatMap((s) =>
+    s.measurements
+      .filter((m) => m.status === 'above' || m.status === 'below')
+      .map((m) => ({ site: s.label, m })),
+  );
+  doc.font(FONT.body).fontSize(7.5).fillColor(INK);
+  if (outside.length === 0) {
+    doc.text('Every measurement with a range is within it.', MARGIN, y, { width });
+  } else {
+    doc.font(FONT.strong).fillColor(ACCENT).text("Outside the clinic's range:", MARGIN, y, { width });
+    for (const { site, m } of outside) {
+      doc
+        .font(FONT.body)
+        .fillColor(INK)
+        .text(
+          `${site}, ${m.label}: ${fmt(m.value)}${m.unit ? ` ${m.unit}` : ''} (range ${rangeText(m.range)}). ${m.reading}.`,
+          MARGIN + 8,
+          doc.y + 1,
+          { width: width - 8 },
+        );
+    }
+  }
+  y = doc.y + 12;
 
   if (input.comparison) {
     y = heading(doc, `Compared with the visit of ${input.comparison.date}`, y);
+    const keys = [...new Set(input.comparison.rows.map((r) => r.key))];
+    const siteLabels = input.sites.map((s) => s.label);
+    const cw = (width - 150) / 4;
     y = table(
       doc,
       [
-        { title: 'Site', width: 60 },
-        { title: 'Measurement', width: 170 },
-        { title: 'Then', width: 80, align: 'right' },
-        { title: 'Now', width: 80, align: 'right' },
-        { title: 'Change', width: width - 390, align: 'right' },
+        { title: 'Measurement (then → now, change)', width: 150 },
+        ...siteLabels.map((l) => ({ title: l, width: cw, align: 'right' as const })),
       ],
-      input.comparison.rows.map((r) => ({
-        cells: [
-          r.site,
-          r.unit ? `${r.label} (${r.unit})` : r.label,
-          fmt(r.then),
-          fmt(r.now),
-          r.then !== null && r.now !== null ? `${r.now - r.then >= 0 ? '+' : ''}${fmt(r.now - r.then)}` : '–',
-        ],
-      })),
+      keys.map((key) => {
+        const any = input.comparison!.rows.find((r) => r.key === key)!;
+        return {
+          cells: [
+            any.unit ? `${any.label} (${any.unit})` : any.label,
+            ...siteLabels.map((label) => {
+              const r = input.comparison!.rows.find((x) => x.key === key && x.site === label);
+              if (!r) return '–';
+              const change =
+                r.then !== null && r.now !== null
+                  ? ` (${r.now - r.then >= 0 ? '+' : ''}${fmt(r.now - r.then)})`
+                  : '';
+              return `${fmt(r.then)} → ${fmt(r.now)}${change}`;
+            }),
+          ],
+        };
+      }),
       y,
     );
   }

@@ -99,8 +99,10 @@ export async function addSession(options: {
  * A 4 s, 4 kHz WAV with 50 ms bursts of a 100 Hz tone (inside the 25–400 Hz band) at known onsets and silence
  * elsewhere, so where the trace is loud can be checked against where the bursts are.
  */
-export function burstWav(onsetsS: number[], sampleRate = 4000, durationS = 4): Uint8Array {
+export function burstWav(onsetsS: number[], salt = 0, sampleRate = 4000, durationS = 4): Uint8Array {
   const samples = new Float32Array(Math.round(sampleRate * durationS));
+  // Blobs are addressed by content across clinics: a salt in the last sample keeps each test's clip its own.
+  samples[samples.length - 1] = salt / 32768;
   for (const onset of onsetsS) {
     const start = Math.round(onset * sampleRate);
     for (let i = 0; i < 0.05 * sampleRate; i++)

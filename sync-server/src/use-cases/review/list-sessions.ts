@@ -58,7 +58,7 @@ export async function listSessionsForReview(
   if (query.from && query.to && query.from > query.to)
     throw new AppError('bad_date_range', 'The start date is after the end date.', 400);
   const after = query.cursor ? decodeCursor(query.cursor, query.sort, query.dir) : undefined;
-  const limits = referralLimits(await rangesForClinic(caller.clinicId));
+  const limits = referralLimits(await rangesForClinic(deps.sequelize, caller.clinicId));
   const { rows, total, hasMore } = await listReviewSessions(
     deps.sequelize,
     caller.clinicId,

@@ -11,6 +11,7 @@ export const measurementDefs: readonly MeasurementDef[] = [
   { key: 'heartRateBpm', label: 'Heart rate', unit: 'bpm' },
   { key: 'sdnnMs', label: 'Beat-to-beat variability (SDNN)', unit: 'ms' },
   { key: 'rmssdMs', label: 'Beat-to-beat variability (RMSSD)', unit: 'ms' },
+  { key: 'pnn50', label: 'Successive beats differing by over 50 ms (pNN50)', unit: '%' },
   { key: 's1DurationMs', label: 'S1 duration', unit: 'ms' },
   { key: 's2DurationMs', label: 'S2 duration', unit: 'ms' },
   { key: 'systoleMs', label: 'Systolic interval', unit: 'ms' },
@@ -34,7 +35,16 @@ export function statusOf(value: number | null, range: Range | null): Measurement
   return 'in_range';
 }
 
-export function readingOf(status: MeasurementStatus): string {
+/** Measurements of the recording itself: out of range means retake, not referral. */
+export const recordingQualityKeys = ['usableCycles'] as const;
+
+export function readingOf(status: MeasurementStatus, key = ''): string {
+  if (
+    (recordingQualityKeys as readonly string[]).includes(key) &&
+    (status === 'below' || status === 'above')
+  ) {
+    return 'Outside range: too few clean cycles for steady figures; consider a retake';
+  }
   switch (status) {
     case 'in_range':
       return 'Within range';
@@ -65,7 +75,7 @@ export function evaluateSite(
     const value = metricValue(metrics, def.key);
     const range = ranges(def.key, site);
     const status = statusOf(value, range);
-    return { ...def, value, range, status, reading: readingOf(status) };
+    return { ...def, value, range, status, reading: readingOf(status, def.key) };
   });
 }
 

@@ -35,7 +35,7 @@ async function reportInput(
   compareWith: string | null,
 ): Promise<ReportInput> {
   const session = await loadSession(deps, caller, sessionId);
-  const ranges = await rangesForClinic(caller.clinicId);
+  const ranges = await rangesForClinic(deps.sequelize, caller.clinicId);
   const records = (await findSiteRecords(deps.sequelize, caller.clinicId, [sessionId])).get(sessionId) ?? [];
   const sources: string[] = [];
   const sites: ReportSite[] = [];
@@ -65,7 +65,9 @@ async function reportInput(
           if (sourceIndex < 0) sourceIndex = sources.push(m.range.source) - 1;
         }
         return {
+          key: m.key,
           label: m.label,
+          reading: m.reading,
           unit: m.unit,
           value: m.value,
           status: m.status,
@@ -81,7 +83,14 @@ async function reportInput(
       date: c.then.startedAt.slice(0, 10),
       rows: c.rows
         .filter((r) => r.then !== null || r.now !== null)
-        .map((r) => ({ site: SITE_LABEL[r.site], label: r.label, unit: r.unit, then: r.then, now: r.now })),
+        .map((r) => ({
+          site: SITE_LABEL[r.site],
+          key: r.key,
+          label: r.label,
+          unit: r.unit,
+          then: r.then,
+          now: r.now,
+        })),
     };
   }
   return {

@@ -78,7 +78,7 @@ export async function sessionDetail(
   sessionId: string,
 ): Promise<ReviewSessionDetail> {
   const session = await loadSession(deps, caller, sessionId);
-  const ranges = await rangesForClinic(caller.clinicId);
+  const ranges = await rangesForClinic(deps.sequelize, caller.clinicId);
   const records = (await findSiteRecords(deps.sequelize, caller.clinicId, [sessionId])).get(sessionId) ?? [];
   const sites = SITES.map((site) =>
     reviewSite(
@@ -326,7 +326,7 @@ export async function clientTrends(deps: UseCaseDeps, caller: Caller, clientId: 
     visits.map((v) => v.id),
     false,
   );
-  const ranges = await rangesForClinic(caller.clinicId);
+  const ranges = await rangesForClinic(deps.sequelize, caller.clinicId);
   const series = SITES.flatMap((site) =>
     measurementDefs.map((def) => {
       const range = ranges(def.key, site);
