@@ -160,6 +160,24 @@ async function main(): Promise<void> {
     };
   }
 
+  // The floor under any push: the same loopback HTTP stack, in this same process, doing almost nothing.
+  async function floor(devices: number, call: () => Promise<unknown>): Promise<number> {
+    const start = performance.now();
+    await Promise.all(
+      Array.from({ length: devices }, async () => {
+        for (let i = 0; i < ROUNDS_PER_DEVICE; i++) await call();
+      }),
+    );
+    return (devices * ROUNDS_PER_DEVICE) / ((performance.now() - start) / 1000);
+  }
+  const emptyPull = () =>
+    client.post('/api/sync/pull', {
+      protocolVersion: SYNC_PROTOCOL_VERSION,
+      deviceId: randomUUID(),
+      checkpoint: '9223372036854775806',
+      limit: 1,
+    });
+
   await pushes(4); // warm-up: JIT, pool, prepared paths
   console.log(
     `sync push of a four-site session (6 mutations), ${ROUNDS_PER_DEVICE} sessions per device, loopback`,
@@ -177,6 +195,11 @@ async function main(): Promise<void> {
       verdict = `target at 32 devices: p95 ${result.p95.toFixed(1)} ms (<= 50: ${result.p95 <= 50 ? 'met' : 'NOT met'}), ${(ratio * 100).toFixed(0)} % of raw (>= 25 %: ${ratio >= 0.25 ? 'met' : 'NOT met'})`;
     }
   }
+  const health = await floor(32, () => client.get('/api/health'));
+  const pull = await floor(32, emptyPull);
+  console.log(
+    `HTTP floor at 32 devices, same process: GET /api/health ${health.toFixed(1)} req/s, empty authenticated pull ${pull.toFixed(1)} req/s`,
+  );
   const [{ count }] = await sequelize.query<{ count: string }>(
     `SELECT count(*) FROM applied_mutations WHERE clinic_id = $1`,
     { bind: [clinic.id], type: QueryTypes.SELECT },

@@ -129,14 +129,6 @@ export class SyncRepository {
     );
   }
 
-  async findAppliedMutations(mutationIds: string[]): Promise<Map<string, { clinicId: string; result: Raw }>> {
-    const rows = await this.select<{ mutation_id: string; clinic_id: string; result: Raw }>(
-      `SELECT mutation_id, clinic_id, result FROM applied_mutations WHERE mutation_id = ANY($1::uuid[])`,
-      [mutationIds],
-    );
-    return new Map(rows.map((r) => [r.mutation_id, { clinicId: r.clinic_id, result: r.result }]));
-  }
-
   /** Savepoints let one mutation of a batch fail alone inside the batch's transaction. */
   async savepoint(name: string): Promise<void> {
     await this.run(`SAVEPOINT ${name}`, []);

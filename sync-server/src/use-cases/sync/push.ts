@@ -152,29 +152,14 @@ async function applyBatch(
   careful: boolean,
 ): Promise<PushResponse> {
   // No clinic lock here: the change-number trigger takes it (shared) at every row write, which is what pulls need.
-  const recorded = await repo.findAppliedMutations(
-    checked.filter((c) => 'change' in c).map((c) => c.m.mutationId),
-  );
+  // No look-up of recorded mutations either: a replay writes nothing on the quick path (its row exists, or is at
+  // a later version), so it reaches the slow path, which finds the record and answers "already applied".
   const results: MutationResult[] = [];
   for (const [index, c] of checked.entries()) {
-    if ('rejection' in c) {
-      results.push(c.rejection);
-      continue;
-    }
-    const prior = recorded.get(c.m.mutationId);
-    if (prior) {
-      results.push(
-        prior.clinicId === caller.clinicId
-          ? replayOf(c.m.mutationId, prior.result)
-          : rejected(c.m, 'forbidden', 'This change id belongs to another clinic.'),
-      );
-      continue;
-    }
-    results.push(
-      careful
-        ? await applyIsolated(repo, caller, deviceId, c.m, c.change, `mutation_${index}`)
-        : await applyOrReject(repo, caller, deviceId, c.m, c.change),
-    );
+    if ('rejection' in c) results.push(c.rejection);
+    else if (careful)
+      results.push(await applyIsolated(repo, caller, deviceId, c.m, c.change, `mutation_${index}`));
+    else results.push(await applyOrReject(repo, caller, deviceId, c.m, c.change));
   }
   return { results };
 }
@@ -203,21 +188,23 @@ async function applyIsolated(
   change: ReturnType<typeof checkChange>,
   savepoint: string,
 ): Promise<MutationResult> {
-  for (let attempt = 1; ; attempt++) {
-    await repo.savepoint(savepoint);
-    try {
-      const result = await applyOrReject(repo, caller, deviceId, m, change);
-      await repo.releaseSavepoint(savepoint);
-      return result;
-    } catch (error) {
-      const { code, constraint, detail } = pgCode(error);
-      // Not the mutation's fault (deadlock, serialization) or not the database's: the batch starts again.
-      if (!code || PG_RETRY.has(code)) throw error;
-      await repo.rollbackToSavepoint(savepoint);
-      // Two deliveries of one mutation at once: the second waits on the first's key, then finds it recorded.
-      if (code === '23505' && constraint === 'applied_mutations_pkey' && attempt < 3) continue;
-      return refusalOf(m, code, constraint, detail);
+  await repo.savepoint(savepoint);
+  try {
+    const result = await applyOrReject(repo, caller, deviceId, m, change);
+    await repo.releaseSavepoint(savepoint);
+    return result;
+  } catch (error) {
+    const { code, constraint, detail } = pgCode(error);
+    // Not the mutation's fault (deadlock, serialization) or not the database's: the batch starts again.
+    if (!code || PG_RETRY.has(code)) throw error;
+    await repo.rollbackToSavepoint(savepoint);
+    // The mutation id is recorded already (a delivery that committed meanwhile, or another clinic's id).
+    if (code === '23505' && constraint === 'applied_mutations_pkey') {
+      const recorded = await repo.findAppliedMutation(m.mutationId);
+      if (recorded?.clinicId === caller.clinicId) return replayOf(m.mutationId, recorded.result);
+      if (recorded) return rejected(m, 'forbidden', 'This change id belongs to another clinic.');
     }
+    return refusalOf(m, code, constraint, detail);
   }
 }
 
