@@ -100,7 +100,7 @@ export function CaptureScreen() {
             The clips are sealed for the clinic and waiting in the outbox. They send themselves when the
             device is back online.
           </AppText>
-          <SessionSummary recordings={recordings} />
+          <SessionSummary recordings={recordings} traceWidth={contentWidth - 28} />
           <CautionNote />
           <Button label="Open the outbox" onPress={() => router.push('/outbox')} testID="open-outbox" />
           <Button
@@ -129,7 +129,7 @@ export function CaptureScreen() {
         <CaptureStepper current={current} recordings={recordings} onSelect={goTo} disabled={saving} />
         {current === 'review' ? (
           <View style={styles.review} testID="review">
-            <SessionSummary recordings={recordings} />
+            <SessionSummary recordings={recordings} traceWidth={contentWidth - 28} />
             {saveError || finish.error ? (
               <View style={styles.error} accessibilityRole="alert" testID="finish-error">
                 <AppText variant="small" color={colors.danger}>

@@ -9,7 +9,13 @@ import { TraceView } from './trace-view';
 const verdictTone = { good: 'good', usable: 'caution', retake: 'danger' } as const;
 
 /** Each site's outcome, with a small trace where there is one. */
-export function SessionSummary({ recordings }: { recordings: SiteRecording[] }) {
+export function SessionSummary({
+  recordings,
+  traceWidth,
+}: {
+  recordings: SiteRecording[];
+  traceWidth: number;
+}) {
   return (
     <View style={styles.list} testID="session-summary">
       {sites.map((site) => {
@@ -43,7 +49,7 @@ export function SessionSummary({ recordings }: { recordings: SiteRecording[] }) 
                   <TraceView
                     trace={r.trace}
                     sounds={r.analysis.sounds}
-                    width={300}
+                    width={traceWidth}
                     height={70}
                     testID={`summary-${site.id}-trace`}
                   />

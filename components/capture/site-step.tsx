@@ -6,6 +6,8 @@ import { CautionNote } from '@/components/ui/caution-note';
 import { siteInfo } from '@/constants/sites';
 import { colors, radii, space } from '@/constants/theme';
 import type { RecordingSource, SiteRecording } from '@/hooks/local-store/records';
+import { playClip } from '@/hooks/recorder/playback';
+import { encodeWav16 } from '@/shared/analysis/wav';
 import type { Site } from '@/shared/protocol';
 import { Countdown } from './countdown';
 import { LevelMeter } from './level-meter';
@@ -156,6 +158,12 @@ export function SiteStep({
               </AppText>
             </View>
           ) : null}
+          <Button
+            label="Play the take"
+            variant="ghost"
+            onPress={() => playClip(encodeWav16(state.result.pcm.samples, state.result.pcm.sampleRate))}
+            testID="play-take"
+          />
           <VerdictPanel
             analysis={state.result.analysis}
             busy={saving}

@@ -6,6 +6,22 @@ import type { HeartSound } from '@/shared/analysis/types';
 
 type Props = { trace: DisplayTrace; sounds: HeartSound[]; width: number; height?: number; testID?: string };
 
+const labelGapPx = 18;
+
+/** Labels where they fit: none on small traces (the shading carries it), and never two closer than labelGapPx. */
+function labelled(sounds: HeartSound[], toX: (s: number) => number, height: number) {
+  if (height < 100) return [];
+  const out: { sound: HeartSound; x: number }[] = [];
+  let last = -Infinity;
+  for (const sound of sounds) {
+    const x = toX((sound.startS + sound.endS) / 2);
+    if (x - last < labelGapPx) continue;
+    out.push({ sound, x });
+    last = x;
+  }
+  return out;
+}
+
 /** The clip as a min/max band per column, with each detected S1 and S2 shaded and labelled. */
 export function TraceView({ trace, sounds, width, height = 150, testID = 'trace' }: Props) {
   const columns = trace.min.length;
@@ -46,12 +62,12 @@ export function TraceView({ trace, sounds, width, height = 150, testID = 'trace'
         })}
         <Line x1={0} y1={mid} x2={width} y2={mid} stroke={colors.line} strokeWidth={1} />
         <Path d={d} stroke={colors.ink} strokeWidth={1} />
-        {sounds.map((sound, i) => {
+        {labelled(sounds, toX, height).map(({ sound, x: at }, i) => {
           const tint = sound.type === 'S1' ? colors.accent : colors.pulse;
           return (
             <SvgText
               key={`l${i}`}
-              x={toX((sound.startS + sound.endS) / 2)}
+              x={at}
               y={12}
               fontSize={9}
               fontWeight="bold"

@@ -78,6 +78,8 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
       );
     }
 
+    // Client, consent, session, site rows, then clips: parents ahead of children in the drain order.
+    let order = 0;
     const queue = async (
       entity: SyncEntity,
       rowId: string,
@@ -90,6 +92,7 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
         db,
         { kind: 'mutation', entity, rowId, mutation: body, sizeBytes: JSON.stringify(body).length, label },
         now,
+        order++,
       );
     };
     const alreadyQueued = async (entity: SyncEntity, rowId: string) =>
@@ -207,6 +210,7 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
           label: `${siteInfo(clip.site).label} clip (sealed) · ${who}`,
         },
         now,
+        order++,
       );
     }
   });

@@ -52,9 +52,19 @@ export type NewOutboxItem = Omit<
   label: string;
 };
 
-/** Inserts inside the caller's transaction, so queueing and the change it carries land together. */
-export async function enqueue(db: SQLiteDatabase, item: NewOutboxItem, now: Date): Promise<string> {
+/**
+ * Inserts inside the caller's transaction, so queueing and the change it carries land together. The queue drains
+ * in createdAt order, and parents must reach the server before their children, so `order` spaces items queued in
+ * the same instant a millisecond apart.
+ */
+export async function enqueue(
+  db: SQLiteDatabase,
+  item: NewOutboxItem,
+  now: Date,
+  order = 0,
+): Promise<string> {
   const id = uuid();
+  const at = now.getTime() + order;
   await db.runAsync(
     `INSERT INTO outbox (id, kind, entity, row_id, mutation_json, blob_hash, size_bytes, state, attempts, next_attempt_at,
        progress, created_at, label)
@@ -66,8 +76,8 @@ export async function enqueue(db: SQLiteDatabase, item: NewOutboxItem, now: Date
     item.mutation === undefined ? null : JSON.stringify(item.mutation),
     item.blobHash ?? null,
     item.sizeBytes,
-    now.getTime(),
-    now.getTime(),
+    at,
+    at,
     item.label,
   );
   return id;

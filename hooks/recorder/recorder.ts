@@ -1,9 +1,7 @@
 // The one place that knows how audio gets in and out. On the web target we talk to getUserMedia and Web Audio
 // directly: expo-audio's web recorder asks for `audio: true`, which leaves the browser's echo cancellation, noise
 // suppression and automatic gain on, and those reshape heart sounds; expo-av has no native build for SDK 55+.
-// Playback goes through expo-audio, the SDK's maintained audio module.
-import { createAudioPlayer, type AudioPlayer } from 'expo-audio';
-
+// Playback (playback.ts) goes through expo-audio, the SDK's maintained audio module.
 export type RecorderErrorKind = 'permission-denied' | 'no-microphone' | 'unsupported' | 'busy' | 'failed';
 
 export class RecorderError extends Error {
@@ -194,18 +192,4 @@ export async function decodeWithBrowser(bytes: ArrayBuffer, sampleRate = takeSam
     for (let i = 0; i < data.length; i++) samples[i]! += data[i]! / buffer.numberOfChannels;
   }
   return { samples, sampleRate: buffer.sampleRate };
-}
-
-let player: AudioPlayer | null = null;
-
-/** Plays a clip (a WAV's bytes); a second call replaces the first. */
-export function playClip(wav: Uint8Array): () => void {
-  player?.remove();
-  const url = URL.createObjectURL(new Blob([wav as BlobPart], { type: 'audio/wav' }));
-  player = createAudioPlayer(url);
-  player.play();
-  return () => {
-    player?.pause();
-    URL.revokeObjectURL(url);
-  };
 }

@@ -1,0 +1,64 @@
+import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
+import { ClientForm } from './client-form';
+import { ConsentForm } from './consent-form';
+
+describe('ClientForm', () => {
+  test('when submitted empty, then each required field says what is missing and nothing is saved', async () => {
+    const onSubmit = jest.fn();
+    render(<ClientForm onSubmit={onSubmit} />);
+    fireEvent.press(screen.getByTestId('client-submit'));
+    await screen.findByTestId('client-firstName-error');
+    expect(screen.getByTestId('client-lastName-error')).toBeTruthy();
+    expect(onSubmit).not.toHaveBeenCalled();
+  });
+
+  test('when the date of birth is not a real date, then the field says so', async () => {
+    const onSubmit = jest.fn();
+    render(<ClientForm onSubmit={onSubmit} />);
+    fireEvent.changeText(screen.getByTestId('client-firstName'), 'Ilse');
+    fireEvent.changeText(screen.getByTestId('client-lastName'), 'Vantongeren');
+    fireEvent.changeText(screen.getByTestId('client-dateOfBirth'), '1990-02-31');
+    fireEvent.changeText(screen.getByTestId('client-email'), 'not-an-email');
+    fireEvent.press(screen.getByTestId('client-submit'));
+    await screen.findByTestId('client-dateOfBirth-error');
+    expect(screen.getByTestId('client-email-error')).toBeTruthy();
+    expect(onSubmit).not.toHaveBeenCalled();
+  });
+
+  test('when the fields are valid, then the values are handed over', async () => {
+    const onSubmit = jest.fn().mockResolvedValue(undefined);
+    render(<ClientForm onSubmit={onSubmit} />);
+    fireEvent.changeText(screen.getByTestId('client-firstName'), 'Ilse');
+    fireEvent.changeText(screen.getByTestId('client-lastName'), 'Vantongeren');
+    fireEvent.changeText(screen.getByTestId('client-dateOfBirth'), '1990-02-28');
+    fireEvent.press(screen.getByTestId('client-submit'));
+    await waitFor(() => expect(onSubmit).toHaveBeenCalled());
+    expect(onSubmit.mock.calls[0][0]).toMatchObject({
+      firstName: 'Ilse',
+      lastName: 'Vantongeren',
+      dateOfBirth: '1990-02-28',
+    });
+  });
+});
+
+describe('ConsentForm', () => {
+  test('when the typed name differs from the client on file, then consent is refused with the expected name', async () => {
+    const onSubmit = jest.fn();
+    render(<ConsentForm clientName="Ilse Vantongeren" onSubmit={onSubmit} />);
+    fireEvent.changeText(screen.getByTestId('consent-name'), 'Somebody Else');
+    fireEvent.press(screen.getByTestId('consent-submit'));
+    const error = await screen.findByTestId('consent-name-error');
+    expect(String(error.props.children)).toContain('Ilse Vantongeren');
+    expect(onSubmit).not.toHaveBeenCalled();
+  });
+
+  test('when the client types their name (any case and spacing), then consent is stored with the text version', async () => {
+    const onSubmit = jest.fn().mockResolvedValue(undefined);
+    render(<ConsentForm clientName="Ilse Vantongeren" onSubmit={onSubmit} />);
+    fireEvent.changeText(screen.getByTestId('consent-name'), '  ilse   vantongeren ');
+    fireEvent.press(screen.getByTestId('consent-submit'));
+    await waitFor(() => expect(onSubmit).toHaveBeenCalled());
+    expect(onSubmit.mock.calls[0][0]).toMatchObject({ textVersion: '1' });
+    expect(onSubmit.mock.calls[0][0].signedOn).toMatch(/^\d{4}-\d{2}-\d{2}$/);
+  });
+});
