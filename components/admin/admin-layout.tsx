@@ -1,10 +1,22 @@
 import { RoleGuard } from '@/components/auth/role-guard';
 import { RoleTabs, type TabSpec } from '@/components/nav/role-tabs';
-import { OverviewIcon } from '@/components/ui/icons';
+import {
+  AuditIcon,
+  BillingIcon,
+  OverviewIcon,
+  RecordsIcon,
+  SettingsIcon,
+  TeamIcon,
+} from '@/components/ui/icons';
 import { ConflictsIcon } from './conflicts/conflicts-icon';
 
 const tabs: readonly TabSpec[] = [
   { name: 'admin', title: 'Overview', Icon: OverviewIcon },
+  { name: 'team', title: 'Team', Icon: TeamIcon },
+  { name: 'client-records/index', title: 'Clients', Icon: RecordsIcon },
+  { name: 'billing', title: 'Billing', Icon: BillingIcon },
+  { name: 'audit', title: 'Audit', Icon: AuditIcon },
+  { name: 'settings', title: 'Settings', Icon: SettingsIcon },
   { name: 'conflicts/index', title: 'Conflicts', Icon: ConflictsIcon },
 ];
 

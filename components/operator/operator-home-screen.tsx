@@ -11,6 +11,7 @@ import { colors, fonts, radii, space } from '@/constants/theme';
 import { useClientsQuery } from '@/hooks/data/clients';
 import { useDebouncedValue } from '@/hooks/use-debounced-value';
 import { ClientRow } from './client-row';
+import { FollowUpsDue } from './follow-ups-due';
 
 export function OperatorHomeScreen() {
   const [search, setSearch] = useState('');
@@ -71,6 +72,7 @@ export function OperatorHomeScreen() {
   } else {
     body = (
       <View style={styles.list} testID="clients-list">
+        <FollowUpsDue />
         <AppText variant="caption" color={colors.textMuted}>
           {clients.data.length === 1 ? '1 CLIENT' : `${clients.data.length} CLIENTS`}
         </AppText>

@@ -120,3 +120,70 @@ export function BrandMark({
     </Svg>
   );
 }
+
+/** Three heads, one in front: the people who sign in to the clinic. */
+export function TeamIcon({ color, size = 22 }: IconProps) {
+  return (
+    <Svg width={size} height={size} viewBox="0 0 24 24">
+      <Circle cx={12} cy={9} r={3.2} stroke={color} {...stroke} />
+      <Path d="M6.2 19.5c.7-3.1 3-4.8 5.8-4.8s5.1 1.7 5.8 4.8" stroke={color} {...stroke} />
+      <Circle cx={5.2} cy={7.8} r={2.2} stroke={color} {...stroke} />
+      <Circle cx={18.8} cy={7.8} r={2.2} stroke={color} {...stroke} />
+      <Path d="M1.8 15.5c.5-1.8 1.8-2.9 3.6-3M22.2 15.5c-.5-1.8-1.8-2.9-3.6-3" stroke={color} {...stroke} />
+    </Svg>
+  );
+}
+
+/** A folder holding a card: a client's record. */
+export function RecordsIcon({ color, size = 22 }: IconProps) {
+  return (
+    <Svg width={size} height={size} viewBox="0 0 24 24">
+      <Path
+        d="M3 7.5V18a2 2 0 0 0 2 2h14a2 2 0 0 0 2-2V9.5a2 2 0 0 0-2-2h-7L10 5H5a2 2 0 0 0-2 2.5z"
+        stroke={color}
+        {...stroke}
+      />
+      <Circle cx={9} cy={13} r={1.8} stroke={color} {...stroke} />
+      <Line x1={13} y1={12.2} x2={17.5} y2={12.2} stroke={color} {...stroke} />
+      <Line x1={13} y1={15.2} x2={16} y2={15.2} stroke={color} {...stroke} />
+    </Svg>
+  );
+}
+
+/** A card with its stripe. */
+export function BillingIcon({ color, size = 22 }: IconProps) {
+  return (
+    <Svg width={size} height={size} viewBox="0 0 24 24">
+      <Rect x={2.5} y={5} width={19} height={14} rx={2.5} stroke={color} {...stroke} />
+      <Line x1={2.5} y1={9.5} x2={21.5} y2={9.5} stroke={color} {...stroke} />
+      <Line x1={6} y1={15} x2={10} y2={15} stroke={color} {...stroke} />
+    </Svg>
+  );
+}
+
+/** A page of lines under a clock hand: who did what, and when. */
+export function AuditIcon({ color, size = 22 }: IconProps) {
+  return (
+    <Svg width={size} height={size} viewBox="0 0 24 24">
+      <Path d="M14 3.5H6.5a2 2 0 0 0-2 2v13a2 2 0 0 0 2 2H11" stroke={color} {...stroke} />
+      <Line x1={8} y1={8} x2={14} y2={8} stroke={color} {...stroke} />
+      <Line x1={8} y1={11.5} x2={12} y2={11.5} stroke={color} {...stroke} />
+      <Circle cx={16.5} cy={16} r={4.5} stroke={color} {...stroke} />
+      <Path d="M16.5 13.8V16l1.6 1.1" stroke={color} {...stroke} />
+    </Svg>
+  );
+}
+
+/** Three sliders at different settings. */
+export function SettingsIcon({ color, size = 22 }: IconProps) {
+  return (
+    <Svg width={size} height={size} viewBox="0 0 24 24">
+      <Line x1={4} y1={6} x2={20} y2={6} stroke={color} {...stroke} />
+      <Line x1={4} y1={12} x2={20} y2={12} stroke={color} {...stroke} />
+      <Line x1={4} y1={18} x2={20} y2={18} stroke={color} {...stroke} />
+      <Circle cx={9} cy={6} r={2.2} fill={color} />
+      <Circle cx={15.5} cy={12} r={2.2} fill={color} />
+      <Circle cx={7} cy={18} r={2.2} fill={color} />
+    </Svg>
+  );
+}

@@ -4,6 +4,7 @@ import { ApiFailure, failureFromError, unwrap } from '@/hooks/api/result';
 import {
   clientRecordSchema,
   clientTableResponseSchema,
+  consentTextListResponseSchema,
   eraseClientResponseSchema,
   type ClientTableQuery,
   type UpdateClientRequest,
@@ -52,6 +53,15 @@ export function useEraseClientMutation(id: string) {
         ),
       ),
     onSuccess: () => qc.invalidateQueries({ queryKey: clientRecordsKey }),
+  });
+}
+
+export function useConsentTextsQuery() {
+  return useQuery({
+    queryKey: ['consent-texts'],
+    staleTime: 5 * 60_000,
+    queryFn: async () =>
+      unwrap(await request({ method: 'GET', url: '/consent-texts' }, consentTextListResponseSchema)).texts,
   });
 }
 

@@ -57,3 +57,17 @@ export function useResetRangesMutation() {
     onSuccess: () => qc.invalidateQueries({ queryKey: rangesKey }),
   });
 }
+
+export function useResetRangeMutation() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: async ({ metric, site }: { metric: string; site: string }) =>
+      unwrap(
+        await request(
+          { method: 'DELETE', url: `/settings/ranges/${metric}/${site}` },
+          clinicRangesResponseSchema,
+        ),
+      ).ranges,
+    onSuccess: () => qc.invalidateQueries({ queryKey: rangesKey }),
+  });
+}

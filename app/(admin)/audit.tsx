@@ -1,0 +1,1 @@
+export { AuditScreen as default } from '@/components/admin/audit/audit-screen';

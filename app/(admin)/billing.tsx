@@ -1,0 +1,1 @@
+export { BillingScreen as default } from '@/components/admin/billing/billing-screen';

@@ -1,0 +1,1 @@
+export { ClientRecordScreen as default } from '@/components/admin/clients/client-record-screen';

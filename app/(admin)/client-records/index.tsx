@@ -1,0 +1,1 @@
+export { ClientTableScreen as default } from '@/components/admin/clients/client-table-screen';

@@ -1,0 +1,80 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { Controller, useForm } from 'react-hook-form';
+import { StyleSheet, View } from 'react-native';
+import { z } from 'zod';
+import { Button } from '@/components/ui/button';
+import { TextField } from '@/components/ui/text-field';
+import { space } from '@/constants/theme';
+
+const day = z
+  .string()
+  .trim()
+  .refine((v) => v === '' || (/^\d{4}-\d{2}-\d{2}$/.test(v) && !Number.isNaN(Date.parse(`${v}T00:00:00Z`))), {
+    error: 'Use a date like 2026-03-31.',
+  });
+
+export const auditFilterSchema = z
+  .object({ entity: z.string().trim().max(80), entityId: z.string().trim().max(80), from: day, to: day })
+  .refine((f) => !f.from || !f.to || f.from <= f.to, {
+    error: 'The end date is before the start date.',
+    path: ['to'],
+  });
+export type AuditFilterValues = z.infer<typeof auditFilterSchema>;
+export const emptyAuditFilter: AuditFilterValues = { entity: '', entityId: '', from: '', to: '' };
+
+const fields: { name: keyof AuditFilterValues; label: string; hint: string }[] = [
+  { name: 'entity', label: 'Entity', hint: 'client, session, user…' },
+  { name: 'entityId', label: 'Entity id', hint: 'exact id' },
+  { name: 'from', label: 'From', hint: 'YYYY-MM-DD' },
+  { name: 'to', label: 'To', hint: 'YYYY-MM-DD' },
+];
+
+export function AuditFilters({ onApply }: { onApply: (values: AuditFilterValues) => void }) {
+  const form = useForm<AuditFilterValues>({
+    resolver: zodResolver(auditFilterSchema),
+    defaultValues: emptyAuditFilter,
+  });
+  const apply = form.handleSubmit(onApply);
+  return (
+    <View style={styles.row}>
+      {fields.map((f) => (
+        <View key={f.name} style={styles.field}>
+          <Controller
+            control={form.control}
+            name={f.name}
+            render={({ field, fieldState }) => (
+              <TextField
+                label={f.label}
+                testID={`audit-filter-${f.name}`}
+                placeholder={f.hint}
+                autoCapitalize="none"
+                value={field.value}
+                onChangeText={field.onChange}
+                onSubmitEditing={() => void apply()}
+                error={fieldState.error?.message}
+              />
+            )}
+          />
+        </View>
+      ))}
+      <View style={styles.buttons}>
+        <Button label="Apply" onPress={() => void apply()} testID="audit-filter-apply" />
+        <Button
+          label="Clear"
+          variant="ghost"
+          onPress={() => {
+            form.reset(emptyAuditFilter);
+            onApply(emptyAuditFilter);
+          }}
+          testID="audit-filter-clear"
+        />
+      </View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, alignItems: 'flex-end' },
+  field: { flexBasis: 170, flexGrow: 1, maxWidth: 240 },
+  buttons: { flexDirection: 'row', gap: space.xs, paddingBottom: 2 },
+});
