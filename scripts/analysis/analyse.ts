@@ -29,7 +29,8 @@ function parseArguments(argv: string[]): Arguments {
   return parsed;
 }
 
-const round = (value: number | null, digits: number) => (value === null ? null : Number(value.toFixed(digits)));
+const round = (value: number | null, digits: number) =>
+  value === null ? null : Number(value.toFixed(digits));
 
 function roundMetrics(metrics: AnalysisResult['metrics']) {
   const out: Record<string, unknown> = {};
@@ -37,7 +38,9 @@ function roundMetrics(metrics: AnalysisResult['metrics']) {
     if (typeof value === 'number') out[key] = round(value, 4);
     else if (key === 'beats' && Array.isArray(value)) {
       out[key] = value.map((beat) =>
-        Object.fromEntries(Object.entries(beat).map(([k, v]) => [k, typeof v === 'number' ? round(v, 4) : v])),
+        Object.fromEntries(
+          Object.entries(beat).map(([k, v]) => [k, typeof v === 'number' ? round(v, 4) : v]),
+        ),
       );
     } else out[key] = value;
   }
@@ -82,7 +85,10 @@ function main(): number {
   }
   const base = process.env.INIT_CWD ?? process.cwd();
   let failed = 0;
-  if (!args.json) process.stdout.write(['file', 'bpm', 'S1', 'S2', 'cycles', 'sys/dia', 'SDNN ms', 'verdict'].join('\t') + '\n');
+  if (!args.json)
+    process.stdout.write(
+      ['file', 'bpm', 'S1', 'S2', 'cycles', 'sys/dia', 'SDNN ms', 'verdict'].join('\t') + '\n',
+    );
   for (const file of args.files) {
     try {
       const bytes = new Uint8Array(fs.readFileSync(path.resolve(base, file)));
@@ -93,7 +99,16 @@ function main(): number {
         const count = (type: string) => result.sounds.filter((s) => s.type === type).length;
         const reasons = result.quality.reasons.map((r) => r.code).join(',');
         process.stdout.write(
-          [file, fmt(result.heartRateBpm), count('S1'), count('S2'), m.usableCycles, fmt(m.systoleDiastoleRatio, 2), fmt(m.sdnnMs), `${result.quality.verdict}${reasons ? ` (${reasons})` : ''}`].join('\t') + '\n',
+          [
+            file,
+            fmt(result.heartRateBpm),
+            count('S1'),
+            count('S2'),
+            m.usableCycles,
+            fmt(m.systoleDiastoleRatio, 2),
+            fmt(m.sdnnMs),
+            `${result.quality.verdict}${reasons ? ` (${reasons})` : ''}`,
+          ].join('\t') + '\n',
         );
       }
     } catch (error) {

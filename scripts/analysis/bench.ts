@@ -20,9 +20,15 @@ function main() {
   const best = Math.min(...timings);
   const median = [...timings].sort((a, b) => a - b)[timings.length >> 1];
   const memory = process.memoryUsage();
-  console.log(`analysis bench: ${clips.length} clips, ${audioS.toFixed(0)} s of audio, ${rounds} warm rounds`);
-  console.log(`best   ${(audioS / best).toFixed(0)}× real time, ${((best / audioS) * 30 * 1000).toFixed(2)} ms per 30 s clip`);
-  console.log(`median ${(audioS / median).toFixed(0)}× real time, ${((median / audioS) * 30 * 1000).toFixed(2)} ms per 30 s clip`);
+  console.log(
+    `analysis bench: ${clips.length} clips, ${audioS.toFixed(0)} s of audio, ${rounds} warm rounds`,
+  );
+  console.log(
+    `best   ${(audioS / best).toFixed(0)}× real time, ${((best / audioS) * 30 * 1000).toFixed(2)} ms per 30 s clip`,
+  );
+  console.log(
+    `median ${(audioS / median).toFixed(0)}× real time, ${((median / audioS) * 30 * 1000).toFixed(2)} ms per 30 s clip`,
+  );
   console.log(`heap used ${(memory.heapUsed / 1e6).toFixed(0)} MB`);
 }
 

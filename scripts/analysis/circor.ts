@@ -29,11 +29,16 @@ export function dataDir(): string {
 }
 
 export function listRecordings(dir = dataDir()): Recording[] {
-  const names = fs.readdirSync(dir).filter((n) => n.endsWith('.wav')).sort();
+  const names = fs
+    .readdirSync(dir)
+    .filter((n) => n.endsWith('.wav'))
+    .sort();
   return names.map((name) => {
     const id = name.replace(/\.wav$/, '');
     const [patient, siteCode] = id.split('_');
-    const header = fs.existsSync(path.join(dir, `${patient}.txt`)) ? fs.readFileSync(path.join(dir, `${patient}.txt`), 'utf8') : '';
+    const header = fs.existsSync(path.join(dir, `${patient}.txt`))
+      ? fs.readFileSync(path.join(dir, `${patient}.txt`), 'utf8')
+      : '';
     const murmur = /#Murmur:\s*(\S+)/.exec(header)?.[1] ?? 'Unknown';
     const segments = fs
       .readFileSync(path.join(dir, `${id}.tsv`), 'utf8')
@@ -41,7 +46,14 @@ export function listRecordings(dir = dataDir()): Recording[] {
       .map((line) => line.trim().split(/\s+/).map(Number))
       .filter((parts) => parts.length === 3 && parts.every(Number.isFinite))
       .map(([startS, endS, label]) => ({ startS, endS, label }));
-    return { id, patient, site: SITE_CODES[siteCode as keyof typeof SITE_CODES], wavPath: path.join(dir, name), segments, murmur };
+    return {
+      id,
+      patient,
+      site: SITE_CODES[siteCode as keyof typeof SITE_CODES],
+      wavPath: path.join(dir, name),
+      segments,
+      murmur,
+    };
   });
 }
 
@@ -57,7 +69,8 @@ export function frameLabels(segments: Segment[], frames: number, frameRate: numb
     const centre = (t + 0.5) / frameRate;
     while (j < segments.length && segments[j].endS <= centre) j++;
     const segment = segments[j];
-    if (segment && segment.startS <= centre && segment.label >= 1 && segment.label <= 4) labels[t] = segment.label - 1;
+    if (segment && segment.startS <= centre && segment.label >= 1 && segment.label <= 4)
+      labels[t] = segment.label - 1;
   }
   return labels;
 }

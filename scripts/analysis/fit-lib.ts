@@ -1,6 +1,11 @@
 import { frameFeatures, FEATURE_NAMES, FRAME_RATE, type FrameFeatures } from '../../shared/analysis/features';
 import { estimateRate, type RateEstimate } from '../../shared/analysis/heart-rate';
-import { emissionInput, STATE_COUNT, type DurationParameters, type HsmmModel } from '../../shared/analysis/hsmm';
+import {
+  emissionInput,
+  STATE_COUNT,
+  type DurationParameters,
+  type HsmmModel,
+} from '../../shared/analysis/hsmm';
 import { preprocess } from '../../shared/analysis/preprocess';
 import { annotatedHeartRate, frameLabels, readSamples, type Recording } from './circor';
 
@@ -63,7 +68,11 @@ export function fitDurations(training: PreparedRecording[]): DurationParameters 
       if (run.state === 1) systoleResiduals.push(run.length - predictedSystole);
       if (run.state === 3) diastoles.push(run.length - predictedDiastole);
     }
-    if (diastoles.length >= 3) diastolePoints.push({ predicted: predictedDiastole, spread: Math.sqrt(mean(diastoles.map((d) => d * d))) });
+    if (diastoles.length >= 3)
+      diastolePoints.push({
+        predicted: predictedDiastole,
+        spread: Math.sqrt(mean(diastoles.map((d) => d * d))),
+      });
   }
   // spread of diastole grows with its length: least squares of spread on predicted mean
   const xs = diastolePoints.map((d) => d.predicted);
@@ -144,11 +153,16 @@ export function fitEmission(training: PreparedRecording[]): { weights: number[][
 
   const w = lbfgs(lossAndGradient, new Float64Array(dims), 80);
   const weights: number[][] = [];
-  for (let s = 0; s < STATE_COUNT; s++) weights.push(Array.from(w.subarray(s * (width + 1), (s + 1) * (width + 1))));
+  for (let s = 0; s < STATE_COUNT; s++)
+    weights.push(Array.from(w.subarray(s * (width + 1), (s + 1) * (width + 1))));
   return { weights, statePriors };
 }
 
-function lbfgs(fn: (w: Float64Array, g: Float64Array) => number, start: Float64Array, iterations: number): Float64Array {
+function lbfgs(
+  fn: (w: Float64Array, g: Float64Array) => number,
+  start: Float64Array,
+  iterations: number,
+): Float64Array {
   const dims = start.length;
   const history = 8;
   const sList: Float64Array[] = [];
@@ -184,8 +198,8 @@ function lbfgs(fn: (w: Float64Array, g: Float64Array) => number, start: Float64A
     let step = sList.length ? 1 : 1 / Math.max(1e-8, Math.sqrt(dot(g, g)));
     const slope = dot(g, direction);
     if (slope >= 0) break;
-    let next = new Float64Array(dims);
-    let nextGradient = new Float64Array(dims);
+    const next = new Float64Array(dims);
+    const nextGradient = new Float64Array(dims);
     let nextF = Infinity;
     for (let tries = 0; tries < 30; tries++) {
       for (let j = 0; j < dims; j++) next[j] = w[j] + step * direction[j];

@@ -28,7 +28,9 @@ function main() {
   };
   const target = path.resolve(__dirname, '../../shared/analysis/model/hsmm-model.json');
   fs.writeFileSync(target, `${JSON.stringify(output, null, 2)}\n`);
-  console.log(`wrote ${path.relative(process.cwd(), target)} from ${recordings.length} recordings, ${frames} labelled frames`);
+  console.log(
+    `wrote ${path.relative(process.cwd(), target)} from ${recordings.length} recordings, ${frames} labelled frames`,
+  );
 }
 
 main();

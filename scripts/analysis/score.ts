@@ -6,7 +6,15 @@
  * Run: npx tsx scripts/analysis/score.ts [--folds N]
  */
 import { analysePcm } from '../../shared/analysis/analyse';
-import { addCounts, emptyCounts, f1, positivePredictiveValue, scoreSounds, sensitivity, type Counts } from '../../shared/analysis/scoring';
+import {
+  addCounts,
+  emptyCounts,
+  f1,
+  positivePredictiveValue,
+  scoreSounds,
+  sensitivity,
+  type Counts,
+} from '../../shared/analysis/scoring';
 import { interquartileMean } from '../../shared/analysis/variability';
 import { annotatedHeartRate, listRecordings, readSamples, type Segment } from './circor';
 
@@ -40,7 +48,10 @@ function main() {
   const verdicts: Record<string, number> = {};
   for (let fold = 0; fold < folds; fold++) {
     const held = new Set(patients.filter((_, i) => i % folds === fold));
-    const model = fitModel(prepared.filter((p) => !held.has(p.recording.patient)), `cv-${fold}`);
+    const model = fitModel(
+      prepared.filter((p) => !held.has(p.recording.patient)),
+      `cv-${fold}`,
+    );
     for (const recording of recordings.filter((r) => held.has(r.patient))) {
       const { samples, sampleRate } = readSamples(recording);
       const result = analysePcm(samples, sampleRate, { site: recording.site, model });
@@ -50,7 +61,8 @@ function main() {
       perRecording.push(f1(counts100));
       verdicts[result.quality.verdict] = (verdicts[result.quality.verdict] ?? 0) + 1;
       const truth = annotatedHeartRate(recording.segments);
-      const within = truth !== null && result.heartRateBpm !== null && Math.abs(result.heartRateBpm - truth) <= 3;
+      const within =
+        truth !== null && result.heartRateBpm !== null && Math.abs(result.heartRateBpm - truth) <= 3;
       if (truth !== null) {
         rateTotal++;
         if (within) rateWithin3++;
@@ -60,8 +72,16 @@ function main() {
       if (verbose) {
         const m = result.quality.measures;
         console.log(
-          [recording.id, `F1 ${f1(counts100).toFixed(3)}`, `HR ${result.heartRateBpm?.toFixed(1)} vs ${truth?.toFixed(1)}`, result.quality.verdict,
-            result.quality.reasons.map((r) => r.code).join(','), `periodicity ${m.periodicity?.toFixed(2)}`, `rest ${m.restActivity?.toFixed(2)}`, `cycles ${result.metrics.usableCycles}`].join('  '),
+          [
+            recording.id,
+            `F1 ${f1(counts100).toFixed(3)}`,
+            `HR ${result.heartRateBpm?.toFixed(1)} vs ${truth?.toFixed(1)}`,
+            result.quality.verdict,
+            result.quality.reasons.map((r) => r.code).join(','),
+            `periodicity ${m.periodicity?.toFixed(2)}`,
+            `rest ${m.restActivity?.toFixed(2)}`,
+            `cycles ${result.metrics.usableCycles}`,
+          ].join('  '),
         );
       }
     }
@@ -69,12 +89,20 @@ function main() {
   const pct = (x: number) => `${(100 * x).toFixed(2)} %`;
   const line = (label: string, c: Counts) =>
     `${label}: F1 ${pct(f1(c))}  sensitivity ${pct(sensitivity(c))}  PPV ${pct(positivePredictiveValue(c))}  (TP ${c.truePositives}, FP ${c.falsePositives}, FN ${c.falseNegatives})`;
-  console.log(`CirCor subset: ${recordings.length} recordings, ${patients.length} patients, ${folds}-fold patient-wise cross-validation`);
+  console.log(
+    `CirCor subset: ${recordings.length} recordings, ${patients.length} patients, ${folds}-fold patient-wise cross-validation`,
+  );
   console.log(line('S1+S2 at 100 ms', at100));
   console.log(line('S1+S2 at  60 ms', at60));
-  console.log(`mean per-recording F1 at 100 ms: ${pct(perRecording.reduce((a, b) => a + b, 0) / perRecording.length)}`);
-  console.log(`heart rate within 3 bpm of annotation, whole clip: ${rateWithin3}/${rateTotal} (${pct(rateWithin3 / rateTotal)})`);
-  console.log(`heart rate within 3 bpm of annotation, beats inside the annotated stretch: ${insideWithin3}/${rateTotal} (${pct(insideWithin3 / rateTotal)})`);
+  console.log(
+    `mean per-recording F1 at 100 ms: ${pct(perRecording.reduce((a, b) => a + b, 0) / perRecording.length)}`,
+  );
+  console.log(
+    `heart rate within 3 bpm of annotation, whole clip: ${rateWithin3}/${rateTotal} (${pct(rateWithin3 / rateTotal)})`,
+  );
+  console.log(
+    `heart rate within 3 bpm of annotation, beats inside the annotated stretch: ${insideWithin3}/${rateTotal} (${pct(insideWithin3 / rateTotal)})`,
+  );
   console.log(`verdicts: ${JSON.stringify(verdicts)}`);
 }
 

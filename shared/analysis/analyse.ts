@@ -47,11 +47,16 @@ function checkSamples(samples: Float32Array, sampleRate: number): void {
     throw new AnalysisError('too_long', `The clip lasts over ${MAX_DURATION_S} s.`);
   }
   for (let i = 0; i < samples.length; i++) {
-    if (!Number.isFinite(samples[i])) throw new AnalysisError('bad_samples', `Sample ${i} is not a finite number (NaN or Infinity).`);
+    if (!Number.isFinite(samples[i]))
+      throw new AnalysisError('bad_samples', `Sample ${i} is not a finite number (NaN or Infinity).`);
   }
 }
 
-export function analysePcm(samples: Float32Array, sampleRate: number, options: InternalOptions = {}): AnalysisResult {
+export function analysePcm(
+  samples: Float32Array,
+  sampleRate: number,
+  options: InternalOptions = {},
+): AnalysisResult {
   checkSamples(samples, sampleRate);
   const model = options.model ?? (modelJson as HsmmModel);
   const durationS = samples.length / sampleRate;

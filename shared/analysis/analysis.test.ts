@@ -39,7 +39,13 @@ describe('quality verdict on awkward clips', () => {
     expect(result.metrics.usableCycles).toBeGreaterThan(15);
   });
   test('when the clip lasts 10 minutes, then it is analysed in reasonable time', () => {
-    const { samples } = syntheticBeatTrain({ rateBpm: 64, durationS: 600, sampleRate: 4000, noise: 0.01, jitter: 0.05 });
+    const { samples } = syntheticBeatTrain({
+      rateBpm: 64,
+      durationS: 600,
+      sampleRate: 4000,
+      noise: 0.01,
+      jitter: 0.05,
+    });
     const started = Date.now();
     const result = analysePcm(samples, 4000);
     expect(Date.now() - started).toBeLessThan(20000);
@@ -83,11 +89,13 @@ describe('fuzzing the WAV path', () => {
     while (Date.now() < deadline) {
       let bytes: Uint8Array;
       const kind = runs % 3;
-      if (kind === 0) bytes = Uint8Array.from({ length: Math.floor(random() * 200) }, () => Math.floor(random() * 256));
+      if (kind === 0)
+        bytes = Uint8Array.from({ length: Math.floor(random() * 200) }, () => Math.floor(random() * 256));
       else {
         bytes = valid.slice(0, kind === 1 ? valid.length : Math.floor(random() * valid.length));
         const flips = 1 + Math.floor(random() * 8);
-        for (let i = 0; i < flips && bytes.length; i++) bytes[Math.floor(random() * Math.min(bytes.length, 64))] = Math.floor(random() * 256);
+        for (let i = 0; i < flips && bytes.length; i++)
+          bytes[Math.floor(random() * Math.min(bytes.length, 64))] = Math.floor(random() * 256);
       }
       try {
         const result = analyseWav(bytes);

@@ -45,10 +45,16 @@ function poly(roots: Complex[]): Float64Array {
  * @param order filter order (a band-pass doubles it, as in scipy)
  * @param cutoffHz one corner, or [low, high] for a band-pass
  */
-export function butter(order: number, cutoffHz: number | [number, number], sampleRate: number, kind: FilterKind): TransferFunction {
+export function butter(
+  order: number,
+  cutoffHz: number | [number, number],
+  sampleRate: number,
+  kind: FilterKind,
+): TransferFunction {
   const nyquist = sampleRate / 2;
   const corners = (Array.isArray(cutoffHz) ? cutoffHz : [cutoffHz]).map((f) => f / nyquist);
-  if (corners.some((w) => !(w > 0 && w < 1))) throw new RangeError('Cut-off frequencies must lie between 0 and Nyquist.');
+  if (corners.some((w) => !(w > 0 && w < 1)))
+    throw new RangeError('Cut-off frequencies must lie between 0 and Nyquist.');
   const fs = 2;
   const warped = corners.map((w) => 2 * fs * Math.tan((Math.PI * w) / fs));
 

@@ -28,7 +28,10 @@ const cases: Case[] = [];
 
 function load(): Case[] {
   if (cases.length) return cases;
-  for (const name of fs.readdirSync(dataDir).filter((n) => n.endsWith('.wav')).sort()) {
+  for (const name of fs
+    .readdirSync(dataDir)
+    .filter((n) => n.endsWith('.wav'))
+    .sort()) {
     const id = name.replace(/\.wav$/, '');
     const [patient, siteCode] = id.split('_');
     const header = fs.readFileSync(path.join(dataDir, `${patient}.txt`), 'utf8');
@@ -53,7 +56,10 @@ function load(): Case[] {
 /** Heart-rate truth as the dataset README defines it: 60 / median interval between consecutive annotated S1 onsets. */
 function annotatedRate(segments: AnnotatedSegment[]): number | null {
   const onsets = segments.filter((s) => s.label === 1).map((s) => s.startS);
-  const intervals = onsets.slice(1).map((t, i) => t - onsets[i]).sort((a, b) => a - b);
+  const intervals = onsets
+    .slice(1)
+    .map((t, i) => t - onsets[i])
+    .sort((a, b) => a - b);
   if (!intervals.length) return null;
   const mid = intervals.length >> 1;
   return 60 / (intervals.length % 2 ? intervals[mid] : (intervals[mid - 1] + intervals[mid]) / 2);
@@ -75,7 +81,9 @@ describeIfData('CirCor development recordings', () => {
 
   test('when all 96 recordings are analysed, then the heart rate is within 3 bpm of the annotation in at least 85 %', () => {
     const rated = load().filter((c) => annotatedRate(c.segments) !== null);
-    const within = rated.filter((c) => Math.abs((c.result.heartRateBpm ?? -100) - (annotatedRate(c.segments) ?? 0)) <= 3);
+    const within = rated.filter(
+      (c) => Math.abs((c.result.heartRateBpm ?? -100) - (annotatedRate(c.segments) ?? 0)) <= 3,
+    );
     expect(within.length / rated.length).toBeGreaterThanOrEqual(0.85);
   });
 
@@ -83,8 +91,13 @@ describeIfData('CirCor development recordings', () => {
   // (tricuspid), S2 louder at the base (aortic) — Bickley, Bates' Guide to Physical Examination and History
   // Taking. Checked on the recordings whose header says "#Murmur: Absent", with S1:S2 energy.
   const louderShare = (site: SiteCode) => {
-    const normal = load().filter((c) => c.site === site && c.murmur === 'Absent' && c.result.metrics.s1s2EnergyRatio !== null);
-    return { count: normal.length, s1Louder: normal.filter((c) => (c.result.metrics.s1s2EnergyRatio ?? 0) > 1).length };
+    const normal = load().filter(
+      (c) => c.site === site && c.murmur === 'Absent' && c.result.metrics.s1s2EnergyRatio !== null,
+    );
+    return {
+      count: normal.length,
+      s1Louder: normal.filter((c) => (c.result.metrics.s1s2EnergyRatio ?? 0) > 1).length,
+    };
   };
   test('when normal recordings are taken at the mitral site, then S1 is louder than S2 in most', () => {
     const { count, s1Louder } = louderShare('mitral');

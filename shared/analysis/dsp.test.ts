@@ -8,7 +8,16 @@ import { firwinKaiser, resamplePoly } from './resample';
 interface Reference {
   x: number[];
   odd: number[];
-  butter: { order: number; cutoff: number | [number, number]; fs: number; kind: FilterKind; b: number[]; a: number[]; zi: number[]; filtfilt: number[] }[];
+  butter: {
+    order: number;
+    cutoff: number | [number, number];
+    fs: number;
+    kind: FilterKind;
+    b: number[];
+    a: number[];
+    zi: number[];
+    filtfilt: number[];
+  }[];
   resamplePoly: { up: number; down: number; input: number[]; output: number[] }[];
   hilbert: { re: number[]; im: number[] };
   hilbertOdd: { re: number[]; im: number[] };

@@ -88,7 +88,10 @@ export function hilbertTransform(x: ArrayLike<number>, n: number): Float64Array 
 }
 
 /** |analytic signal|; padded to a power of two for speed, as abs(scipy.signal.hilbert(x, N)) cut to the input length. */
-export function hilbertEnvelope(x: ArrayLike<number>, fftLength = Math.max(2, nextPowerOfTwo(x.length))): Float64Array {
+export function hilbertEnvelope(
+  x: ArrayLike<number>,
+  fftLength = Math.max(2, nextPowerOfTwo(x.length)),
+): Float64Array {
   const out = new Float64Array(x.length);
   if (fftLength % 2 === 1) {
     const { re, im } = hilbert(x, fftLength);
@@ -103,7 +106,11 @@ export function hilbertEnvelope(x: ArrayLike<number>, fftLength = Math.max(2, ne
 const LOG_FLOOR = 1e-12;
 
 /** exp(low-pass(log(Hilbert envelope))): first-order Butterworth at 8 Hz, zero phase. */
-export function homomorphicEnvelope(hilbertEnv: Float64Array, sampleRate: number, cutoffHz = 8): Float64Array {
+export function homomorphicEnvelope(
+  hilbertEnv: Float64Array,
+  sampleRate: number,
+  cutoffHz = 8,
+): Float64Array {
   const logEnv = new Float64Array(hilbertEnv.length);
   for (let i = 0; i < logEnv.length; i++) logEnv[i] = Math.log(Math.max(hilbertEnv[i], LOG_FLOOR));
   const smoothed = filtfilt(butter(1, cutoffHz, sampleRate, 'lowpass'), logEnv);
@@ -125,11 +132,19 @@ export function bandPowerEnvelope(
   const frames = Math.floor(x.length / hop);
   const out = new Float64Array(frames);
   const window = new Float64Array(windowLength);
-  for (let i = 0; i < windowLength; i++) window[i] = 0.5 - 0.5 * Math.cos((2 * Math.PI * (i + 0.5)) / windowLength);
-  const cos = frequenciesHz.map((f) => Float64Array.from(window, (w, i) => w * Math.cos((2 * Math.PI * f * i) / sampleRate)));
-  const sin = frequenciesHz.map((f) => Float64Array.from(window, (w, i) => w * Math.sin((2 * Math.PI * f * i) / sampleRate)));
+  for (let i = 0; i < windowLength; i++)
+    window[i] = 0.5 - 0.5 * Math.cos((2 * Math.PI * (i + 0.5)) / windowLength);
+  const cos = frequenciesHz.map((f) =>
+    Float64Array.from(window, (w, i) => w * Math.cos((2 * Math.PI * f * i) / sampleRate)),
+  );
+  const sin = frequenciesHz.map((f) =>
+    Float64Array.from(window, (w, i) => w * Math.sin((2 * Math.PI * f * i) / sampleRate)),
+  );
   for (let frame = 0; frame < frames; frame++) {
-    const start = Math.min(Math.max(0, Math.round(frame * hop + hop / 2 - windowLength / 2)), Math.max(0, x.length - windowLength));
+    const start = Math.min(
+      Math.max(0, Math.round(frame * hop + hop / 2 - windowLength / 2)),
+      Math.max(0, x.length - windowLength),
+    );
     let power = 0;
     for (let f = 0; f < frequenciesHz.length; f++) {
       let re = 0;

@@ -2,7 +2,13 @@ import { bandPowerEnvelope, blockMean, hilbertEnvelope, homomorphicEnvelope, sta
 
 export const FRAME_RATE = 50;
 
-export const FEATURE_NAMES = ['homomorphic', 'hilbert', 'logHomomorphic', 'band40to60', 'band150to250'] as const;
+export const FEATURE_NAMES = [
+  'homomorphic',
+  'hilbert',
+  'logHomomorphic',
+  'band40to60',
+  'band150to250',
+] as const;
 
 export interface FrameFeatures {
   frameRate: number;

@@ -2,22 +2,21 @@
 
 const radix2Cache = new Map<number, { cos: Float64Array; sin: Float64Array; reversed: Uint32Array }>();
 
+/** Twiddles laid out stage by stage: the stage with half-size h keeps its h factors at [h, 2h). */
 function radix2Tables(n: number) {
   let tables = radix2Cache.get(n);
   if (!tables) {
-    const cos = new Float64Array(n / 2);
-    const sin = new Float64Array(n / 2);
-    for (let i = 0; i < n / 2; i++) {
-      cos[i] = Math.cos((2 * Math.PI * i) / n);
-      sin[i] = Math.sin((2 * Math.PI * i) / n);
+    const cos = new Float64Array(Math.max(n, 2));
+    const sin = new Float64Array(Math.max(n, 2));
+    for (let half = 1; half < n; half *= 2) {
+      for (let k = 0; k < half; k++) {
+        cos[half + k] = Math.cos((Math.PI * k) / half);
+        sin[half + k] = Math.sin((Math.PI * k) / half);
+      }
     }
     const bits = Math.round(Math.log2(n));
     const reversed = new Uint32Array(n);
-    for (let i = 0; i < n; i++) {
-      let r = 0;
-      for (let b = 0; b < bits; b++) r |= ((i >> b) & 1) << (bits - 1 - b);
-      reversed[i] = r;
-    }
+    for (let i = 1; i < n; i++) reversed[i] = (reversed[i >> 1] >> 1) | ((i & 1) << (bits - 1));
     tables = { cos, sin, reversed };
     if (radix2Cache.size > 16) radix2Cache.clear();
     radix2Cache.set(n, tables);
@@ -51,17 +50,18 @@ function fftRadix2(re: Float64Array, im: Float64Array, inverse: boolean): void {
     }
   }
   const sign = inverse ? 1 : -1;
-  for (let size = 2; size <= n; size *= 2) {
-    const half = size / 2;
-    const step = n / size;
+  for (let half = 1; half < n; half *= 2) {
+    const size = 2 * half;
     for (let start = 0; start < n; start += size) {
       for (let k = 0; k < half; k++) {
-        const wr = cos[k * step];
-        const wi = sign * sin[k * step];
+        const wr = cos[half + k];
+        const wi = sign * sin[half + k];
         const a = start + k;
         const b = a + half;
-        const tr = re[b] * wr - im[b] * wi;
-        const ti = re[b] * wi + im[b] * wr;
+        const br = re[b];
+        const bi = im[b];
+        const tr = br * wr - bi * wi;
+        const ti = br * wi + bi * wr;
         re[b] = re[a] - tr;
         im[b] = im[a] - ti;
         re[a] += tr;

@@ -1,7 +1,12 @@
 import type { TransferFunction } from './butterworth';
 
 /** Direct form II transposed, as scipy.signal.lfilter; `state` is updated in place. */
-export function lfilter(b: Float64Array, a: Float64Array, x: ArrayLike<number>, state?: Float64Array): Float64Array {
+export function lfilter(
+  b: Float64Array,
+  a: Float64Array,
+  x: ArrayLike<number>,
+  state?: Float64Array,
+): Float64Array {
   const order = Math.max(a.length, b.length);
   const bn = new Float64Array(order);
   const an = new Float64Array(order);

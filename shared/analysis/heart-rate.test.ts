@@ -11,7 +11,13 @@ const RATES = [40, 45, 50, 60, 72, 90, 110, 120, 130, 150, 165, 180];
 describe('heart rate of synthetic beat trains', () => {
   for (const rateBpm of RATES) {
     test(`when the train beats at ${rateBpm} bpm, then the autocorrelation estimate and the reported rate are within 1 bpm`, () => {
-      const { samples } = syntheticBeatTrain({ rateBpm, durationS: 30, sampleRate: 4000, noise: 0.01, seed: rateBpm });
+      const { samples } = syntheticBeatTrain({
+        rateBpm,
+        durationS: 30,
+        sampleRate: 4000,
+        noise: 0.01,
+        seed: rateBpm,
+      });
       const working = preprocess(samples, 4000);
       const features = frameFeatures(working.signal, working.sampleRate);
       const estimate = estimateRate(features.homomorphic, features.frameRate);
@@ -23,10 +29,18 @@ describe('heart rate of synthetic beat trains', () => {
   }
 
   test('when the train beats at 72 bpm with a systole of 0.33 s, then the systolic-interval estimate is within 20 ms', () => {
-    const { samples } = syntheticBeatTrain({ rateBpm: 72, systoleS: 0.33, durationS: 30, sampleRate: 4000, noise: 0.01 });
+    const { samples } = syntheticBeatTrain({
+      rateBpm: 72,
+      systoleS: 0.33,
+      durationS: 30,
+      sampleRate: 4000,
+      noise: 0.01,
+    });
     const working = preprocess(samples, 4000);
     const features = frameFeatures(working.signal, working.sampleRate);
-    expect(Math.abs((estimateRate(features.homomorphic, features.frameRate)?.systoleS ?? 0) - 0.33)).toBeLessThanOrEqual(0.02);
+    expect(
+      Math.abs((estimateRate(features.homomorphic, features.frameRate)?.systoleS ?? 0) - 0.33),
+    ).toBeLessThanOrEqual(0.02);
   });
 
   test('when the input is sampled at 44.1 kHz, then the rate is found as at 4 kHz', () => {

@@ -76,7 +76,8 @@ export function rateCandidates(envelope: Float64Array, frameRate: number, limit 
   const ac = autocorrelation(envelope, maxLag + 1);
   const last = Math.min(maxLag, ac.length - 2);
   const peaks: number[] = [];
-  for (let i = Math.max(1, minLag); i <= last; i++) if (ac[i] >= ac[i - 1] && ac[i] > ac[i + 1]) peaks.push(i);
+  for (let i = Math.max(1, minLag); i <= last; i++)
+    if (ac[i] >= ac[i - 1] && ac[i] > ac[i + 1]) peaks.push(i);
   peaks.sort((a, b) => ac[b] - ac[a]);
   return peaks.slice(0, limit).map((peak) => {
     const cycleLag = refinePeak(ac, peak);
@@ -89,15 +90,6 @@ export function rateCandidates(envelope: Float64Array, frameRate: number, limit 
       atSearchEdge: peak <= minLag + 1 || peak >= last - 1,
     };
   });
-}
-
-/**
- * When systole and diastole are close in length (fast rates) the autocorrelation cannot tell which lag is which;
- * the alternative puts systole at the other one.
- */
-export function withSwappedSystole(rate: RateEstimate, closeness = 0.4): RateEstimate | null {
-  if (rate.systoleS < closeness * rate.cycleS) return null;
-  return { ...rate, systoleS: rate.cycleS - rate.systoleS };
 }
 
 /**

@@ -13,7 +13,9 @@ const params: DurationParameters = {
 
 /** Emissions that favour the true state by `margin` (log units), for a known state sequence. */
 function emissionsFor(truth: number[], margin: number): Float64Array[] {
-  return Array.from({ length: STATE_COUNT }, (_, s) => Float64Array.from(truth, (t) => (t === s ? 0 : -margin)));
+  return Array.from({ length: STATE_COUNT }, (_, s) =>
+    Float64Array.from(truth, (t) => (t === s ? 0 : -margin)),
+  );
 }
 
 function sequence(runs: [number, number][]): number[] {
@@ -24,7 +26,12 @@ describe('hidden semi-Markov segmentation', () => {
   // The expected behaviour is the definition of the model (Springer et al., IEEE TBME 2016): cyclic
   // S1 → systole → S2 → diastole with Gaussian durations; with clear emissions the decoded path is the truth.
   test('when emissions clearly mark each state, then the decoded sequence is the true one, edges included', () => {
-    const cycle: [number, number][] = [[0, 6], [1, 10], [2, 5], [3, 19]];
+    const cycle: [number, number][] = [
+      [0, 6],
+      [1, 10],
+      [2, 5],
+      [3, 19],
+    ];
     const truth = sequence([[3, 7], ...cycle, ...cycle, ...cycle, [0, 6], [1, 4]]);
     const durations = stateDurations(params, 0.8, 0.32, 50);
     const { states } = viterbiSegment(emissionsFor(truth, 3), durations);
@@ -43,7 +50,16 @@ describe('hidden semi-Markov segmentation', () => {
   });
 
   test('when the state order is violated by the emissions, then the path still follows S1 → systole → S2 → diastole', () => {
-    const noisy = sequence([[0, 6], [2, 5], [1, 10], [3, 19], [0, 6], [1, 10], [2, 5], [3, 19]]);
+    const noisy = sequence([
+      [0, 6],
+      [2, 5],
+      [1, 10],
+      [3, 19],
+      [0, 6],
+      [1, 10],
+      [2, 5],
+      [3, 19],
+    ]);
     const { states } = viterbiSegment(emissionsFor(noisy, 1), stateDurations(params, 0.8, 0.32, 50));
     for (let t = 1; t < states.length; t++) {
       if (states[t] !== states[t - 1]) expect(states[t]).toBe((states[t - 1] + 1) % STATE_COUNT);
@@ -56,7 +72,10 @@ describe('hidden semi-Markov segmentation', () => {
 describe('spike removal', () => {
   test('when one window holds a spike ten times the typical level, then it is silenced and the rest is untouched', () => {
     const rate = 1000;
-    const signal = Float64Array.from({ length: 5000 }, (_, i) => 0.1 * Math.sin((2 * Math.PI * 30 * i) / rate));
+    const signal = Float64Array.from(
+      { length: 5000 },
+      (_, i) => 0.1 * Math.sin((2 * Math.PI * 30 * i) / rate),
+    );
     for (let i = 2200; i < 2205; i++) signal[i] = 1;
     const cleaned = removeSpikes(signal, rate);
     expect(Math.max(...Array.from(cleaned.subarray(2000, 2500), Math.abs))).toBeLessThanOrEqual(0.1 + 1e-9);

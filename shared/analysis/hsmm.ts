@@ -66,7 +66,12 @@ function gaussianDuration(mean: number, std: number, min: number, max: number): 
 }
 
 /** Per-state duration distributions in frames, for a cycle and systolic interval in seconds. */
-export function stateDurations(params: DurationParameters, cycleS: number, systoleS: number, frameRate: number): StateDuration[] {
+export function stateDurations(
+  params: DurationParameters,
+  cycleS: number,
+  systoleS: number,
+  frameRate: number,
+): StateDuration[] {
   const f = frameRate;
   const s1Mean = params.s1MeanS * f;
   const s1Std = Math.max(params.s1StdS * f, 0.5);
@@ -80,7 +85,12 @@ export function stateDurations(params: DurationParameters, cycleS: number, systo
     gaussianDuration(s1Mean, s1Std, s1Mean - 3 * s1Std, s1Mean + 3 * s1Std),
     gaussianDuration(systoleMean, systoleStd, systoleMean - 3 * systoleStd, systoleMean + 3 * systoleStd),
     gaussianDuration(s2Mean, s2Std, s2Mean - 3 * s2Std, s2Mean + 3 * s2Std),
-    gaussianDuration(diastoleMean, diastoleStd, diastoleMean - 3 * diastoleStd, diastoleMean + 3 * diastoleStd),
+    gaussianDuration(
+      diastoleMean,
+      diastoleStd,
+      diastoleMean - 3 * diastoleStd,
+      diastoleMean + 3 * diastoleStd,
+    ),
   ];
 }
 
@@ -111,7 +121,12 @@ export function emissionLogLikelihoods(series: Float64Array[], model: EmissionMo
   return out;
 }
 
-export function emissionInput(series: Float64Array[], offsets: number[], t: number, into: Float64Array): void {
+export function emissionInput(
+  series: Float64Array[],
+  offsets: number[],
+  t: number,
+  into: Float64Array,
+): void {
   const frames = series[0].length;
   let k = 0;
   for (const offset of offsets) {

@@ -39,7 +39,8 @@ function energy(signal: Float64Array, { start, end }: Span): number {
 
 export function peak(signal: Float64Array, { start, end }: Span): number {
   let top = 0;
-  for (let i = Math.max(0, start); i < Math.min(signal.length, end); i++) top = Math.max(top, Math.abs(signal[i]));
+  for (let i = Math.max(0, start); i < Math.min(signal.length, end); i++)
+    top = Math.max(top, Math.abs(signal[i]));
   return top;
 }
 
@@ -63,7 +64,9 @@ export function measure(signal: Float64Array, sampleRate: number, sounds: SoundS
     const s1Level = rms(signal, s1);
     const s2Level = rms(signal, s2);
     const systolic = ratio(rms(signal, { start: s1.end, end: s2.start }), (s1Level + s2Level) / 2);
-    const diastolic = next ? ratio(rms(signal, { start: s2.end, end: next.start }), (s2Level + rms(signal, next)) / 2) : null;
+    const diastolic = next
+      ? ratio(rms(signal, { start: s2.end, end: next.start }), (s2Level + rms(signal, next)) / 2)
+      : null;
     beats.push({
       s1StartS: toS(s1.start),
       s1EndS: toS(s1.end),

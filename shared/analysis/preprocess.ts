@@ -28,7 +28,11 @@ function bandFilters(sampleRate: number) {
   return pair;
 }
 
-export function toWorkingRate(samples: ArrayLike<number>, sampleRate: number, targetRate = WORKING_RATE): WorkingSignal {
+export function toWorkingRate(
+  samples: ArrayLike<number>,
+  sampleRate: number,
+  targetRate = WORKING_RATE,
+): WorkingSignal {
   const { up, down } = resampleRatio(sampleRate, targetRate);
   return { signal: resamplePoly(samples, up, down), sampleRate: (sampleRate * up) / down };
 }

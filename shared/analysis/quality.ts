@@ -35,14 +35,31 @@ type Severity = 'usable' | 'retake';
 export function assessQuality(input: QualityInput): Quality {
   const limits = QUALITY_LIMITS;
   const found: { code: QualityReason; message: string; severity: Severity }[] = [];
-  const add = (code: QualityReason, severity: Severity, message: string) => found.push({ code, message, severity });
+  const add = (code: QualityReason, severity: Severity, message: string) =>
+    found.push({ code, message, severity });
   const { durationS, clippedFraction, level, periodicity, metrics } = input;
 
-  if (durationS < limits.retakeBelowS) add('too_short', 'retake', `The clip lasts ${durationS.toFixed(1)} s; record at least ${limits.usableBelowS} s.`);
-  else if (durationS < limits.usableBelowS) add('too_short', 'usable', `The clip lasts ${durationS.toFixed(1)} s; ${limits.usableBelowS} s or more gives steadier figures.`);
+  if (durationS < limits.retakeBelowS)
+    add(
+      'too_short',
+      'retake',
+      `The clip lasts ${durationS.toFixed(1)} s; record at least ${limits.usableBelowS} s.`,
+    );
+  else if (durationS < limits.usableBelowS)
+    add(
+      'too_short',
+      'usable',
+      `The clip lasts ${durationS.toFixed(1)} s; ${limits.usableBelowS} s or more gives steadier figures.`,
+    );
 
-  if (clippedFraction > limits.retakeClippedFraction) add('clipped', 'retake', 'The signal hits the top of its range often; lower the gain or press more lightly.');
-  else if (clippedFraction > limits.usableClippedFraction) add('clipped', 'usable', 'The signal hits the top of its range now and then.');
+  if (clippedFraction > limits.retakeClippedFraction)
+    add(
+      'clipped',
+      'retake',
+      'The signal hits the top of its range often; lower the gain or press more lightly.',
+    );
+  else if (clippedFraction > limits.usableClippedFraction)
+    add('clipped', 'usable', 'The signal hits the top of its range now and then.');
 
   const silent = level < limits.silentLevel;
   // a murmur fills one rest interval; noise fills both, so the quieter of the two measures the noise
@@ -52,17 +69,30 @@ export function assessQuality(input: QualityInput): Quality {
   if (durationS >= limits.retakeBelowS) {
     noBeat = silent || metrics.heartRateBpm === null || !hasRest || restActivity > limits.noBeatRestActivity;
     if (silent) add('no_heartbeat', 'retake', 'The clip is silent.');
-    else if (noBeat) add('no_heartbeat', 'retake', 'No distinct heart sounds were found; check the placement of the chest piece.');
-    else if (restActivity > limits.retakeRestActivity) add('too_noisy', 'retake', 'Background sound is nearly as loud as the heart sounds.');
-    else if (restActivity > limits.usableRestActivity) add('too_noisy', 'usable', 'There is noticeable background sound between the heart sounds.');
+    else if (noBeat)
+      add(
+        'no_heartbeat',
+        'retake',
+        'No distinct heart sounds were found; check the placement of the chest piece.',
+      );
+    else if (restActivity > limits.retakeRestActivity)
+      add('too_noisy', 'retake', 'Background sound is nearly as loud as the heart sounds.');
+    else if (restActivity > limits.usableRestActivity)
+      add('too_noisy', 'usable', 'There is noticeable background sound between the heart sounds.');
   }
   if (durationS >= limits.retakeBelowS && !noBeat) {
-    if (metrics.usableCycles < limits.retakeCycles) add('too_few_cycles', 'retake', `Only ${metrics.usableCycles} clean heart cycles were found.`);
-    else if (metrics.usableCycles < limits.usableCycles) add('too_few_cycles', 'usable', `Only ${metrics.usableCycles} clean heart cycles were found.`);
+    if (metrics.usableCycles < limits.retakeCycles)
+      add('too_few_cycles', 'retake', `Only ${metrics.usableCycles} clean heart cycles were found.`);
+    else if (metrics.usableCycles < limits.usableCycles)
+      add('too_few_cycles', 'usable', `Only ${metrics.usableCycles} clean heart cycles were found.`);
   }
   const rate = metrics.heartRateBpm;
   if (rate !== null && (rate < limits.lowRateBpm || rate > limits.highRateBpm)) {
-    add('rate_out_of_range', 'usable', `The rate of ${Math.round(rate)} bpm is outside the ${limits.lowRateBpm}–${limits.highRateBpm} bpm range this analysis is checked for.`);
+    add(
+      'rate_out_of_range',
+      'usable',
+      `The rate of ${Math.round(rate)} bpm is outside the ${limits.lowRateBpm}–${limits.highRateBpm} bpm range this analysis is checked for.`,
+    );
   }
 
   const verdict = found.some((f) => f.severity === 'retake') ? 'retake' : found.length ? 'usable' : 'good';

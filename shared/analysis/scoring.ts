@@ -50,9 +50,16 @@ function isAnnotated(segments: AnnotatedSegment[], t: number): boolean {
   return false;
 }
 
-export function scoreSounds(detected: DetectedSound[], segments: AnnotatedSegment[], toleranceS: number): Counts {
+export function scoreSounds(
+  detected: DetectedSound[],
+  segments: AnnotatedSegment[],
+  toleranceS: number,
+): Counts {
   let counts = emptyCounts();
-  for (const [type, label] of [['S1', 1], ['S2', 3]] as const) {
+  for (const [type, label] of [
+    ['S1', 1],
+    ['S2', 3],
+  ] as const) {
     const truth = segments.filter((s) => s.label === label).map((s) => (s.startS + s.endS) / 2);
     const used = new Uint8Array(truth.length);
     let tp = 0;
@@ -63,7 +70,12 @@ export function scoreSounds(detected: DetectedSound[], segments: AnnotatedSegmen
       if (!isAnnotated(segments, mid)) continue;
       let best = -1;
       for (let i = 0; i < truth.length; i++) {
-        if (!used[i] && Math.abs(truth[i] - mid) <= toleranceS && (best < 0 || Math.abs(truth[i] - mid) < Math.abs(truth[best] - mid))) best = i;
+        if (
+          !used[i] &&
+          Math.abs(truth[i] - mid) <= toleranceS &&
+          (best < 0 || Math.abs(truth[i] - mid) < Math.abs(truth[best] - mid))
+        )
+          best = i;
       }
       if (best >= 0) {
         used[best] = 1;

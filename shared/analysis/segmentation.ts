@@ -1,8 +1,17 @@
-import { stateRuns } from './segmentation-runs';
-export { stateRuns, type StateRun } from './segmentation-runs';
 import { type FrameFeatures } from './features';
-import { periodicityAt, rateCandidates, withSwappedSystole, type RateEstimate } from './heart-rate';
-import { emissionLogLikelihoods, stateDurations, viterbiSegment, type HsmmModel } from './hsmm';
+import { periodicityAt, rateCandidates, type RateEstimate } from './heart-rate';
+import {
+  emissionLogLikelihoods,
+  STATE_S1,
+  STATE_S2,
+  stateDurations,
+  viterbiSegment,
+  type HsmmModel,
+} from './hsmm';
+import { stateRuns } from './state-runs';
+import { median } from './variability';
+
+export { stateRuns, type StateRun } from './state-runs';
 
 export interface SegmentationResult {
   /** One state per frame: 0 S1, 1 systole, 2 S2, 3 diastole. */
@@ -13,50 +22,49 @@ export interface SegmentationResult {
 }
 
 export function segmentFrames(features: FrameFeatures, model: HsmmModel, candidates = 4): SegmentationResult {
+  const { frameRate } = features;
   const emission = emissionLogLikelihoods(features.series, model.emission);
-  let best: SegmentationResult = { states: new Uint8Array(features.frames).fill(3), frameRate: features.frameRate, rate: null, logLikelihood: -Infinity };
+  let best: SegmentationResult = {
+    states: new Uint8Array(features.frames).fill(3),
+    frameRate,
+    rate: null,
+    logLikelihood: -Infinity,
+  };
+  const tryRate = (rate: RateEstimate) => {
+    const { states, logLikelihood } = viterbiSegment(
+      emission,
+      stateDurations(model.durations, rate.cycleS, rate.systoleS, frameRate),
+    );
+    if (logLikelihood > best.logLikelihood) best = { states, frameRate, rate, logLikelihood };
+  };
   // the highest autocorrelation peak is sometimes the S1–S2 lag or two cycles: let the model judge a few
-  const rates = rateCandidates(features.homomorphic, features.frameRate, candidates).flatMap((r) => {
-    const swapped = withSwappedSystole(r);
-    return swapped ? [r, swapped] : [r];
-  });
-  for (const rate of rates) {
-    const durations = stateDurations(model.durations, rate.cycleS, rate.systoleS, features.frameRate);
-    const { states, logLikelihood } = viterbiSegment(emission, durations);
-    if (logLikelihood > best.logLikelihood) best = { states, frameRate: features.frameRate, rate, logLikelihood };
-  }
-  if (best.rate) {
-    // the autocorrelation peak is blurred by beat-to-beat variation; the first labelling measures the cycle better
-    const measured = measuredRate(best.states, features.frameRate, best.rate);
-    if (measured) {
-      const durations = stateDurations(model.durations, measured.cycleS, measured.systoleS, features.frameRate);
-      const { states, logLikelihood } = viterbiSegment(emission, durations);
-      if (logLikelihood > best.logLikelihood) best = { states, frameRate: features.frameRate, rate: measured, logLikelihood };
-    }
-  }
-  if (best.rate) best = { ...best, rate: { ...best.rate, periodicity: periodicityAt(features.homomorphic, features.frameRate, best.rate.cycleS) } };
-  return best;
+  for (const rate of rateCandidates(features.homomorphic, frameRate, candidates)) tryRate(rate);
+  if (!best.rate) return best;
+  // beat-to-beat variation blurs the autocorrelation peak; the first labelling measures the cycle better
+  const measured = measuredRate(best.states, frameRate, best.rate);
+  if (measured) tryRate(measured);
+  const rate = best.rate as RateEstimate;
+  return {
+    ...best,
+    rate: { ...rate, periodicity: periodicityAt(features.homomorphic, frameRate, rate.cycleS) },
+  };
 }
 
-
-const median = (values: number[]) => {
-  const sorted = [...values].sort((a, b) => a - b);
-  const mid = sorted.length >> 1;
-  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
-};
-
+/** Median S1-to-S1 and S1-to-S2 onset intervals of a labelling. */
 function measuredRate(states: Uint8Array, frameRate: number, estimate: RateEstimate): RateEstimate | null {
-  const sounds = stateRuns(states).filter((r) => r.state === 0 || r.state === 2);
+  const sounds = stateRuns(states).filter((r) => r.state === STATE_S1 || r.state === STATE_S2);
   const cycles: number[] = [];
   const systoles: number[] = [];
   let lastS1 = -1;
   for (let i = 0; i < sounds.length; i++) {
-    if (sounds[i].state !== 0) continue;
+    if (sounds[i].state !== STATE_S1) continue;
     if (lastS1 >= 0) cycles.push(sounds[i].start - lastS1);
     lastS1 = sounds[i].start;
-    if (sounds[i + 1]?.state === 2) systoles.push(sounds[i + 1].start - sounds[i].start);
+    if (sounds[i + 1]?.state === STATE_S2) systoles.push(sounds[i + 1].start - sounds[i].start);
   }
-  if (cycles.length < 3 || systoles.length < 3) return null;
-  const cycleS = median(cycles) / frameRate;
-  return { ...estimate, cycleS, heartRateBpm: 60 / cycleS, systoleS: median(systoles) / frameRate };
+  const cycle = median(cycles);
+  const systole = median(systoles);
+  if (cycles.length < 3 || systoles.length < 3 || cycle === null || systole === null) return null;
+  const cycleS = cycle / frameRate;
+  return { ...estimate, cycleS, heartRateBpm: 60 / cycleS, systoleS: systole / frameRate };
 }

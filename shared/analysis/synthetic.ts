@@ -34,7 +34,14 @@ export function gaussianRandom(random: () => number): () => number {
   return () => Math.sqrt(-2 * Math.log(random() + 1e-12)) * Math.cos(2 * Math.PI * random());
 }
 
-function addBurst(out: Float32Array, sampleRate: number, onsetS: number, lengthS: number, frequencyHz: number, amplitude: number) {
+function addBurst(
+  out: Float32Array,
+  sampleRate: number,
+  onsetS: number,
+  lengthS: number,
+  frequencyHz: number,
+  amplitude: number,
+) {
   const start = Math.round(onsetS * sampleRate);
   const length = Math.round(lengthS * sampleRate);
   for (let i = 0; i < length && start + i < out.length; i++) {
@@ -61,7 +68,11 @@ export function syntheticBeatTrain(options: BeatTrainOptions): BeatTrain {
   const s1OnsetsS: number[] = [];
   const s2OnsetsS: number[] = [];
   const jitter = options.jitter ?? 0;
-  for (let onset = 0.1 + random() * cycleS; onset < durationS; onset += cycleS * (1 + jitter * (2 * random() - 1))) {
+  for (
+    let onset = 0.1 + random() * cycleS;
+    onset < durationS;
+    onset += cycleS * (1 + jitter * (2 * random() - 1))
+  ) {
     addBurst(samples, sampleRate, onset, 0.1, 55, options.s1Amplitude ?? 0.5);
     addBurst(samples, sampleRate, onset + systoleS, 0.08, 80, options.s2Amplitude ?? 0.35);
     s1OnsetsS.push(onset);

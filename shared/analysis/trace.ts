@@ -13,7 +13,10 @@ export function traceForDisplay(samples: Float32Array, sampleRate: number, point
   const max = new Float32Array(count);
   const durationS = sampleRate > 0 ? samples.length / sampleRate : 0;
   if (count === 0 || samples.length === 0 || !(sampleRate > 800)) return { durationS, min, max };
-  const filtered = bandPass(Float64Array.from(samples, (v) => (Number.isFinite(v) ? v : 0)), sampleRate);
+  const filtered = bandPass(
+    Float64Array.from(samples, (v) => (Number.isFinite(v) ? v : 0)),
+    sampleRate,
+  );
   for (let p = 0; p < count; p++) {
     const from = Math.floor((p * filtered.length) / count);
     const to = Math.max(from + 1, Math.floor(((p + 1) * filtered.length) / count));

@@ -24,7 +24,8 @@ export function rmssd(intervalsMs: number[]): number | null {
 export function pnn50(intervalsMs: number[]): number | null {
   if (intervalsMs.length < 2) return null;
   let count = 0;
-  for (let i = 1; i < intervalsMs.length; i++) if (Math.abs(intervalsMs[i] - intervalsMs[i - 1]) > 50) count++;
+  for (let i = 1; i < intervalsMs.length; i++)
+    if (Math.abs(intervalsMs[i] - intervalsMs[i - 1]) > 50) count++;
   return (100 * count) / intervalsMs.length;
 }
 

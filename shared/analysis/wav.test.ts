@@ -73,42 +73,73 @@ function errorCode(fn: () => unknown): string {
 
 describe('decodeWav', () => {
   test('when the file is 8-bit PCM, then 128 is zero and 0 is full negative scale', () => {
-    const { samples } = decodeWav(buildWav({ format: 1, channels: 1, sampleRate: 8000, bits: 8, frames: [[128], [0], [192]] }));
+    const { samples } = decodeWav(
+      buildWav({ format: 1, channels: 1, sampleRate: 8000, bits: 8, frames: [[128], [0], [192]] }),
+    );
     expect(Array.from(samples)).toEqual([0, -1, 0.5]);
   });
   test('when the file is 16-bit PCM, then -32768 is -1', () => {
-    const { samples, sampleRate, channels } = decodeWav(buildWav({ format: 1, channels: 1, sampleRate: 4000, bits: 16, frames: [[-32768], [16384], [0]] }));
+    const { samples, sampleRate, channels } = decodeWav(
+      buildWav({ format: 1, channels: 1, sampleRate: 4000, bits: 16, frames: [[-32768], [16384], [0]] }),
+    );
     expect([sampleRate, channels]).toEqual([4000, 1]);
     expect(Array.from(samples)).toEqual([-1, 0.5, 0]);
   });
   test('when the file is 24-bit PCM, then the three bytes are read as one signed value', () => {
-    const { samples } = decodeWav(buildWav({ format: 1, channels: 1, sampleRate: 4000, bits: 24, frames: [[-8388608], [4194304], [-1]] }));
+    const { samples } = decodeWav(
+      buildWav({ format: 1, channels: 1, sampleRate: 4000, bits: 24, frames: [[-8388608], [4194304], [-1]] }),
+    );
     expect(samples[0]).toBe(-1);
     expect(samples[1]).toBe(0.5);
     expect(samples[2]).toBeCloseTo(-1 / 8388608, 12);
   });
   test('when the file is 32-bit PCM, then -2^31 is -1', () => {
-    const { samples } = decodeWav(buildWav({ format: 1, channels: 1, sampleRate: 4000, bits: 32, frames: [[-2147483648], [1073741824]] }));
+    const { samples } = decodeWav(
+      buildWav({ format: 1, channels: 1, sampleRate: 4000, bits: 32, frames: [[-2147483648], [1073741824]] }),
+    );
     expect(Array.from(samples)).toEqual([-1, 0.5]);
   });
   test('when the file is 32-bit float, then values pass through', () => {
-    const { samples } = decodeWav(buildWav({ format: 3, channels: 1, sampleRate: 4000, bits: 32, frames: [[0.25], [-0.75]] }));
+    const { samples } = decodeWav(
+      buildWav({ format: 3, channels: 1, sampleRate: 4000, bits: 32, frames: [[0.25], [-0.75]] }),
+    );
     expect(Array.from(samples)).toEqual([0.25, -0.75]);
   });
   test('when the file is stereo, then the channels are averaged to mono', () => {
-    const { samples, channels } = decodeWav(buildWav({ format: 1, channels: 2, sampleRate: 4000, bits: 16, frames: [[16384, 0], [-16384, -16384]] }));
+    const { samples, channels } = decodeWav(
+      buildWav({
+        format: 1,
+        channels: 2,
+        sampleRate: 4000,
+        bits: 16,
+        frames: [
+          [16384, 0],
+          [-16384, -16384],
+        ],
+      }),
+    );
     expect(channels).toBe(2);
     expect(Array.from(samples)).toEqual([0.25, -0.5]);
   });
   test('when the file uses WAVE_FORMAT_EXTENSIBLE with a PCM sub-format, then it decodes like PCM', () => {
-    const { samples } = decodeWav(buildWav({ format: 1, channels: 1, sampleRate: 48000, bits: 16, frames: [[16384]], extensibleSubFormat: 1 }));
+    const { samples } = decodeWav(
+      buildWav({
+        format: 1,
+        channels: 1,
+        sampleRate: 48000,
+        bits: 16,
+        frames: [[16384]],
+        extensibleSubFormat: 1,
+      }),
+    );
     expect(Array.from(samples)).toEqual([0.5]);
   });
   test('when a clip is written with encodeWav16 and read back, then samples agree to 16-bit precision', () => {
     const original = Float32Array.from({ length: 100 }, (_, i) => Math.sin(i / 5) * 0.9);
     const decoded = decodeWav(encodeWav16(original, 2000));
     expect(decoded.sampleRate).toBe(2000);
-    for (let i = 0; i < original.length; i++) expect(Math.abs(decoded.samples[i] - original[i])).toBeLessThan(1 / 16000);
+    for (let i = 0; i < original.length; i++)
+      expect(Math.abs(decoded.samples[i] - original[i])).toBeLessThan(1 / 16000);
   });
 });
 
@@ -122,33 +153,68 @@ describe('decodeWav on bad input', () => {
     expect(errorCode(() => decodeWav(good.slice(0, 30)))).toBe('truncated');
   });
   test('when the header announces more audio than the file holds, then the code is truncated', () => {
-    const lying = buildWav({ format: 1, channels: 1, sampleRate: 4000, bits: 16, frames: [[1], [2]], declaredDataSize: 1_000_000 });
+    const lying = buildWav({
+      format: 1,
+      channels: 1,
+      sampleRate: 4000,
+      bits: 16,
+      frames: [[1], [2]],
+      declaredDataSize: 1_000_000,
+    });
     expect(errorCode(() => decodeWav(lying))).toBe('truncated');
   });
   test('when the bytes are not a RIFF/WAVE file, then the code is not_wav', () => {
-    expect(errorCode(() => decodeWav(new TextEncoder().encode('this is a text file, not audio at all')))).toBe('not_wav');
+    expect(
+      errorCode(() => decodeWav(new TextEncoder().encode('this is a text file, not audio at all'))),
+    ).toBe('not_wav');
   });
   test('when the encoding is ADPCM, a-law or 12-bit PCM, then the code is unsupported_encoding', () => {
-    expect(errorCode(() => decodeWav(buildWav({ format: 2, channels: 1, sampleRate: 4000, bits: 16, frames: [[0]] })))).toBe('unsupported_encoding');
-    expect(errorCode(() => decodeWav(buildWav({ format: 6, channels: 1, sampleRate: 8000, bits: 8, frames: [[0]] })))).toBe('unsupported_encoding');
+    expect(
+      errorCode(() =>
+        decodeWav(buildWav({ format: 2, channels: 1, sampleRate: 4000, bits: 16, frames: [[0]] })),
+      ),
+    ).toBe('unsupported_encoding');
+    expect(
+      errorCode(() =>
+        decodeWav(buildWav({ format: 6, channels: 1, sampleRate: 8000, bits: 8, frames: [[0]] })),
+      ),
+    ).toBe('unsupported_encoding');
     const twelve = buildWav({ format: 1, channels: 1, sampleRate: 4000, bits: 16, frames: [[0]] });
     new DataView(twelve.buffer).setUint16(34, 12, true);
     expect(errorCode(() => decodeWav(twelve))).toBe('unsupported_encoding');
   });
   test('when the sample rate is 0 Hz, below 2 kHz or absurdly high, then the code is bad_sample_rate', () => {
     for (const rate of [0, 1000, 10_000_000]) {
-      expect(errorCode(() => decodeWav(buildWav({ format: 1, channels: 1, sampleRate: rate, bits: 16, frames: [[0]] })))).toBe('bad_sample_rate');
+      expect(
+        errorCode(() =>
+          decodeWav(buildWav({ format: 1, channels: 1, sampleRate: rate, bits: 16, frames: [[0]] })),
+        ),
+      ).toBe('bad_sample_rate');
     }
   });
   test('when float data holds NaN or Infinity, then the code is bad_samples', () => {
-    expect(errorCode(() => decodeWav(buildWav({ format: 3, channels: 1, sampleRate: 4000, bits: 32, frames: [[0], [NaN]] })))).toBe('bad_samples');
-    expect(errorCode(() => decodeWav(buildWav({ format: 3, channels: 1, sampleRate: 4000, bits: 32, frames: [[Infinity]] })))).toBe('bad_samples');
+    expect(
+      errorCode(() =>
+        decodeWav(buildWav({ format: 3, channels: 1, sampleRate: 4000, bits: 32, frames: [[0], [NaN]] })),
+      ),
+    ).toBe('bad_samples');
+    expect(
+      errorCode(() =>
+        decodeWav(buildWav({ format: 3, channels: 1, sampleRate: 4000, bits: 32, frames: [[Infinity]] })),
+      ),
+    ).toBe('bad_samples');
   });
   test('when the data chunk holds no whole sample, then the code is empty', () => {
-    expect(errorCode(() => decodeWav(buildWav({ format: 1, channels: 1, sampleRate: 4000, bits: 16, frames: [] })))).toBe('empty');
+    expect(
+      errorCode(() =>
+        decodeWav(buildWav({ format: 1, channels: 1, sampleRate: 4000, bits: 16, frames: [] })),
+      ),
+    ).toBe('empty');
   });
   test('when the clip is longer than 10 minutes, then the code is too_long', () => {
     const frames = Array.from({ length: 2000 * 601 }, () => [128]);
-    expect(errorCode(() => decodeWav(buildWav({ format: 1, channels: 1, sampleRate: 2000, bits: 8, frames })))).toBe('too_long');
+    expect(
+      errorCode(() => decodeWav(buildWav({ format: 1, channels: 1, sampleRate: 2000, bits: 8, frames }))),
+    ).toBe('too_long');
   });
 });

@@ -33,7 +33,8 @@ interface Format {
 }
 
 function readFormat(view: DataView, offset: number, size: number): Format {
-  if (size < 16) throw new AnalysisError('truncated', `The fmt chunk is ${size} bytes; at least 16 are needed.`);
+  if (size < 16)
+    throw new AnalysisError('truncated', `The fmt chunk is ${size} bytes; at least 16 are needed.`);
   let formatTag = view.getUint16(offset, true);
   const channels = view.getUint16(offset + 2, true);
   const sampleRate = view.getUint32(offset + 4, true);
@@ -52,7 +53,10 @@ function readFormat(view: DataView, offset: number, size: number): Format {
   const encoding = formatTag === FORMAT_FLOAT ? 'float' : 'int';
   const supportedBits = encoding === 'float' ? [32, 64] : [8, 16, 24, 32];
   if (!supportedBits.includes(bitsPerSample)) {
-    throw new AnalysisError('unsupported_encoding', `${bitsPerSample}-bit ${encoding} samples are not supported.`);
+    throw new AnalysisError(
+      'unsupported_encoding',
+      `${bitsPerSample}-bit ${encoding} samples are not supported.`,
+    );
   }
   if (channels < 1 || channels > 32) {
     throw new AnalysisError('bad_channels', `The file declares ${channels} channels.`);
@@ -98,7 +102,8 @@ function sampleReader(view: DataView, format: Format): (offset: number) => numbe
 
 export function decodeWav(bytes: Uint8Array): DecodedWav {
   if (bytes.length === 0) throw new AnalysisError('empty', 'The file is empty.');
-  if (bytes.length < 12) throw new AnalysisError('truncated', `The file is ${bytes.length} bytes, shorter than a WAV header.`);
+  if (bytes.length < 12)
+    throw new AnalysisError('truncated', `The file is ${bytes.length} bytes, shorter than a WAV header.`);
   const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   const riff = fourCC(view, 0);
   if (riff === 'RIFX' || riff === 'RF64') {
@@ -117,7 +122,8 @@ export function decodeWav(bytes: Uint8Array): DecodedWav {
     const size = view.getUint32(offset + 4, true);
     const body = offset + 8;
     if (id === 'fmt ') {
-      if (body + size > bytes.length) throw new AnalysisError('truncated', 'The fmt chunk runs past the end of the file.');
+      if (body + size > bytes.length)
+        throw new AnalysisError('truncated', 'The fmt chunk runs past the end of the file.');
       format = readFormat(view, body, size);
     } else if (id === 'data') {
       dataOffset = body;
