@@ -98,31 +98,32 @@ function filterSql(
     where.push(`(c.first_name || ' ' || c.last_name) ILIKE :q`);
     replacements.q = `%${escapeLike(filter.q)}%`;
   }
-  // Filters on what the analysis found aggregate all the clinic's sites once (a hash join), rather than per session.
-  const needsFacts = filter.flagged !== undefined || filter.quality !== undefined;
-  if (filter.flagged !== undefined) {
-    where.push('coalesce(f.flagged, false) = :flagged');
-    replacements.flagged = filter.flagged;
-  }
+  // Filters on what the analysis found are semi-joins on the covering index of site facts: the planner can
+  // probe it per session or hash it whole, whichever the other filters leave cheaper.
+  const sitesOf = (condition: string) =>
+    `EXISTS (SELECT 1 FROM site_recordings sr ${limitsJoin(limits, replacements)}
+              WHERE sr.clinic_id = :clinicId AND sr.session_id = s.id AND sr.deleted_at IS NULL AND (${condition}))`;
+  const flag = `sr.review_irregular OR sr.review_heart_rate < r.hr_low OR sr.review_heart_rate > r.hr_high
+                OR sr.review_systolic_activity > r.sys_high OR sr.review_diastolic_activity > r.dia_high`;
+  if (filter.flagged === true) where.push(sitesOf(flag));
+  if (filter.flagged === false) where.push(`NOT ${sitesOf(flag)}`);
   if (filter.quality) {
-    where.push('f.worst_rank = :qualityRank');
-    replacements.qualityRank = QUALITY_RANK[filter.quality];
+    // The worst site decides: one site at this verdict and none worse.
+    const worse = (['good', 'usable', 'retake'] as const).filter(
+      (v) => QUALITY_RANK[v] > QUALITY_RANK[filter.quality!],
+    );
+    where.push(sitesOf(`sr.quality_verdict = :quality`));
+    replacements.quality = filter.quality;
+    if (worse.length) {
+      where.push(`NOT ${sitesOf(`sr.quality_verdict IN (:worse)`)}`);
+      replacements.worse = worse;
+    }
   }
-  const facts = needsFacts
-    ? `WITH f AS MATERIALIZED (
-         SELECT session_id, max(rank) AS worst_rank, bool_or(flag) AS flagged
-           FROM (SELECT sr.session_id, ${siteFacts}
-                   FROM site_recordings sr
-                   ${limitsJoin(limits, replacements)}
-                  WHERE sr.clinic_id = :clinicId AND sr.deleted_at IS NULL) x
-          GROUP BY session_id) `
-    : '';
   const from = `
     FROM recording_sessions s
     JOIN clients c ON c.id = s.client_id AND c.clinic_id = s.clinic_id AND c.deleted_at IS NULL
-    LEFT JOIN users u ON u.id = s.operator_id AND u.clinic_id = s.clinic_id
-    ${needsFacts ? 'LEFT JOIN f ON f.session_id = s.id' : ''}`;
-  return { facts, from, where };
+    LEFT JOIN users u ON u.id = s.operator_id AND u.clinic_id = s.clinic_id`;
+  return { from, where };
 }
 
 type ListRow = {
@@ -150,7 +151,7 @@ export async function listReviewSessions(
   limits: ReferralLimits,
 ): Promise<{ rows: (ReviewSessionRow & { sortValue: string })[]; total: number; hasMore: boolean }> {
   const replacements: Record<string, unknown> = {};
-  const { facts, from, where } = filterSql(clinicId, options.filter, limits, replacements);
+  const { from, where } = filterSql(clinicId, options.filter, limits, replacements);
   const sort = SORT_EXPR[options.sort];
   const op = options.dir === 'asc' ? '>' : '<';
   const pageWhere = [...where];
@@ -162,7 +163,7 @@ export async function listReviewSessions(
   replacements.limit = options.limit + 1;
   // The total rides along as a window count, so the filter runs once for both.
   const page = await sequelize.query<{ id: string; sort_value: string; total: string }>(
-    `${facts}SELECT s.id, (${sort.expr})::text AS sort_value, count(*) OVER () AS total
+    `SELECT s.id, (${sort.expr})::text AS sort_value, count(*) OVER () AS total
      ${from}
      WHERE ${pageWhere.join(' AND ')}
      ORDER BY ${sort.expr} ${options.dir}, s.id ${options.dir}
@@ -177,7 +178,7 @@ export async function listReviewSessions(
     delete countReplacements.afterValue;
     delete countReplacements.afterId;
     const counted = await sequelize.query<{ n: string }>(
-      `${facts}SELECT count(*) AS n ${from} WHERE ${where.join(' AND ')}`,
+      `SELECT count(*) AS n ${from} WHERE ${where.join(' AND ')}`,
       {
         replacements: countReplacements,
         type: QueryTypes.SELECT,
