@@ -9,7 +9,13 @@ import { ScreenFrame } from '@/components/ui/screen-frame';
 import { ErrorState, LoadingState } from '@/components/ui/state-views';
 import { sites } from '@/constants/sites';
 import { colors, radii, space } from '@/constants/theme';
-import { localKeys, useFinishSession, useLocalClient, useLocalSession } from '@/hooks/local-store/queries';
+import {
+  localKeys,
+  useClinicKeyPrefetch,
+  useFinishSession,
+  useLocalClient,
+  useLocalSession,
+} from '@/hooks/local-store/queries';
 import { keepTake, setCurrentSite, skipSite } from '@/hooks/local-store/sessions';
 import type { SiteRecording } from '@/hooks/local-store/records';
 import { useLayout } from '@/hooks/use-layout';
@@ -31,6 +37,7 @@ export function CaptureScreen() {
   const finish = useFinishSession();
   const { width, isWide } = useLayout();
   const [saving, setSaving] = useState(false);
+  useClinicKeyPrefetch();
   const [saveError, setSaveError] = useState<string | null>(null);
   const contentWidth = Math.min(contentMax, width - (isWide ? 320 : 32));
 
@@ -174,7 +181,7 @@ export function CaptureScreen() {
 }
 
 const styles = StyleSheet.create({
-  column: { width: '100%', alignSelf: 'center', gap: space.lg },
+  column: { width: '100%', gap: space.lg },
   review: { gap: space.md },
   error: { padding: space.md, borderRadius: radii.md, backgroundColor: colors.dangerSoft },
 });

@@ -1,5 +1,5 @@
 import Svg, { Circle, G, Line, Path, Text as SvgText } from 'react-native-svg';
-import { colors } from '@/constants/theme';
+import { colors, fonts } from '@/constants/theme';
 import type { Site } from '@/shared/protocol';
 
 // Our own front view of a torso; the client's right is the viewer's left. Positions follow the usual landmarks
@@ -76,6 +76,7 @@ export function SitePicture({ site, size = 180 }: { site: Site; size?: number })
               x={spot.x}
               y={spot.y + (active ? 28 : 20)}
               fontSize={11}
+              fontFamily={fonts.bodySemiBold}
               fontWeight="bold"
               fill={active ? colors.accent : colors.textMuted}
               textAnchor="middle"
@@ -85,10 +86,10 @@ export function SitePicture({ site, size = 180 }: { site: Site; size?: number })
           </G>
         );
       })}
-      <SvgText x={22} y={216} fontSize={9} fill={colors.textMuted}>
+      <SvgText x={22} y={216} fontSize={9} fontFamily={fonts.body} fill={colors.textMuted}>
         client’s right
       </SvgText>
-      <SvgText x={178} y={216} fontSize={9} fill={colors.textMuted} textAnchor="end">
+      <SvgText x={178} y={216} fontSize={9} fontFamily={fonts.body} fill={colors.textMuted} textAnchor="end">
         client’s left
       </SvgText>
     </Svg>

@@ -1,6 +1,6 @@
 import { View } from 'react-native';
 import Svg, { Line, Path, Rect, Text as SvgText } from 'react-native-svg';
-import { colors } from '@/constants/theme';
+import { colors, fonts } from '@/constants/theme';
 import type { DisplayTrace } from '@/hooks/local-store/records';
 import type { HeartSound } from '@/shared/analysis/types';
 
@@ -70,6 +70,7 @@ export function TraceView({ trace, sounds, width, height = 150, testID = 'trace'
               x={at}
               y={12}
               fontSize={9}
+              fontFamily={fonts.bodySemiBold}
               fontWeight="bold"
               fill={tint}
               textAnchor="middle"

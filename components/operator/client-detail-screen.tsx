@@ -14,6 +14,7 @@ import { useClientsQuery } from '@/hooks/data/clients';
 import { rememberServerClient } from '@/hooks/local-store/clients';
 import {
   useClientSessions,
+  useClinicKeyPrefetch,
   useCurrentConsent,
   useLocalClient,
   useRecordConsent,
@@ -30,6 +31,7 @@ export function ClientDetailScreen() {
   const record = useRecordConsent();
   const start = useStartSession();
   const [error, setError] = useState<string | null>(null);
+  useClinicKeyPrefetch();
 
   // A client known only from the clinic list is copied to the device so it can be recorded offline.
   const fromServer = server.data?.find((c) => c.id === id);

@@ -175,13 +175,21 @@ afterAll(async () => {
   await browser?.close();
 });
 
-describe('offline capture on the phone', () => {
-  let sessionPath = '';
-  const rates: number[] = [];
+const rates: number[] = [];
+let sessionPath = '';
 
-  test('when the operator signs in online and then loses the network, then a reload still opens the app signed in', async () => {
+describe('offline capture on the phone', () => {
+  test('when the operator signs in online, then loses the network and the access token lapses, then a reload still opens the app signed in', async () => {
     ({ context, page } = await newPage(browser, PHONE));
     await signInOnline(page);
+    // An access token the server no longer accepts stands in for an expired one (tokens are short-lived).
+    await page.evaluate(() => {
+      const session = JSON.parse(localStorage.getItem('fourpoint.session.v1') ?? '{}') as {
+        accessToken: string;
+      };
+      session.accessToken = 'lapsed-access-token';
+      localStorage.setItem('fourpoint.session.v1', JSON.stringify(session));
+    });
     await context.setOffline(true);
     await page.reload();
     await visible(page, 'outbox-screen').waitFor();
@@ -292,12 +300,34 @@ describe('offline capture on the phone', () => {
 });
 
 describe('the capture screens at wide size', () => {
-  test('when the outbox and a sealed session are opened at 1440x900, then they render in the wide layout', async () => {
+  test('when the outbox and a new session are opened at 1440x900, then they work in the wide layout', async () => {
     await page.setViewportSize(WIDE);
     await page.goto('/outbox');
     await visible(page, 'outbox-list').waitFor();
     await visible(page, 'side-nav').waitFor();
     await screenshot(page, 'capture-outbox-wide');
-    await page.goBack();
+    await page.goto(sessionPath);
+    await visible(page, 'capture-finished').waitFor();
+    await visible(page, 'back-to-client').click();
+    await visible(page, 'client-detail').waitFor();
+    await visible(page, 'past-sessions').waitFor();
+    await visible(page, 'start-session').click();
+    await page.waitForURL((url) => url.pathname.startsWith('/capture/') && url.pathname !== sessionPath);
+    await visible(page, 'site-step-mitral').waitFor();
+    await screenshot(page, 'capture-site-wide');
+    await recordSite(page, 'mitral', 'capture-mitral-trace-wide');
+    await visible(page, 'site-step-tricuspid').waitFor();
+  });
+
+  test('when the network returns, then the lapsed access token is refreshed and the clinic list loads', async () => {
+    await context.setOffline(false);
+    await page.goto('/clients');
+    await visible(page, 'clients-list').waitFor();
+    const token = await page.evaluate(
+      () =>
+        (JSON.parse(localStorage.getItem('fourpoint.session.v1') ?? '{}') as { accessToken?: string })
+          .accessToken,
+    );
+    expect(token).not.toBe('lapsed-access-token');
   });
 });
