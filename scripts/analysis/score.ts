@@ -15,7 +15,7 @@ import {
   sensitivity,
   type Counts,
 } from '../../shared/analysis/scoring';
-import { interquartileMean } from '../../shared/analysis/variability';
+import { median } from '../../shared/analysis/variability';
 import { annotatedHeartRate, listRecordings, readSamples, type Segment } from './circor';
 
 /** Our rate from the beats inside the annotated stretch only: the annotation often covers part of the clip. */
@@ -27,8 +27,8 @@ function rateInsideAnnotation(result: ReturnType<typeof analysePcm>, segments: S
   const intervals = result.metrics.beats
     .filter((b) => b.intervalMs !== null && b.s1StartS >= from && (b.nextS1StartS ?? Infinity) <= to)
     .map((b) => b.intervalMs as number);
-  const mean = interquartileMean(intervals);
-  return mean ? 60000 / mean : null;
+  const typical = median(intervals);
+  return typical ? 60000 / typical : null;
 }
 import { fitModel, prepare } from './fit-lib';
 

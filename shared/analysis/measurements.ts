@@ -1,5 +1,5 @@
 import type { BeatDetail, HeartSound, Metrics } from './types';
-import { interquartileMean, isIrregular, median, pnn50, rmssd, sdnn } from './variability';
+import { isIrregular, median, pnn50, rmssd, sdnn } from './variability';
 
 interface Span {
   start: number;
@@ -90,8 +90,9 @@ export function measure(signal: Float64Array, sampleRate: number, sounds: SoundS
   const usable = beats.filter(
     (b) => b.intervalMs !== null && typical !== null && Math.abs(b.intervalMs - typical) <= 0.3 * typical,
   );
-  const meanInterval = interquartileMean(intervals);
-  const heartRateBpm = meanInterval ? 60000 / meanInterval : null;
+  // the same statistic as the CirCor README's rate truth: 60 / median S1-to-S1 interval
+  const typicalInterval = median(intervals);
+  const heartRateBpm = typicalInterval ? 60000 / typicalInterval : null;
   // the clip's first and last sound may be cut by its edges
   const inner = sounds.slice(1, -1);
   const durationsMs = (type: 'S1' | 'S2') =>

@@ -36,16 +36,6 @@ export function median(values: number[]): number | null {
   return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
 }
 
-/** Mean of the middle half: robust to a missed or extra beat, and finer than the frame grid the intervals sit on. */
-export function interquartileMean(values: number[]): number | null {
-  if (values.length === 0) return null;
-  const sorted = [...values].sort((a, b) => a - b);
-  const from = Math.floor(sorted.length / 4);
-  const to = Math.max(from + 1, Math.ceil((3 * sorted.length) / 4));
-  const middle = sorted.slice(from, to);
-  return middle.reduce((a, b) => a + b, 0) / middle.length;
-}
-
 /**
  * Irregular when more than a fifth of the intervals lie over 20 % away from the median interval
  * (common practice, no source: a screening rule of thumb, not a rhythm diagnosis).
