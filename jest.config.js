@@ -15,6 +15,10 @@ const tsJestNode = {
 
 module.exports = {
   testTimeout: 120000,
+  // Two workers even on a 2-core machine: with one, jest runs every file in its own process and the heap
+  // grows until it fails; workers are recycled once they hold more than the limit.
+  maxWorkers: 2,
+  workerIdleMemoryLimit: '1536MB',
   projects: [
     { displayName: 'shared', ...tsJestNode, testMatch: ['<rootDir>/shared/**/*.test.ts'] },
     {
