@@ -87,6 +87,7 @@ function SortHeader({
 export function ReviewSessionsScreen({ testID = 'review-sessions' }: { testID?: string }) {
   const { isWide } = useLayout();
   const [search, setSearch] = useState('');
+  const [showFilters, setShowFilters] = useState(false);
   const q = useDebouncedValue(search.trim(), 300);
   const [status, setStatus] = useState<SessionStatus | undefined>();
   const [flagged, setFlagged] = useState<'true' | 'false' | undefined>();
@@ -127,6 +128,7 @@ export function ReviewSessionsScreen({ testID = 'review-sessions' }: { testID?: 
   };
   const first = (cursors.length - 1) * PAGE + 1;
 
+  const active = [status, flagged, quality, from, to, client, operator].filter(Boolean).length;
   const filtersBar = (
     <View style={styles.filters} testID="session-filters">
       <View style={[styles.inputs, isWide && styles.inputsWide]}>
@@ -139,79 +141,93 @@ export function ReviewSessionsScreen({ testID = 'review-sessions' }: { testID?: 
           testID="filter-search"
           accessibilityLabel="Search client name"
         />
-        <TextInput
-          value={from}
-          onChangeText={setFrom}
-          placeholder="From YYYY-MM-DD"
-          placeholderTextColor={colors.textMuted}
-          style={[styles.input, !dateOk(from) && styles.bad]}
-          testID="filter-from"
-          accessibilityLabel="From date"
-        />
-        <TextInput
-          value={to}
-          onChangeText={setTo}
-          placeholder="To YYYY-MM-DD"
-          placeholderTextColor={colors.textMuted}
-          style={[styles.input, !dateOk(to) && styles.bad]}
-          testID="filter-to"
-          accessibilityLabel="To date"
-        />
-      </View>
-      <View style={styles.chips}>
-        {(['completed', 'reviewed', 'in_progress', 'cancelled'] as const).map((s) => (
-          <Chip
-            key={s}
-            label={statusLabels[s].label}
-            on={status === s}
-            onPress={() => setStatus(status === s ? undefined : s)}
-            testID={`filter-status-${s}`}
-          />
-        ))}
-      </View>
-      <View style={styles.chips}>
-        <Chip
-          label="Flagged for referral"
-          on={flagged === 'true'}
-          onPress={() => setFlagged(flagged === 'true' ? undefined : 'true')}
-          testID="filter-flagged"
-        />
-        <Chip
-          label="Not flagged"
-          on={flagged === 'false'}
-          onPress={() => setFlagged(flagged === 'false' ? undefined : 'false')}
-          testID="filter-not-flagged"
-        />
-        {(['good', 'usable', 'retake'] as const).map((v) => (
-          <Chip
-            key={v}
-            label={`Worst quality: ${v}`}
-            on={quality === v}
-            onPress={() => setQuality(quality === v ? undefined : v)}
-            testID={`filter-quality-${v}`}
-          />
-        ))}
-        {client ? (
-          <Chip
-            label={`Client: ${client.name} ✕`}
-            on
-            onPress={() => setClient(null)}
-            testID="filter-client"
-          />
-        ) : null}
-        {operator ? (
-          <Chip
-            label={`Operator: ${operator.name} ✕`}
-            on
-            onPress={() => setOperator(null)}
-            testID="filter-operator"
+        {!isWide ? (
+          <Button
+            label={showFilters ? 'Hide filters' : `Filters${active ? ` (${active} on)` : ''}`}
+            variant="secondary"
+            testID="filters-toggle"
+            onPress={() => setShowFilters(!showFilters)}
           />
         ) : null}
       </View>
-      {!dateOk(from) || !dateOk(to) ? (
-        <AppText variant="small" color={colors.danger}>
-          Dates are written YYYY-MM-DD, for example 2026-11-30.
-        </AppText>
+      {isWide || showFilters ? (
+        <>
+          <View style={[styles.inputs, isWide && styles.inputsWide]}>
+            <TextInput
+              value={from}
+              onChangeText={setFrom}
+              placeholder="From YYYY-MM-DD"
+              placeholderTextColor={colors.textMuted}
+              style={[styles.input, !dateOk(from) && styles.bad]}
+              testID="filter-from"
+              accessibilityLabel="From date"
+            />
+            <TextInput
+              value={to}
+              onChangeText={setTo}
+              placeholder="To YYYY-MM-DD"
+              placeholderTextColor={colors.textMuted}
+              style={[styles.input, !dateOk(to) && styles.bad]}
+              testID="filter-to"
+              accessibilityLabel="To date"
+            />
+          </View>
+          <View style={styles.chips}>
+            {(['completed', 'reviewed', 'in_progress', 'cancelled'] as const).map((s) => (
+              <Chip
+                key={s}
+                label={statusLabels[s].label}
+                on={status === s}
+                onPress={() => setStatus(status === s ? undefined : s)}
+                testID={`filter-status-${s}`}
+              />
+            ))}
+          </View>
+          <View style={styles.chips}>
+            <Chip
+              label="Flagged for referral"
+              on={flagged === 'true'}
+              onPress={() => setFlagged(flagged === 'true' ? undefined : 'true')}
+              testID="filter-flagged"
+            />
+            <Chip
+              label="Not flagged"
+              on={flagged === 'false'}
+              onPress={() => setFlagged(flagged === 'false' ? undefined : 'false')}
+              testID="filter-not-flagged"
+            />
+            {(['good', 'usable', 'retake'] as const).map((v) => (
+              <Chip
+                key={v}
+                label={`Worst quality: ${v}`}
+                on={quality === v}
+                onPress={() => setQuality(quality === v ? undefined : v)}
+                testID={`filter-quality-${v}`}
+              />
+            ))}
+            {client ? (
+              <Chip
+                label={`Client: ${client.name} ✕`}
+                on
+                onPress={() => setClient(null)}
+                testID="filter-client"
+              />
+            ) : null}
+            {operator ? (
+              <Chip
+                label={`Operator: ${operator.name} ✕`}
+                on
+                onPress={() => setOperator(null)}
+                testID="filter-operator"
+              />
+            ) : null}
+          </View>
+          {!dateOk(from) || !dateOk(to) ? (
+            <AppText variant="small" color={colors.danger}>
+              Dates are written YYYY-MM-DD, for example 2026-11-30.
+            </AppText>
+          ) : null}
+        </>
       ) : null}
     </View>
   );

@@ -103,7 +103,7 @@ export function TraceView({ trace, window, height = 150, cursorS = null, overlay
               y={height + 12}
               fontSize={9}
               fill={colors.textMuted}
-              textAnchor="middle"
+              textAnchor={tx(t) < 12 ? 'start' : tx(t) > width - 12 ? 'end' : 'middle'}
               fontFamily={fonts.mono}
             >
               {`${t}s`}

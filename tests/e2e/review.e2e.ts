@@ -166,6 +166,8 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     const file = path.join(dir, 'report.pdf');
     fs.writeFileSync(file, pdf);
     fs.mkdirSync(screenshotDir, { recursive: true });
+    for (const old of fs.readdirSync(screenshotDir).filter((f) => f.startsWith('review-report-page')))
+      fs.rmSync(path.join(screenshotDir, old));
     execFileSync('/usr/bin/pdftoppm', [
       '-png',
       '-r',

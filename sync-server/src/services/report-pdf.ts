@@ -343,8 +343,12 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
             ? first.range
               ? `${rangeText(first.range)} [${first.range.sourceIndex + 1}]`
               : 'no range set'
-            : 'by site, see below',
-          ...cells.map(mark),
+            : 'differs by site, under each value',
+          ...cells.map((m) =>
+            sameRange || !m
+              ? mark(m)
+              : `${mark(m)}\n${m.range ? `${rangeText(m.range)} [${m.range.sourceIndex + 1}]` : 'no range'}`,
+          ),
         ],
         flagged: cells.map((m) => m?.status === 'above' || m?.status === 'below'),
       };
