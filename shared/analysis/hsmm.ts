@@ -96,6 +96,9 @@ export function stateDurations(
 
 /** Frame-wise log P(state | features) from the multinomial logistic model, divided by the state prior. */
 export function emissionLogLikelihoods(series: Float64Array[], model: EmissionModel): Float64Array[] {
+  if (series.length !== model.features.length) {
+    throw new Error(`The model expects ${model.features.length} feature series, got ${series.length}.`);
+  }
   const frames = series[0]?.length ?? 0;
   const out = Array.from({ length: STATE_COUNT }, () => new Float64Array(frames));
   const { contextOffsets, weights, statePriors } = model;
