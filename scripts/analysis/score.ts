@@ -78,8 +78,8 @@ function main() {
             `HR ${result.heartRateBpm?.toFixed(1)} vs ${truth?.toFixed(1)}`,
             result.quality.verdict,
             result.quality.reasons.map((r) => r.code).join(','),
-            `periodicity ${m.periodicity?.toFixed(2)}`,
-            `rest ${m.restActivity?.toFixed(2)}`,
+            `periodicity ${m?.periodicity?.toFixed(2)}`,
+            `rest ${m?.restActivity?.toFixed(2)}`,
             `cycles ${result.metrics.usableCycles}`,
           ].join('  '),
         );

@@ -15,7 +15,7 @@ export interface Quality {
   verdict: 'good' | 'usable' | 'retake';
   reasons: { code: QualityReason; message: string }[];
   /** The figures the verdict was drawn from. */
-  measures: {
+  measures?: {
     /** Envelope autocorrelation at the heart cycle, 0–1; null when no cycle was found. */
     periodicity: number | null;
     clippedFraction: number;
