@@ -1,5 +1,6 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useLocalSearchParams, useRouter } from 'expo-router';
+import { useEffect } from 'react';
 import { Controller, useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
@@ -20,6 +21,11 @@ export function InviteScreen() {
     resolver: zodResolver(acceptInvitationRequestSchema),
     defaultValues: { name: '', password: '' },
   });
+  // The invited name goes into the form itself, so accepting it as shown submits it.
+  const invitedName = preview.data?.name;
+  useEffect(() => {
+    if (invitedName && !form.getValues('name')) form.setValue('name', invitedName);
+  }, [invitedName, form]);
 
   return (
     <View style={styles.page} testID="invite-screen">
@@ -58,12 +64,11 @@ export function InviteScreen() {
             <Controller
               control={form.control}
               name="name"
-              defaultValue={preview.data.name}
               render={({ field, fieldState }) => (
                 <TextField
                   label="Your name"
                   testID="invite-accept-name"
-                  value={field.value || preview.data.name}
+                  value={field.value}
                   onChangeText={field.onChange}
                   error={fieldState.error?.message}
                 />
@@ -87,9 +92,7 @@ export function InviteScreen() {
               label={accept.isPending ? 'Setting up…' : 'Set password'}
               disabled={accept.isPending}
               testID="invite-accept"
-              onPress={() =>
-                void form.handleSubmit((v) => accept.mutate({ ...v, name: v.name || preview.data.name }))()
-              }
+              onPress={() => void form.handleSubmit((v) => accept.mutate(v))()}
             />
             {accept.isError ? (
               <AppText color={colors.danger} testID="invite-accept-error">

@@ -24,15 +24,19 @@ export const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
 const invalidLink = () =>
   new AppError('invitation_invalid', 'This invitation link is not valid. Ask your admin for a new one.', 404);
 
+// `~` joins the two parts: a `.` would read as a file extension, and the web server's fallback for app routes
+// skips paths that look like files.
+const tokenSeparator = '~';
+
 /** The link carries the invitation id and its expiry, signed with the server's secret. */
 export function signInvitationToken(id: string, expiresAt: Date, secret: string): string {
   const payload = Buffer.from(JSON.stringify({ i: id, e: expiresAt.getTime() })).toString('base64url');
   const signature = createHmac('sha256', secret).update(`invitation.${payload}`).digest('base64url');
-  return `${payload}.${signature}`;
+  return `${payload}${tokenSeparator}${signature}`;
 }
 
 function readInvitationToken(token: string, secret: string): { id: string; expiresAt: number } {
-  const [payload, signature, extra] = token.split('.');
+  const [payload, signature, extra] = token.split(tokenSeparator);
   if (!payload || !signature || extra !== undefined) throw invalidLink();
   const expected = createHmac('sha256', secret).update(`invitation.${payload}`).digest();
   const given = Buffer.from(signature, 'base64url');
