@@ -48,3 +48,17 @@ describe('heart rate of synthetic beat trains', () => {
     expect(Math.abs((analysePcm(samples, 44100).heartRateBpm ?? 0) - 66)).toBeLessThanOrEqual(1);
   });
 });
+
+describe('input sample rates', () => {
+  for (const sampleRate of [2000, 8000, 11025, 22050, 48000, 44101, 96000]) {
+    test(`when a 76 bpm train arrives at ${sampleRate} Hz, then the rate is within 1 bpm and sounds sit at input times`, () => {
+      const train = syntheticBeatTrain({ rateBpm: 76, durationS: 12, sampleRate, noise: 0.01, seed: 5 });
+      const result = analysePcm(train.samples, sampleRate);
+      expect(result.sampleRate).toBe(sampleRate);
+      expect(Math.abs((result.heartRateBpm ?? 0) - 76)).toBeLessThanOrEqual(1);
+      const firstS1 = result.sounds.find((s) => s.type === 'S1' && s.startS > 1);
+      const nearest = Math.min(...train.s1OnsetsS.map((t) => Math.abs(t - (firstS1?.startS ?? -10))));
+      expect(nearest).toBeLessThan(0.06);
+    });
+  }
+});
