@@ -11,6 +11,7 @@ import {
   trendsSchema,
 } from '@/shared/protocol/review';
 import { cautionParagraphs } from '@/constants/cautions';
+import { generateClinicKeyPair, openClip, sealClip } from '@/shared/seal';
 import { AuditEvent } from '@/sync-server/src/models';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
 import { createSmtpMailService } from '@/sync-server/src/services/mail';
@@ -133,6 +134,32 @@ describe('session view', () => {
           .entityId!,
       ),
     ).toContain('review.recording.play');
+  });
+
+  test('when the clip was sealed on the device, then the server opens it with the clinic key for the trace, and a wrong key is a 422', async () => {
+    const keys = generateClinicKeyPair();
+    const plain = burstWav([1, 2], salt + 1);
+    const sealedClip = await storeClip(blobStore, clinic.id, sealClip(plain, keys.publicKey));
+    const session = await addSession({
+      clinicId: clinic.id,
+      clientId: await addClient(clinic.id, 'Sela', 'Sealed'),
+      startedAt: new Date('2026-10-10T09:00:00Z'),
+      sites: { mitral: { heartRateBpm: 70, clip: sealedClip } },
+    });
+    configureReviewServices({ openClip: async (_clinicId, sealed) => openClip(sealed, keys.privateKey) });
+    const res = await request(ctx.app)
+      .get(`/api/review/sessions/${session}/sites/mitral/trace`)
+      .set(auth(tokens.practitioner));
+    expect(res.status).toBe(200);
+    expect(traceSchema.parse(res.body).durationS).toBeCloseTo(4, 3);
+    configureReviewServices({
+      openClip: async (_clinicId, sealed) => openClip(sealed, generateClinicKeyPair().privateKey),
+    });
+    const wrong = await request(ctx.app)
+      .get(`/api/review/sessions/${session}/sites/mitral/trace`)
+      .set(auth(tokens.practitioner));
+    expect(wrong.status).toBe(422);
+    expect(wrong.body.error.code).toBe('clip_unopenable');
   });
 
   test('when a site has no clip, then trace and audio answer 404 with a message', async () => {

@@ -1,8 +1,11 @@
 import path from 'node:path';
-import { LocalDiskBlobStore, type BlobStore } from '../../services/blob-store';
+import { openClip } from '@/shared/seal';
+import type { BlobStore } from '../../services/blob-store';
+import { blobStoreFromEnv } from '../../services/blob-store-config';
+import { ClinicKeyStore } from '../../services/clinic-keys';
 import { mailServiceFromEnv, type MailService } from '../../services/mail';
 
-/** Opens a sealed clip with the clinic's key; absent until the clinic keeps one on the server. */
+/** Opens a sealed clip with the clinic's key. */
 export type ClipOpener = (clinicId: string, sealed: Uint8Array) => Promise<Uint8Array>;
 
 export type ReviewServices = {
@@ -21,17 +24,19 @@ export function configureReviewServices(services: Partial<ReviewServices>): void
   configured = { ...configured, ...services };
 }
 
+// The same configuration the sync side reads (BLOB_STORE, BLOB_DIR, CLINIC_KEYS_DIR), so review reads the clips sync kept.
 export function reviewServices(): ReviewServices {
-  fromEnv ??= {
-    mail: mailServiceFromEnv(),
-    blobStore: new LocalDiskBlobStore(
-      process.env.BLOB_DIR ??
-        path.join(process.env.FOURPOINT_DATA ?? path.resolve(__dirname, '../../../../.data'), 'blobs'),
-    ),
-    mailboxUrl: process.env.MAIL_FAKE_HTTP_PORT
-      ? `http://127.0.0.1:${process.env.MAIL_FAKE_HTTP_PORT}`
-      : null,
-    openClip: null,
-  };
+  if (!fromEnv) {
+    const data = path.resolve(__dirname, '../../../../.data');
+    const keys = new ClinicKeyStore(process.env.CLINIC_KEYS_DIR ?? path.join(data, 'clinic-keys'));
+    fromEnv = {
+      mail: mailServiceFromEnv(),
+      blobStore: blobStoreFromEnv(process.env, process.env.BLOB_DIR ?? path.join(data, 'blobs')),
+      mailboxUrl: process.env.MAIL_FAKE_HTTP_PORT
+        ? `http://127.0.0.1:${process.env.MAIL_FAKE_HTTP_PORT}`
+        : null,
+      openClip: async (clinicId, sealed) => openClip(sealed, keys.privateKey(clinicId)),
+    };
+  }
   return { ...fromEnv, ...configured };
 }

@@ -144,7 +144,15 @@ export async function clipBytes(
   if (!isSealed(bytes)) return bytes;
   if (!services.openClip)
     throw new AppError('clip_sealed', 'The clip is sealed and this server has no key to open it.', 409);
-  return services.openClip(caller.clinicId, bytes);
+  try {
+    return await services.openClip(caller.clinicId, bytes);
+  } catch {
+    throw new AppError(
+      'clip_unopenable',
+      'The clip is sealed with a key this server does not hold, or it is damaged.',
+      422,
+    );
+  }
 }
 
 async function siteRecord(
