@@ -30,7 +30,7 @@ async function openPayment(offerId = 'package-5') {
   const checkoutId = (await ctx.sequelize.query(`SELECT checkout_id FROM payments WHERE id = :id`, {
     replacements: { id: res.body.payment.id },
     type: 'SELECT',
-  })) as [{ checkout_id: string }];
+  })) as unknown as [{ checkout_id: string }];
   return {
     clientId,
     payment: res.body.payment,
@@ -51,7 +51,7 @@ const paymentRow = async (id: string) =>
     (await ctx.sequelize.query(`SELECT status, failure_reason FROM payments WHERE id = :id`, {
       replacements: { id },
       type: 'SELECT',
-    })) as [{ status: string; failure_reason: string | null }]
+    })) as unknown as [{ status: string; failure_reason: string | null }]
   )[0];
 
 describe('card payments through the provider fake', () => {
@@ -133,12 +133,12 @@ describe('card payments through the provider fake', () => {
     const [{ count }] = (await ctx.sequelize.query(
       `SELECT count(*)::int AS count FROM visit_packages WHERE client_id = :clientId`,
       { replacements: { clientId }, type: 'SELECT' },
-    )) as [{ count: number }];
+    )) as unknown as [{ count: number }];
     expect(count).toBe(1);
     const [{ events }] = (await ctx.sequelize.query(
       `SELECT count(*)::int AS events FROM payment_events WHERE event_id = :id`,
       { replacements: { id: completed.id }, type: 'SELECT' },
-    )) as [{ events: number }];
+    )) as unknown as [{ events: number }];
     expect(events).toBe(1);
   });
 

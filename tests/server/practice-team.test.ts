@@ -71,7 +71,7 @@ describe('invitations', () => {
     const [{ count }] = (await ctx.sequelize.query(
       `SELECT count(*)::int AS count FROM users WHERE email = :email`,
       { replacements: { email }, type: 'SELECT' },
-    )) as [{ count: number }];
+    )) as unknown as [{ count: number }];
     expect(count).toBe(1);
     // The first password still works; the second never took effect.
     await signIn(ctx.app, email, 'first password here');
@@ -214,7 +214,7 @@ describe('roles and disabling', () => {
     const [{ count }] = (await ctx.sequelize.query(
       `SELECT count(*)::int AS count FROM users WHERE clinic_id = :id AND role = 'admin' AND NOT disabled`,
       { replacements: { id: c.id }, type: 'SELECT' },
-    )) as [{ count: number }];
+    )) as unknown as [{ count: number }];
     expect(count).toBe(1);
   });
 

@@ -110,11 +110,13 @@ export function ClientRecordScreen() {
       header={
         <View style={styles.row}>
           <Button label="← All clients" variant="ghost" onPress={back} testID="client-record-back" />
-          {client.hasConsent ? (
-            <Badge label="consent on file" tone="good" />
-          ) : (
-            <Badge label="no consent" tone="caution" />
-          )}
+          <View>
+            {client.hasConsent ? (
+              <Badge label="consent on file" tone="good" />
+            ) : (
+              <Badge label="no consent" tone="caution" />
+            )}
+          </View>
           <ExportButton clientId={id} />
         </View>
       }

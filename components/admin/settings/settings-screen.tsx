@@ -22,12 +22,14 @@ function ResetAll() {
   const [asking, setAsking] = useState(false);
   if (!asking) {
     return (
-      <Button
-        label="Reset all to defaults…"
-        variant="secondary"
-        onPress={() => setAsking(true)}
-        testID="ranges-reset-all"
-      />
+      <View style={styles.row}>
+        <Button
+          label="Reset all to defaults…"
+          variant="secondary"
+          onPress={() => setAsking(true)}
+          testID="ranges-reset-all"
+        />
+      </View>
     );
   }
   return (
