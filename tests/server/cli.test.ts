@@ -42,7 +42,8 @@ describe('sync-server/src/main.ts', () => {
   });
 
   test('when it starts, then it prints the URL, answers health, and stops cleanly on SIGTERM', async () => {
-    const child = spawn(TSX, ['sync-server/src/main.ts'], {
+    // Node with tsx's loader, not the tsx wrapper: the wrapper relays signals and reports its own exit code.
+    const child = spawn(process.execPath, ['--import', 'tsx', 'sync-server/src/main.ts'], {
       cwd: ROOT,
       env: { ...process.env, PORT: '0', DATABASE_URL: databaseUrl(), JWT_SECRET: 'x', LOG_LEVEL: 'silent' },
     });

@@ -57,7 +57,7 @@ export default async function globalSetup(): Promise<void> {
       startCluster: (o: { dataDir: string; port: number; database: string; log?: (m: string) => void }) => Promise<Cluster>;
     };
     cluster = await pg.startCluster({
-      dataDir: path.join(root, '.data/test-pg'),
+      dataDir: process.env.FOURPOINT_TEST_PG_DIR ?? path.join(root, '.data/test-pg'),
       port: Number(process.env.TEST_PGPORT ?? 54339),
       database: 'fourpoint_test',
       log: () => undefined,

@@ -12,7 +12,7 @@ export default async function globalSetup(): Promise<void> {
       startCluster: (o: { dataDir: string; port: number; database: string; log?: (m: string) => void }) => Promise<Cluster>;
     };
     const cluster = await pg.startCluster({
-      dataDir: path.join(__dirname, '../../.data/test-pg'),
+      dataDir: process.env.FOURPOINT_TEST_PG_DIR ?? path.join(__dirname, '../../.data/test-pg'),
       port: Number(process.env.TEST_PGPORT ?? 54339),
       database: 'fourpoint_test',
       log: () => undefined,
