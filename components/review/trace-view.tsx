@@ -74,15 +74,15 @@ export function TraceView({ trace, window, height = 150, cursorS = null, overlay
             />
           ))}
           <Line x1={0} y1={height / 2} x2={width} y2={height / 2} stroke={colors.line} strokeWidth={1} />
+          <Path d={areaPath(trace, window, width, height)} fill={colors.ink} />
           {overlay ? (
             <Path
               d={areaPath(overlay.trace, window, width, height, overlay.shiftS)}
               fill={colors.focus}
-              opacity={0.35}
+              opacity={0.6}
               testID={`${testID}-overlay`}
             />
           ) : null}
-          <Path d={areaPath(trace, window, width, height)} fill={colors.ink} />
           {(labelled ? visibleSounds : []).map((s, i) => (
             <SvgText
               key={`l-${s.type}-${i}`}
