@@ -26,11 +26,12 @@ const realDate = (v: string) => {
   return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === v;
 };
 
-// The form holds plain strings; blanks become nulls before the shared schema checks them.
+// The form holds plain strings and checks each field at once; blanks become nulls before the shared schema
+// (lengths and the server's own rules) checks the whole.
 const formSchema = z
   .object({
-    firstName: z.string(),
-    lastName: z.string(),
+    firstName: z.string().trim().min(1, { error: 'First name is required.' }),
+    lastName: z.string().trim().min(1, { error: 'Last name is required.' }),
     dateOfBirth: z
       .string()
       .trim()
@@ -40,7 +41,10 @@ const formSchema = z
       .refine((v) => v === '' || v <= new Date().toISOString().slice(0, 10), {
         error: 'The date of birth cannot be in the future.',
       }),
-    email: z.string().trim(),
+    email: z
+      .string()
+      .trim()
+      .refine((v) => v === '' || z.email().safeParse(v).success, { error: 'Enter a valid e-mail address.' }),
     phone: z.string(),
     notes: z.string(),
   })
