@@ -4,6 +4,9 @@ import path from 'node:path';
 import pino from 'pino';
 import { createApp } from './app';
 import { createSequelize } from './db/database';
+import { startFollowUpReminderJob } from './jobs/follow-up-reminders';
+import { practiceServices } from './services/practice-services';
+import { purgeErased } from './use-cases/clients/erase-client';
 
 const REPO_ROOT = path.resolve(__dirname, '../..');
 const logger = pino({ level: process.env.LOG_LEVEL ?? 'info' });
@@ -24,6 +27,21 @@ function fail(message: string): never {
   process.exit(1);
 }
 
+const REMINDER_INTERVAL_MS = 10 * 60 * 1000;
+const PURGE_INTERVAL_MS = 6 * 60 * 60 * 1000;
+
+/** Follow-up reminders and the purge of erased clients run inside the server process, on timers. */
+function startBackgroundJobs(sequelize: ReturnType<typeof createSequelize>, jwtSecret: string) {
+  const reminders = startFollowUpReminderJob(sequelize, practiceServices().mail, REMINDER_INTERVAL_MS, (error) =>
+    logger.warn({ err: error }, 'follow-up reminder run failed; the next run retries'),
+  );
+  const purge = setInterval(() => {
+    purgeErased({ sequelize, jwtSecret }).catch((error) => logger.warn({ err: error }, 'purge of erased clients failed'));
+  }, PURGE_INTERVAL_MS);
+  purge.unref();
+  return { stop: () => (reminders.stop(), clearInterval(purge)) };
+}
+
 function main(): void {
   const port = Number(process.env.PORT ?? 8080);
   const host = process.env.HOST ?? '127.0.0.1';
@@ -35,7 +53,9 @@ function main(): void {
   const webDist = process.env.WEB_DIST ? path.resolve(process.env.WEB_DIST) : undefined;
 
   const sequelize = createSequelize(databaseUrl);
-  const app = createApp({ sequelize, jwtSecret: jwtSecret(), webDist, logger });
+  const secret = jwtSecret();
+  const app = createApp({ sequelize, jwtSecret: secret, webDist, logger });
+  const backgroundJobs = startBackgroundJobs(sequelize, secret);
   const server = app.listen(port, host);
 
   server.on('listening', () => {
@@ -57,6 +77,7 @@ function main(): void {
     if (closing) return;
     closing = true;
     logger.info({ signal }, 'stopping');
+    backgroundJobs.stop();
     server.close(() => {
       sequelize.close().finally(() => process.exit(0));
     });
