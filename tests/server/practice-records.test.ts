@@ -160,6 +160,19 @@ describe('follow-up reminders', () => {
       reminderStatus: 'none',
     });
   });
+  test('when the client came back before an earlier follow-up date, then neither the due list nor the client table shows that date', async () => {
+    const clientId = await insertClient(ctx.sequelize, clinic.id);
+    const day = 24 * 60 * 60 * 1000;
+    await insertSession(ctx.sequelize, clinic.id, clientId, {
+      startedAt: new Date(Date.now() - 20 * day),
+      followUpDate: isoDay(5),
+    });
+    await insertSession(ctx.sequelize, clinic.id, clientId, { startedAt: new Date(Date.now() - day) });
+    const due = await request(ctx.app).get('/api/follow-ups/due?withinDays=14').set(as('operator'));
+    expect(due.body.due.map((d: { clientId: string }) => d.clientId)).not.toContain(clientId);
+    const record = await request(ctx.app).get(`/api/client-records/${clientId}`).set(as('admin'));
+    expect(record.body.client.nextFollowUp).toBeNull();
+  });
 });
 
 describe('audit log', () => {

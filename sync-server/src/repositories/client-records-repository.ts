@@ -26,11 +26,14 @@ const SORT_SQL: Record<ClientTableQuery['sort'], string> = {
   updatedAt: 'c.updated_at %DIR%',
 };
 
+// next_follow_up is the latest visit's follow-up, as the reminder job and the follow-ups-due list read it: a
+// return visit fulfils the date that an earlier visit set.
 const CLIENT_COLUMNS = `c.id, c.first_name, c.last_name, c.date_of_birth, c.email, c.phone, c.notes, c.version, c.created_at, c.updated_at,
   (SELECT max(s.started_at) FROM recording_sessions s WHERE s.client_id = c.id AND s.deleted_at IS NULL) AS last_visit,
   (SELECT count(*) FROM recording_sessions s WHERE s.client_id = c.id AND s.deleted_at IS NULL) AS visits,
   EXISTS (SELECT 1 FROM consents k WHERE k.client_id = c.id AND k.deleted_at IS NULL) AS has_consent,
-  (SELECT s.follow_up_date FROM recording_sessions s WHERE s.client_id = c.id AND s.deleted_at IS NULL AND s.follow_up_date IS NOT NULL
+  (SELECT s.follow_up_date FROM recording_sessions s
+     WHERE s.client_id = c.id AND s.deleted_at IS NULL AND s.status <> 'cancelled'
      ORDER BY s.started_at DESC LIMIT 1) AS next_follow_up`;
 
 export async function pageClients(sequelize: Sequelize, clinicId: string, query: ClientTableQuery) {
