@@ -54,7 +54,7 @@ export function VerdictPanel({ analysis, busy, onKeep, onRetake }: Props) {
           ))}
         </View>
       ) : null}
-      {irregular || (verdict !== 'good' && reasons.some((r) => r.code === 'rate_out_of_range')) ? (
+      {irregular || reasons.some((r) => r.code === 'rate_out_of_range') ? (
         <AppText variant="smallStrong" color={colors.caution} testID="refer-note">
           Rhythm or rate outside the usual pattern: {referToClinician}.
         </AppText>

@@ -22,15 +22,22 @@ export async function cachedClinicKey(): Promise<Uint8Array | null> {
   return bytesOf(text);
 }
 
-/** Fetches and caches the clinic's sealing key; offline it keeps the cached one. */
-export async function refreshClinicKey(): Promise<Uint8Array | null> {
+/** Fetches the clinic's sealing key and caches it on the device; throws when the server could not say. */
+export async function fetchClinicKey(): Promise<string> {
   const result = await request(
     { method: 'GET', url: '/clinic/public-key', timeout: 8_000 },
     keyResponseSchema,
   );
-  if (result.kind === 'ok') {
-    await AsyncStorage.setItem(key, result.data.publicKey);
-    return bytesOf(result.data.publicKey);
+  if (result.kind !== 'ok') throw new Error(result.message);
+  await AsyncStorage.setItem(key, result.data.publicKey);
+  return result.data.publicKey;
+}
+
+/** Fetches and caches the clinic's sealing key; offline it keeps the cached one. */
+export async function refreshClinicKey(): Promise<Uint8Array | null> {
+  try {
+    return bytesOf(await fetchClinicKey());
+  } catch {
+    return cachedClinicKey();
   }
-  return cachedClinicKey();
 }

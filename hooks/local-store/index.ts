@@ -5,5 +5,5 @@ export * from './outbox';
 export * from './queries';
 export * from './records';
 export * from './sessions';
-export { cachedClinicKey, refreshClinicKey } from './clinic-key';
+export { cachedClinicKey, fetchClinicKey, refreshClinicKey } from './clinic-key';
 export { LocalSyncStorage, localSyncStorage } from './sync-storage';

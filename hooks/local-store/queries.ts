@@ -1,5 +1,4 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { useEffect } from 'react';
 import {
   addClient,
   currentConsent,
@@ -9,7 +8,7 @@ import {
   type NewClient,
   type NewConsent,
 } from './clients';
-import { refreshClinicKey } from './clinic-key';
+import { fetchClinicKey } from './clinic-key';
 import { finishSession } from './finish-session';
 import { listOutbox, pendingOutboxCount } from './outbox';
 import { getSession, listRecordings, listSessionsForClient, startSession } from './sessions';
@@ -118,9 +117,17 @@ export function useFinishSession() {
   });
 }
 
-/** Fetches the clinic's sealing key while online, so sessions finished offline can still be sealed. */
+/**
+ * Fetches the clinic's sealing key while online, so sessions finished offline can still be sealed. Offline the
+ * query pauses and resumes when the network returns; failures are retried.
+ */
 export function useClinicKeyPrefetch(): void {
-  useEffect(() => {
-    void refreshClinicKey().catch(() => undefined);
-  }, []);
+  useQuery({
+    queryKey: ['clinic-public-key'],
+    queryFn: fetchClinicKey,
+    networkMode: 'online',
+    staleTime: 60 * 60 * 1000,
+    retry: 5,
+    retryDelay: (attempt) => Math.min(30_000, 1_000 * 2 ** attempt),
+  });
 }

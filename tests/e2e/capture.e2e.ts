@@ -130,13 +130,19 @@ async function signInOnline(page: Page): Promise<void> {
   await page.waitForURL((url) => url.pathname === '/clients');
   await visible(page, 'operator-home').waitFor();
   // While online, let the service worker take control and the device fetch the clinic's sealing key.
-  await page.evaluate(async () => {
-    await navigator.serviceWorker.ready;
+  await page.waitForFunction(() => navigator.serviceWorker.ready.then(() => true), undefined, {
+    timeout: 60_000,
   });
   await page.goto('/outbox');
   await visible(page, 'outbox-screen').waitFor();
-  await page.waitForFunction(() => Boolean(localStorage.getItem('fourpoint.clinic-public-key.v1')));
-  await page.waitForFunction(() => Boolean(navigator.serviceWorker.controller));
+  await page.waitForFunction(
+    () => Boolean(localStorage.getItem('fourpoint.clinic-public-key.v1')),
+    undefined,
+    { timeout: 30_000 },
+  );
+  await page.waitForFunction(() => Boolean(navigator.serviceWorker.controller), undefined, {
+    timeout: 30_000,
+  });
 }
 
 async function recordSite(page: Page, site: string, name: string): Promise<number> {
@@ -146,9 +152,9 @@ async function recordSite(page: Page, site: string, name: string): Promise<numbe
   await visible(page, 'level-meter').waitFor();
   await visible(page, 'take-result').waitFor({ timeout: 30_000 });
   await visible(page, 'trace').waitFor();
+  await screenshot(page, name);
   expect(await page.locator('[data-testid="mark-S1"]').count()).toBeGreaterThan(3);
   const rate = Number((await visible(page, 'heart-rate').textContent())?.replace(/[^0-9.]/g, ''));
-  await screenshot(page, name);
   await keepTake(page);
   return rate;
 }
