@@ -3,6 +3,7 @@ import { RoleTabs, type TabSpec } from '@/components/nav/role-tabs';
 import {
   AuditIcon,
   BillingIcon,
+  MailIcon,
   OverviewIcon,
   RecordsIcon,
   SettingsIcon,
@@ -18,6 +19,7 @@ const tabs: readonly TabSpec[] = [
   { name: 'audit', title: 'Audit', Icon: AuditIcon },
   { name: 'settings', title: 'Settings', Icon: SettingsIcon },
   { name: 'conflicts/index', title: 'Conflicts', Icon: ConflictsIcon },
+  { name: 'mailbox', title: 'Mailbox', Icon: MailIcon },
 ];
 
 export function AdminLayout() {

@@ -1,5 +1,5 @@
 import type { BottomTabBarProps } from 'expo-router/js-tabs';
-import { Pressable, StyleSheet, View } from 'react-native';
+import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import { useSafeAreaInsets } from 'react-native-safe-area-context';
 import { AppText } from '@/components/ui/app-text';
 import { BrandMark } from '@/components/ui/icons';
@@ -10,10 +10,14 @@ import { SignOutButton } from './sign-out-button';
 
 type Props = BottomTabBarProps & { wide: boolean; tabNames: readonly string[] };
 
+// More tabs than fit a phone's width scroll sideways instead of squeezing their labels.
+const MAX_FIXED_BOTTOM_TABS = 5;
+
 /** Our own tab bar: a side navigation on wide screens, bottom tabs on phones. */
 export function NavBar({ state, descriptors, navigation, wide, tabNames }: Props) {
   const insets = useSafeAreaInsets();
   const auth = useAuth();
+  const scrolls = !wide && tabNames.length > MAX_FIXED_BOTTOM_TABS;
   // Routes that are not tabs (detail pages, steppers) live in the group but stay out of the bar.
   const items = state.routes.map((route, index) => {
     if (!tabNames.includes(route.name)) return null;
@@ -40,7 +44,7 @@ export function NavBar({ state, descriptors, navigation, wide, tabNames }: Props
         accessibilityLabel={label}
         onPress={onPress}
         style={({ pressed }) => [
-          wide ? styles.sideItem : styles.bottomItem,
+          wide ? styles.sideItem : scrolls ? styles.bottomItemScrolling : styles.bottomItem,
           wide && focused && styles.sideItemFocused,
           pressed && (wide ? styles.sideItemPressed : styles.bottomItemPressed),
         ]}
@@ -54,11 +58,22 @@ export function NavBar({ state, descriptors, navigation, wide, tabNames }: Props
   });
 
   if (!wide) {
+    const padding = { paddingBottom: Math.max(insets.bottom, space.sm) };
+    if (scrolls) {
+      return (
+        <View style={[styles.bottom, padding]} testID="bottom-tabs">
+          <ScrollView
+            horizontal
+            showsHorizontalScrollIndicator={false}
+            contentContainerStyle={styles.bottomScroll}
+          >
+            {items}
+          </ScrollView>
+        </View>
+      );
+    }
     return (
-      <View
-        style={[styles.bottom, { paddingBottom: Math.max(insets.bottom, space.sm) }]}
-        testID="bottom-tabs"
-      >
+      <View style={[styles.bottom, padding]} testID="bottom-tabs">
         {items}
       </View>
     );
@@ -102,6 +117,14 @@ const styles = StyleSheet.create({
     paddingTop: space.sm,
   },
   bottomItem: { flex: 1, alignItems: 'center', gap: 2, paddingVertical: space.xs, borderRadius: radii.md },
+  bottomScroll: { paddingHorizontal: space.xs },
+  bottomItemScrolling: {
+    width: 76,
+    alignItems: 'center',
+    gap: 2,
+    paddingVertical: space.xs,
+    borderRadius: radii.md,
+  },
   bottomItemPressed: { backgroundColor: colors.surfaceMuted },
   side: {
     width: sideNavWidth,

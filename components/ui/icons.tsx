@@ -187,3 +187,13 @@ export function SettingsIcon({ color, size = 22 }: IconProps) {
     </Svg>
   );
 }
+
+/** An envelope: delivered mail in the local mailbox. */
+export function MailIcon({ color, size = 22 }: IconProps) {
+  return (
+    <Svg width={size} height={size} viewBox="0 0 24 24">
+      <Rect x={2.5} y={5} width={19} height={14} rx={2.5} stroke={color} {...stroke} />
+      <Path d="M3.5 6.5l8.5 6.5 8.5-6.5" stroke={color} {...stroke} />
+    </Svg>
+  );
+}
