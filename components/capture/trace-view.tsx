@@ -25,7 +25,7 @@ function labelled(sounds: HeartSound[], toX: (s: number) => number, height: numb
 /** The clip as a min/max band per column, with each detected S1 and S2 shaded and labelled. */
 export function TraceView({ trace, sounds, width, height = 150, testID = 'trace' }: Props) {
   const columns = trace.min.length;
-  const labelBand = 18;
+  const labelBand = height < 100 ? 4 : 18;
   const mid = labelBand + (height - labelBand) / 2;
   const peak = Math.max(1e-6, ...trace.max.map(Math.abs), ...trace.min.map(Math.abs));
   const half = (height - labelBand) / 2 - 2;
