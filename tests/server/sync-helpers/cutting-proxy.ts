@@ -40,7 +40,7 @@ export class CuttingProxy {
     }
     const target = new URL(req.url ?? '/', this.target);
     const upstream = http.request(
-      target,
+      target.toString(),
       { method: req.method, headers: { ...req.headers, host: req.headers.host } },
       (answer) => {
         if (outcome === 'drop-response') {
