@@ -1,6 +1,7 @@
 import { RoleGuard } from '@/components/auth/role-guard';
 import { RoleTabs, type TabSpec } from '@/components/nav/role-tabs';
 import { AccountIcon, ClientsIcon, OutboxIcon } from '@/components/ui/icons';
+import { DeviceSyncProvider } from '@/hooks/sync';
 
 const tabs: readonly TabSpec[] = [
   { name: 'clients', title: 'Clients', Icon: ClientsIcon },
@@ -11,7 +12,9 @@ const tabs: readonly TabSpec[] = [
 export function OperatorLayout() {
   return (
     <RoleGuard role="operator">
-      <RoleTabs tabs={tabs} />
+      <DeviceSyncProvider>
+        <RoleTabs tabs={tabs} />
+      </DeviceSyncProvider>
     </RoleGuard>
   );
 }

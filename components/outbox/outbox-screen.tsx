@@ -5,6 +5,7 @@ import { ScreenFrame } from '@/components/ui/screen-frame';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-views';
 import { colors, radii, space } from '@/constants/theme';
 import { useClinicKeyPrefetch, useOutbox } from '@/hooks/local-store/queries';
+import { SyncPanel } from './sync-panel';
 import type { OutboxRow, OutboxState } from '@/hooks/local-store/records';
 
 const stateWords: Record<OutboxState, { label: string; tone: BadgeTone }> = {
@@ -40,6 +41,16 @@ function OutboxItemRow({ item }: { item: OutboxRow }) {
         {item.state === 'sending' ? ` · ${Math.round(item.progress * 100)}%` : ''}
         {item.attempts > 0 ? ` · ${item.attempts} attempt${item.attempts === 1 ? '' : 's'}` : ''}
       </AppText>
+      {item.kind === 'clip' && item.state === 'sending' ? (
+        <View style={styles.track} testID="outbox-progress">
+          <View style={[styles.fill, { width: `${Math.round(item.progress * 100)}%` }]} />
+        </View>
+      ) : null}
+      {item.state === 'waiting' && item.lastError ? (
+        <AppText variant="small" color={colors.textMuted} testID="outbox-retry-reason">
+          Will try again: {item.lastError}
+        </AppText>
+      ) : null}
       {item.state === 'failed' && item.lastError ? (
         <AppText variant="small" color={colors.danger} testID="outbox-error">
           {item.lastError}
@@ -95,7 +106,10 @@ export function OutboxScreen() {
       subtitle="Sealed clips and session records, sent when the clinic can be reached."
       testID="outbox-screen"
     >
-      <View style={styles.column}>{body}</View>
+      <View style={styles.column}>
+        <SyncPanel />
+        {body}
+      </View>
     </ScreenFrame>
   );
 }
@@ -113,4 +127,6 @@ const styles = StyleSheet.create({
   },
   head: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', gap: space.sm },
   label: { flex: 1 },
+  track: { height: 4, borderRadius: radii.pill, backgroundColor: colors.surfaceMuted, overflow: 'hidden' },
+  fill: { height: 4, backgroundColor: colors.pulse },
 });
