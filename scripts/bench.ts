@@ -7,6 +7,7 @@ import path from 'node:path';
 const root = path.resolve(__dirname, '..');
 const benchmarks = [
   { file: 'scripts/analysis/bench.ts', needsDatabase: false },
+  { file: 'scripts/bench/capture-bench.ts', needsDatabase: false },
   { file: 'scripts/bench/sync-bench.ts', needsDatabase: true },
   { file: 'scripts/bench/review-bench.ts', needsDatabase: true },
 ];
@@ -23,7 +24,12 @@ async function main(): Promise<void> {
       if (!cluster) {
         const importEsm = new Function('s', 'return import(s)') as (s: string) => Promise<unknown>;
         const pg = (await importEsm(path.join(root, 'scripts/bootstrap/pg.mjs'))) as {
-          startCluster: (o: { dataDir: string; port: number; database: string; log?: (m: string) => void }) => Promise<Cluster>;
+          startCluster: (o: {
+            dataDir: string;
+            port: number;
+            database: string;
+            log?: (m: string) => void;
+          }) => Promise<Cluster>;
         };
         cluster = await pg.startCluster({
           dataDir: path.join(root, '.data/bench-pg'),
@@ -35,7 +41,11 @@ async function main(): Promise<void> {
       env.DATABASE_URL = cluster.url;
     }
     console.log(`\n== ${bench.file}`);
-    const result = spawnSync(path.join(root, 'node_modules/.bin/tsx'), [bench.file], { cwd: root, stdio: 'inherit', env });
+    const result = spawnSync(path.join(root, 'node_modules/.bin/tsx'), [bench.file], {
+      cwd: root,
+      stdio: 'inherit',
+      env,
+    });
     if (result.status !== 0) failed++;
   }
   cluster?.stop();

@@ -1,4 +1,5 @@
 import type { BottomTabBarProps } from 'expo-router/js-tabs';
+import type { ComponentType } from 'react';
 import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import { useSafeAreaInsets } from 'react-native-safe-area-context';
 import { AppText } from '@/components/ui/app-text';
@@ -8,13 +9,17 @@ import { useAuth } from '@/hooks/auth/auth-context';
 import { roleLabels } from './role-labels';
 import { SignOutButton } from './sign-out-button';
 
-type Props = BottomTabBarProps & { wide: boolean; tabNames: readonly string[] };
+type Props = BottomTabBarProps & {
+  wide: boolean;
+  tabNames: readonly string[];
+  badges?: Readonly<Record<string, ComponentType>>;
+};
 
 // More tabs than fit a phone's width scroll sideways instead of squeezing their labels.
 const MAX_FIXED_BOTTOM_TABS = 5;
 
 /** Our own tab bar: a side navigation on wide screens, bottom tabs on phones. */
-export function NavBar({ state, descriptors, navigation, wide, tabNames }: Props) {
+export function NavBar({ state, descriptors, navigation, wide, tabNames, badges = {} }: Props) {
   const insets = useSafeAreaInsets();
   const auth = useAuth();
   const scrolls = !wide && tabNames.length > MAX_FIXED_BOTTOM_TABS;
@@ -24,6 +29,7 @@ export function NavBar({ state, descriptors, navigation, wide, tabNames }: Props
     const { options } = descriptors[route.key];
     const focused = state.index === index;
     const label = options.title ?? route.name;
+    const Badge = badges[route.name];
     const tint = wide
       ? focused
         ? colors.textOnInk
@@ -53,6 +59,11 @@ export function NavBar({ state, descriptors, navigation, wide, tabNames }: Props
         <AppText variant={wide ? 'smallStrong' : 'caption'} color={tint}>
           {label}
         </AppText>
+        {Badge ? (
+          <View style={wide ? styles.badgeSide : styles.badgeBottom} pointerEvents="none">
+            <Badge />
+          </View>
+        ) : null}
       </Pressable>
     );
   });
@@ -117,6 +128,8 @@ const styles = StyleSheet.create({
     paddingTop: space.sm,
   },
   bottomItem: { flex: 1, alignItems: 'center', gap: 2, paddingVertical: space.xs, borderRadius: radii.md },
+  badgeSide: { marginLeft: 'auto' },
+  badgeBottom: { position: 'absolute', top: 0, left: '55%' },
   bottomScroll: { paddingHorizontal: space.xs },
   bottomItemScrolling: {
     width: 76,

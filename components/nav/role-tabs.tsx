@@ -5,14 +5,22 @@ import { colors } from '@/constants/theme';
 import { useLayout } from '@/hooks/use-layout';
 import { NavBar } from './nav-bar';
 
-export type TabSpec = { name: string; title: string; Icon: ComponentType<IconProps> };
+/** `Badge`, when given, renders beside the tab's label (for example the outbox's queued count). */
+export type TabSpec = { name: string; title: string; Icon: ComponentType<IconProps>; Badge?: ComponentType };
 
 /** One navigator per role group; its tabs are the role's sections. */
 export function RoleTabs({ tabs }: { tabs: readonly TabSpec[] }) {
   const { isWide } = useLayout();
   return (
     <Tabs
-      tabBar={(props) => <NavBar {...props} wide={isWide} tabNames={tabs.map((t) => t.name)} />}
+      tabBar={(props) => (
+        <NavBar
+          {...props}
+          wide={isWide}
+          tabNames={tabs.map((t) => t.name)}
+          badges={Object.fromEntries(tabs.filter((t) => t.Badge).map((t) => [t.name, t.Badge!]))}
+        />
+      )}
       screenOptions={{
         headerShown: false,
         tabBarPosition: isWide ? 'left' : 'bottom',

@@ -11,6 +11,7 @@ import { colors, fonts, radii, space } from '@/constants/theme';
 import { useClientsQuery } from '@/hooks/data/clients';
 import { useDebouncedValue } from '@/hooks/use-debounced-value';
 import { ClientRow } from './client-row';
+import { DeviceClients } from './device-clients';
 import { FollowUpsDue } from './follow-ups-due';
 
 export function OperatorHomeScreen() {
@@ -90,6 +91,8 @@ export function OperatorHomeScreen() {
       testID="operator-home"
       header={searchBox}
     >
+      {/* Clients kept on this device stay listed when the clinic server cannot be reached. */}
+      <DeviceClients search={q} excludeIds={clients.data?.map((c) => c.id) ?? []} />
       {body}
       <CautionNote compact />
     </ScreenFrame>
