@@ -27,7 +27,7 @@ export function SyncPanel() {
             This app is out of date
           </AppText>
           <AppText variant="small" color={colors.danger}>
-            {sync.outdated} Nothing is lost: the outbox keeps everything until the app is updated.
+            {sync.outdated}
           </AppText>
         </View>
       ) : null}
