@@ -8,10 +8,22 @@ export default tseslint.config(
   {
     languageOptions: {
       globals: {
-        console: 'readonly', process: 'readonly', setTimeout: 'readonly', clearTimeout: 'readonly',
-        setInterval: 'readonly', clearInterval: 'readonly', URL: 'readonly', fetch: 'readonly',
-        Buffer: 'readonly', __dirname: 'readonly', require: 'readonly', module: 'writable',
-        self: 'readonly', window: 'readonly', document: 'readonly', navigator: 'readonly',
+        console: 'readonly',
+        process: 'readonly',
+        setTimeout: 'readonly',
+        clearTimeout: 'readonly',
+        setInterval: 'readonly',
+        clearInterval: 'readonly',
+        URL: 'readonly',
+        fetch: 'readonly',
+        Buffer: 'readonly',
+        __dirname: 'readonly',
+        require: 'readonly',
+        module: 'writable',
+        self: 'readonly',
+        window: 'readonly',
+        document: 'readonly',
+        navigator: 'readonly',
       },
     },
     rules: {

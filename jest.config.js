@@ -5,7 +5,15 @@ const tsJestNode = {
       'ts-jest',
       {
         isolatedModules: true,
-        tsconfig: { module: 'commonjs', moduleResolution: 'node', target: 'es2022', esModuleInterop: true, jsx: 'react-jsx', allowJs: true, verbatimModuleSyntax: false },
+        tsconfig: {
+          module: 'commonjs',
+          moduleResolution: 'node',
+          target: 'es2022',
+          esModuleInterop: true,
+          jsx: 'react-jsx',
+          allowJs: true,
+          verbatimModuleSyntax: false,
+        },
       },
     ],
   },
@@ -32,7 +40,11 @@ module.exports = {
       displayName: 'app',
       preset: 'jest-expo',
       setupFiles: ['<rootDir>/tests/support/app-jest-setup.ts'],
-      testMatch: ['<rootDir>/components/**/*.test.tsx', '<rootDir>/hooks/**/*.test.ts?(x)', '<rootDir>/constants/**/*.test.ts'],
+      testMatch: [
+        '<rootDir>/components/**/*.test.tsx',
+        '<rootDir>/hooks/**/*.test.ts?(x)',
+        '<rootDir>/constants/**/*.test.ts',
+      ],
       moduleNameMapper: { '^@/(.*)$': '<rootDir>/$1' },
     },
     {

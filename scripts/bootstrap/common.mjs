@@ -23,7 +23,8 @@ export function ensureNpmPackages(log = console.log) {
   if (fresh) return;
   log('Installing npm packages (npm ci)...');
   const result = spawnSync('npm', ['ci', '--no-audit', '--no-fund'], { cwd: root, stdio: 'inherit' });
-  if (result.status !== 0) throw new SetupError('npm ci failed: check the output above and the npm registry.');
+  if (result.status !== 0)
+    throw new SetupError('npm ci failed: check the output above and the npm registry.');
 }
 
 const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
@@ -34,7 +35,10 @@ export function ensureTestBinaries(log = console.log) {
   if (!fs.existsSync('/usr/bin/chromium')) missing.push('chromium');
   if (!fs.existsSync('/usr/bin/pdftoppm')) missing.push('poppler-utils');
   if (missing.length === 0) return;
-  if (!isRoot) throw new SetupError(`Missing ${missing.join(', ')}: install with sudo apt-get install -y ${missing.join(' ')}`);
+  if (!isRoot)
+    throw new SetupError(
+      `Missing ${missing.join(', ')}: install with sudo apt-get install -y ${missing.join(' ')}`,
+    );
   log(`Installing ${missing.join(', ')} from Debian packages...`);
   aptInstall(missing);
 }

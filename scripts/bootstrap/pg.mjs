@@ -31,14 +31,16 @@ export function ensurePgBinaries(log = console.log) {
   log('Installing PostgreSQL from Debian packages (apt-get install postgresql)...');
   aptInstall(['postgresql']);
   bin = findPgBin();
-  if (!bin) throw new SetupError('apt-get installed postgresql but initdb is still missing; check apt output.');
+  if (!bin)
+    throw new SetupError('apt-get installed postgresql but initdb is still missing; check apt output.');
   return bin;
 }
 
 export function aptInstall(packages) {
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
   const update = spawnSync('apt-get', ['update', '-qq'], { stdio: 'inherit', env });
-  if (update.status !== 0) throw new SetupError('apt-get update failed; check the network to Debian mirrors.');
+  if (update.status !== 0)
+    throw new SetupError('apt-get update failed; check the network to Debian mirrors.');
   const install = spawnSync('apt-get', ['install', '-y', '-qq', ...packages], { stdio: 'inherit', env });
   if (install.status !== 0) throw new SetupError(`apt-get install ${packages.join(' ')} failed.`);
 }
@@ -86,22 +88,41 @@ export async function startCluster({ dataDir, port, database, log = console.log 
 
   if (!fs.existsSync(path.join(dataDir, 'PG_VERSION'))) {
     log(`Creating a PostgreSQL cluster in ${dataDir}`);
-    asPgUser(path.join(bin, 'initdb'), ['-D', dataDir, '-A', 'trust', '-U', user, '-E', 'UTF8', '--no-locale'], {
-      stdio: 'ignore',
-    });
+    asPgUser(
+      path.join(bin, 'initdb'),
+      ['-D', dataDir, '-A', 'trust', '-U', user, '-E', 'UTF8', '--no-locale'],
+      {
+        stdio: 'ignore',
+      },
+    );
   }
 
   let startedHere = false;
-  const status = spawnSync(isRoot ? 'runuser' : path.join(bin, 'pg_ctl'),
-    isRoot ? ['-u', 'postgres', '--', path.join(bin, 'pg_ctl'), '-D', dataDir, 'status'] : ['-D', dataDir, 'status']);
+  const status = spawnSync(
+    isRoot ? 'runuser' : path.join(bin, 'pg_ctl'),
+    isRoot
+      ? ['-u', 'postgres', '--', path.join(bin, 'pg_ctl'), '-D', dataDir, 'status']
+      : ['-D', dataDir, 'status'],
+  );
   if (status.status !== 0) {
     if (!(await portIsFree(port))) {
-      throw new SetupError(`Port ${port} for PostgreSQL is in use; stop what uses it or set PGPORT to another port.`);
+      throw new SetupError(
+        `Port ${port} for PostgreSQL is in use; stop what uses it or set PGPORT to another port.`,
+      );
     }
     try {
       asPgUser(
         path.join(bin, 'pg_ctl'),
-        ['-D', dataDir, '-o', `-c listen_addresses=127.0.0.1 -p ${port} -k ${dataDir} -c fsync=off`, '-l', path.join(dataDir, 'server.log'), '-w', 'start'],
+        [
+          '-D',
+          dataDir,
+          '-o',
+          `-c listen_addresses=127.0.0.1 -p ${port} -k ${dataDir} -c fsync=off`,
+          '-l',
+          path.join(dataDir, 'server.log'),
+          '-w',
+          'start',
+        ],
         { stdio: 'ignore' },
       );
     } catch {
@@ -115,11 +136,24 @@ export async function startCluster({ dataDir, port, database, log = console.log 
 
   const exists = asPgUser(
     path.join(bin, 'psql'),
-    ['-h', '127.0.0.1', '-p', String(port), '-U', user, '-d', 'postgres', '-tAc', `SELECT 1 FROM pg_database WHERE datname='${database}'`],
+    [
+      '-h',
+      '127.0.0.1',
+      '-p',
+      String(port),
+      '-U',
+      user,
+      '-d',
+      'postgres',
+      '-tAc',
+      `SELECT 1 FROM pg_database WHERE datname='${database}'`,
+    ],
     { encoding: 'utf8' },
   ).trim();
   if (exists !== '1') {
-    asPgUser(path.join(bin, 'createdb'), ['-h', '127.0.0.1', '-p', String(port), '-U', user, database], { stdio: 'ignore' });
+    asPgUser(path.join(bin, 'createdb'), ['-h', '127.0.0.1', '-p', String(port), '-U', user, database], {
+      stdio: 'ignore',
+    });
   }
 
   const stop = () => {

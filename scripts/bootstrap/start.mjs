@@ -31,7 +31,10 @@ async function main() {
     PAYMENTS_FAKE_PORT: process.env.PAYMENTS_FAKE_PORT ?? '12111',
     S3_FAKE_PORT: process.env.S3_FAKE_PORT ?? '4569',
   };
-  run(tsxBin(), ['sync-server/src/cli/prepare-db.ts'], { env, failMessage: 'Preparing the database failed (see above).' });
+  run(tsxBin(), ['sync-server/src/cli/prepare-db.ts'], {
+    env,
+    failMessage: 'Preparing the database failed (see above).',
+  });
   run('node', ['scripts/build-web.mjs'], { failMessage: 'Building the web app failed (see above).' });
 
   const fakes = path.join(root, 'sync-server/fakes/run-fakes.ts');

@@ -12,7 +12,14 @@ const artifacts = path.join(root, 'artifacts');
 function jest(projects, outputName, extraArgs = [], env = {}) {
   const outputFile = path.join(artifacts, outputName);
   fs.rmSync(outputFile, { force: true });
-  const args = ['jest', '--selectProjects', ...projects, '--json', `--outputFile=${outputFile}`, ...extraArgs];
+  const args = [
+    'jest',
+    '--selectProjects',
+    ...projects,
+    '--json',
+    `--outputFile=${outputFile}`,
+    ...extraArgs,
+  ];
   const result = spawnSync('npx', args, { cwd: root, stdio: 'inherit', env: { ...process.env, ...env } });
   let passed = 0;
   let failed = 0;
@@ -39,7 +46,12 @@ async function main() {
     log: () => undefined,
   });
   process.on('exit', () => cluster.stop());
-  const env = { DATABASE_URL: cluster.url, FOURPOINT_TEST_PG_URL: cluster.url, CI: '1', EXPO_NO_TELEMETRY: '1' };
+  const env = {
+    DATABASE_URL: cluster.url,
+    FOURPOINT_TEST_PG_URL: cluster.url,
+    CI: '1',
+    EXPO_NO_TELEMETRY: '1',
+  };
 
   const problems = [];
   for (const [name, args] of [

@@ -32,11 +32,16 @@ const PURGE_INTERVAL_MS = 6 * 60 * 60 * 1000;
 
 /** Follow-up reminders and the purge of erased clients run inside the server process, on timers. */
 function startBackgroundJobs(sequelize: ReturnType<typeof createSequelize>, jwtSecret: string) {
-  const reminders = startFollowUpReminderJob(sequelize, practiceServices().mail, REMINDER_INTERVAL_MS, (error) =>
-    logger.warn({ err: error }, 'follow-up reminder run failed; the next run retries'),
+  const reminders = startFollowUpReminderJob(
+    sequelize,
+    practiceServices().mail,
+    REMINDER_INTERVAL_MS,
+    (error) => logger.warn({ err: error }, 'follow-up reminder run failed; the next run retries'),
   );
   const purge = setInterval(() => {
-    purgeErased({ sequelize, jwtSecret }).catch((error) => logger.warn({ err: error }, 'purge of erased clients failed'));
+    purgeErased({ sequelize, jwtSecret }).catch((error) =>
+      logger.warn({ err: error }, 'purge of erased clients failed'),
+    );
   }, PURGE_INTERVAL_MS);
   purge.unref();
   return { stop: () => (reminders.stop(), clearInterval(purge)) };

@@ -11,7 +11,10 @@ export const screenshotDir = path.resolve(__dirname, '../../artifacts/screenshot
 
 export function baseUrl(): string {
   const url = process.env.E2E_BASE_URL;
-  if (!url) throw new Error('E2E_BASE_URL is not set: run the e2e project through jest (its global setup starts the server).');
+  if (!url)
+    throw new Error(
+      'E2E_BASE_URL is not set: run the e2e project through jest (its global setup starts the server).',
+    );
   return url;
 }
 

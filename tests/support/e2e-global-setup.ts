@@ -9,7 +9,14 @@ import { Client } from 'pg';
 const root = path.resolve(__dirname, '../..');
 type Cluster = { url: string; stop: () => void };
 type E2eGlobals = {
-  __fourpointE2e?: { server: ChildProcess; fakes?: ChildProcess; cluster?: Cluster; clusterUrl: string; databaseName: string; stateDir: string };
+  __fourpointE2e?: {
+    server: ChildProcess;
+    fakes?: ChildProcess;
+    cluster?: Cluster;
+    clusterUrl: string;
+    databaseName: string;
+    stateDir: string;
+  };
 };
 
 function freePort(): Promise<number> {
@@ -35,7 +42,8 @@ async function recreateDatabase(clusterUrl: string, name: string): Promise<strin
 async function waitForHealth(url: string, child: ChildProcess): Promise<void> {
   const deadline = Date.now() + 60_000;
   while (Date.now() < deadline) {
-    if (child.exitCode !== null) throw new Error(`The server exited with code ${child.exitCode} during start-up.`);
+    if (child.exitCode !== null)
+      throw new Error(`The server exited with code ${child.exitCode} during start-up.`);
     try {
       const response = await fetch(`${url}/api/health`);
       if (response.ok) return;
@@ -52,9 +60,16 @@ export default async function globalSetup(): Promise<void> {
   let cluster: Cluster | undefined;
   let clusterUrl = process.env.FOURPOINT_TEST_PG_URL;
   if (!clusterUrl) {
-    const importEsm = new Function('specifier', 'return import(specifier)') as (s: string) => Promise<unknown>;
+    const importEsm = new Function('specifier', 'return import(specifier)') as (
+      s: string,
+    ) => Promise<unknown>;
     const pg = (await importEsm(path.join(root, 'scripts/bootstrap/pg.mjs'))) as {
-      startCluster: (o: { dataDir: string; port: number; database: string; log?: (m: string) => void }) => Promise<Cluster>;
+      startCluster: (o: {
+        dataDir: string;
+        port: number;
+        database: string;
+        log?: (m: string) => void;
+      }) => Promise<Cluster>;
     };
     cluster = await pg.startCluster({
       dataDir: process.env.FOURPOINT_TEST_PG_DIR ?? path.join(root, '.data/test-pg'),
@@ -85,7 +100,11 @@ export default async function globalSetup(): Promise<void> {
     S3_FAKE_PORT: String(await freePort()),
   };
 
-  const prepared = spawnSync(tsx, ['sync-server/src/cli/prepare-db.ts'], { cwd: root, env, stdio: 'inherit' });
+  const prepared = spawnSync(tsx, ['sync-server/src/cli/prepare-db.ts'], {
+    cwd: root,
+    env,
+    stdio: 'inherit',
+  });
   if (prepared.status !== 0) throw new Error('Preparing the e2e database failed.');
   if (!fs.existsSync(path.join(root, 'dist/index.html'))) {
     const built = spawnSync('node', ['scripts/build-web.mjs'], { cwd: root, stdio: 'inherit' });

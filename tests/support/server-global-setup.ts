@@ -7,9 +7,16 @@ type Cluster = { url: string; stop: () => void };
 export default async function globalSetup(): Promise<void> {
   if (!process.env.DATABASE_URL) {
     // A real dynamic import: ts-jest would otherwise turn `import()` into `require()` of an ES module.
-    const importEsm = new Function('specifier', 'return import(specifier)') as (s: string) => Promise<unknown>;
+    const importEsm = new Function('specifier', 'return import(specifier)') as (
+      s: string,
+    ) => Promise<unknown>;
     const pg = (await importEsm(path.join(__dirname, '../../scripts/bootstrap/pg.mjs'))) as {
-      startCluster: (o: { dataDir: string; port: number; database: string; log?: (m: string) => void }) => Promise<Cluster>;
+      startCluster: (o: {
+        dataDir: string;
+        port: number;
+        database: string;
+        log?: (m: string) => void;
+      }) => Promise<Cluster>;
     };
     const cluster = await pg.startCluster({
       dataDir: process.env.FOURPOINT_TEST_PG_DIR ?? path.join(__dirname, '../../.data/test-pg'),

@@ -8,13 +8,11 @@ export const listConsentTexts: HandlerFactory = (deps) => async (req, res) => {
 };
 
 export const publishConsentText: HandlerFactory = (deps) => async (req, res) => {
-  res
-    .status(201)
-    .json({
-      text: await texts.publishConsentText(
-        deps,
-        callerOf(req),
-        publishConsentTextRequestSchema.parse(req.body),
-      ),
-    });
+  res.status(201).json({
+    text: await texts.publishConsentText(
+      deps,
+      callerOf(req),
+      publishConsentTextRequestSchema.parse(req.body),
+    ),
+  });
 };
