@@ -40,9 +40,14 @@ export function segmentFrames(features: FrameFeatures, model: HsmmModel, candida
   // the highest autocorrelation peak is sometimes the S1–S2 lag or two cycles: let the model judge a few
   for (const rate of rateCandidates(features.homomorphic, frameRate, candidates)) tryRate(rate);
   if (!best.rate) return best;
-  // beat-to-beat variation blurs the autocorrelation peak; the first labelling measures the cycle better
-  const measured = measuredRate(best.states, frameRate, best.rate);
-  if (measured) tryRate(measured);
+  // beat-to-beat variation blurs the autocorrelation peak; each labelling measures the cycle and systole better,
+  // so re-estimate from the path until the new durations no longer raise its likelihood (at most three rounds)
+  for (let round = 0; round < 3; round++) {
+    const measured = measuredRate(best.states, frameRate, best.rate as RateEstimate);
+    if (!measured) break;
+    tryRate(measured);
+    if (best.rate !== measured) break;
+  }
   const rate = best.rate as RateEstimate;
   return {
     ...best,
