@@ -49,6 +49,11 @@ export function segmentFrames(features: FrameFeatures, model: HsmmModel, candida
     if (best.rate !== measured) break;
   }
   const rate = best.rate as RateEstimate;
+  const adapted = viterbiSegment(
+    recordingAdapted(emission, features.series, best.states),
+    stateDurations(model.durations, rate.cycleS, rate.systoleS, frameRate),
+  );
+  best = { ...best, states: adapted.states, logLikelihood: adapted.logLikelihood };
   return {
     ...best,
     rate: { ...rate, periodicity: periodicityAt(features.homomorphic, frameRate, rate.cycleS) },
@@ -72,4 +77,51 @@ function measuredRate(states: Uint8Array, frameRate: number, estimate: RateEstim
   if (cycles.length < 3 || systoles.length < 3 || cycle === null || systole === null) return null;
   const cycleS = cycle / frameRate;
   return { ...estimate, cycleS, heartRateBpm: 60 / cycleS, systoleS: systole / frameRate };
+}
+
+/**
+ * The emission model is shared by all recordings, but within one recording the S1 sounds resemble each other
+ * and so do the S2 sounds: a diagonal Gaussian per sound type, from the frames the first labelling gave each,
+ * adds the recording's own evidence of which sound a frame belongs to.
+ */
+function recordingAdapted(emission: Float64Array[], series: Float64Array[], states: Uint8Array): Float64Array[] {
+  const features = series.length;
+  const count = [0, 0];
+  const sum = [new Float64Array(features), new Float64Array(features)];
+  const squares = [new Float64Array(features), new Float64Array(features)];
+  for (let t = 0; t < states.length; t++) {
+    const k = states[t] === STATE_S1 ? 0 : states[t] === STATE_S2 ? 1 : -1;
+    if (k < 0) continue;
+    count[k]++;
+    for (let f = 0; f < features; f++) {
+      sum[k][f] += series[f][t];
+      squares[k][f] += series[f][t] ** 2;
+    }
+  }
+  if (count[0] < 10 || count[1] < 10) return emission;
+  const mean = sum.map((s, k) => s.map((v) => v / count[k]));
+  const variance = new Float64Array(features);
+  for (let f = 0; f < features; f++) {
+    const within =
+      squares[0][f] - count[0] * mean[0][f] ** 2 + squares[1][f] - count[1] * mean[1][f] ** 2;
+    variance[f] = Math.max(within / (count[0] + count[1] - 2), 1e-3);
+  }
+  const s1 = Float64Array.from(emission[STATE_S1]);
+  const s2 = Float64Array.from(emission[STATE_S2]);
+  for (let t = 0; t < states.length; t++) {
+    let l1 = 0;
+    let l2 = 0;
+    for (let f = 0; f < features; f++) {
+      l1 -= (series[f][t] - mean[0][f]) ** 2 / (2 * variance[f]);
+      l2 -= (series[f][t] - mean[1][f]) ** 2 / (2 * variance[f]);
+    }
+    const top = Math.max(l1, l2);
+    const norm = top + Math.log(Math.exp(l1 - top) + Math.exp(l2 - top)) - Math.LN2;
+    s1[t] += l1 - norm;
+    s2[t] += l2 - norm;
+  }
+  const out = [...emission];
+  out[STATE_S1] = s1;
+  out[STATE_S2] = s2;
+  return out;
 }
