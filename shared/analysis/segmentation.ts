@@ -50,7 +50,7 @@ export function segmentFrames(features: FrameFeatures, model: HsmmModel, candida
   }
   const rate = best.rate as RateEstimate;
   const adapted = viterbiSegment(
-    recordingAdapted(emission, features.series, best.states),
+    recordingAdapted(emission, ownEvidence(features, model), best.states),
     stateDurations(model.durations, rate.cycleS, rate.systoleS, frameRate),
   );
   best = { ...best, states: adapted.states, logLikelihood: adapted.logLikelihood };
@@ -79,12 +79,25 @@ function measuredRate(states: Uint8Array, frameRate: number, estimate: RateEstim
   return { ...estimate, cycleS, heartRateBpm: 60 / cycleS, systoleS: systole / frameRate };
 }
 
+/** The linear envelopes repeat the log envelope's information: a diagonal Gaussian would count it three times. */
+const OWN_EVIDENCE_FEATURES = ['logHomomorphic', 'band40to60', 'band150to250'];
+
+function ownEvidence(features: FrameFeatures, model: HsmmModel): Float64Array[] {
+  return OWN_EVIDENCE_FEATURES.map((name) => features.series[model.emission.features.indexOf(name)]).filter(
+    (series): series is Float64Array => series !== undefined,
+  );
+}
+
 /**
  * The emission model is shared by all recordings, but within one recording the S1 sounds resemble each other
- * and so do the S2 sounds: a diagonal Gaussian per sound type, from the frames the first labelling gave each,
- * adds the recording's own evidence of which sound a frame belongs to.
+ * and so do the S2 sounds: a diagonal Gaussian per sound type, over the log envelope and band powers of the
+ * frames the first labelling gave each, adds the recording's own evidence of which sound a frame belongs to.
  */
-function recordingAdapted(emission: Float64Array[], series: Float64Array[], states: Uint8Array): Float64Array[] {
+function recordingAdapted(
+  emission: Float64Array[],
+  series: Float64Array[],
+  states: Uint8Array,
+): Float64Array[] {
   const features = series.length;
   const count = [0, 0];
   const sum = [new Float64Array(features), new Float64Array(features)];
@@ -102,8 +115,7 @@ function recordingAdapted(emission: Float64Array[], series: Float64Array[], stat
   const mean = sum.map((s, k) => s.map((v) => v / count[k]));
   const variance = new Float64Array(features);
   for (let f = 0; f < features; f++) {
-    const within =
-      squares[0][f] - count[0] * mean[0][f] ** 2 + squares[1][f] - count[1] * mean[1][f] ** 2;
+    const within = squares[0][f] - count[0] * mean[0][f] ** 2 + squares[1][f] - count[1] * mean[1][f] ** 2;
     variance[f] = Math.max(within / (count[0] + count[1] - 2), 1e-3);
   }
   const s1 = Float64Array.from(emission[STATE_S1]);
