@@ -15,8 +15,8 @@ export function SyncPanel() {
   if (!sync.ready) return null;
   let line: string;
   if (sync.outdated) line = '';
-  else if (sync.running) line = 'Sending to the clinic…';
   else if (!sync.online) line = 'Offline. Everything stays here, sealed, and goes when the network returns.';
+  else if (sync.running) line = 'Sending to the clinic…';
   else if (sync.lastError) line = `Not sent yet: ${sync.lastError} Retrying on its own.`;
   else line = 'Up to date with the clinic.';
   return (
