@@ -2,7 +2,8 @@ import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
 import { colors, radii, space } from '@/constants/theme';
-import { useDeviceSync } from '@/hooks/sync';
+import { useOutboxCount } from '@/hooks/local-store/queries';
+import { useDeviceSync } from '@/hooks/sync/sync-context';
 
 function lastRunWords(at: number | undefined): string {
   if (!at) return 'Not synced yet on this visit.';
@@ -12,12 +13,15 @@ function lastRunWords(at: number | undefined): string {
 /** Whether the device is sending, why it is not, and a manual "Sync now". */
 export function SyncPanel() {
   const sync = useDeviceSync();
+  const pending = useOutboxCount().data ?? 0;
   if (!sync.ready) return null;
   let line: string;
   if (sync.outdated) line = '';
   else if (!sync.online) line = 'Offline. Everything stays here, sealed, and goes when the network returns.';
   else if (sync.running) line = 'Sending to the clinic…';
   else if (sync.lastError) line = `Not sent yet: ${sync.lastError} Retrying on its own.`;
+  else if (pending > 0)
+    line = `${pending} item${pending === 1 ? '' : 's'} not sent yet; each one below says why.`;
   else line = 'Up to date with the clinic.';
   return (
     <View style={styles.panel} testID="sync-panel">
