@@ -51,9 +51,10 @@ export function createHttpTransport(options: HttpTransportOptions): SyncTranspor
     options.axiosInstance ?? axios.create({ baseURL: options.baseUrl, timeout: options.timeoutMs ?? 20_000 });
   const headers = async (): Promise<Record<string, string>> => {
     const token = await options.getAccessToken();
+    // Spelled as the app's API client spells it, so a token it refreshes on a 401 replaces this one.
     return {
       [SYNC_PROTOCOL_HEADER]: String(SYNC_PROTOCOL_VERSION),
-      ...(token ? { authorization: `Bearer ${token}` } : {}),
+      ...(token ? { Authorization: `Bearer ${token}` } : {}),
     };
   };
   const url = (path: string) => (options.axiosInstance ? `${options.baseUrl}${path}` : path);

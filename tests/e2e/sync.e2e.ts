@@ -94,7 +94,7 @@ async function outboxCounts(page: Page): Promise<{ total: number; sent: number; 
 }
 
 describe('offline capture drained to the clinic', () => {
-  test('when a session is captured and finished offline, then the outbox holds it, waiting, and says it is offline', async () => {
+  test('when a session is captured and finished offline and the access token lapses, then the outbox holds it, waiting, and says it is offline', async () => {
     operator = await newPage(browser, PHONE);
     const { context, page } = operator;
     await signInOperatorOnline(page);
@@ -126,9 +126,21 @@ describe('offline capture drained to the clinic', () => {
     expect(counts.sent).toBe(0);
     expect(counts.waiting).toBe(counts.total);
     await screenshot(page, 'sync-outbox-before-phone');
+
+    // An access token the server no longer accepts stands in for one that lapsed while offline.
+    await page.evaluate(() => {
+      const session = JSON.parse(localStorage.getItem('fourpoint.session.v1') ?? '{}') as {
+        accessToken: string;
+      };
+      session.accessToken = 'lapsed-access-token';
+      localStorage.setItem('fourpoint.session.v1', JSON.stringify(session));
+    });
+    await page.reload();
+    await visible(page, 'outbox-list').waitFor();
+    expect(await outboxCounts(page)).toMatchObject({ total: counts.total, sent: 0 });
   });
 
-  test('when the network returns, then every session row and clip reaches "sent" without a tap', async () => {
+  test('when the network returns, then the token is refreshed and every session row and clip reaches "sent" without a tap', async () => {
     const { context, page } = operator;
     await context.setOffline(false);
     await page
@@ -152,6 +164,12 @@ describe('offline capture drained to the clinic', () => {
     expect(await clips.count()).toBe(4);
     for (let i = 0; i < 4; i++) expect(await clips.nth(i).getByTestId('outbox-state-sent').count()).toBe(1);
     await visible(page, 'sync-now').waitFor();
+    const token = await page.evaluate(
+      () =>
+        (JSON.parse(localStorage.getItem('fourpoint.session.v1') ?? '{}') as { accessToken?: string })
+          .accessToken,
+    );
+    expect(token).not.toBe('lapsed-access-token');
     await screenshot(page, 'sync-outbox-after-phone');
   });
 
