@@ -67,7 +67,8 @@ function observedStorage(base: SyncStorage, queryClient: QueryClient): SyncStora
 
 /**
  * Runs the device sync engine for a signed-in operator: drains the outbox at start, every 30 s, when the
- * network returns, after each local change (a finished session queues its rows and clips) and on "Sync now".
+ * network returns (retry waits cut short), after each local change (a finished session queues its rows and
+ * clips) and on "Sync now"; while the browser says it is offline the engine rests.
  * Rows go through the API client, whose interceptor adds the bearer token and refreshes it on a 401; clips go
  * by tus with the stored token. Offline, or with a lapsed token, items stay in the outbox and wait.
  */
@@ -107,12 +108,8 @@ export function DeviceSyncProvider({ children }: { children: ReactNode }) {
           axiosInstance: api,
           getAccessToken: async () => (await loadSession())?.accessToken ?? null,
         }),
-        onOnline: (callback) =>
-          onWindow('online', () => {
-            void makeWaitingDue(storage)
-              .catch(() => undefined)
-              .then(callback);
-          }),
+        // The provider starts and stops the engine with the network itself (below).
+        onOnline: () => () => undefined,
         onStatus: (next) => {
           if (!cancelled) setStatus(next);
         },
@@ -120,10 +117,24 @@ export function DeviceSyncProvider({ children }: { children: ReactNode }) {
       engineRef.current = engine;
       storageRef.current = storage;
       setReady(true);
-      engine.start();
+      if (isOnline()) engine.start();
+    });
+    // Offline, runs would only fail, mark items "sending" for nothing and lengthen their retry waits.
+    const offOffline = onWindow('offline', () => engine?.stop());
+    const offOnline = onWindow('online', () => {
+      const storage = storageRef.current;
+      if (!storage) return;
+      void makeWaitingDue(storage)
+        .catch(() => undefined)
+        .then(() => {
+          engine?.start();
+          void engine?.sync();
+        });
     });
     return () => {
       cancelled = true;
+      offOffline();
+      offOnline();
       engine?.stop();
       engineRef.current = null;
       storageRef.current = null;
@@ -135,7 +146,8 @@ export function DeviceSyncProvider({ children }: { children: ReactNode }) {
   useEffect(() => {
     if (!ready) return;
     return queryClient.getMutationCache().subscribe((event) => {
-      if (event.type === 'updated' && event.action.type === 'success') void engineRef.current?.sync();
+      if (event.type === 'updated' && event.action.type === 'success' && isOnline())
+        void engineRef.current?.sync();
     });
   }, [ready, queryClient]);
 
