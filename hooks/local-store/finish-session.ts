@@ -27,12 +27,23 @@ type PlainClip = { id: string; site: Site; clip_wav: Uint8Array };
 export async function finishSession(sessionId: string, now = new Date()): Promise<{ clips: number }> {
   const key = await cachedClinicKey();
   if (!key) throw new MissingClinicKeyError();
-  const plain = await read((db) =>
-    db.getAllAsync<PlainClip>(
-      "SELECT id, site, clip_wav FROM site_recordings WHERE session_id = ? AND outcome = 'recorded' AND clip_wav IS NOT NULL",
+  // One clip per query: expo-sqlite's web worker returns blobs as views of SQLite's memory, so in a multi-row
+  // read the later rows overwrite the bytes of the earlier ones.
+  const plain = await read(async (db) => {
+    const ids = await db.getAllAsync<{ id: string }>(
+      "SELECT id FROM site_recordings WHERE session_id = ? AND outcome = 'recorded' AND clip_wav IS NOT NULL",
       sessionId,
-    ),
-  );
+    );
+    const clips: PlainClip[] = [];
+    for (const { id } of ids) {
+      const row = await db.getFirstAsync<PlainClip>(
+        'SELECT id, site, clip_wav FROM site_recordings WHERE id = ?',
+        id,
+      );
+      if (row) clips.push({ ...row, clip_wav: new Uint8Array(row.clip_wav) });
+    }
+    return clips;
+  });
   const sealed = plain.map((clip) => {
     const bytes = sealClip(new Uint8Array(clip.clip_wav), key);
     return { ...clip, sealed: bytes, hash: sha256Hex(bytes) };
