@@ -169,6 +169,12 @@ describe('offline capture drained to the clinic', () => {
           .accessToken,
     );
     expect(token).not.toBe('lapsed-access-token');
+    // The run ends with a pull of the clinic's changes; the screenshot shows the settled state.
+    await page.waitForFunction(
+      () => !document.querySelector('[data-testid="sync-status"]')?.textContent?.startsWith('Sending'),
+      undefined,
+      { timeout: 60_000 },
+    );
     await screenshot(page, 'sync-outbox-after-phone');
   });
 
