@@ -6,7 +6,7 @@ import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/text-field';
 import { colors, radii, space } from '@/constants/theme';
-import { consentText, consentTextVersion } from './consent-text';
+import { useClinicConsentText } from '@/hooks/consent/clinic-consent-text';
 
 function today(): string {
   const now = new Date();
@@ -47,13 +47,14 @@ export function ConsentForm({ clientName, onSubmit }: Props) {
     resolver: zodResolver(consentFormSchema(clientName)),
     defaultValues: { signedName: '', signedOn: today() },
   });
+  const shown = useClinicConsentText();
   return (
     <View style={styles.root} testID="consent-form">
       <View style={styles.text}>
         <AppText variant="caption" color={colors.textMuted}>
-          CONSENT · VERSION {consentTextVersion}
+          CONSENT · VERSION {shown.version}
         </AppText>
-        {consentText.map((p) => (
+        {shown.paragraphs.map((p) => (
           <AppText key={p} variant="small" color={colors.text}>
             {p}
           </AppText>
@@ -90,7 +91,7 @@ export function ConsentForm({ clientName, onSubmit }: Props) {
       />
       <Button
         label="Record consent"
-        onPress={handleSubmit((values) => onSubmit({ ...values, textVersion: String(consentTextVersion) }))}
+        onPress={handleSubmit((values) => onSubmit({ ...values, textVersion: String(shown.version) }))}
         testID="consent-submit"
         busy={isSubmitting}
       />

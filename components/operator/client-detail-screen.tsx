@@ -2,7 +2,7 @@ import { router, useLocalSearchParams } from 'expo-router';
 import { useEffect, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { ConsentForm } from '@/components/capture/consent-form';
-import { consentTextVersion } from '@/components/capture/consent-text';
+import { useClinicConsentText } from '@/hooks/consent/clinic-consent-text';
 import { AppText } from '@/components/ui/app-text';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
@@ -26,7 +26,8 @@ export function ClientDetailScreen() {
   const id = String(clientId ?? '');
   const local = useLocalClient(id);
   const server = useClientsQuery('');
-  const consent = useCurrentConsent(id, String(consentTextVersion));
+  const consentTextShown = useClinicConsentText();
+  const consent = useCurrentConsent(id, String(consentTextShown.version));
   const sessions = useClientSessions(id);
   const record = useRecordConsent();
   const start = useStartSession();

@@ -1,6 +1,7 @@
 import { v4 as uuid } from 'uuid';
 import { siteInfo } from '@/constants/sites';
-import { consentTextId } from '@/components/capture/consent-text';
+import { consentTextId as builtInConsentTextId } from '@/components/capture/consent-text';
+import { readCachedConsentText } from '@/hooks/consent/clinic-consent-text';
 import type { Mutation, SyncEntity } from '@/shared/protocol/sync';
 import { sealClip, sha256Hex } from '@/shared/seal';
 import type { Site } from '@/shared/protocol';
@@ -49,6 +50,8 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
     return { ...clip, sealed: bytes, hash: sha256Hex(bytes) };
   });
   const stamp = now.toISOString();
+  // Read before the transaction: the consent row names the clinic's published text of the version signed.
+  const clinicConsentText = await readCachedConsentText();
 
   await transaction(async (db) => {
     const session = await db.getFirstAsync<{
@@ -146,7 +149,10 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
         0,
         {
           clientId: consent.client_id,
-          consentTextId,
+          consentTextId:
+            clinicConsentText && String(clinicConsentText.version) === consent.text_version
+              ? clinicConsentText.id
+              : builtInConsentTextId,
           consentTextVersion: Number(consent.text_version),
           typedName: consent.signed_name,
           consentDate: consent.signed_on,

@@ -178,11 +178,9 @@ describe('offline capture drained to the clinic', () => {
     await screenshot(page, 'sync-outbox-after-phone');
   });
 
-  // Known defect, kept visible: the device queues consent against its built-in wording's id
-  // (components/capture/consent-text.ts), which the server has not published, so the server refuses the row
-  // as a missing parent and it waits with that reason. Turn this into a plain test once consent uses the
-  // clinic's published text.
-  test.failing('when the network returns, then the consent row is accepted as well', async () => {
+  // The device took consent offline against the clinic's published text it fetched after sign-in
+  // (hooks/consent/clinic-consent-text.ts), so the server finds the text the row names.
+  test('when the network returns, then the consent row is accepted as well', async () => {
     const { page } = operator;
     await visible(page, 'sync-now').click();
     const consent = page
