@@ -1,5 +1,6 @@
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
 import { ClientForm } from './client-form';
+import { toShownConsentText } from '@/hooks/consent/clinic-consent-text';
 import { ConsentForm } from './consent-form';
 
 describe('ClientForm', () => {
@@ -44,7 +45,7 @@ describe('ClientForm', () => {
 describe('ConsentForm', () => {
   test('when the typed name differs from the client on file, then consent is refused with the expected name', async () => {
     const onSubmit = jest.fn();
-    render(<ConsentForm clientName="Ilse Vantongeren" onSubmit={onSubmit} />);
+    render(<ConsentForm clientName="Ilse Vantongeren" text={toShownConsentText(null)} onSubmit={onSubmit} />);
     fireEvent.changeText(screen.getByTestId('consent-name'), 'Somebody Else');
     fireEvent.press(screen.getByTestId('consent-submit'));
     const error = await screen.findByTestId('consent-name-error');
@@ -54,7 +55,7 @@ describe('ConsentForm', () => {
 
   test('when the client types their name (any case and spacing), then consent is stored with the text version', async () => {
     const onSubmit = jest.fn().mockResolvedValue(undefined);
-    render(<ConsentForm clientName="Ilse Vantongeren" onSubmit={onSubmit} />);
+    render(<ConsentForm clientName="Ilse Vantongeren" text={toShownConsentText(null)} onSubmit={onSubmit} />);
     fireEvent.changeText(screen.getByTestId('consent-name'), '  ilse   vantongeren ');
     fireEvent.press(screen.getByTestId('consent-submit'));
     await waitFor(() => expect(onSubmit).toHaveBeenCalled());

@@ -6,7 +6,7 @@ import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/text-field';
 import { colors, radii, space } from '@/constants/theme';
-import { useClinicConsentText } from '@/hooks/consent/clinic-consent-text';
+import type { ShownConsentText } from '@/hooks/consent/clinic-consent-text';
 
 function today(): string {
   const now = new Date();
@@ -35,10 +35,12 @@ export type ConsentFormValues = { signedName: string; signedOn: string };
 
 type Props = {
   clientName: string;
+  /** The wording shown and the version recorded (the clinic's published text, or the built-in one). */
+  text: ShownConsentText;
   onSubmit: (values: ConsentFormValues & { textVersion: string }) => Promise<void>;
 };
 
-export function ConsentForm({ clientName, onSubmit }: Props) {
+export function ConsentForm({ clientName, text: shown, onSubmit }: Props) {
   const {
     control,
     handleSubmit,
@@ -47,7 +49,6 @@ export function ConsentForm({ clientName, onSubmit }: Props) {
     resolver: zodResolver(consentFormSchema(clientName)),
     defaultValues: { signedName: '', signedOn: today() },
   });
-  const shown = useClinicConsentText();
   return (
     <View style={styles.root} testID="consent-form">
       <View style={styles.text}>

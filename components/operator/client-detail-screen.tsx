@@ -99,6 +99,7 @@ export function ClientDetailScreen() {
           <View style={styles.card} testID="consent-needed">
             <Badge label="Consent needed before recording" tone="caution" />
             <ConsentForm
+              text={consentTextShown}
               clientName={name}
               onSubmit={async (values) => {
                 setError(null);
