@@ -38,7 +38,19 @@ export function statusOf(value: number | null, range: Range | null): Measurement
 /** Measurements of the recording itself: out of range means retake, not referral. */
 export const recordingQualityKeys = ['usableCycles'] as const;
 
+/**
+ * Beat-interval variability from a clip of seconds, read against references from 5-minute records: a short
+ * clip's figure swings widely, so one outside value is a note to watch across visits, not a referral by itself.
+ */
+export const shortClipVariabilityKeys = ['sdnnMs', 'rmssdMs', 'pnn50'] as const;
+
 export function readingOf(status: MeasurementStatus, key = ''): string {
+  if (
+    (shortClipVariabilityKeys as readonly string[]).includes(key) &&
+    (status === 'below' || status === 'above')
+  ) {
+    return `${status === 'below' ? 'Below' : 'Above'} range for a short clip: compare across visits; if it persists, ${referToClinician}`;
+  }
   if (
     (recordingQualityKeys as readonly string[]).includes(key) &&
     (status === 'below' || status === 'above')
