@@ -1,12 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useLocalSearchParams, useRouter } from 'expo-router';
 import { useEffect } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
 import { ErrorState, LoadingState } from '@/components/ui/state-views';
-import { TextField } from '@/components/ui/text-field';
+import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, radii, space } from '@/constants/theme';
 import { useAcceptInvitationMutation, useInvitationPreviewQuery } from '@/hooks/api/team';
 import { acceptInvitationRequestSchema, type AcceptInvitationRequest } from '@/shared/protocol/practice';
@@ -61,32 +61,13 @@ export function InviteScreen() {
               {preview.data.email} is invited as {preview.data.role}. Choose a password of at least 10
               characters.
             </AppText>
-            <Controller
-              control={form.control}
-              name="name"
-              render={({ field, fieldState }) => (
-                <TextField
-                  label="Your name"
-                  testID="invite-accept-name"
-                  value={field.value}
-                  onChangeText={field.onChange}
-                  error={fieldState.error?.message}
-                />
-              )}
-            />
-            <Controller
+            <FormTextField control={form.control} name="name" label="Your name" testID="invite-accept-name" />
+            <FormTextField
               control={form.control}
               name="password"
-              render={({ field, fieldState }) => (
-                <TextField
-                  label="Password"
-                  testID="invite-accept-password"
-                  secureTextEntry
-                  value={field.value}
-                  onChangeText={field.onChange}
-                  error={fieldState.error?.message}
-                />
-              )}
+              label="Password"
+              testID="invite-accept-password"
+              secureTextEntry
             />
             <Button
               label={accept.isPending ? 'Setting up…' : 'Set password'}

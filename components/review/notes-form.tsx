@@ -1,11 +1,11 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useEffect, useState } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
-import { TextField } from '@/components/ui/text-field';
+import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, radii, space } from '@/constants/theme';
 import { StaleNotesError, useSaveNotesMutation } from '@/hooks/api/review';
 import type { ReviewNotes, StaleNotesDetails } from '@/shared/protocol/review';
@@ -77,55 +77,31 @@ export function NotesForm({
           Only a practitioner can write findings.
         </AppText>
       ) : null}
-      <Controller
+      <FormTextField
         control={form.control}
         name="findings"
-        render={({ field, fieldState }) => (
-          <TextField
-            label="Findings"
-            testID="notes-findings"
-            multiline
-            numberOfLines={4}
-            editable={canEdit}
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-          />
-        )}
+        label="Findings"
+        testID="notes-findings"
+        multiline
+        numberOfLines={4}
+        editable={canEdit}
       />
-      <Controller
+      <FormTextField
         control={form.control}
         name="plan"
-        render={({ field, fieldState }) => (
-          <TextField
-            label="Plan"
-            testID="notes-plan"
-            multiline
-            numberOfLines={3}
-            editable={canEdit}
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-          />
-        )}
+        label="Plan"
+        testID="notes-plan"
+        multiline
+        numberOfLines={3}
+        editable={canEdit}
       />
-      <Controller
+      <FormTextField
         control={form.control}
         name="followUpDate"
-        render={({ field, fieldState }) => (
-          <TextField
-            label="Follow-up date (YYYY-MM-DD)"
-            testID="notes-follow-up"
-            placeholder="2027-01-31"
-            editable={canEdit}
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-          />
-        )}
+        label="Follow-up date (YYYY-MM-DD)"
+        testID="notes-follow-up"
+        placeholder="2027-01-31"
+        editable={canEdit}
       />
       {stale ? (
         <View style={styles.stale} testID="notes-stale" accessibilityRole="alert">

@@ -1,12 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useMemo, useState } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
 import { Panel } from '@/components/ui/panel';
-import { TextField } from '@/components/ui/text-field';
+import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, space } from '@/constants/theme';
 import type { EraseClientResponse } from '@/shared/protocol/practice';
 
@@ -72,21 +72,13 @@ export function ErasePanel({ fullName, onErase, onDone }: Props) {
               {fullName}
             </AppText>
           </AppText>
-          <Controller
+          <FormTextField
             control={form.control}
             name="confirmName"
-            render={({ field, fieldState }) => (
-              <TextField
-                label="Client's full name"
-                testID="erase-confirm-name"
-                autoCapitalize="words"
-                autoCorrect={false}
-                value={field.value}
-                onChangeText={field.onChange}
-                onBlur={field.onBlur}
-                error={fieldState.error?.message}
-              />
-            )}
+            label="Client's full name"
+            testID="erase-confirm-name"
+            autoCapitalize="words"
+            autoCorrect={false}
           />
           <View style={styles.buttons}>
             <Button

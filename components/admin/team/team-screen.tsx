@@ -6,7 +6,7 @@ import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { ScreenFrame } from '@/components/ui/screen-frame';
 import { ErrorState, LoadingState } from '@/components/ui/state-views';
-import { TextField } from '@/components/ui/text-field';
+import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, radii, space } from '@/constants/theme';
 import {
   useInviteMutation,
@@ -66,32 +66,13 @@ export function TeamScreen() {
           Invite someone
         </AppText>
         <View style={styles.formRow}>
-          <Controller
-            control={form.control}
-            name="name"
-            render={({ field, fieldState }) => (
-              <TextField
-                label="Name"
-                testID="invite-name"
-                value={field.value}
-                onChangeText={field.onChange}
-                error={fieldState.error?.message}
-              />
-            )}
-          />
-          <Controller
+          <FormTextField control={form.control} name="name" label="Name" testID="invite-name" />
+          <FormTextField
             control={form.control}
             name="email"
-            render={({ field, fieldState }) => (
-              <TextField
-                label="E-mail"
-                testID="invite-email"
-                autoCapitalize="none"
-                value={field.value}
-                onChangeText={field.onChange}
-                error={fieldState.error?.message}
-              />
-            )}
+            label="E-mail"
+            testID="invite-email"
+            autoCapitalize="none"
           />
         </View>
         <Controller
