@@ -51,6 +51,8 @@ module.exports = {
       displayName: 'e2e',
       ...tsJestNode,
       testMatch: ['<rootDir>/tests/e2e/**/*.e2e.ts'],
+      testEnvironment: '<rootDir>/tests/support/e2e-environment.ts',
+      setupFilesAfterEnv: ['<rootDir>/tests/support/e2e-failure-report.ts'],
       globalSetup: '<rootDir>/tests/support/e2e-global-setup.ts',
       globalTeardown: '<rootDir>/tests/support/e2e-global-teardown.ts',
     },

@@ -85,7 +85,7 @@ export function toLocalStoreError(error: unknown): Error {
   if (/NoModificationAllowed|Access Handles cannot be created|already open|locked/i.test(text)) {
     return new LocalStoreError(
       'locked-by-other-tab',
-      'Fourpoint is open in another tab or window. Close the other one and reload this page: only one tab can hold the local records.',
+      'Fourpoint is open in another tab or window. Close the other one, then try again: only one tab at a time can hold the records kept on this device.',
     );
   }
   return error instanceof Error ? error : new Error(text);

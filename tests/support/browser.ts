@@ -39,13 +39,23 @@ export async function launchBrowser(options: { fakeMicrophoneWav?: string } = {}
   return chromium.launch({ executablePath: '/usr/bin/chromium', args });
 }
 
+/** Pages still open, so a failing test can show what each screen looked like (tests/support/e2e-failure-report.ts). */
+export const openPages = new Set<Page>();
+
+/** Follows a page the test opened itself (a second tab) in the failure report. */
+export function trackPage(page: Page): Page {
+  openPages.add(page);
+  page.once('close', () => openPages.delete(page));
+  return page;
+}
+
 /** One page per context: expo-sqlite's OPFS database is exclusive to one tab. */
 export async function newPage(
   browser: Browser,
   viewport: { width: number; height: number },
 ): Promise<{ context: BrowserContext; page: Page }> {
   const context = await browser.newContext({ viewport, baseURL: baseUrl() });
-  const page = await context.newPage();
+  const page = trackPage(await context.newPage());
   return { context, page };
 }
 

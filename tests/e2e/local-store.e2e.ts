@@ -1,0 +1,71 @@
+// The records kept on the phone live in one SQLite file in the browser's private file system (OPFS), which only
+// one page at a time may hold. A reload or a second tab must neither lose a record nor leave the app stuck.
+// Expected behaviour is the product's own rule (DEVELOPERS.md, "Capture"); no outside source.
+import type { Browser } from 'playwright-core';
+import { launchBrowser, newPage, PHONE, screenshot, trackPage } from '@/tests/support/browser';
+import { signIn, operatorEmail, uniqueLetters, visible } from './helpers/operator';
+
+jest.setTimeout(180_000);
+
+let browser: Browser;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+
+afterAll(async () => {
+  await browser?.close();
+});
+
+async function addClient(page: import('playwright-core').Page, lastName: string): Promise<void> {
+  await page.goto('/clients/new');
+  await visible(page, 'client-form').waitFor();
+  await visible(page, 'client-firstName').fill('Ilse');
+  await visible(page, 'client-lastName').fill(lastName);
+  await visible(page, 'client-submit').click();
+}
+
+describe('the records kept on the device', () => {
+  test('when the page is reloaded again and again right after a save, then every reload opens the records and nothing saved is lost', async () => {
+    const { context, page } = await newPage(browser, PHONE);
+    await signIn(page, operatorEmail);
+    await page.waitForURL((url) => url.pathname === '/clients');
+    const lastName = `Quillon${uniqueLetters()}`;
+    await addClient(page, lastName);
+    await visible(page, 'client-detail').waitFor();
+    const clientPath = new URL(page.url()).pathname;
+    for (let i = 0; i < 5; i++) {
+      // No wait between loads: the page going away may still hold the file when the next one opens it.
+      await page.reload();
+      await visible(page, 'client-detail').waitFor({ timeout: 20_000 });
+      expect(new URL(page.url()).pathname).toBe(clientPath);
+      expect(await visible(page, 'client-detail').innerText()).toContain(lastName);
+    }
+    await context.close();
+  });
+
+  test('when Fourpoint is open in a second tab, then the second says why it cannot save, and saves once the first tab is closed, without a reload', async () => {
+    const { context, page: first } = await newPage(browser, PHONE);
+    await signIn(first, operatorEmail);
+    await first.waitForURL((url) => url.pathname === '/clients');
+    await visible(first, 'operator-home').waitFor();
+
+    const second = trackPage(await context.newPage());
+    const lastName = `Tarrant${uniqueLetters()}`;
+    await addClient(second, lastName);
+    const refusal = visible(second, 'new-client-error');
+    await refusal.waitFor({ timeout: 20_000 });
+    expect(await refusal.innerText()).toMatch(
+      /open in another tab or window\. Close the other one, then try again/,
+    );
+    // The form keeps what was typed.
+    expect(await visible(second, 'client-lastName').inputValue()).toBe(lastName);
+    await screenshot(second, 'local-store-second-tab-phone');
+
+    await first.close();
+    await visible(second, 'client-submit').click();
+    await visible(second, 'client-detail').waitFor({ timeout: 20_000 });
+    expect(await visible(second, 'client-detail').innerText()).toContain(lastName);
+    await context.close();
+  });
+});
