@@ -1,12 +1,15 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api, request } from '@/hooks/api/client';
 import { ApiFailure, failureFromError, unwrap } from '@/hooks/api/result';
+import { clinicConsentTextKey } from '@/hooks/consent/clinic-consent-text';
 import {
   clientRecordSchema,
   clientTableResponseSchema,
   consentTextListResponseSchema,
   eraseClientResponseSchema,
+  publishConsentTextResponseSchema,
   type ClientTableQuery,
+  type PublishConsentTextRequest,
   type UpdateClientRequest,
 } from '@/shared/protocol/practice';
 
@@ -56,12 +59,32 @@ export function useEraseClientMutation(id: string) {
   });
 }
 
+export const consentTextsKey = ['consent-texts'] as const;
+
 export function useConsentTextsQuery() {
   return useQuery({
-    queryKey: ['consent-texts'],
+    queryKey: consentTextsKey,
     staleTime: 5 * 60_000,
     queryFn: async () =>
       unwrap(await request({ method: 'GET', url: '/consent-texts' }, consentTextListResponseSchema)).texts,
+  });
+}
+
+/** Publishes a new version of the consent wording; the device's kept copy is refreshed with it. */
+export function usePublishConsentTextMutation() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: async (input: PublishConsentTextRequest) =>
+      unwrap(
+        await request(
+          { method: 'POST', url: '/consent-texts', data: input },
+          publishConsentTextResponseSchema,
+        ),
+      ).text,
+    onSuccess: async () => {
+      await qc.invalidateQueries({ queryKey: consentTextsKey });
+      await qc.invalidateQueries({ queryKey: clinicConsentTextKey });
+    },
   });
 }
 

@@ -11,6 +11,7 @@ import {
 import { request } from '@/hooks/api/client';
 
 const storageKey = 'fourpoint.clinic-consent-text';
+export const clinicConsentTextKey = ['clinic-consent-text'] as const;
 
 const cachedConsentTextSchema = z.object({
   id: z.uuid(),
@@ -61,7 +62,7 @@ export function toShownConsentText(cached: CachedConsentText | null): ShownConse
 /** The consent text to show; refreshed from the clinic server whenever it can be reached. */
 export function useClinicConsentText(): ShownConsentText {
   const query = useQuery({
-    queryKey: ['clinic-consent-text'],
+    queryKey: clinicConsentTextKey,
     queryFn: refreshClinicConsentText,
     networkMode: 'always',
     staleTime: 10 * 60 * 1000,

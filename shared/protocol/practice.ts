@@ -195,6 +195,7 @@ export const publishConsentTextRequestSchema = z.object({
   body: trimmed(20000, 'Text'),
 });
 export type PublishConsentTextRequest = z.infer<typeof publishConsentTextRequestSchema>;
+export const publishConsentTextResponseSchema = z.object({ text: consentTextSchema });
 
 // Follow-ups
 export const followUpDueSchema = z.object({

@@ -15,6 +15,7 @@ import {
   useSettingsQuery,
 } from '@/hooks/api/settings';
 import { ClinicForm } from './clinic-form';
+import { ConsentTextsPanel } from './consent-texts-panel';
 import { RangeEditor } from './range-editor';
 
 function ResetAll() {
@@ -68,7 +69,7 @@ export function SettingsScreen() {
   return (
     <ScreenFrame
       title="Settings"
-      subtitle="The clinic's details, record keeping and reference ranges."
+      subtitle="The clinic's details, record keeping, consent wording and reference ranges."
       testID="settings-screen"
     >
       <Panel title="Clinic" detail="Shown on every report and e-mail." testID="settings-clinic">
@@ -84,6 +85,7 @@ export function SettingsScreen() {
           <ClinicForm settings={settings.data} onSave={(s) => save.mutateAsync(s)} />
         )}
       </Panel>
+      <ConsentTextsPanel />
       <Panel
         title="Reference ranges"
         detail="Each measurement is shown against these. The defaults carry their sources; a clinic may set its own limits per site. Values outside a range read “refer to a licensed clinician”, never a diagnosis."
