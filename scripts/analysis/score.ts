@@ -15,6 +15,7 @@ import {
   sensitivity,
   type Counts,
 } from '../../shared/analysis/scoring';
+import { preprocess } from '../../shared/analysis/preprocess';
 import { median } from '../../shared/analysis/variability';
 import { annotatedHeartRate, listRecordings, readSamples, type Segment } from './circor';
 
@@ -32,6 +33,50 @@ function rateInsideAnnotation(result: ReturnType<typeof analysePcm>, segments: S
 }
 import { fitModel, prepare } from './fit-lib';
 
+/** The stretch of a recording that the annotation covers (first to last labelled segment). */
+function annotatedSpan(segments: Segment[]): [number, number] {
+  const labelled = segments.filter((s) => s.label !== 0);
+  return labelled.length ? [labelled[0].startS, labelled[labelled.length - 1].endS] : [0, 0];
+}
+
+/** RMS frequency of a stretch of the working signal: fs / 2π · sqrt(Σ(Δx)² / Σx²). */
+function rmsFrequencyHz(signal: Float64Array, rate: number, startS: number, endS: number): number | null {
+  let power = 0;
+  let slope = 0;
+  for (let i = Math.round(startS * rate) + 1; i < Math.min(signal.length, Math.round(endS * rate)); i++) {
+    power += signal[i] ** 2;
+    slope += (signal[i] - signal[i - 1]) ** 2;
+  }
+  return power > 0 ? (rate / (2 * Math.PI)) * Math.sqrt(slope / power) : null;
+}
+
+type Sound = { type: 'S1' | 'S2'; startS: number; endS: number };
+
+/**
+ * Textbook cue to which sound is S1, independent of durations: S2 is the higher-pitched (Bickley, Bates' Guide
+ * to Physical Examination and History Taking, from memory). True when a labelling's S2 sounds have the higher
+ * median RMS frequency.
+ */
+function s2HigherPitched(signal: Float64Array, rate: number, sounds: Sound[]): boolean | null {
+  const pitch = (type: Sound['type']) =>
+    median(
+      sounds
+        .filter((s) => s.type === type)
+        .map((s) => rmsFrequencyHz(signal, rate, s.startS, s.endS))
+        .filter((v): v is number => v !== null),
+    );
+  const s1 = pitch('S1');
+  const s2 = pitch('S2');
+  return s1 === null || s2 === null ? null : s2 > s1;
+}
+
+/** Annotated S1/S2 sounds whose neighbours are annotated too (not cut by an unannotated stretch). */
+function annotatedSounds(segments: Segment[]): Sound[] {
+  return segments
+    .filter((s, i) => (s.label === 1 || s.label === 3) && segments[i - 1]?.label && segments[i + 1]?.label)
+    .map((s) => ({ type: s.label === 1 ? 'S1' : 'S2', startS: s.startS, endS: s.endS }));
+}
+
 function main() {
   const foldArg = process.argv.indexOf('--folds');
   const folds = foldArg > 0 ? Number(process.argv[foldArg + 1]) : 6;
@@ -46,6 +91,8 @@ function main() {
   let rateWithin3 = 0;
   let insideWithin3 = 0;
   const verdicts: Record<string, number> = {};
+  const rateMisses: string[] = [];
+  const cue = { ours: 0, annotation: 0, rated: 0, disagreeing: [] as string[] };
   for (let fold = 0; fold < folds; fold++) {
     const held = new Set(patients.filter((_, i) => i % folds === fold));
     const model = fitModel(
@@ -68,6 +115,29 @@ function main() {
         if (within) rateWithin3++;
         const inside = rateInsideAnnotation(result, recording.segments);
         if (inside !== null && Math.abs(inside - truth) <= 3) insideWithin3++;
+        if (!within) {
+          const [from, to] = annotatedSpan(recording.segments);
+          rateMisses.push(
+            `${recording.id}: annotation ${truth.toFixed(1)} bpm over ${from.toFixed(1)}-${to.toFixed(1)} s of ` +
+              `${(samples.length / sampleRate).toFixed(1)} s; ours ${result.heartRateBpm?.toFixed(1)} bpm ` +
+              `(whole clip), ${inside?.toFixed(1)} bpm (our beats inside the annotated stretch)`,
+          );
+        }
+      }
+      if (verbose) {
+        const working = preprocess(samples, sampleRate);
+        const ours = s2HigherPitched(working.signal, working.sampleRate, result.sounds);
+        const theirs = s2HigherPitched(
+          working.signal,
+          working.sampleRate,
+          annotatedSounds(recording.segments),
+        );
+        if (ours !== null && theirs !== null) {
+          cue.rated++;
+          if (ours) cue.ours++;
+          if (theirs) cue.annotation++;
+          if (ours !== theirs) cue.disagreeing.push(`${recording.id} (ours ${ours}, annotation ${theirs})`);
+        }
       }
       if (verbose) {
         const m = result.quality.measures;
@@ -104,6 +174,13 @@ function main() {
     `heart rate within 3 bpm of annotation, beats inside the annotated stretch: ${insideWithin3}/${rateTotal} (${pct(insideWithin3 / rateTotal)})`,
   );
   console.log(`verdicts: ${JSON.stringify(verdicts)}`);
+  if (verbose) {
+    console.log(`heart-rate misses:\n  ${rateMisses.join('\n  ')}`);
+    console.log(
+      `S2 higher-pitched than S1 (textbook cue): our labelling ${cue.ours}/${cue.rated}, the annotation's ` +
+        `${cue.annotation}/${cue.rated}; they differ on: ${cue.disagreeing.join(', ') || 'none'}`,
+    );
+  }
 }
 
 main();
