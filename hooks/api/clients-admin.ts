@@ -8,14 +8,14 @@ import {
   consentTextListResponseSchema,
   eraseClientResponseSchema,
   publishConsentTextResponseSchema,
-  type ClientTableQuery,
+  type ClientTableRequest,
   type PublishConsentTextRequest,
   type UpdateClientRequest,
 } from '@/shared/protocol/practice';
 
 export const clientRecordsKey = ['client-records'] as const;
 
-export function useClientTableQuery(query: ClientTableQuery) {
+export function useClientTableQuery(query: ClientTableRequest) {
   return useQuery({
     queryKey: [...clientRecordsKey, 'table', query],
     placeholderData: keepPreviousData,

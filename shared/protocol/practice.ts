@@ -86,13 +86,17 @@ export const acceptInvitationRequestSchema = z.object({
 export type AcceptInvitationRequest = z.infer<typeof acceptInvitationRequestSchema>;
 
 // Client records
-export const clientSortSchema = z.enum(['name', 'dateOfBirth', 'lastVisit', 'updatedAt']);
+export const clientSortSchema = z.enum(['name', 'dateOfBirth', 'lastVisit', 'keepUntil', 'updatedAt']);
 export const clientTableQuerySchema = pageQuerySchema.extend({
   q: z.string().trim().max(100).optional(),
   sort: clientSortSchema.default('name'),
   dir: z.enum(['asc', 'desc']).default('asc'),
+  /** `due`: only clients whose records are past the clinic's retention period, for the admin to review. */
+  retention: z.enum(['all', 'due']).default('all'),
 });
 export type ClientTableQuery = z.infer<typeof clientTableQuerySchema>;
+/** What a caller may send: the defaulted fields are optional. */
+export type ClientTableRequest = z.input<typeof clientTableQuerySchema>;
 export const clientRowSchema = z.object({
   id: z.uuid(),
   firstName: z.string(),
@@ -104,6 +108,10 @@ export const clientRowSchema = z.object({
   visits: z.number(),
   hasConsent: z.boolean(),
   nextFollowUp: z.string().nullable(),
+  /** The last visit (or the day the client was added) plus the clinic's retention period, as YYYY-MM-DD. */
+  keepUntil: z.string(),
+  /** keepUntil has passed: the records are due for the admin's review (export, erase, or keep with a reason). */
+  retentionDue: z.boolean(),
 });
 export type ClientRow = z.infer<typeof clientRowSchema>;
 export const clientTableResponseSchema = z.object({

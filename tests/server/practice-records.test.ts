@@ -254,6 +254,62 @@ describe('client records', () => {
     expect(res.body.clients.map((c: { firstName: string }) => c.firstName)).toEqual(['Abe', 'Bea']);
   });
 
+  test('when records are older than the retention period, then the table marks them due for review, lists them alone on request, and erases nothing', async () => {
+    // A clinic of its own, so its 12-month period leaves the other tests' clinic at the default.
+    const own = await makeClinic('Retention');
+    const ownTokens = await tokensFor(ctx.app, own);
+    const asOwn = { authorization: `Bearer ${ownTokens.admin}` };
+    const settings = (await request(ctx.app).get('/api/settings').set(asOwn)).body;
+    const saved = await request(ctx.app)
+      .put('/api/settings')
+      .set(asOwn)
+      .send({ ...settings, retentionMonths: 12 });
+    expect(saved.status).toBe(200);
+    const last = `Keep${randomUUID().slice(0, 6)}`;
+    const lapsed = await insertClient(ctx.sequelize, own.id, { first: 'Lapsed', last });
+    await insertSession(ctx.sequelize, own.id, lapsed, { startedAt: new Date('2019-03-02T12:00:00Z') });
+    await insertSession(ctx.sequelize, own.id, lapsed, { startedAt: new Date('2020-01-15T12:00:00Z') });
+    const recent = await insertClient(ctx.sequelize, own.id, { first: 'Recent', last });
+    await insertSession(ctx.sequelize, own.id, recent, { startedAt: new Date('2018-05-20T12:00:00Z') });
+    await insertSession(ctx.sequelize, own.id, recent, {
+      startedAt: new Date(Date.now() - 300 * 86_400_000),
+    });
+    const neverSeen = await insertClient(ctx.sequelize, own.id, { first: 'Unseen', last });
+    await ctx.sequelize.query(`UPDATE clients SET created_at = '2019-06-10T12:00:00Z' WHERE id = :id`, {
+      replacements: { id: neverSeen },
+    });
+
+    const all = await request(ctx.app).get(`/api/client-records?q=${last}&sort=keepUntil`).set(asOwn);
+    expect(all.status).toBe(200);
+    const byName = new Map(
+      all.body.clients.map((c: { firstName: string; retentionDue: boolean; keepUntil: string }) => [
+        c.firstName,
+        c,
+      ]),
+    );
+    // The clock runs from the last visit (not the first), or from the day the client was added.
+    expect(byName.get('Lapsed')).toMatchObject({ retentionDue: true, keepUntil: '2021-01-15' });
+    expect(byName.get('Recent')).toMatchObject({ retentionDue: false });
+    expect(byName.get('Unseen')).toMatchObject({ retentionDue: true, keepUntil: '2020-06-10' });
+    expect(all.body.clients.map((c: { firstName: string }) => c.firstName)).toEqual([
+      'Unseen',
+      'Lapsed',
+      'Recent',
+    ]);
+
+    const due = await request(ctx.app).get(`/api/client-records?q=${last}&retention=due`).set(asOwn);
+    expect(due.body.pageInfo.total).toBe(2);
+    expect(due.body.clients.map((c: { firstName: string }) => c.firstName).sort()).toEqual([
+      'Lapsed',
+      'Unseen',
+    ]);
+    const [{ count }] = await q<{ count: string }>(
+      `SELECT count(*) AS count FROM clients WHERE clinic_id = :clinicId AND deleted_at IS NULL`,
+      { clinicId: own.id },
+    );
+    expect(Number(count)).toBeGreaterThanOrEqual(3);
+  });
+
   test('when a new consent text is published, then it gets the next version and becomes the current one', async () => {
     const a = await request(ctx.app)
       .post('/api/consent-texts')

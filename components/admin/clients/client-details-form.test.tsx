@@ -16,6 +16,8 @@ const record = (version: number, notes: string): ClientRecord => ({
     visits: 0,
     hasConsent: true,
     nextFollowUp: null,
+    keepUntil: '2032-10-07',
+    retentionDue: false,
     notes,
     version,
     createdAt: '2026-11-02T09:00:00.000Z',

@@ -117,6 +117,13 @@ export function ClientRecordScreen() {
               <Badge label="no consent" tone="caution" />
             )}
           </View>
+          <View testID="client-record-retention">
+            {client.retentionDue ? (
+              <Badge label={`past retention since ${formatDate(client.keepUntil)}: review`} tone="caution" />
+            ) : (
+              <Badge label={`keep until ${formatDate(client.keepUntil)}`} tone="neutral" />
+            )}
+          </View>
           <ExportButton clientId={id} />
         </View>
       }

@@ -17,6 +17,7 @@ import type { ClientRow, ClientTableQuery } from '@/shared/protocol/practice';
 
 const pageSize = 20;
 type Sort = ClientTableQuery['sort'];
+type Retention = ClientTableQuery['retention'];
 
 const columns: readonly Column<ClientRow>[] = [
   {
@@ -51,6 +52,20 @@ const columns: readonly Column<ClientRow>[] = [
   },
   { key: 'next', title: 'Follow-up', render: (c) => <Cell>{formatDate(c.nextFollowUp)}</Cell> },
   {
+    key: 'keep',
+    title: 'Keep until',
+    sortKey: 'keepUntil',
+    render: (c) =>
+      c.retentionDue ? (
+        <View style={styles.keep} testID={`client-retention-due-${c.id}`}>
+          <Cell>{formatDate(c.keepUntil)}</Cell>
+          <Badge label="past retention: review" tone="caution" />
+        </View>
+      ) : (
+        <Cell muted>{formatDate(c.keepUntil)}</Cell>
+      ),
+  },
+  {
     key: 'consent',
     title: 'Consent',
     render: (c) =>
@@ -65,13 +80,21 @@ export function ClientTableScreen() {
   const [search, setSearch] = useState('');
   const q = useDebouncedValue(search.trim());
   const [sort, setSort] = useState<{ key: Sort; dir: SortDir }>({ key: 'name', dir: 'asc' });
+  const [retention, setRetention] = useState<Retention>('all');
   const [page, setPage] = useState(1);
   const [lastQ, setLastQ] = useState(q);
   if (q !== lastQ) {
     setLastQ(q);
     setPage(1);
   }
-  const table = useClientTableQuery({ page, pageSize, q: q || undefined, sort: sort.key, dir: sort.dir });
+  const table = useClientTableQuery({
+    page,
+    pageSize,
+    q: q || undefined,
+    sort: sort.key,
+    dir: sort.dir,
+    retention,
+  });
 
   const onSort = (key: string) => {
     setSort((s) => ({ key: key as Sort, dir: s.key === key && s.dir === 'asc' ? 'desc' : 'asc' }));
@@ -90,19 +113,26 @@ export function ClientTableScreen() {
       />
     );
   } else if (table.data.clients.length === 0) {
-    body = q ? (
-      <EmptyState
-        title="No match"
-        detail={`No client matches “${q}”. Try part of the name, the e-mail or the phone number.`}
-        testID="client-table-empty"
-      />
-    ) : (
-      <EmptyState
-        title="No clients yet"
-        detail="Clients added on the phones appear here."
-        testID="client-table-empty"
-      />
-    );
+    body =
+      retention === 'due' ? (
+        <EmptyState
+          title="Nothing past retention"
+          detail="No client's records are older than the clinic's retention period (Settings)."
+          testID="client-table-empty"
+        />
+      ) : q ? (
+        <EmptyState
+          title="No match"
+          detail={`No client matches “${q}”. Try part of the name, the e-mail or the phone number.`}
+          testID="client-table-empty"
+        />
+      ) : (
+        <EmptyState
+          title="No clients yet"
+          detail="Clients added on the phones appear here."
+          testID="client-table-empty"
+        />
+      );
   } else {
     body = (
       <>
@@ -137,12 +167,27 @@ export function ClientTableScreen() {
       testID="client-table-screen"
       header={
         <View style={styles.tools}>
-          <SearchField
-            value={search}
-            onChangeText={setSearch}
-            placeholder="Search by name, e-mail or phone"
-            label="Search clients"
-            testID="client-table-search"
+          <View style={styles.search}>
+            <SearchField
+              value={search}
+              onChangeText={setSearch}
+              placeholder="Search by name, e-mail or phone"
+              label="Search clients"
+              testID="client-table-search"
+            />
+          </View>
+          <ChoiceChips
+            label="Show"
+            testID="client-table-retention"
+            value={retention}
+            onChange={(value) => {
+              setRetention(value);
+              setPage(1);
+            }}
+            choices={[
+              { value: 'all', label: 'All clients' },
+              { value: 'due', label: 'Past retention' },
+            ]}
           />
           {!isWide ? (
             <ChoiceChips
@@ -154,6 +199,7 @@ export function ClientTableScreen() {
                 { value: 'name', label: 'Name' },
                 { value: 'dateOfBirth', label: 'Born' },
                 { value: 'lastVisit', label: 'Last visit' },
+                { value: 'keepUntil', label: 'Keep until' },
               ]}
             />
           ) : null}
@@ -166,5 +212,7 @@ export function ClientTableScreen() {
 }
 
 const styles = StyleSheet.create({
+  search: { flexDirection: 'row', flexGrow: 1, flexBasis: 300, maxWidth: 520 },
+  keep: { gap: space.xs, alignItems: 'flex-start' },
   tools: { flexDirection: 'row', alignItems: 'center', gap: space.md, marginTop: space.sm, flexWrap: 'wrap' },
 });

@@ -1,6 +1,7 @@
 import type { Sequelize, Transaction } from 'sequelize';
 import type { ClientTableQuery } from '@/shared/protocol/practice';
 import { escapeLike, execute, selectRows } from './practice-db';
+import { DEFAULT_RETENTION_MONTHS } from './settings-repository';
 
 export type ClientTableRow = {
   id: string;
@@ -17,14 +18,25 @@ export type ClientTableRow = {
   visits: string;
   has_consent: boolean;
   next_follow_up: string | null;
+  keep_until: string;
+  retention_due: boolean;
 };
 
 const SORT_SQL: Record<ClientTableQuery['sort'], string> = {
   name: 'lower(c.last_name) %DIR%, lower(c.first_name) %DIR%',
   dateOfBirth: 'c.date_of_birth %DIR% NULLS LAST',
   lastVisit: 'last_visit %DIR% NULLS LAST',
+  keepUntil: 'keep_until %DIR%',
   updatedAt: 'c.updated_at %DIR%',
 };
+
+// The retention clock starts at the client's last visit (or the day they were added, before any visit) and runs
+// for the clinic's retention period; nothing is erased by it, the admin reviews the clients it lists.
+const KEEP_UNTIL = `(COALESCE(
+    (SELECT max(s.started_at) FROM recording_sessions s WHERE s.client_id = c.id AND s.deleted_at IS NULL),
+    c.created_at)
+  + make_interval(months => COALESCE(
+    (SELECT cs.retention_months FROM clinic_settings cs WHERE cs.clinic_id = c.clinic_id), ${DEFAULT_RETENTION_MONTHS})))::date`;
 
 // next_follow_up is the latest visit's follow-up, as the reminder job and the follow-ups-due list read it: a
 // return visit fulfils the date that an earlier visit set.
@@ -34,14 +46,23 @@ const CLIENT_COLUMNS = `c.id, c.first_name, c.last_name, c.date_of_birth, c.emai
   EXISTS (SELECT 1 FROM consents k WHERE k.client_id = c.id AND k.deleted_at IS NULL) AS has_consent,
   (SELECT s.follow_up_date FROM recording_sessions s
      WHERE s.client_id = c.id AND s.deleted_at IS NULL AND s.status <> 'cancelled'
-     ORDER BY s.started_at DESC LIMIT 1) AS next_follow_up`;
+     ORDER BY s.started_at DESC LIMIT 1) AS next_follow_up,
+  to_char(${KEEP_UNTIL}, 'YYYY-MM-DD') AS keep_until,
+  ${KEEP_UNTIL} < current_date AS retention_due`;
 
 export async function pageClients(sequelize: Sequelize, clinicId: string, query: ClientTableQuery) {
   const search = query.q ? `%${escapeLike(query.q)}%` : null;
   const where = `c.clinic_id = :clinicId AND c.deleted_at IS NULL
-    AND (:search::text IS NULL OR concat_ws(' ', c.first_name, c.last_name) ILIKE :search OR c.email ILIKE :search OR c.phone ILIKE :search)`;
+    AND (:search::text IS NULL OR concat_ws(' ', c.first_name, c.last_name) ILIKE :search OR c.email ILIKE :search OR c.phone ILIKE :search)
+    AND (:retention <> 'due' OR ${KEEP_UNTIL} < current_date)`;
   const order = SORT_SQL[query.sort].replaceAll('%DIR%', query.dir === 'desc' ? 'DESC' : 'ASC');
-  const replacements = { clinicId, search, limit: query.pageSize, offset: (query.page - 1) * query.pageSize };
+  const replacements = {
+    clinicId,
+    search,
+    retention: query.retention,
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
+  };
   const [rows, counts] = await Promise.all([
     selectRows<ClientTableRow>(
       sequelize,

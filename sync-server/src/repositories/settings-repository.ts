@@ -2,6 +2,9 @@ import type { Sequelize, Transaction } from 'sequelize';
 import type { Offer } from '@/shared/protocol/practice';
 import { execute, selectRows } from './practice-db';
 
+/** Seven years, the column's default in the schema (common practice, no source; follow local rules). */
+export const DEFAULT_RETENTION_MONTHS = 84;
+
 export type SettingsRow = {
   name: string;
   address: string | null;

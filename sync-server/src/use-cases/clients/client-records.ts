@@ -27,6 +27,8 @@ const toRow = (c: repo.ClientTableRow): ClientRow => ({
   visits: Number(c.visits),
   hasConsent: c.has_consent,
   nextFollowUp: dateOnly(c.next_follow_up),
+  keepUntil: c.keep_until,
+  retentionDue: c.retention_due,
 });
 
 export const clientNotFound = () => new AppError('not_found', 'There is no such client in this clinic.', 404);

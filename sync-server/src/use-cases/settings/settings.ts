@@ -3,6 +3,7 @@ import type { ClinicRange, ClinicSettings, Offer, SetRangeRequest } from '@/shar
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as repo from '../../repositories/settings-repository';
+import { DEFAULT_RETENTION_MONTHS } from '../../repositories/settings-repository';
 import type { Caller, UseCaseDeps } from '../context';
 import { defaultRanges } from './default-ranges';
 
@@ -11,7 +12,6 @@ export const DEFAULT_OFFERS: Offer[] = [
   { id: 'test-visit', label: 'Test visit', visits: 1, amountCents: 6000 },
   { id: 'package-5', label: 'Package of 5 visits', visits: 5, amountCents: 25000 },
 ];
-export const DEFAULT_RETENTION_MONTHS = 84;
 export const DEFAULT_REMINDER_DAYS = 3;
 
 export async function getSettings(deps: UseCaseDeps, clinicId: string): Promise<ClinicSettings> {
