@@ -4,6 +4,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
+import { cautionParagraphs } from '@/constants/cautions';
 import { sealClip } from '@/shared/seal';
 import { runFollowUpReminders } from '@/sync-server/src/jobs/follow-up-reminders';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
@@ -352,7 +353,15 @@ describe('export and erasure', () => {
     );
     const wavName = listing.find((f) => f.startsWith('clips/') && f.endsWith('.wav'))!;
     expect(fs.readFileSync(path.join(dir, wavName)).equals(plain)).toBe(true);
-    expect(listing.some((f) => f.startsWith('reports/') && f.endsWith('.pdf'))).toBe(true);
+    const reportName = listing.find((f) => f.startsWith('reports/') && f.endsWith('.pdf'))!;
+    // pdftotext from Debian's poppler-utils reads the text layer back: the full report, as downloaded.
+    const report = execFileSync('/usr/bin/pdftotext', ['-layout', path.join(dir, reportName), '-'], {
+      encoding: 'utf8',
+    }).replace(/\s+/g, ' ');
+    expect(report).toContain('Clear recordings at all four sites.');
+    expect(report).toContain('Heart rate (bpm) 60–100 [1]');
+    expect(report).toContain('Sources of the reference ranges');
+    expect(report).toContain(cautionParagraphs[0].slice(0, 60));
     const measurements = fs.readFileSync(path.join(dir, 'measurements.csv'), 'utf8');
     expect(measurements).toContain('mitral');
     expect(measurements).toContain('heartRateBpm,71.5');

@@ -7,8 +7,9 @@ import * as records from '../../repositories/client-records-repository';
 import * as repo from '../../repositories/export-repository';
 import { iso } from '../../repositories/practice-db';
 import { syncServicesFor } from '../../services/sync-services';
-import { renderReportPdf, type ReportInput } from '../../services/report-pdf';
+import { renderReportPdf } from '../../services/report-pdf';
 import { clientNotFound } from '../clients/client-records';
+import { buildReportInput } from '../review/report';
 import type { Caller, UseCaseDeps } from '../context';
 
 // A leading = + - @ makes a spreadsheet run the cell as a formula; a quote mark keeps it text.
@@ -193,31 +194,10 @@ export async function exportClient(
     }
   }
 
+  // The same report the practitioner downloads or e-mails: traces, S1/S2, measurements, findings and plan.
   for (const s of sessions) {
     if (!s.findings && !s.plan && s.status !== 'reviewed') continue;
-    const sessionSites = sites.filter((r) => r.session_id === s.id);
-    const input: ReportInput = {
-      clinicName,
-      clientName: `${client.first_name} ${client.last_name}`,
-      clientDateOfBirth: client.date_of_birth,
-      sessionDate: (iso(s.started_at) ?? '').slice(0, 10),
-      operatorName: s.operator_name,
-      practitionerName: s.reviewer_name,
-      sites: sessionSites.map((r) => ({
-        site: r.site,
-        label: r.site[0].toUpperCase() + r.site.slice(1),
-        quality: r.quality_verdict,
-        trace: null,
-        sounds: [],
-        measurements: [],
-      })),
-      comparison: null,
-      findings: s.findings,
-      plan: s.plan,
-      followUpDate: s.follow_up_date,
-      sources: [],
-      generatedAt: new Date().toISOString(),
-    };
+    const input = await buildReportInput(deps, caller, s.id, null);
     add(`reports/${input.sessionDate}-${s.id.slice(0, 8)}.pdf`, await renderReportPdf(input));
   }
 

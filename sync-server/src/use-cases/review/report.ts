@@ -28,7 +28,8 @@ const SITE_LABEL: Record<Site, string> = {
 const REPORT_POINTS_PER_SECOND = 60;
 const day = (d: Date) => d.toISOString().slice(0, 10);
 
-async function reportInput(
+/** Everything a session's report shows: the four traces with S1/S2, measurements against ranges, findings. */
+export async function buildReportInput(
   deps: UseCaseDeps,
   caller: Caller,
   sessionId: string,
@@ -123,7 +124,7 @@ export async function renderReport(
   sessionId: string,
   compareWith: string | null,
 ) {
-  const input = await reportInput(deps, caller, sessionId, compareWith);
+  const input = await buildReportInput(deps, caller, sessionId, compareWith);
   const pdf = await renderReportPdf(input);
   await recordAuditEvent({
     clinicId: caller.clinicId,
