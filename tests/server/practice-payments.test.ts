@@ -1,4 +1,6 @@
+import { randomUUID } from 'node:crypto';
 import request from 'supertest';
+import { SYNC_PROTOCOL_VERSION } from '@/shared/protocol/sync';
 import { TEST_CARDS } from '@/sync-server/fakes/payments-fake';
 import { signPayload } from '@/sync-server/fakes/payments-fake';
 import { startPracticeFakes, linkIn, messagesTo, type PracticeFakes } from './helpers/practice-fakes';
@@ -9,11 +11,12 @@ const ctx = makeTestContext();
 let fakes: PracticeFakes;
 let clinic: TestClinic;
 let admin: string;
+let operator: string;
 
 beforeAll(async () => {
   fakes = await startPracticeFakes(ctx.app);
   clinic = await makeClinic('Billing');
-  admin = (await tokensFor(ctx.app, clinic)).admin;
+  ({ admin, operator } = await tokensFor(ctx.app, clinic));
 });
 afterAll(async () => {
   await fakes.close();
@@ -180,6 +183,56 @@ describe('card payments through the provider fake', () => {
     const after = await record(clientId);
     expect(after.packages[0]).toMatchObject({ visitsTotal: 1, visitsUsed: 1, visitsLeft: 0 });
     expect(after.visits.filter((v: { paidFromPackage: boolean }) => v.paidFromPackage)).toHaveLength(1);
+  });
+
+  test('when a session that used a package visit is cancelled from a device, then the visit is given back, and taken again if the session is restored', async () => {
+    const { clientId, checkoutId } = await openPayment('package-5');
+    await fakes.payments.pay(checkoutId, TEST_CARDS.success);
+    const deviceId = randomUUID();
+    const sessionId = randomUUID();
+    const session = (status: string) => ({
+      clientId,
+      status,
+      startedAt: '2026-11-30T09:00:00.000Z',
+      finishedAt: '2026-11-30T09:12:00.000Z',
+      findings: null,
+      plan: null,
+      followUpDate: null,
+    });
+    const push = async (baseVersion: number, status: string) => {
+      const res = await request(ctx.app)
+        .post('/api/sync/push')
+        .set('authorization', `Bearer ${operator}`)
+        .send({
+          protocolVersion: SYNC_PROTOCOL_VERSION,
+          deviceId,
+          mutations: [
+            {
+              mutationId: randomUUID(),
+              entity: 'recording_sessions',
+              id: sessionId,
+              baseVersion,
+              change: session(status),
+            },
+          ],
+        });
+      expect(res.status).toBe(200);
+      expect(res.body.results[0].status).toBe('applied');
+      return res.body.results[0].newVersion as number;
+    };
+    const v1 = await push(0, 'completed');
+    expect((await record(clientId)).packages[0]).toMatchObject({ visitsTotal: 5, visitsUsed: 1 });
+
+    const v2 = await push(v1, 'cancelled');
+    const cancelled = await record(clientId);
+    expect(cancelled.packages[0]).toMatchObject({ visitsUsed: 0, visitsLeft: 5 });
+    expect(cancelled.visits.find((v: { sessionId: string }) => v.sessionId === sessionId)).toMatchObject({
+      status: 'cancelled',
+      paidFromPackage: false,
+    });
+
+    await push(v2, 'completed');
+    expect((await record(clientId)).packages[0]).toMatchObject({ visitsUsed: 1, visitsLeft: 4 });
   });
 
   test('when an offer that the clinic does not have is asked for, then it is refused before the provider is called', async () => {
