@@ -77,6 +77,11 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
             {m.to} · {new Date(m.createdAt).toLocaleString()} · {m.attempts} attempt
             {m.attempts === 1 ? '' : 's'}
             {m.lastError ? ` · ${m.lastError}` : ''}
+            {m.state === 'failed'
+              ? m.nextAttemptAt
+                ? ` · tried again by itself at ${new Date(m.nextAttemptAt).toLocaleTimeString([], { hour: '2-digit', minute: '2-digit' })}`
+                : ' · not tried again by itself: check the address, then retry'
+              : ''}
           </AppText>
           {m.state === 'failed' && canSend ? (
             <Button

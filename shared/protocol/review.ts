@@ -195,6 +195,8 @@ export const reportMailSchema = z.object({
   state: reportMailStateSchema,
   attempts: z.number().int(),
   lastError: z.string().nullable(),
+  /** When the server tries a failed send again by itself; null when it waits for a person. */
+  nextAttemptAt: z.string().nullable(),
   createdAt: z.string(),
   sentAt: z.string().nullable(),
 });

@@ -21,6 +21,8 @@ export type SmtpFake = {
   messages: StoredMessage[];
   /** The next `count` messages are refused with a temporary 451, as a busy relay would. */
   deferNext(count: number): void;
+  /** The next `count` messages are refused for good with a 550, as for an address that does not exist. */
+  refuseNext(count: number): void;
   close(): Promise<void>;
 };
 
@@ -59,6 +61,7 @@ export async function startSmtpFake(
 ): Promise<SmtpFake> {
   const messages: StoredMessage[] = [];
   let deferred = 0;
+  let refused = 0;
   const log = options.log ?? (() => undefined);
 
   const smtp = new SMTPServer({
@@ -67,6 +70,12 @@ export async function startSmtpFake(
     logger: false,
     size: 25 * 1024 * 1024,
     onRcptTo(_address, _session, callback) {
+      if (refused > 0) {
+        refused--;
+        const err = new Error('No such mailbox here') as Error & { responseCode: number };
+        err.responseCode = 550;
+        return callback(err);
+      }
       if (deferred > 0) {
         deferred--;
         const err = new Error('Mailbox busy, try again later') as Error & { responseCode: number };
@@ -137,6 +146,9 @@ export async function startSmtpFake(
     messages,
     deferNext(count) {
       deferred = count;
+    },
+    refuseNext(count) {
+      refused = count;
     },
     close: () =>
       new Promise<void>((resolve) => {

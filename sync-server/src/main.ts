@@ -5,8 +5,10 @@ import pino from 'pino';
 import { createApp } from './app';
 import { createSequelize } from './db/database';
 import { startFollowUpReminderJob } from './jobs/follow-up-reminders';
+import { startReportMailRetryJob } from './jobs/report-mail-retries';
 import { practiceServices } from './services/practice-services';
 import { purgeErased } from './use-cases/clients/erase-client';
+import { reviewServices } from './use-cases/review/services';
 
 const REPO_ROOT = path.resolve(__dirname, '../..');
 const logger = pino({ level: process.env.LOG_LEVEL ?? 'info' });
@@ -29,8 +31,9 @@ function fail(message: string): never {
 
 const REMINDER_INTERVAL_MS = 10 * 60 * 1000;
 const PURGE_INTERVAL_MS = 6 * 60 * 60 * 1000;
+const REPORT_MAIL_RETRY_INTERVAL_MS = 60 * 1000;
 
-/** Follow-up reminders and the purge of erased clients run inside the server process, on timers. */
+/** Follow-up reminders, report e-mail retries and the purge of erased clients run in the server process, on timers. */
 function startBackgroundJobs(sequelize: ReturnType<typeof createSequelize>, jwtSecret: string) {
   const reminders = startFollowUpReminderJob(
     sequelize,
@@ -38,13 +41,19 @@ function startBackgroundJobs(sequelize: ReturnType<typeof createSequelize>, jwtS
     REMINDER_INTERVAL_MS,
     (error) => logger.warn({ err: error }, 'follow-up reminder run failed; the next run retries'),
   );
+  const mailRetries = startReportMailRetryJob(
+    sequelize,
+    () => reviewServices().mail,
+    REPORT_MAIL_RETRY_INTERVAL_MS,
+    (error) => logger.warn({ err: error }, 'report e-mail retry run failed; the next run retries'),
+  );
   const purge = setInterval(() => {
     purgeErased({ sequelize, jwtSecret }).catch((error) =>
       logger.warn({ err: error }, 'purge of erased clients failed'),
     );
   }, PURGE_INTERVAL_MS);
   purge.unref();
-  return { stop: () => (reminders.stop(), clearInterval(purge)) };
+  return { stop: () => (reminders.stop(), mailRetries.stop(), clearInterval(purge)) };
 }
 
 function main(): void {

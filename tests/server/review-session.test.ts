@@ -12,6 +12,7 @@ import {
 } from '@/shared/protocol/review';
 import { cautionParagraphs } from '@/constants/cautions';
 import { generateClinicKeyPair, openClip, sealClip } from '@/shared/seal';
+import { runReportMailRetries, SENDING_STALE_MS } from '@/sync-server/src/jobs/report-mail-retries';
 import { AuditEvent } from '@/sync-server/src/models';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
 import { createSmtpMailService } from '@/sync-server/src/services/mail';
@@ -444,5 +445,92 @@ describe('report by e-mail', () => {
       .send({});
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('no_client_email');
+  });
+});
+
+describe('report e-mails the server sends again by itself', () => {
+  const relay = () =>
+    createSmtpMailService({ host: '127.0.0.1', port: fake.smtpPort, from: 'reports@fourpoint.test' });
+  const minutesFrom = (base: string, minutes: number) => new Date(Date.parse(base) + minutes * 60_000);
+  const delivered = (to: string) => fake.messages.filter((m) => m.envelopeTo.includes(to)).length;
+  const send = async (to: string) => {
+    const res = await request(ctx.app)
+      .post(`/api/review/sessions/${latest}/report-mails`)
+      .set(auth(tokens.practitioner))
+      .send({ to });
+    expect(res.status).toBe(202);
+    return res.body.mail as { id: string; state: string; nextAttemptAt: string | null; lastError: string };
+  };
+  const mailState = async (id: string) => {
+    const listed = await request(ctx.app)
+      .get(`/api/review/sessions/${latest}/report-mails`)
+      .set(auth(tokens.practitioner));
+    return listed.body.mails.find((m: { id: string }) => m.id === id);
+  };
+
+  test('when the relay defers a report, then after the wait the server delivers it once, even with two runs at the same moment', async () => {
+    const to = `deferred.${salt}@example.test`;
+    fake.deferNext(1);
+    const mail = await send(to);
+    expect(mail.state).toBe('failed');
+    // The first wait is one minute (our own schedule, REPORT_MAIL_RETRY_DELAYS_MS).
+    const wait = Date.parse(mail.nextAttemptAt!) - Date.now();
+    expect(wait).toBeGreaterThan(30_000);
+    expect(wait).toBeLessThanOrEqual(60_000);
+
+    const early = await runReportMailRetries(ctx.sequelize, relay(), { clinicId: clinic.id });
+    expect(early.sent).toBe(0);
+    expect(delivered(to)).toBe(0);
+
+    const later = minutesFrom(mail.nextAttemptAt!, 1);
+    const runs = await Promise.all([
+      runReportMailRetries(ctx.sequelize, relay(), { now: later, clinicId: clinic.id }),
+      runReportMailRetries(ctx.sequelize, relay(), { now: later, clinicId: clinic.id }),
+    ]);
+    expect(runs[0].sent + runs[1].sent).toBe(1);
+    expect(delivered(to)).toBe(1);
+    expect(await mailState(mail.id)).toMatchObject({ state: 'sent', attempts: 2, nextAttemptAt: null });
+    const audit = await AuditEvent.findOne({
+      where: { clinicId: clinic.id, action: 'review.report.mail.sent', userId: null },
+      order: [['id', 'DESC']],
+    });
+    expect(audit?.get('details')).toMatchObject({ mailId: mail.id, automatic: true });
+
+    const again = await runReportMailRetries(ctx.sequelize, relay(), {
+      now: minutesFrom(mail.nextAttemptAt!, 500),
+      clinicId: clinic.id,
+    });
+    expect(again.sent).toBe(0);
+    expect(delivered(to)).toBe(1);
+  });
+
+  test('when the relay refuses the address for good, then the server does not try again by itself and waits for a person', async () => {
+    const to = `refused.${salt}@example.test`;
+    fake.refuseNext(1);
+    const mail = await send(to);
+    expect(mail).toMatchObject({ state: 'failed', nextAttemptAt: null });
+    expect(mail.lastError).toMatch(/550/);
+    const run = await runReportMailRetries(ctx.sequelize, relay(), {
+      now: new Date(Date.now() + 86_400_000),
+      clinicId: clinic.id,
+    });
+    expect(run.sent).toBe(0);
+    expect(delivered(to)).toBe(0);
+    expect(await mailState(mail.id)).toMatchObject({ state: 'failed', attempts: 1 });
+  });
+
+  test('when the sender stopped while holding a report, then a later run takes it again and delivers it', async () => {
+    const to = `stalled.${salt}@example.test`;
+    fake.deferNext(1);
+    const mail = await send(to);
+    // What a process that died between claiming and sending leaves behind.
+    await ctx.sequelize.query(
+      `UPDATE report_mails SET state = 'sending', next_attempt_at = NULL, updated_at = now() - make_interval(secs => :secs) WHERE id = :id`,
+      { replacements: { id: mail.id, secs: SENDING_STALE_MS / 1000 + 60 } },
+    );
+    const run = await runReportMailRetries(ctx.sequelize, relay(), { clinicId: clinic.id });
+    expect(run.sent).toBe(1);
+    expect(delivered(to)).toBe(1);
+    expect(await mailState(mail.id)).toMatchObject({ state: 'sent' });
   });
 });

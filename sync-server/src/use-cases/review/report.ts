@@ -1,4 +1,5 @@
 import { randomUUID } from 'node:crypto';
+import type { Sequelize } from 'sequelize';
 import { cautionText, referToClinician } from '@/constants/cautions';
 import type { Site } from '@/shared/protocol';
 import type { ReportMail, SendReportRequest } from '@/shared/protocol/review';
@@ -6,13 +7,14 @@ import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import {
   claimReportMail,
+  type ClaimedReportMail,
   finishReportMail,
   findReportMail,
   insertReportMail,
   listReportMails,
 } from '../../repositories/review-mails-repository';
 import { findSessionRecord, findSiteRecords } from '../../repositories/review-repository';
-import { MailSendError } from '../../services/mail';
+import { MailSendError, type MailService } from '../../services/mail';
 import { renderReportPdf, type ReportInput, type ReportSite } from '../../services/report-pdf';
 import type { Caller, UseCaseDeps } from '../context';
 import { clipBytes, compareSessions, loadSession, reviewSite, SITES, traceFromWav } from './session-view';
@@ -159,6 +161,65 @@ function mailBody(input: ReportInput): string {
     .join('\n');
 }
 
+/** Waits before the server's own next attempts after a temporary failure: 1, 5, 30 and 120 minutes. */
+export const REPORT_MAIL_RETRY_DELAYS_MS = [1, 5, 30, 120].map((minutes) => minutes * 60 * 1000);
+
+/**
+ * Sends a claimed mail and records the outcome and its audit event. A temporary failure is tried again by the
+ * server (jobs/report-mail-retries.ts) after the next wait; a permanent one, or the last attempt, waits for a person.
+ */
+export async function deliverClaimedReportMail(
+  sequelize: Sequelize,
+  mailService: MailService,
+  claimed: ClaimedReportMail,
+  actor: { userId: string | null; ip: string | null; now?: Date },
+): Promise<ReportMail> {
+  let result: ReportMail;
+  try {
+    const sent = await mailService.send({
+      to: claimed.mail.to,
+      subject: claimed.mail.subject,
+      text: claimed.bodyText,
+      attachments: [
+        { filename: claimed.attachmentName, content: claimed.attachment, contentType: 'application/pdf' },
+      ],
+    });
+    result = await finishReportMail(sequelize, claimed.clinicId, claimed.mail.id, {
+      state: 'sent',
+      messageId: sent.messageId,
+    });
+  } catch (error) {
+    const temporary = !(error instanceof MailSendError) || error.temporary;
+    const wait = REPORT_MAIL_RETRY_DELAYS_MS[claimed.mail.attempts - 1];
+    const message =
+      error instanceof MailSendError
+        ? error.message
+        : `Sending failed: ${error instanceof Error ? error.message : String(error)}`;
+    result = await finishReportMail(sequelize, claimed.clinicId, claimed.mail.id, {
+      state: 'failed',
+      error: message,
+      nextAttemptAt:
+        temporary && wait !== undefined ? new Date((actor.now ?? new Date()).getTime() + wait) : null,
+    });
+  }
+  await recordAuditEvent({
+    clinicId: claimed.clinicId,
+    userId: actor.userId,
+    action: result.state === 'sent' ? 'review.report.mail.sent' : 'review.report.mail.failed',
+    entity: 'recording_sessions',
+    entityId: result.sessionId,
+    ip: actor.ip,
+    details: {
+      mailId: result.id,
+      attempt: result.attempts,
+      to: result.to,
+      error: result.lastError,
+      automatic: actor.userId === null,
+    },
+  });
+  return result;
+}
+
 async function attemptSend(deps: UseCaseDeps, caller: Caller, mailId: string): Promise<ReportMail> {
   const claimed = await claimReportMail(deps.sequelize, caller.clinicId, mailId);
   if (!claimed) {
@@ -168,40 +229,10 @@ async function attemptSend(deps: UseCaseDeps, caller: Caller, mailId: string): P
       throw new AppError('already_sent', 'This report e-mail was already delivered.', 409);
     throw new AppError('send_in_progress', 'This report e-mail is being sent right now.', 409);
   }
-  let result: ReportMail;
-  try {
-    const sent = await reviewServices().mail.send({
-      to: claimed.mail.to,
-      subject: claimed.mail.subject,
-      text: claimed.bodyText,
-      attachments: [
-        { filename: claimed.attachmentName, content: claimed.attachment, contentType: 'application/pdf' },
-      ],
-    });
-    result = await finishReportMail(deps.sequelize, caller.clinicId, mailId, {
-      state: 'sent',
-      messageId: sent.messageId,
-    });
-  } catch (error) {
-    const message =
-      error instanceof MailSendError
-        ? error.message
-        : `Sending failed: ${error instanceof Error ? error.message : String(error)}`;
-    result = await finishReportMail(deps.sequelize, caller.clinicId, mailId, {
-      state: 'failed',
-      error: message,
-    });
-  }
-  await recordAuditEvent({
-    clinicId: caller.clinicId,
+  return deliverClaimedReportMail(deps.sequelize, reviewServices().mail, claimed, {
     userId: caller.userId,
-    action: result.state === 'sent' ? 'review.report.mail.sent' : 'review.report.mail.failed',
-    entity: 'recording_sessions',
-    entityId: result.sessionId,
-    ip: caller.ip,
-    details: { mailId, attempt: result.attempts, to: result.to, error: result.lastError },
+    ip: caller.ip ?? null,
   });
-  return result;
 }
 
 /** Keeps the message (with its PDF) first, then sends; a failure leaves it stored and retryable. */
