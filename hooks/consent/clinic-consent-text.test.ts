@@ -1,5 +1,5 @@
 import AsyncStorage from '@react-native-async-storage/async-storage';
-import { consentTextVersion as builtInVersion } from '@/components/capture/consent-text';
+import { consentTextVersion as builtInVersion } from '@/constants/consent-text';
 import { request } from '@/hooks/api/client';
 import { readCachedConsentText, refreshClinicConsentText, toShownConsentText } from './clinic-consent-text';
 

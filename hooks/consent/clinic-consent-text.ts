@@ -7,7 +7,7 @@ import { consentTextListResponseSchema } from '@/shared/protocol/practice';
 import {
   consentText as builtInParagraphs,
   consentTextVersion as builtInVersion,
-} from '@/components/capture/consent-text';
+} from '@/constants/consent-text';
 import { request } from '@/hooks/api/client';
 
 const storageKey = 'fourpoint.clinic-consent-text';

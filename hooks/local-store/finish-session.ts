@@ -1,6 +1,6 @@
 import { v4 as uuid } from 'uuid';
 import { siteInfo } from '@/constants/sites';
-import { consentTextId as builtInConsentTextId } from '@/components/capture/consent-text';
+import { consentTextId as builtInConsentTextId } from '@/constants/consent-text';
 import { readCachedConsentText } from '@/hooks/consent/clinic-consent-text';
 import type { Mutation, SyncEntity } from '@/shared/protocol/sync';
 import { sealClip, sha256Hex } from '@/shared/seal';
