@@ -41,7 +41,7 @@ module.exports = {
       preset: 'jest-expo',
       setupFiles: ['<rootDir>/tests/support/app-jest-setup.ts'],
       testMatch: [
-        '<rootDir>/components/**/*.test.tsx',
+        '<rootDir>/components/**/*.test.ts?(x)',
         '<rootDir>/hooks/**/*.test.ts?(x)',
         '<rootDir>/constants/**/*.test.ts',
       ],

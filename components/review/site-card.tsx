@@ -1,5 +1,5 @@
 import { useEffect, useState } from 'react';
-import { StyleSheet, View } from 'react-native';
+import { Platform, StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
@@ -11,19 +11,17 @@ import { fetchClipUrl, useTraceQuery } from '@/hooks/api/review';
 import type { ReviewSite } from '@/shared/protocol/review';
 import type { Playback } from './clip-playback';
 import { MeasurementsTable } from './measurements-table';
-import { TraceView, type TimeWindow } from './trace-view';
+import { clampWindow, panWindow, zoomWindow, type TimeWindow } from './time-window';
+import { TraceGestures } from './trace-gestures';
+import { TraceView } from './trace-view';
+
+const isWeb = Platform.OS === 'web';
 
 type Props = {
   sessionId: string;
   site: ReviewSite;
   playback: Playback;
   compare: { sessionId: string; mode: 'beside' | 'over'; shiftS: number; label: string } | null;
-};
-
-const clampWindow = (w: TimeWindow, duration: number): TimeWindow => {
-  const span = Math.min(duration, Math.max(0.25, w.end - w.start));
-  const start = Math.min(Math.max(0, w.start), Math.max(0, duration - span));
-  return { start, end: start + span };
 };
 
 export function SiteCard({ sessionId, site, playback, compare }: Props) {
@@ -37,15 +35,8 @@ export function SiteCard({ sessionId, site, playback, compare }: Props) {
   useEffect(() => setWindow({ start: 0, end: initial }), [initial]);
   const key = `${sessionId}/${site.site}`;
   const playing = playback.playingKey === key;
-  const zoom = (factor: number) => {
-    const mid = (window.start + window.end) / 2;
-    const half = ((window.end - window.start) * factor) / 2;
-    setWindow(clampWindow({ start: mid - half, end: mid + half }, duration));
-  };
-  const pan = (fraction: number) => {
-    const shift = (window.end - window.start) * fraction;
-    setWindow(clampWindow({ start: window.start + shift, end: window.end + shift }, duration));
-  };
+  const zoom = (factor: number) => setWindow(zoomWindow(window, factor, duration));
+  const pan = (fraction: number) => setWindow(panWindow(window, fraction, duration));
   // While playing, the view follows the cursor when it leaves the zoomed window.
   useEffect(() => {
     if (!playing) return;
@@ -101,15 +92,17 @@ export function SiteCard({ sessionId, site, playback, compare }: Props) {
         </AppText>
       ) : (
         <>
-          <TraceView
-            trace={trace.data}
-            window={window}
-            cursorS={playing ? playback.positionS : null}
-            overlay={
-              compare?.mode === 'over' && then.data ? { trace: then.data, shiftS: compare.shiftS } : null
-            }
-            testID={`${tid}-trace`}
-          />
+          <TraceGestures window={window} duration={duration} onChange={setWindow} testID={`${tid}-gestures`}>
+            <TraceView
+              trace={trace.data}
+              window={window}
+              cursorS={playing ? playback.positionS : null}
+              overlay={
+                compare?.mode === 'over' && then.data ? { trace: then.data, shiftS: compare.shiftS } : null
+              }
+              testID={`${tid}-trace`}
+            />
+          </TraceGestures>
           {compare?.mode === 'beside' && then.data ? (
             <View testID={`${tid}-then`}>
               <AppText variant="caption" color={colors.textMuted}>
@@ -150,7 +143,8 @@ export function SiteCard({ sessionId, site, playback, compare }: Props) {
             <Button label="◀ Earlier" variant="ghost" testID={`${tid}-pan-left`} onPress={() => pan(-0.5)} />
             <Button label="Later ▶" variant="ghost" testID={`${tid}-pan-right`} onPress={() => pan(0.5)} />
             <AppText variant="caption" color={colors.textMuted} testID={`${tid}-window`}>
-              {window.start.toFixed(1)}–{window.end.toFixed(1)} s
+              {window.start.toFixed(1)}–{window.end.toFixed(1)} s · drag the trace to move
+              {isWeb ? '; Ctrl + wheel zooms' : ''}
             </AppText>
           </View>
           {playing && playback.error ? (

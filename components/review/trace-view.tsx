@@ -3,8 +3,7 @@ import { View, type LayoutChangeEvent } from 'react-native';
 import Svg, { Line, Path, Rect, Text as SvgText } from 'react-native-svg';
 import { colors, fonts } from '@/constants/theme';
 import type { Trace } from '@/shared/protocol/review';
-
-export type TimeWindow = { start: number; end: number };
+import type { TimeWindow } from './time-window';
 
 type Props = {
   trace: Trace;

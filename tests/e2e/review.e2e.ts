@@ -76,6 +76,33 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     expect(await visible(page, 'site-mitral-window').textContent()).not.toBe(zoomed);
     await visible(page, 'site-mitral-zoom-out').click();
 
+    // The same by hand: a drag to the left shows later time; Ctrl + wheel up zooms in around the pointer.
+    const windowOf = async () =>
+      (/([\d.]+)–([\d.]+) s/.exec((await visible(page, 'site-mitral-window').textContent()) ?? '') ?? [])
+        .slice(1)
+        .map(Number);
+    const [start0, end0] = await windowOf();
+    const box = (await visible(page, 'site-mitral-gestures').boundingBox())!;
+    const y = box.y + box.height / 2;
+    await page.mouse.move(box.x + box.width * 0.7, y);
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width * 0.5, y, { steps: 8 });
+    await page.mouse.move(box.x + box.width * 0.3, y, { steps: 8 });
+    await page.mouse.up();
+    const [start1, end1] = await windowOf();
+    expect(start1).toBeGreaterThan(start0);
+    expect(end1 - start1).toBeCloseTo(end0 - start0, 1);
+    await page.keyboard.down('Control');
+    await page.mouse.move(box.x + box.width / 2, y);
+    await page.mouse.wheel(0, -120);
+    await page.keyboard.up('Control');
+    await page.waitForFunction((span) => {
+      const m = /([\d.]+)–([\d.]+) s/.exec(
+        document.querySelector('[data-testid="site-mitral-window"]')?.textContent ?? '',
+      );
+      return m !== null && Number(m[2]) - Number(m[1]) < span - 0.5;
+    }, end1 - start1);
+
     // Playback moves a cursor over the trace.
     await visible(page, 'site-mitral-play').click();
     const cursor = page.getByTestId('site-mitral-trace-cursor').first();
