@@ -1,4 +1,5 @@
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
+import { TextInput } from 'react-native';
 import type { ApiResult } from '@/hooks/api/result';
 import type { SignInResponse } from '@/shared/protocol';
 import { SignInForm } from './sign-in-form';
@@ -86,5 +87,27 @@ describe('sign-in form', () => {
     setup({ kind: 'offline', message: 'offline', temporary: true });
     fill('someone@clinic.example', 'pw');
     expect(await screen.findByTestId('sign-in-error')).toHaveTextContent(/Network unreachable/);
+  });
+
+  test('when the e-mail is submitted from the keyboard, then focus moves to the password field', () => {
+    const focus = jest.spyOn(TextInput.prototype, 'focus');
+    try {
+      setup(okAnswer);
+      fireEvent(screen.getByTestId('sign-in-email'), 'submitEditing');
+      expect(focus).toHaveBeenCalledTimes(1);
+      expect((focus.mock.contexts[0] as TextInput).props.testID).toBe('sign-in-password');
+    } finally {
+      focus.mockRestore();
+    }
+  });
+
+  test('when the password is submitted from the keyboard, then the form is sent', async () => {
+    const onSubmit = setup(okAnswer);
+    fireEvent.changeText(screen.getByTestId('sign-in-email'), 'someone@clinic.example');
+    fireEvent.changeText(screen.getByTestId('sign-in-password'), 'pw');
+    fireEvent(screen.getByTestId('sign-in-password'), 'submitEditing');
+    await waitFor(() =>
+      expect(onSubmit).toHaveBeenCalledWith({ email: 'someone@clinic.example', password: 'pw' }),
+    );
   });
 });

@@ -1,10 +1,10 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useRef, useState } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View, type TextInput } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
-import { TextField } from '@/components/ui/text-field';
+import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, radii, space } from '@/constants/theme';
 import type { ApiResult } from '@/hooks/api/result';
 import { offlineMessage } from '@/hooks/api/result';
@@ -40,7 +40,7 @@ export function SignInForm({ onSubmit }: Props) {
   const {
     control,
     handleSubmit,
-    formState: { errors, isSubmitting },
+    formState: { isSubmitting },
   } = useForm<z.input<typeof formSchema>, unknown, SignInRequest>({
     resolver: zodResolver(formSchema),
     defaultValues: { email: '', password: '' },
@@ -54,45 +54,29 @@ export function SignInForm({ onSubmit }: Props) {
 
   return (
     <View style={styles.form} testID="sign-in-form">
-      <Controller
+      <FormTextField
         control={control}
         name="email"
-        render={({ field }) => (
-          <TextField
-            label="E-mail"
-            testID="sign-in-email"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={errors.email?.message}
-            autoCapitalize="none"
-            autoComplete="email"
-            keyboardType="email-address"
-            inputMode="email"
-            returnKeyType="next"
-            onSubmitEditing={() => passwordRef.current?.focus()}
-            placeholder="name@clinic.example"
-          />
-        )}
+        label="E-mail"
+        testID="sign-in-email"
+        autoCapitalize="none"
+        autoComplete="email"
+        keyboardType="email-address"
+        inputMode="email"
+        returnKeyType="next"
+        onSubmitEditing={() => passwordRef.current?.focus()}
+        placeholder="name@clinic.example"
       />
-      <Controller
+      <FormTextField
+        ref={passwordRef}
         control={control}
         name="password"
-        render={({ field }) => (
-          <TextField
-            ref={passwordRef}
-            label="Password"
-            testID="sign-in-password"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={errors.password?.message}
-            secureTextEntry
-            autoComplete="current-password"
-            returnKeyType="go"
-            onSubmitEditing={() => void submit()}
-          />
-        )}
+        label="Password"
+        testID="sign-in-password"
+        secureTextEntry
+        autoComplete="current-password"
+        returnKeyType="go"
+        onSubmitEditing={() => void submit()}
       />
       {formError ? (
         <View style={styles.formError} testID="sign-in-error" accessibilityRole="alert">

@@ -1,17 +1,25 @@
-import type { ComponentProps } from 'react';
+import type { ComponentProps, Ref } from 'react';
+import type { TextInput } from 'react-native';
 import { Controller, type Control, type FieldPath, type FieldValues } from 'react-hook-form';
 import { TextField } from './text-field';
 
-type Props<T extends FieldValues> = Omit<
+type Props<T extends FieldValues, TTransformed> = Omit<
   ComponentProps<typeof TextField>,
-  'value' | 'onChangeText' | 'onBlur' | 'error'
+  'value' | 'onChangeText' | 'onBlur' | 'error' | 'ref'
 > & {
-  control: Control<T>;
+  control: Control<T, unknown, TTransformed>;
   name: FieldPath<T>;
+  /** The text input itself, e.g. to move focus to this field from the one before. */
+  ref?: Ref<TextInput>;
 };
 
 /** A text field bound to a react-hook-form field: value, change, blur and the field's error message. */
-export function FormTextField<T extends FieldValues>({ control, name, ...fieldProps }: Props<T>) {
+export function FormTextField<T extends FieldValues, TTransformed = T>({
+  control,
+  name,
+  ref,
+  ...fieldProps
+}: Props<T, TTransformed>) {
   return (
     <Controller
       control={control}
@@ -19,6 +27,7 @@ export function FormTextField<T extends FieldValues>({ control, name, ...fieldPr
       render={({ field, fieldState }) => (
         <TextField
           {...fieldProps}
+          ref={ref}
           value={field.value}
           onChangeText={field.onChange}
           onBlur={field.onBlur}
