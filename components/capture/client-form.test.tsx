@@ -8,8 +8,8 @@ describe('ClientForm', () => {
     const onSubmit = jest.fn();
     render(<ClientForm onSubmit={onSubmit} />);
     fireEvent.press(screen.getByTestId('client-submit'));
-    await screen.findByTestId('client-firstName-error');
-    expect(screen.getByTestId('client-lastName-error')).toBeTruthy();
+    expect(await screen.findByTestId('client-firstName-error')).toHaveTextContent('Enter the first name.');
+    expect(screen.getByTestId('client-lastName-error')).toHaveTextContent('Enter the last name.');
     expect(onSubmit).not.toHaveBeenCalled();
   });
 
@@ -21,8 +21,12 @@ describe('ClientForm', () => {
     fireEvent.changeText(screen.getByTestId('client-dateOfBirth'), '1990-02-31');
     fireEvent.changeText(screen.getByTestId('client-email'), 'not-an-email');
     fireEvent.press(screen.getByTestId('client-submit'));
-    await screen.findByTestId('client-dateOfBirth-error');
-    expect(screen.getByTestId('client-email-error')).toBeTruthy();
+    expect(await screen.findByTestId('client-dateOfBirth-error')).toHaveTextContent(
+      'Use the form YYYY-MM-DD, a real date in the past.',
+    );
+    expect(screen.getByTestId('client-email-error')).toHaveTextContent(
+      'Enter an e-mail address like name@example.com, or leave it empty.',
+    );
     expect(onSubmit).not.toHaveBeenCalled();
   });
 
@@ -48,8 +52,9 @@ describe('ConsentForm', () => {
     render(<ConsentForm clientName="Ilse Vantongeren" text={toShownConsentText(null)} onSubmit={onSubmit} />);
     fireEvent.changeText(screen.getByTestId('consent-name'), 'Somebody Else');
     fireEvent.press(screen.getByTestId('consent-submit'));
-    const error = await screen.findByTestId('consent-name-error');
-    expect(String(error.props.children)).toContain('Ilse Vantongeren');
+    expect(await screen.findByTestId('consent-name-error')).toHaveTextContent(
+      'Type the name exactly as on file: Ilse Vantongeren.',
+    );
     expect(onSubmit).not.toHaveBeenCalled();
   });
 
@@ -61,5 +66,15 @@ describe('ConsentForm', () => {
     await waitFor(() => expect(onSubmit).toHaveBeenCalled());
     expect(onSubmit.mock.calls[0][0]).toMatchObject({ textVersion: '1' });
     expect(onSubmit.mock.calls[0][0].signedOn).toMatch(/^\d{4}-\d{2}-\d{2}$/);
+  });
+
+  test('when the consent date is not today, then the date field says consent is dated today', async () => {
+    const onSubmit = jest.fn();
+    render(<ConsentForm clientName="Ilse Vantongeren" text={toShownConsentText(null)} onSubmit={onSubmit} />);
+    fireEvent.changeText(screen.getByTestId('consent-name'), 'Ilse Vantongeren');
+    fireEvent.changeText(screen.getByTestId('consent-date'), '2001-01-01');
+    fireEvent.press(screen.getByTestId('consent-submit'));
+    expect(await screen.findByTestId('consent-date-error')).toHaveTextContent('Consent is dated today.');
+    expect(onSubmit).not.toHaveBeenCalled();
   });
 });

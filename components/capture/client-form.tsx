@@ -1,9 +1,9 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { Button } from '@/components/ui/button';
-import { TextField } from '@/components/ui/text-field';
+import { FormTextField } from '@/components/ui/form-text-field';
 import { space } from '@/constants/theme';
 
 const isoDate = /^\d{4}-\d{2}-\d{2}$/;
@@ -57,38 +57,49 @@ export function ClientForm({ onSubmit, submitLabel = 'Add client' }: Props) {
   const {
     control,
     handleSubmit,
-    formState: { errors, isSubmitting },
+    formState: { isSubmitting },
   } = useForm<ClientFormValues>({
     resolver: zodResolver(clientFormSchema),
     defaultValues: { firstName: '', lastName: '', dateOfBirth: '', email: '', phone: '' },
   });
-  const field = (name: keyof ClientFormValues, label: string, extra: Record<string, unknown> = {}) => (
-    <Controller
-      control={control}
-      name={name}
-      render={({ field: { value, onChange, onBlur } }) => (
-        <TextField
-          label={label}
-          testID={`client-${name}`}
-          value={value}
-          onChangeText={onChange}
-          onBlur={onBlur}
-          error={errors[name]?.message}
-          {...extra}
-        />
-      )}
-    />
-  );
   return (
     <View style={styles.root} testID="client-form">
-      {field('firstName', 'First name', { autoComplete: 'off' })}
-      {field('lastName', 'Last name', { autoComplete: 'off' })}
-      {field('dateOfBirth', 'Date of birth (optional, YYYY-MM-DD)', { placeholder: '1980-04-23' })}
-      {field('email', 'E-mail (optional, for consent and reports)', {
-        autoCapitalize: 'none',
-        keyboardType: 'email-address',
-      })}
-      {field('phone', 'Phone (optional)', { keyboardType: 'phone-pad' })}
+      <FormTextField
+        control={control}
+        name="firstName"
+        label="First name"
+        testID="client-firstName"
+        autoComplete="off"
+      />
+      <FormTextField
+        control={control}
+        name="lastName"
+        label="Last name"
+        testID="client-lastName"
+        autoComplete="off"
+      />
+      <FormTextField
+        control={control}
+        name="dateOfBirth"
+        label="Date of birth (optional, YYYY-MM-DD)"
+        testID="client-dateOfBirth"
+        placeholder="1980-04-23"
+      />
+      <FormTextField
+        control={control}
+        name="email"
+        label="E-mail (optional, for consent and reports)"
+        testID="client-email"
+        autoCapitalize="none"
+        keyboardType="email-address"
+      />
+      <FormTextField
+        control={control}
+        name="phone"
+        label="Phone (optional)"
+        testID="client-phone"
+        keyboardType="phone-pad"
+      />
       <Button
         label={submitLabel}
         onPress={handleSubmit(onSubmit)}

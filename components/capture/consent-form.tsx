@@ -1,10 +1,10 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
-import { TextField } from '@/components/ui/text-field';
+import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, radii, space } from '@/constants/theme';
 import type { ShownConsentText } from '@/hooks/consent/clinic-consent-text';
 
@@ -44,7 +44,7 @@ export function ConsentForm({ clientName, text: shown, onSubmit }: Props) {
   const {
     control,
     handleSubmit,
-    formState: { errors, isSubmitting },
+    formState: { isSubmitting },
   } = useForm<ConsentFormValues>({
     resolver: zodResolver(consentFormSchema(clientName)),
     defaultValues: { signedName: '', signedOn: today() },
@@ -61,35 +61,14 @@ export function ConsentForm({ clientName, text: shown, onSubmit }: Props) {
           </AppText>
         ))}
       </View>
-      <Controller
+      <FormTextField
         control={control}
         name="signedName"
-        render={({ field: { value, onChange, onBlur } }) => (
-          <TextField
-            label="Client types their full name"
-            testID="consent-name"
-            value={value}
-            onChangeText={onChange}
-            onBlur={onBlur}
-            error={errors.signedName?.message}
-            autoComplete="off"
-          />
-        )}
+        label="Client types their full name"
+        testID="consent-name"
+        autoComplete="off"
       />
-      <Controller
-        control={control}
-        name="signedOn"
-        render={({ field: { value, onChange, onBlur } }) => (
-          <TextField
-            label="Date"
-            testID="consent-date"
-            value={value}
-            onChangeText={onChange}
-            onBlur={onBlur}
-            error={errors.signedOn?.message}
-          />
-        )}
-      />
+      <FormTextField control={control} name="signedOn" label="Date" testID="consent-date" />
       <Button
         label="Record consent"
         onPress={handleSubmit((values) => onSubmit({ ...values, textVersion: String(shown.version) }))}
