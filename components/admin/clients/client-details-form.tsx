@@ -1,12 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
-import { Controller, useForm, type Control } from 'react-hook-form';
+import { useForm, type Control } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
+import { FormTextField } from '@/components/ui/form-text-field';
 import { Panel } from '@/components/ui/panel';
-import { TextField } from '@/components/ui/text-field';
 import { colors, space } from '@/constants/theme';
 import { ApiFailure } from '@/hooks/api/result';
 import { clientDetailsSchema, type ClientDetails, type ClientRecord } from '@/shared/protocol/practice';
@@ -88,23 +88,15 @@ function Field({
 }) {
   return (
     <View style={multiline ? styles.full : styles.half}>
-      <Controller
+      <FormTextField
         control={control}
         name={name}
-        render={({ field, fieldState }) => (
-          <TextField
-            label={label}
-            testID={`client-field-${name}`}
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            placeholder={hint}
-            multiline={multiline}
-            numberOfLines={multiline ? 5 : undefined}
-            autoCapitalize={name === 'email' ? 'none' : 'sentences'}
-            error={fieldState.error?.message}
-          />
-        )}
+        label={label}
+        testID={`client-field-${name}`}
+        placeholder={hint}
+        multiline={multiline}
+        numberOfLines={multiline ? 5 : undefined}
+        autoCapitalize={name === 'email' ? 'none' : 'sentences'}
       />
     </View>
   );

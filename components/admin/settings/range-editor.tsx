@@ -1,13 +1,13 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/components/ui/app-text';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { ChoiceChips } from '@/components/ui/choice-chips';
-import { TextField } from '@/components/ui/text-field';
+import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, space } from '@/constants/theme';
 import { sites } from '@/constants/sites';
 import type { Site } from '@/shared/protocol';
@@ -82,21 +82,13 @@ export function RangeRow({ range, onSave, onReset }: RowProps) {
       <View style={styles.inputs}>
         {(['low', 'high'] as const).map((side) => (
           <View key={side} style={styles.input}>
-            <Controller
+            <FormTextField
               control={form.control}
               name={side}
-              render={({ field, fieldState }) => (
-                <TextField
-                  label={`${side === 'low' ? 'Low' : 'High'} (${range.unit})`}
-                  testID={`range-${side}-${id}`}
-                  inputMode="decimal"
-                  placeholder="no limit"
-                  value={field.value}
-                  onChangeText={field.onChange}
-                  onBlur={field.onBlur}
-                  error={fieldState.error?.message}
-                />
-              )}
+              label={`${side === 'low' ? 'Low' : 'High'} (${range.unit})`}
+              testID={`range-${side}-${id}`}
+              inputMode="decimal"
+              placeholder="no limit"
             />
           </View>
         ))}
