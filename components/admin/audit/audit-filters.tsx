@@ -1,9 +1,9 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { Button } from '@/components/ui/button';
-import { TextField } from '@/components/ui/text-field';
+import { FormTextField } from '@/components/ui/form-text-field';
 import { space } from '@/constants/theme';
 
 const day = z
@@ -39,21 +39,14 @@ export function AuditFilters({ onApply }: { onApply: (values: AuditFilterValues)
     <View style={styles.row}>
       {fields.map((f) => (
         <View key={f.name} style={styles.field}>
-          <Controller
+          <FormTextField
             control={form.control}
             name={f.name}
-            render={({ field, fieldState }) => (
-              <TextField
-                label={f.label}
-                testID={`audit-filter-${f.name}`}
-                placeholder={f.hint}
-                autoCapitalize="none"
-                value={field.value}
-                onChangeText={field.onChange}
-                onSubmitEditing={() => void apply()}
-                error={fieldState.error?.message}
-              />
-            )}
+            label={f.label}
+            testID={`audit-filter-${f.name}`}
+            placeholder={f.hint}
+            autoCapitalize="none"
+            onSubmitEditing={() => void apply()}
           />
         </View>
       ))}

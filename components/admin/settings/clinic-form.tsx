@@ -1,12 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import * as DocumentPicker from 'expo-document-picker';
 import { useState } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { Image, StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
-import { TextField } from '@/components/ui/text-field';
+import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, radii, space } from '@/constants/theme';
 import type { ClinicSettings } from '@/shared/protocol/practice';
 
@@ -98,22 +98,14 @@ export function ClinicForm({
     label: string,
     multiline = false,
   ) => (
-    <Controller
+    <FormTextField
       control={form.control}
       name={name}
-      render={({ field, fieldState }) => (
-        <TextField
-          label={label}
-          testID={`settings-${name}`}
-          value={field.value}
-          onChangeText={field.onChange}
-          onBlur={field.onBlur}
-          multiline={multiline}
-          numberOfLines={multiline ? 3 : undefined}
-          inputMode={multiline || name === 'name' ? 'text' : 'numeric'}
-          error={fieldState.error?.message}
-        />
-      )}
+      label={label}
+      testID={`settings-${name}`}
+      multiline={multiline}
+      numberOfLines={multiline ? 3 : undefined}
+      inputMode={multiline || name === 'name' ? 'text' : 'numeric'}
     />
   );
 
