@@ -5,6 +5,16 @@ import { useTake, type TakeState } from './use-take';
 
 jest.mock('./use-take', () => ({ ...jest.requireActual('./use-take'), useTake: jest.fn() }));
 jest.mock('@/hooks/recorder/playback', () => ({ playClip: jest.fn() }));
+// One input, nothing kept: the picker stays hidden, as on a phone with only its own microphone.
+jest.mock('@/hooks/recorder/inputs', () => ({
+  useAudioInputs: () => ({
+    inputs: [],
+    chosen: null,
+    chosenMissing: false,
+    choose: jest.fn(),
+    refresh: jest.fn(),
+  }),
+}));
 
 const mockedUseTake = useTake as jest.MockedFunction<typeof useTake>;
 
@@ -96,5 +106,5 @@ test('when the operator picks another length, then the record button uses it', (
   withTake({ phase: 'idle' });
   renderStep();
   fireEvent.press(screen.getByTestId('length-30'));
-  expect(mockedUseTake).toHaveBeenLastCalledWith('tricuspid', 30);
+  expect(mockedUseTake).toHaveBeenLastCalledWith('tricuspid', 30, null, expect.any(Function));
 });

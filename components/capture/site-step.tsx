@@ -6,10 +6,12 @@ import { CautionNote } from '@/components/ui/caution-note';
 import { siteInfo } from '@/constants/sites';
 import { colors, radii, space } from '@/constants/theme';
 import type { RecordingSource, SiteRecording } from '@/hooks/local-store/records';
+import { useAudioInputs } from '@/hooks/recorder/inputs';
 import { playClip } from '@/hooks/recorder/playback';
 import { encodeWav16 } from '@/shared/analysis/wav';
 import type { Site } from '@/shared/protocol';
 import { Countdown } from './countdown';
+import { InputPicker } from './input-picker';
 import { LevelMeter } from './level-meter';
 import { SitePicture } from './site-picture';
 import { SkipSiteForm } from './skip-site-form';
@@ -46,7 +48,14 @@ export function SiteStep({
   const info = siteInfo(site);
   const [lengthS, setLengthS] = useState(defaultLengthS);
   const [skipping, setSkipping] = useState(false);
-  const take = useTake(site, lengthS);
+  const audioInputs = useAudioInputs();
+  // A kept input that is unplugged now falls back to the default rather than failing the take.
+  const take = useTake(
+    site,
+    lengthS,
+    audioInputs.chosenMissing ? null : audioInputs.chosen,
+    audioInputs.refresh,
+  );
   const { state } = take;
   const traceWidth = Math.max(200, width);
 
@@ -98,6 +107,12 @@ export function SiteStep({
                 </View>
               ))}
             </View>
+            <InputPicker
+              inputs={audioInputs.inputs}
+              chosen={audioInputs.chosen}
+              chosenMissing={audioInputs.chosenMissing}
+              onChoose={(id) => void audioInputs.choose(id)}
+            />
             <Button label={`Record ${lengthS} s`} onPress={() => void take.record()} testID="record" />
             <Button
               label="Import a file instead"

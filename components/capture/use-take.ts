@@ -32,7 +32,12 @@ function tooShort(pcm: Pcm): string | null {
 }
 
 /** One site's take: microphone with live level and countdown, or an imported file, then analysis off the UI thread. */
-export function useTake(site: Site, lengthS: number) {
+export function useTake(
+  site: Site,
+  lengthS: number,
+  inputId: string | null = null,
+  onMicrophoneOpened?: () => void,
+) {
   const [state, setState] = useState<TakeState>({ phase: 'idle' });
   const mic = useRef<LiveMicrophone | null>(null);
   const frame = useRef<number | null>(null);
@@ -115,8 +120,10 @@ export function useTake(site: Site, lengthS: number) {
     cleanup();
     setState({ phase: 'starting' });
     try {
-      const live = await openMicrophone();
+      const live = await openMicrophone(inputId);
       mic.current = live;
+      // Input names are readable once the microphone is allowed: the picker can name them now.
+      onMicrophoneOpened?.();
       const startedAt = performance.now();
       live.start();
       const tick = () => {
@@ -138,7 +145,7 @@ export function useTake(site: Site, lengthS: number) {
         kind,
       });
     }
-  }, [cleanup, lengthS, stop]);
+  }, [cleanup, lengthS, stop, inputId, onMicrophoneOpened]);
 
   const importFile = useCallback(async () => {
     cleanup();

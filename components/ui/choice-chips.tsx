@@ -29,7 +29,9 @@ export function ChoiceChips<V extends string>({
             style={[styles.chip, on && styles.chipOn]}
             testID={`${testID}-${c.value}`}
             accessibilityRole="radio"
-            accessibilityState={{ selected: on }}
+            accessibilityState={{ checked: on }}
+            // react-native-web reads the ARIA prop, not accessibilityState: a radio's state is aria-checked.
+            aria-checked={on}
           >
             <AppText variant="small" color={on ? colors.textOnInk : colors.ink}>
               {c.label}

@@ -80,6 +80,24 @@ describe('openMicrophone', () => {
   });
 });
 
+describe('recording from a chosen input', () => {
+  test('when an input is chosen, then only that one is asked for, with the same raw-signal settings', async () => {
+    const getUserMedia = jest.fn().mockRejectedValue(domError('NotAllowedError'));
+    withMicrophone(getUserMedia);
+    await openMicrophone('stethoscope-usb-1').catch(() => undefined);
+    expect(getUserMedia).toHaveBeenCalledWith({
+      video: false,
+      audio: { ...(microphoneConstraints.audio as object), deviceId: { exact: 'stethoscope-usb-1' } },
+    });
+  });
+
+  test('when the chosen input is unplugged, then the error says so rather than that the device has none', async () => {
+    withMicrophone(jest.fn().mockRejectedValue(domError('OverconstrainedError')));
+    const failure = await openMicrophone('stethoscope-usb-1').catch((e: unknown) => e);
+    expect(failure).toMatchObject({ kind: 'input-missing', message: recorderMessages['input-missing'] });
+  });
+});
+
 test('when an unknown error comes from the browser, then it maps to a generic failure with a way forward', () => {
   expect(recorderErrorFrom(new Error('boom'))).toMatchObject({
     kind: 'failed',

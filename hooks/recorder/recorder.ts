@@ -2,7 +2,8 @@
 // directly: expo-audio's web recorder asks for `audio: true`, which leaves the browser's echo cancellation, noise
 // suppression and automatic gain on, and those reshape heart sounds; expo-av has no native build for SDK 55+.
 // Playback (playback.ts) goes through expo-audio, the SDK's maintained audio module.
-export type RecorderErrorKind = 'permission-denied' | 'no-microphone' | 'unsupported' | 'busy' | 'failed';
+export type RecorderErrorKind =
+  'permission-denied' | 'no-microphone' | 'input-missing' | 'unsupported' | 'busy' | 'failed';
 
 export class RecorderError extends Error {
   constructor(
@@ -18,6 +19,8 @@ export const recorderMessages: Record<RecorderErrorKind, string> = {
   'permission-denied':
     'Microphone access was refused. Allow the microphone for this site in the browser settings, or import a file instead.',
   'no-microphone': 'No microphone or sensor was found. Connect one and try again, or import a file instead.',
+  'input-missing':
+    'The chosen input is not connected. Plug the sensor in, or choose another input, then record again.',
   unsupported:
     'This browser cannot record here (recording needs a secure page and a recent browser). Import a file instead.',
   busy: 'The microphone is in use by another app. Close it and try again.',
@@ -30,7 +33,16 @@ export const microphoneConstraints: MediaStreamConstraints = {
   video: false,
 };
 
-export function recorderErrorFrom(error: unknown): RecorderError {
+/** The same, from one chosen input (a digital stethoscope or sensor plugged in), or the default one. */
+export function constraintsFor(deviceId: string | null): MediaStreamConstraints {
+  if (!deviceId) return microphoneConstraints;
+  return {
+    ...microphoneConstraints,
+    audio: { ...(microphoneConstraints.audio as MediaTrackConstraints), deviceId: { exact: deviceId } },
+  };
+}
+
+export function recorderErrorFrom(error: unknown, deviceId: string | null = null): RecorderError {
   if (error instanceof RecorderError) return error;
   const name =
     error instanceof Error || (typeof error === 'object' && error && 'name' in error)
@@ -40,6 +52,7 @@ export function recorderErrorFrom(error: unknown): RecorderError {
     return new RecorderError('permission-denied', recorderMessages['permission-denied']);
   }
   if (name === 'NotFoundError' || name === 'OverconstrainedError' || name === 'DevicesNotFoundError') {
+    if (deviceId) return new RecorderError('input-missing', recorderMessages['input-missing']);
     return new RecorderError('no-microphone', recorderMessages['no-microphone']);
   }
   if (name === 'NotReadableError' || name === 'AbortError')
@@ -106,7 +119,7 @@ function join(chunks: Float32Array[]): Float32Array {
  * natively). Nothing is left to encode or decode when the take ends, which keeps the time to the trace inside its
  * 300 ms budget, and the signal never passes through a lossy voice codec.
  */
-export async function openMicrophone(): Promise<LiveMicrophone> {
+export async function openMicrophone(deviceId: string | null = null): Promise<LiveMicrophone> {
   const media = globalThis.navigator?.mediaDevices;
   const Ctor = globalThis.AudioContext;
   if (!media?.getUserMedia || !Ctor || typeof AudioWorkletNode === 'undefined') {
@@ -114,9 +127,9 @@ export async function openMicrophone(): Promise<LiveMicrophone> {
   }
   let stream: MediaStream;
   try {
-    stream = await media.getUserMedia(microphoneConstraints);
+    stream = await media.getUserMedia(constraintsFor(deviceId));
   } catch (error) {
-    throw recorderErrorFrom(error);
+    throw recorderErrorFrom(error, deviceId);
   }
   if (stream.getAudioTracks().length === 0) {
     stream.getTracks().forEach((t) => t.stop());

@@ -231,7 +231,21 @@ describe('offline capture on the phone', () => {
 
   test('when three sites are recorded through the microphone, then each shows a trace with S1/S2 and a plausible rate', async () => {
     rates.push(await recordSite(page, 'mitral', 'capture-mitral-trace-phone'));
+    // Chromium's fake capture offers two inputs besides its default, as a phone with a sensor plugged in would:
+    // the operator records the next site from the second one, and the choice is kept for the next take.
+    await visible(page, 'site-step-tricuspid').waitFor();
+    const picker = visible(page, 'input-picker');
+    await picker.waitFor();
+    await picker.getByText('Fake Audio Input 2').click();
+    await screenshot(page, 'capture-input-picker-phone');
+    await page.waitForFunction(() => Boolean(localStorage.getItem('fourpoint.audio-input.v1')));
     rates.push(await recordSite(page, 'tricuspid', 'capture-tricuspid-trace-phone'));
+    await visible(page, 'site-step-aortic').waitFor();
+    expect(
+      await visible(page, 'input-picker')
+        .getByRole('radio', { name: 'Fake Audio Input 2' })
+        .getAttribute('aria-checked'),
+    ).toBe('true');
     rates.push(await recordSite(page, 'aortic', 'capture-aortic-trace-phone'));
     for (const rate of rates) {
       expect(rate).toBeGreaterThanOrEqual(plausibleBpm.min);
