@@ -39,7 +39,8 @@ export async function findUserInClinic(
   userId: string,
   transaction?: Transaction,
 ): Promise<UserRecord | null> {
-  const user = await User.findOne({ where: { id: userId, clinicId }, transaction });
+  // Runs on every authenticated request: a plain row, without building a model instance.
+  const user = await User.findOne({ where: { id: userId, clinicId }, transaction, raw: true });
   return user ? toRecord(user) : null;
 }
 

@@ -1,4 +1,4 @@
-import { createHash, randomBytes } from 'node:crypto';
+import { createHash, createSecretKey, randomBytes, type KeyObject } from 'node:crypto';
 import jwt from 'jsonwebtoken';
 import { z } from 'zod';
 import { roleSchema, type Role } from '@/shared/protocol';
@@ -15,8 +15,20 @@ export interface AccessClaims {
 
 const payloadSchema = z.object({ sub: z.string(), role: roleSchema, clinicId: z.string() });
 
+// Given a string, jsonwebtoken first tries it as a PEM public or private key, which throws and costs more than
+// the HMAC itself, on every request; a secret KeyObject made once skips that.
+const secretKeys = new Map<string, KeyObject>();
+function hmacKey(secret: string): KeyObject {
+  let key = secretKeys.get(secret);
+  if (!key) {
+    key = createSecretKey(Buffer.from(secret));
+    secretKeys.set(secret, key);
+  }
+  return key;
+}
+
 export function signAccessToken(claims: AccessClaims, secret: string, ttlS = ACCESS_TOKEN_TTL_S): string {
-  return jwt.sign({ role: claims.role, clinicId: claims.clinicId }, secret, {
+  return jwt.sign({ role: claims.role, clinicId: claims.clinicId }, hmacKey(secret), {
     subject: claims.userId,
     expiresIn: ttlS,
     issuer: ISSUER,
@@ -28,7 +40,7 @@ export function signAccessToken(claims: AccessClaims, secret: string, ttlS = ACC
 export function verifyAccessToken(token: string, secret: string): AccessClaims | null {
   try {
     const payload = payloadSchema.safeParse(
-      jwt.verify(token, secret, { issuer: ISSUER, algorithms: ['HS256'] }),
+      jwt.verify(token, hmacKey(secret), { issuer: ISSUER, algorithms: ['HS256'] }),
     );
     if (!payload.success) return null;
     return { userId: payload.data.sub, role: payload.data.role, clinicId: payload.data.clinicId };
