@@ -12,6 +12,7 @@ import { colors, radii, space } from '@/constants/theme';
 import {
   localKeys,
   useClinicKeyPrefetch,
+  useDiscardSession,
   useFinishSession,
   useLocalClient,
   useLocalSession,
@@ -22,6 +23,7 @@ import { useLayout } from '@/hooks/use-layout';
 import { encodeWav16 } from '@/shared/analysis/wav';
 import type { Site } from '@/shared/protocol';
 import { CaptureStepper, nextOpenSite } from './capture-stepper';
+import { DiscardSession } from './discard-session';
 import { SessionSummary } from './session-summary';
 import { SiteStep } from './site-step';
 import type { TakeResult } from './use-take';
@@ -35,6 +37,7 @@ export function CaptureScreen() {
   const client = useLocalClient(loaded.data?.session.clientId ?? '');
   const queryClient = useQueryClient();
   const finish = useFinishSession();
+  const discard = useDiscardSession();
   const { width, isWide } = useLayout();
   const [saving, setSaving] = useState(false);
   useClinicKeyPrefetch();
@@ -175,6 +178,14 @@ export function CaptureScreen() {
             onBack={previous ? () => goTo(previous) : null}
           />
         )}
+        <DiscardSession
+          clientName={who}
+          busy={discard.isPending}
+          error={discard.error?.message ?? null}
+          onDiscard={() =>
+            discard.mutate(id, { onSuccess: () => router.replace(`/clients/${session.clientId}`) })
+          }
+        />
       </View>
     </ScreenFrame>
   );

@@ -11,7 +11,7 @@ import {
 import { fetchClinicKey } from './clinic-key';
 import { finishSession } from './finish-session';
 import { listOutbox, pendingOutboxCount } from './outbox';
-import { getSession, listRecordings, listSessionsForClient, startSession } from './sessions';
+import { discardSession, getSession, listRecordings, listSessionsForClient, startSession } from './sessions';
 
 export const localKeys = {
   root: ['local'] as const,
@@ -104,6 +104,15 @@ export function useStartSession() {
   return useMutation({
     networkMode: 'always',
     mutationFn: (input: { clientId: string; consentId: string; clipSeconds?: number }) => startSession(input),
+    onSuccess: invalidate,
+  });
+}
+
+export function useDiscardSession() {
+  const invalidate = useInvalidateLocal();
+  return useMutation({
+    networkMode: 'always',
+    mutationFn: (sessionId: string) => discardSession(sessionId),
     onSuccess: invalidate,
   });
 }

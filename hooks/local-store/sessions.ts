@@ -258,3 +258,21 @@ async function assertOpen(
   if (row.status !== 'in_progress')
     throw new Error('This session is finished and sealed; start a new session to record again.');
 }
+
+/**
+ * Drops a session that was started but not finished (the wrong client, a visit cut short). It has never left the
+ * device, so there is nothing to tell the clinic; its takes are deleted, and secure_delete overwrites their pages.
+ */
+export async function discardSession(sessionId: string): Promise<void> {
+  await transaction(async (db) => {
+    const session = await db.getFirstAsync<{ status: string }>(
+      'SELECT status FROM sessions WHERE id = ? AND deleted_at IS NULL',
+      sessionId,
+    );
+    if (!session) throw new Error('This session is not on this device.');
+    if (session.status !== 'in_progress')
+      throw new Error('A finished session is sealed for the clinic and cannot be discarded here.');
+    await db.runAsync('DELETE FROM site_recordings WHERE session_id = ?', sessionId);
+    await db.runAsync('DELETE FROM sessions WHERE id = ?', sessionId);
+  });
+}

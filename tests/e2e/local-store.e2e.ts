@@ -1,9 +1,18 @@
 // The records kept on the phone live in one SQLite file in the browser's private file system (OPFS), which only
 // one page at a time may hold. A reload or a second tab must neither lose a record nor leave the app stuck.
-// Expected behaviour is the product's own rule (DEVELOPERS.md, "Capture"); no outside source.
+// Expected behaviour is the product's own rule (DEVELOPERS.md, "Capture"); no outside source. The imported clip is
+// from the CirCor DigiScope dataset (Oliveira et al., IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048).
 import type { Browser } from 'playwright-core';
 import { launchBrowser, newPage, PHONE, screenshot, trackPage } from '@/tests/support/browser';
-import { signIn, operatorEmail, uniqueLetters, visible } from './helpers/operator';
+import path from 'node:path';
+import {
+  addClientAndStartSession,
+  importSite,
+  operatorEmail,
+  signIn,
+  uniqueLetters,
+  visible,
+} from './helpers/operator';
 
 jest.setTimeout(180_000);
 
@@ -66,6 +75,38 @@ describe('the records kept on the device', () => {
     await visible(second, 'client-submit').click();
     await visible(second, 'client-detail').waitFor({ timeout: 20_000 });
     expect(await visible(second, 'client-detail').innerText()).toContain(lastName);
+    await context.close();
+  });
+
+  test('when an unfinished session is discarded, then its takes are gone from the device and the client can start afresh', async () => {
+    const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(__dirname, '../../../shared/data/circor');
+    const { context, page } = await newPage(browser, PHONE);
+    await signIn(page, operatorEmail);
+    await page.waitForURL((url) => url.pathname === '/clients');
+    const capturePath = await addClientAndStartSession(page, {
+      firstName: 'Perrin',
+      lastName: `Castlemoor${uniqueLetters()}`,
+      dateOfBirth: '1990-02-11',
+    });
+    await importSite(page, 'mitral', path.join(dataDir, '50296_MV.wav'));
+    await visible(page, 'site-step-tricuspid').waitFor();
+
+    await visible(page, 'discard-session').click();
+    await visible(page, 'discard-confirm').waitFor();
+    await screenshot(page, 'capture-discard-confirm-phone');
+    await visible(page, 'discard-session-cancel').click();
+    await visible(page, 'site-step-tricuspid').waitFor();
+
+    await visible(page, 'discard-session').click();
+    await visible(page, 'discard-session-confirm').click();
+    await page.waitForURL((url) => url.pathname.startsWith('/clients/'));
+    await visible(page, 'client-detail').waitFor();
+    await visible(page, 'consent-on-file').waitFor();
+    expect(await page.getByTestId('resume-session').filter({ visible: true }).count()).toBe(0);
+    await visible(page, 'start-session').waitFor();
+
+    await page.goto(capturePath);
+    await visible(page, 'capture-missing').waitFor();
     await context.close();
   });
 });
