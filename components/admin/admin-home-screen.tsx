@@ -8,6 +8,7 @@ import { colors, radii, space } from '@/constants/theme';
 import { useTeamQuery } from '@/hooks/data/users';
 import { useLayout } from '@/hooks/use-layout';
 import { roles, type TeamMember } from '@/shared/protocol';
+import { AttentionPanel } from './attention-panel';
 import { TeamTable } from './team-table';
 
 function Overview({ members }: { members: TeamMember[] }) {
@@ -65,9 +66,10 @@ export function AdminHomeScreen() {
   return (
     <ScreenFrame
       title="Clinic overview"
-      subtitle="Who works in this clinic and in which role."
+      subtitle="What needs you, and who works in this clinic in which role."
       testID="admin-home"
     >
+      <AttentionPanel />
       {body}
       <CautionNote compact />
     </ScreenFrame>

@@ -347,3 +347,12 @@ export const setRangeRequestSchema = z
     error: 'The low end must not be above the high end.',
   });
 export type SetRangeRequest = z.infer<typeof setRangeRequestSchema>;
+
+// What needs the admin now, on the overview
+export const attentionSchema = z.object({
+  openConflicts: z.number().int(),
+  /** Report e-mails the server will not try again by itself (refused, or out of attempts). */
+  undeliveredReports: z.number().int(),
+  clientsPastRetention: z.number().int(),
+});
+export type Attention = z.infer<typeof attentionSchema>;

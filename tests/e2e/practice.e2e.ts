@@ -320,6 +320,7 @@ test('when the admin opens the overview on a phone, then the tabs and the cards 
   try {
     await signInAdmin(page);
     await visible(page, 'bottom-tabs').waitFor();
+    await visible(page, 'attention').waitFor();
     await screenshot(page, 'practice-admin-home-phone');
     const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
     expect(overflow).toBeLessThanOrEqual(0);

@@ -311,6 +311,52 @@ describe('client records', () => {
     expect(Number(count)).toBeGreaterThanOrEqual(3);
   });
 
+  test('when things wait for the admin, then the overview counts them: open conflicts, undelivered reports, records past retention', async () => {
+    const own = await makeClinic('Attention');
+    const ownTokens = await tokensFor(ctx.app, own);
+    const get = (token: string) =>
+      request(ctx.app).get('/api/admin/attention').set('authorization', `Bearer ${token}`);
+    expect((await get(ownTokens.admin)).body).toEqual({
+      openConflicts: 0,
+      undeliveredReports: 0,
+      clientsPastRetention: 0,
+    });
+
+    const clientId = await insertClient(ctx.sequelize, own.id);
+    const sessionId = await insertSession(ctx.sequelize, own.id, clientId, {
+      startedAt: new Date('2015-03-02T12:00:00Z'),
+    });
+    const conflict = `INSERT INTO sync_conflicts (id, clinic_id, entity, row_id, server_version, client_version, status)
+      VALUES (:id, :clinicId, 'clients', :rowId, '{}'::jsonb, '{}'::jsonb, :status)`;
+    for (const status of ['open', 'open', 'resolved'])
+      await ctx.sequelize.query(conflict, {
+        replacements: { id: randomUUID(), clinicId: own.id, rowId: clientId, status },
+      });
+    const mail = `INSERT INTO report_mails (id, clinic_id, session_id, to_address, subject, body_text, attachment_name, attachment, state, attempts, next_attempt_at)
+      VALUES (:id, :clinicId, :sessionId, 'x@example.test', 'Report', 'Body', 'r.pdf', ''::bytea, :state, 1, :next)`;
+    // Refused for good, waiting for a retry by the server, and delivered: only the first waits for a person.
+    for (const [state, next] of [
+      ['failed', null],
+      ['failed', new Date(Date.now() + 60_000)],
+      ['sent', null],
+    ] as const)
+      await ctx.sequelize.query(mail, {
+        replacements: { id: randomUUID(), clinicId: own.id, sessionId, state, next },
+      });
+
+    const counts = await get(ownTokens.admin);
+    expect(counts.status).toBe(200);
+    // The 2015 visit is past the default seven years.
+    expect(counts.body).toEqual({ openConflicts: 2, undeliveredReports: 1, clientsPastRetention: 1 });
+    // Another clinic's admin sees its own (empty) counts; a practitioner may not ask.
+    expect((await get((await tokensFor(ctx.app, await makeClinic('Elsewhere'))).admin)).body).toEqual({
+      openConflicts: 0,
+      undeliveredReports: 0,
+      clientsPastRetention: 0,
+    });
+    expect((await get(ownTokens.practitioner)).status).toBe(403);
+  });
+
   test('when a new consent text is published, then it gets the next version and becomes the current one', async () => {
     const a = await request(ctx.app)
       .post('/api/consent-texts')

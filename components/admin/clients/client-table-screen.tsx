@@ -1,4 +1,4 @@
-import { useRouter } from 'expo-router';
+import { useLocalSearchParams, useRouter } from 'expo-router';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { Badge } from '@/components/ui/badge';
@@ -80,7 +80,9 @@ export function ClientTableScreen() {
   const [search, setSearch] = useState('');
   const q = useDebouncedValue(search.trim());
   const [sort, setSort] = useState<{ key: Sort; dir: SortDir }>({ key: 'name', dir: 'asc' });
-  const [retention, setRetention] = useState<Retention>('all');
+  // The overview links here with ?retention=due.
+  const params = useLocalSearchParams<{ retention?: string }>();
+  const [retention, setRetention] = useState<Retention>(params.retention === 'due' ? 'due' : 'all');
   const [page, setPage] = useState(1);
   const [lastQ, setLastQ] = useState(q);
   if (q !== lastQ) {

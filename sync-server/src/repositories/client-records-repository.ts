@@ -32,7 +32,7 @@ const SORT_SQL: Record<ClientTableQuery['sort'], string> = {
 
 // The retention clock starts at the client's last visit (or the day they were added, before any visit) and runs
 // for the clinic's retention period; nothing is erased by it, the admin reviews the clients it lists.
-const KEEP_UNTIL = `(COALESCE(
+export const KEEP_UNTIL = `(COALESCE(
     (SELECT max(s.started_at) FROM recording_sessions s WHERE s.client_id = c.id AND s.deleted_at IS NULL),
     c.created_at)
   + make_interval(months => COALESCE(

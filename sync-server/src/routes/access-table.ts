@@ -7,6 +7,7 @@ import * as clientsAdmin from './clients-admin';
 import * as consent from './consent';
 import * as exportRoutes from './export';
 import * as followUps from './follow-ups';
+import * as overview from './overview';
 import * as payments from './payments';
 import * as settings from './settings';
 import * as team from './team';
@@ -155,6 +156,7 @@ export const accessTable: readonly RouteSpec[] = [
     handler: team.acceptInvitation,
     limit: 'sign-in',
   },
+  { method: 'get', path: '/api/admin/attention', access: ['admin'], handler: overview.attentionCounts },
   // Client records on the wide screen; export and erasure are the admin's alone.
   {
     method: 'get',
