@@ -11,7 +11,7 @@ import { ScreenFrame } from '@/components/ui/screen-frame';
 import { ErrorState, LoadingState } from '@/components/ui/state-views';
 import { colors, radii, space } from '@/constants/theme';
 import { useClientsQuery } from '@/hooks/data/clients';
-import { rememberServerClient } from '@/hooks/local-store/clients';
+import { rememberServerClient, rememberServerConsent } from '@/hooks/local-store/clients';
 import {
   useClientSessions,
   useClinicKeyPrefetch,
@@ -41,6 +41,14 @@ export function ClientDetailScreen() {
       void rememberServerClient({ ...fromServer, version: 0 }).then(() => local.refetch());
     }
   }, [local, fromServer]);
+  // Consent the clinic already holds is kept on the device too, so it is not asked again (nor sent back).
+  const serverConsent = fromServer?.consent ?? null;
+  const { refetch: refetchConsent } = consent;
+  useEffect(() => {
+    if (local.data && serverConsent) {
+      void rememberServerConsent(id, serverConsent).then(() => refetchConsent());
+    }
+  }, [id, local.data, serverConsent, refetchConsent]);
 
   if (local.isPending) return <LoadingState label="Opening the client…" testID="client-loading" />;
   if (local.isError)

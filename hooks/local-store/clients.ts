@@ -149,6 +149,33 @@ export async function recordConsent(input: NewConsent, now = new Date()): Promis
   return consent;
 }
 
+/**
+ * Keeps a consent the clinic already holds for a client known from the server, so the operator does not ask for it
+ * again. Its version (1 or more) marks it as the server's: finishing a session does not send it back.
+ */
+export async function rememberServerConsent(
+  clientId: string,
+  consent: { id: string; signedName: string; signedOn: string; textVersion: number; version: number },
+  now = new Date(),
+): Promise<void> {
+  const stamp = now.toISOString();
+  await transaction(async (db) => {
+    await db.runAsync(
+      `INSERT INTO consents (id, client_id, signed_name, signed_on, text_version, version, created_at, updated_at)
+       VALUES (?, ?, ?, ?, ?, ?, ?, ?)
+       ON CONFLICT(id) DO NOTHING`,
+      consent.id,
+      clientId,
+      consent.signedName,
+      consent.signedOn,
+      String(consent.textVersion),
+      Math.max(1, consent.version),
+      stamp,
+      stamp,
+    );
+  });
+}
+
 /** The newest consent on this device for the client and the current text version, if any. */
 export function currentConsent(clientId: string, textVersion: string): Promise<LocalConsent | null> {
   return read(async (db) => {

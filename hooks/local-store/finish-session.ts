@@ -141,8 +141,10 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
       signed_name: string;
       signed_on: string;
       text_version: string;
+      version: number;
     }>('SELECT * FROM consents WHERE id = ?', session.consent_id);
-    if (consent && !(await alreadyQueued('consents', session.consent_id))) {
+    // A consent with a version came from the clinic server: it is there already.
+    if (consent && consent.version === 0 && !(await alreadyQueued('consents', session.consent_id))) {
       await queue(
         'consents',
         session.consent_id,

@@ -11,6 +11,16 @@ export type QualityVerdict = z.infer<typeof qualityVerdictSchema>;
 export const sessionStatusSchema = z.enum(['in_progress', 'completed', 'reviewed', 'cancelled']);
 export type SessionStatus = z.infer<typeof sessionStatusSchema>;
 
+/** The newest consent the clinic holds for a client, so a device can record them without asking again. */
+export const consentOnFileSchema = z.object({
+  id: z.uuid(),
+  signedName: z.string(),
+  signedOn: z.string(),
+  textVersion: z.number().int(),
+  version: z.number().int(),
+});
+export type ConsentOnFile = z.infer<typeof consentOnFileSchema>;
+
 export const clientSummarySchema = z.object({
   id: z.uuid(),
   firstName: z.string(),
@@ -18,6 +28,7 @@ export const clientSummarySchema = z.object({
   dateOfBirth: z.string().nullable(),
   email: z.string().nullable(),
   hasConsent: z.boolean(),
+  consent: consentOnFileSchema.nullable(),
   updatedAt: z.string(),
 });
 export type ClientSummary = z.infer<typeof clientSummarySchema>;

@@ -109,4 +109,57 @@ describe('the records kept on the device', () => {
     await visible(page, 'capture-missing').waitFor();
     await context.close();
   });
+
+  test('when the operator opens a client whose consent the clinic already holds, then it is not asked again, nor sent back with the session', async () => {
+    const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(__dirname, '../../../shared/data/circor');
+    const { context, page } = await newPage(browser, PHONE);
+    await signIn(page, operatorEmail);
+    await page.waitForURL((url) => url.pathname === '/clients');
+    // A demo client added at the clinic, with consent on file there (sync-server/seeders/demo.ts).
+    await visible(page, 'client-search').fill('Fenwright');
+    await page
+      .locator('[data-testid^="client-row-"]')
+      .filter({ visible: true, hasText: 'Fenwright' })
+      .first()
+      .click();
+    await visible(page, 'client-detail').waitFor();
+    const onFile = visible(page, 'consent-on-file');
+    await onFile.waitFor();
+    expect(await onFile.innerText()).toMatch(/Signed by Tobias Fenwright/);
+    expect(await page.getByTestId('consent-form').filter({ visible: true }).count()).toBe(0);
+
+    await visible(page, 'start-session').click();
+    await page.waitForURL((url) => url.pathname.startsWith('/capture/'));
+    await importSite(page, 'mitral', path.join(dataDir, '50296_MV.wav'));
+    for (const site of ['tricuspid', 'aortic', 'pulmonic']) {
+      await visible(page, `site-step-${site}`).waitFor();
+      await visible(page, 'skip').click();
+      await visible(page, 'skip-reason-0').click();
+      await visible(page, 'skip-confirm').click();
+    }
+    await visible(page, 'review').waitFor();
+    await visible(page, 'finish').click();
+    await visible(page, 'capture-finished').waitFor();
+
+    await page.goto('/outbox');
+    await visible(page, 'outbox-list').waitFor();
+    // Online, the outbox drains by itself: every item reaches "sent", and none of them is the consent.
+    await page.waitForFunction(
+      () => {
+        const items = Array.from(document.querySelectorAll('[data-testid^="outbox-item-"]')).filter(
+          (el) => (el as HTMLElement).offsetParent !== null,
+        );
+        return items.length > 0 && items.every((el) => el.querySelector('[data-testid="outbox-state-sent"]'));
+      },
+      undefined,
+      { timeout: 60_000, polling: 250 },
+    );
+    const labels = await page
+      .locator('[data-testid^="outbox-item-"]')
+      .filter({ visible: true })
+      .allInnerTexts();
+    expect(labels.some((l) => /Session of Tobias Fenwright/.test(l))).toBe(true);
+    expect(labels.some((l) => /Consent of/.test(l))).toBe(false);
+    await context.close();
+  });
 });

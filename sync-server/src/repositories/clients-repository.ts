@@ -26,7 +26,15 @@ export async function listClients(clinicId: string, q?: string): Promise<ClientS
   }
   const clients = await Client.findAll({
     where,
-    include: [{ model: Consent, as: 'consents', attributes: ['id'], required: false, where: { clinicId } }],
+    include: [
+      {
+        model: Consent,
+        as: 'consents',
+        attributes: ['id', 'typedName', 'consentDate', 'consentTextVersion', 'version', 'createdAt'],
+        required: false,
+        where: { clinicId, deletedAt: null },
+      },
+    ],
     order: [
       ['lastName', 'ASC'],
       ['firstName', 'ASC'],
@@ -36,6 +44,15 @@ export async function listClients(clinicId: string, q?: string): Promise<ClientS
   });
   return clients.map((c) => {
     const consents = (c as Client & { consents?: Consent[] }).consents ?? [];
+    const newest = consents.reduce<Consent | null>(
+      (best, k) =>
+        !best ||
+        k.consentDate > best.consentDate ||
+        (k.consentDate === best.consentDate && k.createdAt > best.createdAt)
+          ? k
+          : best,
+      null,
+    );
     return {
       id: c.id,
       firstName: c.firstName,
@@ -43,6 +60,15 @@ export async function listClients(clinicId: string, q?: string): Promise<ClientS
       dateOfBirth: c.dateOfBirth ?? null,
       email: c.email ?? null,
       hasConsent: consents.length > 0,
+      consent: newest
+        ? {
+            id: newest.id,
+            signedName: newest.typedName,
+            signedOn: String(newest.consentDate).slice(0, 10),
+            textVersion: newest.consentTextVersion,
+            version: newest.version,
+          }
+        : null,
       updatedAt: c.updatedAt.toISOString(),
     };
   });
