@@ -107,6 +107,13 @@ describe('clients', () => {
     expect(clients.map((c) => c.id).sort()).toEqual([ids.ada, ids.bo, ids.percent].sort());
     expect(clients.find((c) => c.id === ids.ada)?.hasConsent).toBe(true);
     expect(clients.find((c) => c.id === ids.bo)?.hasConsent).toBe(false);
+    // What the phone keeps so it does not ask again: who signed, when, which text.
+    expect(clients.find((c) => c.id === ids.ada)?.consent).toMatchObject({
+      signedName: 'Ada Quillfeather',
+      signedOn: '2026-11-02',
+      textVersion: 1,
+    });
+    expect(clients.find((c) => c.id === ids.bo)?.consent).toBeNull();
   });
 
   test('when another clinic’s user lists clients, then none of this clinic’s rows appear', async () => {
