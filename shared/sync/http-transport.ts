@@ -22,6 +22,8 @@ export interface HttpTransportOptions {
 
 export { SYNC_PATHS };
 
+export const DEFAULT_CHUNK_BYTES = 64 * 1024;
+
 function messageOf(data: unknown, fallback: string): string {
   const error = (data as { error?: { message?: unknown } } | undefined)?.error;
   return typeof error?.message === 'string' ? error.message : fallback;
@@ -98,7 +100,9 @@ export function createHttpTransport(options: HttpTransportOptions): SyncTranspor
             filetype: 'application/octet-stream',
           },
           uploadSize: upload.bytes.byteLength,
-          chunkSize: options.chunkSize ?? 256 * 1024,
+          // A 15 s take seals to about 240 KB: in 64 KB pieces a weak link that drops re-sends at most one piece,
+          // and the outbox's progress moves while it goes.
+          chunkSize: options.chunkSize ?? DEFAULT_CHUNK_BYTES,
           // The engine owns retries and their backoff; the URL is kept on the outbox item, not in tus's own store.
           retryDelays: [],
           storeFingerprintForResuming: false,
