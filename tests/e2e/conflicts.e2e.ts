@@ -3,22 +3,13 @@
 // the device engine sends them (shared/sync); the rule that a stale change becomes a conflict is the product's own
 // (DESIGN.md, "Sync"), no outside source.
 import { randomUUID } from 'node:crypto';
-import type { Browser } from 'playwright-core';
 import { SYNC_PROTOCOL_VERSION } from '@/shared/protocol/sync';
-import { baseUrl, launchBrowser, newPage, screenshot, WIDE } from '@/tests/support/browser';
+import { baseUrl, browserForThisFile, newPage, screenshot, WIDE } from '@/tests/support/browser';
 import { demoPassword, operatorEmail, signIn, uniqueLetters, visible } from './helpers/operator';
 
 jest.setTimeout(180_000);
 
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserForThisFile();
 
 async function tokenFor(email: string): Promise<string> {
   const response = await fetch(`${baseUrl()}/api/auth/sign-in`, {
@@ -74,7 +65,7 @@ test('when two phones change the same client offline, then the admin sees both v
   });
   expect(stale.status).toBe('conflict');
 
-  const { context, page } = await newPage(browser, WIDE);
+  const { context, page } = await newPage(browser(), WIDE);
   await signIn(page, 'admin@demo.fourpoint.test');
   await page.waitForURL((url) => url.pathname === '/admin');
   await visible(page, 'attention-conflicts').waitFor();

@@ -1,25 +1,16 @@
 // The admin publishes a new version of the clinic's consent wording from the settings screen, and an operator's
 // phone shows that version to the next client who signs. Expected behaviour is the product's own rule (a session
 // records the consent version its client signed; DESIGN.md, "Business of the practice"); no outside source.
-import type { Browser } from 'playwright-core';
-import { launchBrowser, newPage, PHONE, screenshot, WIDE } from '@/tests/support/browser';
+import { browserForThisFile, newPage, PHONE, screenshot, WIDE } from '@/tests/support/browser';
 import { operatorEmail, signIn, uniqueLetters, visible } from './helpers/operator';
 
 jest.setTimeout(180_000);
 
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserForThisFile();
 
 test('when the admin publishes new consent wording, then it is the version in force and the operator’s phone asks the next client to sign it', async () => {
   const marker = `Recordings from this visit may be compared with earlier visits (${uniqueLetters()}).`;
-  const admin = await newPage(browser, WIDE);
+  const admin = await newPage(browser(), WIDE);
   await signIn(admin.page, 'admin@demo.fourpoint.test');
   await admin.page.waitForURL((url) => url.pathname === '/admin');
   await visible(admin.page, 'nav-settings').click();
@@ -52,7 +43,7 @@ test('when the admin publishes new consent wording, then it is the version in fo
   await screenshot(admin.page, 'settings-consent-wording-wide');
   await admin.context.close();
 
-  const operator = await newPage(browser, PHONE);
+  const operator = await newPage(browser(), PHONE);
   await signIn(operator.page, operatorEmail);
   await operator.page.waitForURL((url) => url.pathname === '/clients');
   await operator.page.goto('/clients/new');

@@ -2,8 +2,7 @@
 // one page at a time may hold. A reload or a second tab must neither lose a record nor leave the app stuck.
 // Expected behaviour is the product's own rule (DEVELOPERS.md, "Capture"); no outside source. The imported clip is
 // from the CirCor DigiScope dataset (Oliveira et al., IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048).
-import type { Browser } from 'playwright-core';
-import { launchBrowser, newPage, PHONE, screenshot, trackPage } from '@/tests/support/browser';
+import { browserForThisFile, newPage, PHONE, screenshot, trackPage } from '@/tests/support/browser';
 import path from 'node:path';
 import {
   addClientAndStartSession,
@@ -16,15 +15,7 @@ import {
 
 jest.setTimeout(180_000);
 
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserForThisFile();
 
 async function addClient(page: import('playwright-core').Page, lastName: string): Promise<void> {
   await page.goto('/clients/new');
@@ -36,7 +27,7 @@ async function addClient(page: import('playwright-core').Page, lastName: string)
 
 describe('the records kept on the device', () => {
   test('when the page is reloaded again and again right after a save, then every reload opens the records and nothing saved is lost', async () => {
-    const { context, page } = await newPage(browser, PHONE);
+    const { context, page } = await newPage(browser(), PHONE);
     await signIn(page, operatorEmail);
     await page.waitForURL((url) => url.pathname === '/clients');
     const lastName = `Quillon${uniqueLetters()}`;
@@ -54,7 +45,7 @@ describe('the records kept on the device', () => {
   });
 
   test('when Fourpoint is open in a second tab, then the second says why it cannot save, and saves once the first tab is closed, without a reload', async () => {
-    const { context, page: first } = await newPage(browser, PHONE);
+    const { context, page: first } = await newPage(browser(), PHONE);
     await signIn(first, operatorEmail);
     await first.waitForURL((url) => url.pathname === '/clients');
     await visible(first, 'operator-home').waitFor();
@@ -80,7 +71,7 @@ describe('the records kept on the device', () => {
 
   test('when an unfinished session is discarded, then its takes are gone from the device and the client can start afresh', async () => {
     const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(__dirname, '../../../shared/data/circor');
-    const { context, page } = await newPage(browser, PHONE);
+    const { context, page } = await newPage(browser(), PHONE);
     await signIn(page, operatorEmail);
     await page.waitForURL((url) => url.pathname === '/clients');
     const capturePath = await addClientAndStartSession(page, {
@@ -112,7 +103,7 @@ describe('the records kept on the device', () => {
 
   test('when the operator opens a client whose consent the clinic already holds, then it is not asked again, nor sent back with the session', async () => {
     const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(__dirname, '../../../shared/data/circor');
-    const { context, page } = await newPage(browser, PHONE);
+    const { context, page } = await newPage(browser(), PHONE);
     await signIn(page, operatorEmail);
     await page.waitForURL((url) => url.pathname === '/clients');
     // A demo client added at the clinic, with consent on file there (sync-server/seeders/demo.ts).

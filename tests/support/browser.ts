@@ -39,6 +39,21 @@ export async function launchBrowser(options: { fakeMicrophoneWav?: string } = {}
   return chromium.launch({ executablePath: '/usr/bin/chromium', args });
 }
 
+/** One browser for all the tests of a file: launched before the first, closed after the last. */
+export function browserForThisFile(options: { fakeMicrophoneWav?: string } = {}): () => Browser {
+  let browser: Browser | undefined;
+  beforeAll(async () => {
+    browser = await launchBrowser(options);
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+  return () => {
+    if (!browser) throw new Error('The browser is launched in beforeAll; use it inside a test.');
+    return browser;
+  };
+}
+
 /** Pages still open, so a failing test can show what each screen looked like (tests/support/e2e-failure-report.ts). */
 export const openPages = new Set<Page>();
 
