@@ -1,6 +1,7 @@
 // An invented clinic for `npm start`: every name, visit and clip here is made up.
 import type { Sequelize, Transaction } from 'sequelize';
 import { v5 as uuidv5 } from 'uuid';
+import { SYNC_PROTOCOL_VERSION } from '@/shared/protocol/sync';
 import type { Role, Site } from '@/shared/protocol';
 import { encodeWav16, type AnalysisResult } from '@/shared/analysis';
 import {
@@ -16,6 +17,7 @@ import {
 } from '../src/models';
 import type { BlobStore } from '../src/services/blob-store';
 import { hashPassword } from '../src/services/passwords';
+import { pushChanges } from '../src/use-cases/sync/push';
 import { synthesizeHeartSounds } from './synthetic-heart-sounds';
 
 export const DEMO_PASSWORD = 'fourpoint-demo';
@@ -313,6 +315,8 @@ export async function seedDemo(options: SeedDemoOptions): Promise<SeedDemoSummar
     }
   });
 
+  created += await seedDemoConflict(sequelize, userIds.operator!);
+
   options.log?.(created ? `Demo data: ${created} rows added or repaired.` : 'Demo data: already loaded.');
   return { created };
 }
@@ -460,4 +464,41 @@ async function seedVisit(
     }
   }
   return 1 + recordings.length;
+}
+
+/**
+ * The front-desk phone adds Saoirse Pendleford's number while a treatment-room phone, offline on the same version
+ * of her record, changes her number and e-mail: the second push arrives as a conflict for the admin to settle.
+ * Both go through the real sync push with fixed mutation ids, so seeding again replays them and adds nothing.
+ */
+async function seedDemoConflict(sequelize: Sequelize, operatorId: string): Promise<number> {
+  const clientId = demoId('client/saoirse-pendleford');
+  const client = await Client.findByPk(clientId);
+  if (!client) return 0;
+  const caller = { userId: operatorId, role: 'operator' as const, clinicId: DEMO_CLINIC_ID, ip: null };
+  const push = async (device: string, mutation: string, change: Record<string, unknown>) =>
+    (
+      await pushChanges(sequelize, caller, {
+        protocolVersion: SYNC_PROTOCOL_VERSION,
+        deviceId: demoId(`device/${device}`),
+        mutations: [
+          {
+            mutationId: demoId(`mutation/${mutation}`),
+            entity: 'clients',
+            id: clientId,
+            baseVersion: client.version,
+            change,
+          },
+        ],
+      })
+    ).results[0];
+  let made = 0;
+  const frontDesk = await push('front-desk', 'pendleford-phone', { phone: '555 0172' });
+  if (frontDesk?.status === 'applied') made++;
+  const room = await push('treatment-room-2', 'pendleford-contact', {
+    phone: '555 0138',
+    email: 'saoirse.pendleford@example.test',
+  });
+  if (room?.status === 'conflict') made++;
+  return made;
 }

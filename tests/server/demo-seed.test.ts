@@ -5,7 +5,16 @@ import request from 'supertest';
 import { decodeWav } from '@/shared/analysis';
 import { analyseDemoClip } from '@/sync-server/seeders/analyse-demo-clip';
 import { DEMO_CLINIC_ID, DEMO_PASSWORD, DEMO_USERS, seedDemo } from '@/sync-server/seeders/demo';
-import { Client, ClipBlob, Consent, RecordingSession, SiteRecording, User } from '@/sync-server/src/models';
+import {
+  Client,
+  ClipBlob,
+  Consent,
+  RecordingSession,
+  SiteRecording,
+  SyncConflict,
+  User,
+} from '@/sync-server/src/models';
+import { demoId } from '@/sync-server/seeders/demo';
 import { LocalDiskBlobStore, sha256Hex } from '@/sync-server/src/services/blob-store';
 import { makeTestContext } from './helpers/test-app';
 
@@ -29,6 +38,18 @@ beforeAll(async () => {
 afterAll(() => ctx.close());
 
 describe('demo seed', () => {
+  test('when the demo is loaded, then the admin has one conflict to settle, made by the real push, and seeding again adds none', async () => {
+    const ofPendleford = () =>
+      SyncConflict.findAll({
+        where: { clinicId: DEMO_CLINIC_ID, rowId: demoId('client/saoirse-pendleford') },
+      });
+    const before = await ofPendleford();
+    expect(before).toHaveLength(1);
+    expect(before[0]!.get('clientVersion')).toMatchObject({ change: { phone: '555 0138' } });
+    await seedDemo({ sequelize: ctx.sequelize, blobStore, analyse: analyseDemoClip });
+    expect(await ofPendleford()).toHaveLength(1);
+  });
+
   test('when it runs again, then it adds no rows', async () => {
     const before = await counts();
     const again = await seedDemo({ sequelize: ctx.sequelize, blobStore, analyse: analyseDemoClip });
