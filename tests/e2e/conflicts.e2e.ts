@@ -3,65 +3,42 @@
 // the device engine sends them (shared/sync); the rule that a stale change becomes a conflict is the product's own
 // (DESIGN.md, "Sync"), no outside source.
 import { randomUUID } from 'node:crypto';
-import { SYNC_PROTOCOL_VERSION } from '@/shared/protocol/sync';
 import { baseUrl, browserForThisFile, newPage, screenshot, WIDE } from '@/tests/support/browser';
-import { demoPassword, operatorEmail, signIn, uniqueLetters, visible } from './helpers/operator';
+import { push, tokenFor } from './helpers/api';
+import { operatorEmail, signIn, uniqueLetters, visible } from './helpers/operator';
 
 jest.setTimeout(180_000);
 
 const browser = browserForThisFile();
 
-async function tokenFor(email: string): Promise<string> {
-  const response = await fetch(`${baseUrl()}/api/auth/sign-in`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ email, password: demoPassword }),
-  });
-  expect(response.status).toBe(200);
-  return ((await response.json()) as { accessToken: string }).accessToken;
-}
-
-type Result = { status: string; newVersion?: number; conflictId?: string };
-
-async function push(
-  token: string,
-  deviceId: string,
-  rowId: string,
-  baseVersion: number,
-  change: Record<string, unknown>,
-): Promise<Result> {
-  const response = await fetch(`${baseUrl()}/api/sync/push`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` },
-    body: JSON.stringify({
-      protocolVersion: SYNC_PROTOCOL_VERSION,
-      deviceId,
-      mutations: [{ mutationId: randomUUID(), entity: 'clients', id: rowId, baseVersion, change }],
-    }),
-  });
-  expect(response.status).toBe(200);
-  return ((await response.json()) as { results: Result[] }).results[0]!;
-}
+const clientChange = (clientId: string) => ({ entity: 'clients' as const, id: clientId });
 
 test('when two phones change the same client offline, then the admin sees both versions and keeps a field from each', async () => {
   const token = await tokenFor(operatorEmail);
   const [phoneA, phoneB] = [randomUUID(), randomUUID()];
   const clientId = randomUUID();
   const lastName = `Merriweather${uniqueLetters()}`;
-  const created = await push(token, phoneA, clientId, 0, {
-    firstName: 'Odile',
-    lastName,
-    dateOfBirth: '1984-07-09',
-    email: 'odile.old@example.test',
-    phone: '555 0100',
-    notes: null,
+  const created = await push(token, phoneA, {
+    ...clientChange(clientId),
+    baseVersion: 0,
+    change: {
+      firstName: 'Odile',
+      lastName,
+      dateOfBirth: '1984-07-09',
+      email: 'odile.old@example.test',
+      phone: '555 0100',
+      notes: null,
+    },
   });
   expect(created).toMatchObject({ status: 'applied', newVersion: 1 });
   // Both phones had version 1; A corrects the phone number, then B, still on version 1, changes both fields.
-  expect(await push(token, phoneA, clientId, 1, { phone: '555 0123' })).toMatchObject({ status: 'applied' });
-  const stale = await push(token, phoneB, clientId, 1, {
-    phone: '555 0999',
-    email: 'odile.new@example.test',
+  expect(
+    await push(token, phoneA, { ...clientChange(clientId), baseVersion: 1, change: { phone: '555 0123' } }),
+  ).toMatchObject({ status: 'applied' });
+  const stale = await push(token, phoneB, {
+    ...clientChange(clientId),
+    baseVersion: 1,
+    change: { phone: '555 0999', email: 'odile.new@example.test' },
   });
   expect(stale.status).toBe('conflict');
 

@@ -3,6 +3,7 @@
 // Expected behaviour is the product's own rule (DEVELOPERS.md, "Capture"); no outside source. The imported clip is
 // from the CirCor DigiScope dataset (Oliveira et al., IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048).
 import { browserForThisFile, newPage, PHONE, screenshot, trackPage } from '@/tests/support/browser';
+import { randomUUID } from 'node:crypto';
 import path from 'node:path';
 import {
   addClientAndStartSession,
@@ -12,6 +13,7 @@ import {
   uniqueLetters,
   visible,
 } from './helpers/operator';
+import { currentConsentText, push, tokenFor } from './helpers/api';
 
 jest.setTimeout(180_000);
 
@@ -106,17 +108,44 @@ describe('the records kept on the device', () => {
     const { context, page } = await newPage(browser(), PHONE);
     await signIn(page, operatorEmail);
     await page.waitForURL((url) => url.pathname === '/clients');
-    // A demo client added at the clinic, with consent on file there (sync-server/seeders/demo.ts).
-    await visible(page, 'client-search').fill('Fenwright');
+    // A client another phone added, with consent to the clinic's current text, already on the server.
+    const token = await tokenFor(operatorEmail);
+    const text = await currentConsentText(token);
+    const otherPhone = randomUUID();
+    const clientId = randomUUID();
+    const lastName = `Ashgrove${uniqueLetters()}`;
+    const pushed = [
+      await push(token, otherPhone, {
+        entity: 'clients',
+        id: clientId,
+        baseVersion: 0,
+        change: { firstName: 'Linnea', lastName, dateOfBirth: null, email: null, phone: null, notes: null },
+      }),
+      await push(token, otherPhone, {
+        entity: 'consents',
+        id: randomUUID(),
+        baseVersion: 0,
+        change: {
+          clientId,
+          consentTextId: text.id,
+          consentTextVersion: text.version,
+          typedName: `Linnea ${lastName}`,
+          consentDate: new Date().toISOString().slice(0, 10),
+        },
+      }),
+    ];
+    expect(pushed.map((r) => r.status)).toEqual(['applied', 'applied']);
+    await page.reload();
+    await visible(page, 'client-search').fill(lastName);
     await page
       .locator('[data-testid^="client-row-"]')
-      .filter({ visible: true, hasText: 'Fenwright' })
+      .filter({ visible: true, hasText: lastName })
       .first()
       .click();
     await visible(page, 'client-detail').waitFor();
     const onFile = visible(page, 'consent-on-file');
     await onFile.waitFor();
-    expect(await onFile.innerText()).toMatch(/Signed by Tobias Fenwright/);
+    expect(await onFile.innerText()).toContain(`Signed by Linnea ${lastName}`);
     expect(await page.getByTestId('consent-form').filter({ visible: true }).count()).toBe(0);
 
     await visible(page, 'start-session').click();
@@ -149,7 +178,7 @@ describe('the records kept on the device', () => {
       .locator('[data-testid^="outbox-item-"]')
       .filter({ visible: true })
       .allInnerTexts();
-    expect(labels.some((l) => /Session of Tobias Fenwright/.test(l))).toBe(true);
+    expect(labels.some((l) => l.includes(`Session of Linnea ${lastName}`))).toBe(true);
     expect(labels.some((l) => /Consent of/.test(l))).toBe(false);
     await context.close();
   });
