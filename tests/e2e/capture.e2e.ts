@@ -11,6 +11,7 @@ import { chromium, type Browser, type BrowserContext, type Page } from 'playwrig
 import { decodeWav, encodeWav16 } from '@/shared/analysis/wav';
 import { resamplePoly } from '@/shared/analysis/resample';
 import { launchBrowser, newPage, PHONE, screenshot, WIDE } from '@/tests/support/browser';
+import { keepTake, signInOperatorOnline, visible } from './helpers/operator';
 
 /**
  * The harness' launcher passes --user-data-dir, which playwright-core 1.65 refuses in launch(); until it is
@@ -117,34 +118,6 @@ async function scanLocalFiles(
   }, probes);
 }
 
-function visible(page: Page, testId: string) {
-  return page.getByTestId(testId).filter({ visible: true }).first();
-}
-
-async function signInOnline(page: Page): Promise<void> {
-  await page.goto('/');
-  await visible(page, 'sign-in-email').waitFor();
-  await visible(page, 'sign-in-email').fill('operator@demo.fourpoint.test');
-  await visible(page, 'sign-in-password').fill('fourpoint-demo');
-  await visible(page, 'sign-in-submit').click();
-  await page.waitForURL((url) => url.pathname === '/clients');
-  await visible(page, 'operator-home').waitFor();
-  // While online, let the service worker take control and the device fetch the clinic's sealing key.
-  await page.waitForFunction(() => navigator.serviceWorker.ready.then(() => true), undefined, {
-    timeout: 60_000,
-  });
-  await page.goto('/outbox');
-  await visible(page, 'outbox-screen').waitFor();
-  await page.waitForFunction(
-    () => Boolean(localStorage.getItem('fourpoint.clinic-public-key.v1')),
-    undefined,
-    { timeout: 30_000 },
-  );
-  await page.waitForFunction(() => Boolean(navigator.serviceWorker.controller), undefined, {
-    timeout: 30_000,
-  });
-}
-
 async function recordSite(page: Page, site: string, name: string): Promise<number> {
   await visible(page, `site-step-${site}`).waitFor();
   await visible(page, 'length-10').click();
@@ -157,15 +130,6 @@ async function recordSite(page: Page, site: string, name: string): Promise<numbe
   const rate = Number((await visible(page, 'heart-rate').textContent())?.replace(/[^0-9.]/g, ''));
   await keepTake(page);
   return rate;
-}
-
-async function keepTake(page: Page): Promise<void> {
-  if ((await page.getByTestId('verdict-retake').filter({ visible: true }).count()) > 0) {
-    await visible(page, 'keep-note').fill('End-to-end run: kept to test the flow.');
-    await visible(page, 'keep-anyway').click();
-  } else {
-    await visible(page, 'keep-take').click();
-  }
 }
 
 let browser: Browser;
@@ -187,7 +151,7 @@ let sessionPath = '';
 describe('offline capture on the phone', () => {
   test('when the operator signs in online, then loses the network and the access token lapses, then a reload still opens the app signed in', async () => {
     ({ context, page } = await newPage(browser, PHONE));
-    await signInOnline(page);
+    await signInOperatorOnline(page);
     // An access token the server no longer accepts stands in for an expired one (tokens are short-lived).
     await page.evaluate(() => {
       const session = JSON.parse(localStorage.getItem('fourpoint.session.v1') ?? '{}') as {
