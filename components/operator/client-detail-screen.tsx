@@ -41,14 +41,22 @@ export function ClientDetailScreen() {
       void rememberServerClient({ ...fromServer, version: 0 }).then(() => local.refetch());
     }
   }, [local, fromServer]);
-  // Consent the clinic already holds is kept on the device too, so it is not asked again (nor sent back).
+  // Consent the clinic already holds is kept on the device too, so it is not asked again (nor sent back). Only
+  // one to the text in force counts, and only while the device has none of its own: without these checks every
+  // refresh of the clinic list would write it again.
   const serverConsent = fromServer?.consent ?? null;
+  const needsServerConsent =
+    local.data !== null &&
+    local.data !== undefined &&
+    serverConsent !== null &&
+    String(serverConsent.textVersion) === String(consentTextShown.version) &&
+    consent.data === null;
   const { refetch: refetchConsent } = consent;
   useEffect(() => {
-    if (local.data && serverConsent) {
+    if (needsServerConsent && serverConsent) {
       void rememberServerConsent(id, serverConsent).then(() => refetchConsent());
     }
-  }, [id, local.data, serverConsent, refetchConsent]);
+  }, [id, needsServerConsent, serverConsent, refetchConsent]);
 
   if (local.isPending) return <LoadingState label="Opening the client…" testID="client-loading" />;
   if (local.isError)
