@@ -205,11 +205,10 @@ describe('offline capture on the phone', () => {
     await page.waitForFunction(() => Boolean(localStorage.getItem('fourpoint.audio-input.v1')));
     rates.push(await recordSite(page, 'tricuspid', 'capture-tricuspid-trace-phone'));
     await visible(page, 'site-step-aortic').waitFor();
-    expect(
-      await visible(page, 'input-picker')
-        .getByRole('radio', { name: 'Fake Audio Input 2' })
-        .getAttribute('aria-checked'),
-    ).toBe('true');
+    // The kept choice is read from storage as the step opens: wait for it rather than read the first render.
+    await visible(page, 'input-picker')
+      .locator('[role="radio"][aria-checked="true"]', { hasText: 'Fake Audio Input 2' })
+      .waitFor();
     rates.push(await recordSite(page, 'aortic', 'capture-aortic-trace-phone'));
     for (const rate of rates) {
       expect(rate).toBeGreaterThanOrEqual(plausibleBpm.min);
