@@ -1,15 +1,13 @@
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
-import path from 'node:path';
 import { decodeWav, encodeWav16 } from '@/shared/analysis/wav';
 import { generateClinicKeyPair, openClip, sealClip, sha256Hex } from '@/shared/seal';
+import { circorFixture } from '@/tests/support/circor-fixtures';
 
 // The clip is what the local store keeps for a take: a 16-bit WAV of the samples. CirCor DigiScope record
-// 40840_AV (Oliveira et al., IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048).
-const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(__dirname, '../../../shared/data/circor');
-
+// 36327_MV (Oliveira et al., IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048), vendored in tests/fixtures/circor.
 function storedClip(): Uint8Array {
-  const wav = decodeWav(new Uint8Array(fs.readFileSync(path.join(dataDir, '40840_AV.wav'))));
+  const wav = decodeWav(new Uint8Array(fs.readFileSync(circorFixture('36327_MV.wav'))));
   return encodeWav16(wav.samples, wav.sampleRate);
 }
 

@@ -1,20 +1,19 @@
 import fs from 'node:fs';
-import path from 'node:path';
 import { encodeWav16 } from '@/shared/analysis/wav';
+import { circorFixture } from '@/tests/support/circor-fixtures';
 import { decodeImport, ImportError } from './import-file';
 
 // CirCor DigiScope (Oliveira et al., IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048); the .hea header of each
-// record states its rate and sample count, an outside reference for the decoder.
-const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(__dirname, '../../../shared/data/circor');
+// record states its rate and sample count, an outside reference for the decoder. Vendored in tests/fixtures/circor.
 const record = '36327_MV';
 
 describe('decodeImport', () => {
   test('when a CirCor WAV is imported, then its rate and length match the record header', async () => {
     const header = fs
-      .readFileSync(path.join(dataDir, `${record}.hea`), 'utf8')
+      .readFileSync(circorFixture(`${record}.hea`), 'utf8')
       .split('\n')[0]!
       .split(' ');
-    const bytes = new Uint8Array(fs.readFileSync(path.join(dataDir, `${record}.wav`)));
+    const bytes = new Uint8Array(fs.readFileSync(circorFixture(`${record}.wav`)));
     const pcm = await decodeImport(bytes, `${record}.wav`);
     expect(pcm.sampleRate).toBe(Number(header[2]));
     expect(pcm.samples.length).toBe(Number(header[3]));
