@@ -1,20 +1,18 @@
-import * as fs from 'fs';
-import * as path from 'path';
+import { annotatedHeartRate, listRecordings, readSamples } from '@/scripts/analysis/circor';
+import { describeWithOpenData } from '@/tests/support/open-data';
 import { analysePcm } from './analyse';
 import { preprocess } from './preprocess';
 import type { AnalysisResult, SiteCode } from './types';
 import { addCounts, emptyCounts, f1, scoreSounds, type AnnotatedSegment } from './scoring';
-import { decodeWav } from './wav';
 
 /*
  * Development data: CirCor DigiScope Phonocardiogram Dataset v1.0.3, training subset of 24 patients × 4 sites
  * (Oliveira et al., "The CirCor DigiScope Dataset: From Murmur Detection to Murmur Classification", IEEE JBHI 2022,
  * doi:10.1109/JBHI.2021.3137048; PhysioNet doi:10.13026/tshs-mw03). These checks use the committed model, which
  * was fitted on the same recordings: they are floors against regressions. The honest, cross-validated figures
- * come from scripts/analysis/score.ts.
+ * come from scripts/analysis/score.ts. They need the whole open data folder (../shared/data/circor or
+ * FOURPOINT_DATA_DIR) and skip, saying so in one line, without it.
  */
-const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(__dirname, '../../../shared/data/circor');
-const SITES: Record<string, SiteCode> = { AV: 'aortic', PV: 'pulmonic', TV: 'tricuspid', MV: 'mitral' };
 
 interface Case {
   id: string;
@@ -57,31 +55,18 @@ function sampleSd(values: number[]): number | null {
   return Math.sqrt(values.reduce((a, b) => a + (b - mean) ** 2, 0) / (values.length - 1));
 }
 
-const available = fs.existsSync(dataDir);
 const cases: Case[] = [];
 
 function load(): Case[] {
   if (cases.length) return cases;
-  for (const name of fs
-    .readdirSync(dataDir)
-    .filter((n) => n.endsWith('.wav'))
-    .sort()) {
-    const id = name.replace(/\.wav$/, '');
-    const [patient, siteCode] = id.split('_');
-    const header = fs.readFileSync(path.join(dataDir, `${patient}.txt`), 'utf8');
-    const segments = fs
-      .readFileSync(path.join(dataDir, `${id}.tsv`), 'utf8')
-      .trim()
-      .split('\n')
-      .map((line) => line.split('\t').map(Number))
-      .map(([startS, endS, label]) => ({ startS, endS, label }));
-    const { samples, sampleRate } = decodeWav(new Uint8Array(fs.readFileSync(path.join(dataDir, name))));
-    const result = analysePcm(samples, sampleRate, { site: SITES[siteCode] });
+  for (const recording of listRecordings()) {
+    const { samples, sampleRate } = readSamples(recording);
+    const result = analysePcm(samples, sampleRate, { site: recording.site });
     cases.push({
-      id,
-      site: SITES[siteCode],
-      murmur: /#Murmur:\s*(\S+)/.exec(header)?.[1] ?? 'Unknown',
-      segments,
+      id: recording.id,
+      site: recording.site,
+      murmur: recording.murmur,
+      segments: recording.segments,
       result,
       pitchHz: pitches(samples, sampleRate, result),
     });
@@ -89,21 +74,7 @@ function load(): Case[] {
   return cases;
 }
 
-/** Heart-rate truth as the dataset README defines it: 60 / median interval between consecutive annotated S1 onsets. */
-function annotatedRate(segments: AnnotatedSegment[]): number | null {
-  const onsets = segments.filter((s) => s.label === 1).map((s) => s.startS);
-  const intervals = onsets
-    .slice(1)
-    .map((t, i) => t - onsets[i])
-    .sort((a, b) => a - b);
-  if (!intervals.length) return null;
-  const mid = intervals.length >> 1;
-  return 60 / (intervals.length % 2 ? intervals[mid] : (intervals[mid - 1] + intervals[mid]) / 2);
-}
-
-const describeIfData = available ? describe : describe.skip;
-
-describeIfData('CirCor development recordings', () => {
+describeWithOpenData('CirCor development recordings', () => {
   beforeAll(load, 60000);
 
   // Scoring rule of Springer et al., "Logistic regression-HSMM-based heart sound segmentation", IEEE TBME 2016:
@@ -116,9 +87,9 @@ describeIfData('CirCor development recordings', () => {
   });
 
   test('when all 96 recordings are analysed, then the heart rate is within 3 bpm of the annotation in at least 85 %', () => {
-    const rated = load().filter((c) => annotatedRate(c.segments) !== null);
+    const rated = load().filter((c) => annotatedHeartRate(c.segments) !== null);
     const within = rated.filter(
-      (c) => Math.abs((c.result.heartRateBpm ?? -100) - (annotatedRate(c.segments) ?? 0)) <= 3,
+      (c) => Math.abs((c.result.heartRateBpm ?? -100) - (annotatedHeartRate(c.segments) ?? 0)) <= 3,
     );
     expect(within.length / rated.length).toBeGreaterThanOrEqual(0.85);
   });
