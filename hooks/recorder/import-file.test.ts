@@ -3,8 +3,9 @@ import { encodeWav16 } from '@/shared/analysis/wav';
 import { circorFixture } from '@/tests/support/circor-fixtures';
 import { decodeImport, ImportError } from './import-file';
 
-// CirCor DigiScope (Oliveira et al., IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048); the .hea header of each
-// record states its rate and sample count, an outside reference for the decoder. Vendored in tests/fixtures/circor.
+// CirCor DigiScope (Oliveira et al., IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048), vendored in
+// tests/fixtures/circor; the .hea header of each record states its rate and sample count, an outside reference
+// for the decoder.
 const record = '36327_MV';
 
 describe('decodeImport', () => {

@@ -3,7 +3,8 @@
 // the session and its sealed clips in the outbox; then read the raw local database files and find no plaintext.
 //
 // Heart sounds: the CirCor DigiScope dataset (Oliveira et al., "The CirCor DigiScope Dataset: From Murmur
-// Detection to Murmur Classification", IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048), in ../shared/data/circor.
+// Detection to Murmur Classification", IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048), vendored in
+// tests/fixtures/circor.
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -11,6 +12,7 @@ import { chromium, type Browser, type BrowserContext, type Page } from 'playwrig
 import { decodeWav, encodeWav16 } from '@/shared/analysis/wav';
 import { resamplePoly } from '@/shared/analysis/resample';
 import { launchBrowser, newPage, PHONE, screenshot, WIDE } from '@/tests/support/browser';
+import { circorFixture } from '@/tests/support/circor-fixtures';
 import { keepTake, signInOperatorOnline, visible } from './helpers/operator';
 
 /**
@@ -44,10 +46,9 @@ async function launchWithMicrophone(wav: string): Promise<Browser> {
 jest.setTimeout(300_000);
 
 const repoRoot = path.resolve(__dirname, '../..');
-const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(repoRoot, '../shared/data/circor');
 // A mitral-valve recording for the microphone and a pulmonic one for the import; both from the same subject.
-const micSource = path.join(dataDir, '36327_MV.wav');
-const importSource = path.join(dataDir, '36327_PV.wav');
+const micSource = circorFixture('36327_MV.wav');
+const importSource = circorFixture('36327_PV.wav');
 // Plausible resting heart rates for any person recorded at rest (common practice, no source).
 const plausibleBpm = { min: 40, max: 180 };
 

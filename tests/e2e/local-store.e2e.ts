@@ -1,10 +1,11 @@
 // The records kept on the phone live in one SQLite file in the browser's private file system (OPFS), which only
 // one page at a time may hold. A reload or a second tab must neither lose a record nor leave the app stuck.
 // Expected behaviour is the product's own rule (DEVELOPERS.md, "Capture"); no outside source. The imported clip is
-// from the CirCor DigiScope dataset (Oliveira et al., IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048).
+// from the CirCor DigiScope dataset (Oliveira et al., IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048), vendored
+// in tests/fixtures/circor.
 import { browserForThisFile, newPage, PHONE, screenshot, trackPage } from '@/tests/support/browser';
+import { circorFixture } from '@/tests/support/circor-fixtures';
 import { randomUUID } from 'node:crypto';
-import path from 'node:path';
 import {
   addClientAndStartSession,
   importSite,
@@ -72,7 +73,6 @@ describe('the records kept on the device', () => {
   });
 
   test('when an unfinished session is discarded, then its takes are gone from the device and the client can start afresh', async () => {
-    const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(__dirname, '../../../shared/data/circor');
     const { context, page } = await newPage(browser(), PHONE);
     await signIn(page, operatorEmail);
     await page.waitForURL((url) => url.pathname === '/clients');
@@ -81,7 +81,7 @@ describe('the records kept on the device', () => {
       lastName: `Castlemoor${uniqueLetters()}`,
       dateOfBirth: '1990-02-11',
     });
-    await importSite(page, 'mitral', path.join(dataDir, '50296_MV.wav'));
+    await importSite(page, 'mitral', circorFixture('50296_MV.wav'));
     await visible(page, 'site-step-tricuspid').waitFor();
 
     await visible(page, 'discard-session').click();
@@ -104,7 +104,6 @@ describe('the records kept on the device', () => {
   });
 
   test('when the operator opens a client whose consent the clinic already holds, then it is not asked again, nor sent back with the session', async () => {
-    const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(__dirname, '../../../shared/data/circor');
     const { context, page } = await newPage(browser(), PHONE);
     await signIn(page, operatorEmail);
     await page.waitForURL((url) => url.pathname === '/clients');
@@ -150,7 +149,7 @@ describe('the records kept on the device', () => {
 
     await visible(page, 'start-session').click();
     await page.waitForURL((url) => url.pathname.startsWith('/capture/'));
-    await importSite(page, 'mitral', path.join(dataDir, '50296_MV.wav'));
+    await importSite(page, 'mitral', circorFixture('50296_MV.wav'));
     for (const site of ['tricuspid', 'aortic', 'pulmonic']) {
       await visible(page, `site-step-${site}`).waitFor();
       await visible(page, 'skip').click();

@@ -2,12 +2,13 @@
 // a practitioner on another device (another browser context) finds it with the server's own analysis.
 //
 // Heart sounds: the CirCor DigiScope dataset (Oliveira et al., "The CirCor DigiScope Dataset: From Murmur
-// Detection to Murmur Classification", IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048), in ../shared/data/circor:
-// subject 50296 (no murmur annotated), one recording per site, imported rather than recorded to keep the run short.
+// Detection to Murmur Classification", IEEE JBHI 2022, doi:10.1109/JBHI.2021.3137048), vendored in
+// tests/fixtures/circor: subject 50296 (no murmur annotated), one recording per site, imported rather than
+// recorded to keep the run short.
 import fs from 'node:fs';
-import path from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { launchBrowser, newPage, PHONE, screenshot, WIDE } from '@/tests/support/browser';
+import { circorFixture } from '@/tests/support/circor-fixtures';
 import {
   addClientAndStartSession,
   importSite,
@@ -20,8 +21,6 @@ import {
 
 jest.setTimeout(300_000);
 
-const repoRoot = path.resolve(__dirname, '../..');
-const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(repoRoot, '../shared/data/circor');
 const subject = '50296';
 const sites = [
   { site: 'mitral', file: `${subject}_MV` },
@@ -36,7 +35,7 @@ const sites = [
  */
 function annotatedBpm(file: string): number {
   const onsets = fs
-    .readFileSync(path.join(dataDir, `${file}.tsv`), 'utf8')
+    .readFileSync(circorFixture(`${file}.tsv`), 'utf8')
     .trim()
     .split('\n')
     .map((line) => line.split(/\s+/))
@@ -100,7 +99,7 @@ describe('offline capture drained to the clinic', () => {
     await context.setOffline(true);
     await addClientAndStartSession(page, client);
     for (const { site, file } of sites)
-      deviceRates.set(site, await importSite(page, site, path.join(dataDir, `${file}.wav`)));
+      deviceRates.set(site, await importSite(page, site, circorFixture(`${file}.wav`)));
     await visible(page, 'review').waitFor();
     await visible(page, 'finish').click();
     await visible(page, 'capture-finished').waitFor();

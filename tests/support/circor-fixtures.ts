@@ -9,7 +9,7 @@ import path from 'node:path';
  */
 export const circorFixtureDir = path.resolve(__dirname, '../fixtures/circor');
 
-/** Path of a vendored file, e.g. `circorFixture('36327_MV.wav')`; throws, naming the folder, when it is not there. */
+/** Path of a vendored file, e.g. `circorFixture('36327_MV.wav')`; throws, naming the folder, when it is absent. */
 export function circorFixture(file: string): string {
   const location = path.join(circorFixtureDir, file);
   if (!fs.existsSync(location))
