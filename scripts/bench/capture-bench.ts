@@ -9,25 +9,21 @@ import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import { chromium } from 'playwright-core';
 import { resamplePoly } from '@/shared/analysis/resample';
-import { decodeWav } from '@/shared/analysis/wav';
+import { listRecordings, readSamples } from '@/scripts/analysis/circor';
 
 const root = path.resolve(__dirname, '../..');
-const dataDir = process.env.FOURPOINT_DATA_DIR ?? path.resolve(root, '../shared/data/circor');
 const workerFile = path.join(root, 'dist/workers/analysis.js');
 const budgetMs = 300;
 const takeRate = 8000;
 
 function clips(count: number, seconds: number): number[][] {
-  const files = fs
-    .readdirSync(dataDir)
-    .filter((f) => f.endsWith('.wav'))
-    .sort()
-    .slice(0, count);
-  return files.map((f) => {
-    const wav = decodeWav(new Uint8Array(fs.readFileSync(path.join(dataDir, f))));
-    const up = resamplePoly(wav.samples, takeRate / wav.sampleRate, 1);
-    return Array.from(up.subarray(0, Math.min(up.length, takeRate * seconds)));
-  });
+  return listRecordings()
+    .slice(0, count)
+    .map((recording) => {
+      const wav = readSamples(recording);
+      const up = resamplePoly(wav.samples, takeRate / wav.sampleRate, 1);
+      return Array.from(up.subarray(0, Math.min(up.length, takeRate * seconds)));
+    });
 }
 
 const inBrowser = `async ({ inputs, rate }) => {
