@@ -25,6 +25,13 @@ type PlainClip = { id: string; site: Site; clip_wav: Uint8Array };
  * memory first; one transaction then stores the sealed blobs, drops the plaintext and queues everything, so a tab
  * closed half-way leaves the session open (and resumable) rather than half-sealed.
  */
+/**
+ * Fields the practice writes (shared/protocol/field-access.ts): a new row carries them empty; a change of a row
+ * the server has leaves them out, since the server refuses an operator's change to them.
+ */
+const practiceFieldsOnCreate = (baseVersion: number, empty: Record<string, null>) =>
+  baseVersion === 0 ? empty : {};
+
 export async function finishSession(sessionId: string, now = new Date()): Promise<{ clips: number }> {
   const key = await cachedClinicKey();
   if (!key) throw new MissingClinicKeyError();
@@ -131,7 +138,7 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
           dateOfBirth: client.date_of_birth,
           email: client.email,
           phone: client.phone,
-          notes: null,
+          ...practiceFieldsOnCreate(client.version, { notes: null }),
         },
         `Client ${who}`,
       );
@@ -178,9 +185,7 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
         status: 'completed',
         startedAt: session.started_at,
         finishedAt: stamp,
-        findings: null,
-        plan: null,
-        followUpDate: null,
+        ...practiceFieldsOnCreate(session.version, { findings: null, plan: null, followUpDate: null }),
       },
       `Session of ${who}`,
     );

@@ -52,7 +52,7 @@ test('when one mutation in the middle of a batch breaks a database rule, then it
     // A second mitral recording in one session: only the database's unique rule catches it.
     m('site_recordings', randomUUID(), siteFields(sessionId, 'mitral')),
     m('site_recordings', randomUUID(), siteFields(sessionId, 'tricuspid')),
-    m('clients', clientId, { notes: 'after the refused one' }, 1),
+    m('clients', clientId, { phone: 'after the refused one' }, 1),
   ];
   const first = await push(operator, batch);
   expect(first.results.map((r) => r.status)).toEqual([
@@ -81,11 +81,11 @@ test('when one mutation in the middle of a batch breaks a database rule, then it
     'already_applied',
   ]);
   expect(await count(`SELECT count(*) FROM applied_mutations WHERE clinic_id = $1`, [clinic.id])).toBe(5);
-  const [client] = await server.ctx.sequelize.query<{ version: number; notes: string }>(
-    `SELECT version, notes FROM clients WHERE id = $1`,
+  const [client] = await server.ctx.sequelize.query<{ version: number; phone: string }>(
+    `SELECT version, phone FROM clients WHERE id = $1`,
     { bind: [clientId], type: QueryTypes.SELECT },
   );
-  expect(client).toEqual({ version: 2, notes: 'after the refused one' });
+  expect(client).toEqual({ version: 2, phone: 'after the refused one' });
 });
 
 test('when the same batch is delivered twice at the same moment, then each mutation is applied by exactly one delivery', async () => {
@@ -121,7 +121,7 @@ test('when an edit points a session at a client that is not on the server, then 
   ]);
   const res = await push(operator, [
     m('recording_sessions', sessionId, { clientId: randomUUID() }, 1),
-    m('recording_sessions', sessionId, { plan: 'Re-check in four weeks.' }, 1),
+    m('recording_sessions', sessionId, { finishedAt: '2026-11-30T09:20:00.000Z' }, 1),
   ]);
   expect(res.results[0]).toMatchObject({ status: 'rejected', code: 'missing_parent' });
   expect(res.results[1]).toMatchObject({ status: 'applied', newVersion: 2 });

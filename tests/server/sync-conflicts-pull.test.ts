@@ -35,8 +35,8 @@ test('when two devices edit the same row offline, then one conflict keeps both v
   await b.sync();
   expect(b.storage.confirmedRow('clients', id)?.version).toBe(1);
 
-  await a.edit('clients', id, { phone: '555-0101', notes: 'from A' });
-  await b.edit('clients', id, { notes: 'from B', email: 'b@example.test' });
+  await a.edit('clients', id, { phone: '555-0101', lastName: 'from A' });
+  await b.edit('clients', id, { lastName: 'from B', email: 'b@example.test' });
   expect(await a.sync()).toMatchObject({ sent: 1, conflicts: 0 });
   expect(await b.sync()).toMatchObject({ sent: 0, conflicts: 1 });
 
@@ -51,15 +51,19 @@ test('when two devices edit the same row offline, then one conflict keeps both v
     deviceId: b.deviceId,
     serverDeviceId: a.deviceId,
   });
-  expect(summary.differingFields.sort()).toEqual(['email', 'notes']);
+  expect(summary.differingFields.sort()).toEqual(['email', 'lastName']);
 
   const detail = (await api(admin).get(`/api/admin/conflicts/${summary.id}`)).data.conflict;
-  expect(detail.server.data).toMatchObject({ notes: 'from A', phone: '555-0101', email: null });
-  expect(detail.client.data).toMatchObject({ notes: 'from B', phone: '555-0101', email: 'b@example.test' });
+  expect(detail.server.data).toMatchObject({ lastName: 'from A', phone: '555-0101', email: null });
+  expect(detail.client.data).toMatchObject({
+    lastName: 'from B',
+    phone: '555-0101',
+    email: 'b@example.test',
+  });
 
   const missingPick = await api(admin).post(`/api/admin/conflicts/${summary.id}/resolve`, {
     keep: 'fields',
-    fields: { notes: 'client' },
+    fields: { lastName: 'client' },
     note: 'x',
   });
   expect(missingPick.status).toBe(400);
@@ -72,7 +76,7 @@ test('when two devices edit the same row offline, then one conflict keeps both v
 
   const resolved = await api(admin).post(`/api/admin/conflicts/${summary.id}/resolve`, {
     keep: 'fields',
-    fields: { notes: 'server', email: 'client' },
+    fields: { lastName: 'server', email: 'client' },
     note: 'Kept the room note, took the new e-mail.',
   });
   expect(resolved.status).toBe(200);
@@ -87,7 +91,7 @@ test('when two devices edit the same row offline, then one conflict keeps both v
   await b.sync();
   const expected = {
     version: 3,
-    data: expect.objectContaining({ notes: 'from A', phone: '555-0101', email: 'b@example.test' }),
+    data: expect.objectContaining({ lastName: 'from A', phone: '555-0101', email: 'b@example.test' }),
   };
   expect(a.storage.confirmedRow('clients', id)).toMatchObject(expected);
   expect(b.storage.confirmedRow('clients', id)).toMatchObject(expected);
@@ -104,8 +108,9 @@ test('when two devices edit the same row offline, then one conflict keeps both v
 });
 
 test('when a row is deleted and synced, then a fresh device pulls it as a tombstone and an old edit cannot revive it', async () => {
-  const { operator } = await clinicWithTokens(server, 'Tomb');
-  const a = new SimDevice(server.url, operator);
+  const { operator, admin } = await clinicWithTokens(server, 'Tomb');
+  // Deleting a synced row is the admin's (shared/protocol/field-access.ts).
+  const a = new SimDevice(server.url, admin);
   const stale = new SimDevice(server.url, operator);
   const id = await a.create('clients', clientFields('tomb'));
   await a.sync();
@@ -120,13 +125,13 @@ test('when a row is deleted and synced, then a fresh device pulls it as a tombst
     deletedAt: expect.any(String),
   });
 
-  await stale.edit('clients', id, { notes: 'edited on a device that missed the delete' });
+  await stale.edit('clients', id, { lastName: 'edited on a device that missed the delete' });
   expect(await stale.sync()).toMatchObject({ conflicts: 1 });
   const again = new SimDevice(server.url, operator);
   await again.sync();
   expect(again.storage.confirmedRow('clients', id)).toMatchObject({
     deletedAt: expect.any(String),
-    data: expect.objectContaining({ notes: null }),
+    data: expect.objectContaining({ lastName: 'Testwood' }),
   });
 });
 

@@ -41,7 +41,7 @@ test('when the response to a committed push is cut, then the retry answers alrea
 
   await device.syncUntilSettled();
   expect((await device.storage.listOutbox())[0]).toMatchObject({ state: 'sent', attempts: 2 });
-  await device.edit('clients', id, { notes: 'after the cut' });
+  await device.edit('clients', id, { phone: 'after the cut' });
   expect(await device.sync()).toMatchObject({ sent: 1, conflicts: 0 });
   const rows = await server.ctx.sequelize.query<{ version: number }>(
     `SELECT version FROM clients WHERE clinic_id = $1`,
@@ -74,7 +74,7 @@ test('when 20 devices push 1000 changes through a network that drops connections
       await device.syncUntilSettled();
       for (let i = 0; i < 20; i++) {
         const note = `edit ${d}-${i}`;
-        await device.edit('clients', mine[i], { notes: note });
+        await device.edit('clients', mine[i], { phone: note });
         edits.set(mine[i], note);
         if (i % 5 === 4) await device.syncUntilSettled();
       }
@@ -84,15 +84,15 @@ test('when 20 devices push 1000 changes through a network that drops connections
   proxy.decide = () => 'pass';
   await Promise.all(devices.map((d) => d.sync()));
 
-  const serverRows = await server.ctx.sequelize.query<{ id: string; version: number; notes: string | null }>(
-    `SELECT id, version, notes FROM clients WHERE clinic_id = $1 ORDER BY id`,
+  const serverRows = await server.ctx.sequelize.query<{ id: string; version: number; phone: string | null }>(
+    `SELECT id, version, phone FROM clients WHERE clinic_id = $1 ORDER BY id`,
     { bind: [clinic.id], type: QueryTypes.SELECT },
   );
   expect(serverRows).toHaveLength(600);
   expect(new Set(serverRows.map((r) => r.id))).toEqual(new Set(created));
   for (const row of serverRows) {
     expect(row.version).toBe(edits.has(row.id) ? 2 : 1);
-    expect(row.notes).toBe(edits.get(row.id) ?? null);
+    expect(row.phone).toBe(edits.get(row.id) ?? null);
   }
   const [{ count }] = await server.ctx.sequelize.query<{ count: string }>(
     `SELECT count(*) FROM applied_mutations WHERE clinic_id = $1`,
@@ -107,7 +107,7 @@ test('when 20 devices push 1000 changes through a network that drops connections
     expect(outbox.filter((i) => i.state !== 'sent')).toEqual([]);
     const local = device.storage
       .allConfirmedRows()
-      .map((r) => ({ id: r.id, version: r.version, notes: r.data.notes ?? null }))
+      .map((r) => ({ id: r.id, version: r.version, phone: r.data.phone ?? null }))
       .sort((a, b) => (a.id < b.id ? -1 : 1));
     expect(local).toEqual(serverRows);
   }

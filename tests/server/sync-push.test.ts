@@ -136,13 +136,13 @@ test('when a device edits its own row twice offline, then both edits apply in or
   const device = new SimDevice(server.url, operator);
   const id = await device.create('clients', clientFields('own'));
   await device.sync();
-  await device.edit('clients', id, { notes: 'first' });
-  await device.edit('clients', id, { notes: 'second', phone: '555-0100' });
+  await device.edit('clients', id, { lastName: 'first' });
+  await device.edit('clients', id, { lastName: 'second', phone: '555-0100' });
   const report = await device.sync();
   expect(report).toMatchObject({ sent: 2, conflicts: 0, failed: 0 });
   expect(device.storage.confirmedRow('clients', id)).toMatchObject({
     version: 3,
-    data: { notes: 'second', phone: '555-0100' },
+    data: { lastName: 'second', phone: '555-0100' },
   });
 });
 

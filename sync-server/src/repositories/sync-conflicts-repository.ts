@@ -1,3 +1,4 @@
+import type { Role } from '@/shared/protocol';
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 
 export interface ConflictRecord {
@@ -92,6 +93,16 @@ export class SyncConflictsRepository {
       transaction: this.transaction,
     });
     return row?.name ?? null;
+  }
+
+  async userRole(userId: string | null): Promise<Role | null> {
+    if (!userId) return null;
+    const [row] = await this.sequelize.query<{ role: Role }>(`SELECT role FROM users WHERE id = $1`, {
+      bind: [userId],
+      type: QueryTypes.SELECT,
+      transaction: this.transaction,
+    });
+    return row?.role ?? null;
   }
 
   async markResolved(id: string, resolvedBy: string, resolution: Record<string, unknown>): Promise<void> {

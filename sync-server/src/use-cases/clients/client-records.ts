@@ -12,6 +12,7 @@ import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as repo from '../../repositories/client-records-repository';
 import { iso } from '../../repositories/practice-db';
 import type { Caller, UseCaseDeps } from '../context';
+import { requireFieldWrites } from '../field-access';
 
 const dateOnly = (value: string | Date | null) =>
   value === null ? null : typeof value === 'string' ? value.slice(0, 10) : value.toISOString().slice(0, 10);
@@ -114,12 +115,10 @@ export async function createClientRecord(
   input: ClientDetails,
 ): Promise<{ id: string }> {
   const id = randomUUID();
+  const fields = fieldsOf(input);
+  requireFieldWrites(caller.role, 'clients', Object.keys(fields));
   await deps.sequelize.transaction(async (transaction) => {
-    await repo.insertClient(
-      deps.sequelize,
-      { id, clinicId: caller.clinicId, ...fieldsOf(input) },
-      transaction,
-    );
+    await repo.insertClient(deps.sequelize, { id, clinicId: caller.clinicId, ...fields }, transaction);
     await recordAuditEvent(
       {
         clinicId: caller.clinicId,
@@ -141,10 +140,11 @@ export async function updateClientRecord(
   clientId: string,
   input: UpdateClientRequest,
 ): Promise<void> {
+  const fields = fieldsOf(input);
+  requireFieldWrites(caller.role, 'clients', Object.keys(fields));
   await deps.sequelize.transaction(async (transaction) => {
     const before = await repo.findClientRow(deps.sequelize, caller.clinicId, clientId, transaction);
     if (!before) throw clientNotFound();
-    const fields = fieldsOf(input);
     const changed = await repo.updateClientIfVersion(
       deps.sequelize,
       caller.clinicId,

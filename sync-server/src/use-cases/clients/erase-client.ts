@@ -1,10 +1,12 @@
 import { randomUUID } from 'node:crypto';
 import type { EraseClientResponse } from '@/shared/protocol/practice';
+import { syncEntities } from '@/shared/protocol/sync';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as repo from '../../repositories/erasure-repository';
 import { practiceServices } from '../../services/practice-services';
 import type { Caller, UseCaseDeps } from '../context';
+import { requireFieldWrites } from '../field-access';
 import { clientNotFound } from './client-records';
 
 /** Devices pull within this time in practice; the tombstones stay that long before the rows are purged. */
@@ -18,6 +20,8 @@ export async function eraseClient(
   clientId: string,
   confirmName: string,
 ): Promise<EraseClientResponse> {
+  // Erasure is a delete of every row of the client; blanking their fields is part of the delete.
+  for (const entity of syncEntities) requireFieldWrites(caller.role, entity, ['deletedAt']);
   const erasureId = randomUUID();
   const outcome = await deps.sequelize.transaction(async (transaction) => {
     const client = await repo.lockClient(deps.sequelize, caller.clinicId, clientId, transaction);

@@ -3,6 +3,7 @@ import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import { findSessionRecord, updateNotesIfVersion } from '../../repositories/review-repository';
 import type { Caller, UseCaseDeps } from '../context';
+import { requireFieldWrites } from '../field-access';
 import { notesOf, sessionNotFound } from './session-view';
 
 /**
@@ -22,6 +23,8 @@ export async function saveNotes(
     followUpDate: request.followUpDate,
     reviewedBy: caller.userId,
   };
+  // The save also moves a completed session to reviewed; reviewedBy and reviewedAt are the server's.
+  requireFieldWrites(caller.role, 'recording_sessions', ['findings', 'plan', 'followUpDate', 'status']);
   return deps.sequelize.transaction(async (transaction) => {
     const saved = await updateNotesIfVersion(
       deps.sequelize,

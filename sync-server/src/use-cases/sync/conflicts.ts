@@ -7,6 +7,7 @@ import {
   type RowData,
   type SyncEntity,
 } from '@/shared/protocol/sync';
+import { fieldWriteRefusal } from '@/shared/protocol/field-access';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import { SyncConflictsRepository, type ConflictRecord } from '../../repositories/sync-conflicts-repository';
@@ -169,6 +170,19 @@ export async function resolveConflict(
       if (side !== 'client') continue;
       if (field === 'deletedAt') deletedAt = client.deletedAt ?? undefined;
       else fields[field] = client.data[field];
+    }
+    // The kept fields are the device user's writing, not the admin's: they must be theirs to write.
+    const author = await conflicts.userRole(record.userId);
+    const fromDevice = [...Object.keys(fields), ...(deletedAt === undefined ? [] : ['deletedAt'])];
+    const refusal = author
+      ? fieldWriteRefusal(author, entity, fromDevice)
+      : fromDevice.length
+        ? 'The person who made this change is no longer on the team, so only the server side can be kept.'
+        : null;
+    if (refusal) {
+      throw new AppError('field_not_writable', `${refusal} Keep the server's side for those fields.`, 403, {
+        fields: fromDevice,
+      });
     }
     const version = current.version + 1;
     await rows.updateRow(entity, record.rowId, fields, deletedAt, version);

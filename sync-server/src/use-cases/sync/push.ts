@@ -1,5 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Sequelize } from 'sequelize';
+import type { Role } from '@/shared/protocol';
+import { fieldWriteRefusal } from '@/shared/protocol/field-access';
 import {
   serverOwnedFields,
   syncFieldSchemas,
@@ -35,8 +37,17 @@ const partialSchemas = Object.fromEntries(
   Object.entries(syncFieldSchemas).map(([entity, schema]) => [entity, schema.partial()]),
 ) as { [E in SyncEntity]: ReturnType<(typeof syncFieldSchemas)[E]['partial']> };
 
-/** Splits a change into field values and the tombstone, refusing anything a device may not write. */
-export function checkChange(m: Mutation): { fields: RowData; deletedAt: string | undefined } {
+/**
+ * The fields this change writes that the role must be allowed to write. A new row carries every field, so a
+ * field the role does not own is accepted there as null: the empty value, which writes nothing.
+ */
+function writtenFields(m: Mutation, fields: RowData, deletedAt: unknown): string[] {
+  const written = Object.keys(fields).filter((name) => m.baseVersion !== 0 || fields[name] !== null);
+  return deletedAt === undefined ? written : [...written, 'deletedAt'];
+}
+
+/** Splits a change into field values and the tombstone, refusing anything the caller's device may not write. */
+export function checkChange(m: Mutation, role: Role): { fields: RowData; deletedAt: string | undefined } {
   const schema = syncFieldSchemas[m.entity];
   const { deletedAt, ...fields } = m.change;
   const serverOwned = serverOwnedFields[m.entity] as readonly string[];
@@ -51,6 +62,8 @@ export function checkChange(m: Mutation): { fields: RowData; deletedAt: string |
       'deletedAt must be a time: a deleted row cannot be brought back by a device.',
     );
   }
+  const refusal = fieldWriteRefusal(role, m.entity, writtenFields(m, fields, deletedAt));
+  if (refusal) throw new Rejection('forbidden', refusal);
   const parsed = partialSchemas[m.entity].safeParse(fields);
   if (!parsed.success) {
     const detail = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
@@ -121,7 +134,7 @@ export async function pushChanges(
 ): Promise<PushResponse> {
   const checked: Checked[] = request.mutations.map((m) => {
     try {
-      return { m, change: checkChange(m) };
+      return { m, change: checkChange(m, caller.role) };
     } catch (error) {
       if (error instanceof Rejection) return { m, rejection: rejected(m, error.code, error.message) };
       throw error;

@@ -1,0 +1,120 @@
+import type { Role } from './auth';
+import type { SyncEntity, serverOwnedFields, syncFieldSchemas } from './sync';
+
+type DeviceField<E extends SyncEntity> = keyof (typeof syncFieldSchemas)[E]['shape'] & string;
+type ServerField<E extends SyncEntity> = (typeof serverOwnedFields)[E][number];
+/** Every field of a synced row: what devices write, what the server fills, and the tombstone. */
+export type SyncField<E extends SyncEntity> = DeviceField<E> | ServerField<E> | 'deletedAt';
+
+export interface FieldRule {
+  /** Roles whose pull carries the field. */
+  read: readonly Role[];
+  /** Roles whose change (sync push or REST route) may set the field; empty when only the server sets it. */
+  write: readonly Role[];
+}
+
+const everyone = ['operator', 'practitioner', 'admin'] as const;
+const reviewers = ['practitioner', 'admin'] as const;
+const serverOnly = [] as const;
+
+/**
+ * Who may read and write each field of each synced row. Operators capture on the phone (contact details, consent,
+ * sessions, site recordings) and read back only what capture needs; practitioners write the clinical side
+ * (findings, plan, follow-up, client notes); admins manage (client details, erasure) and read everything.
+ * A tombstone reaches every device that holds the row, so every role reads `deletedAt`.
+ * Typed so that a field added to a sync schema without a line here fails the typecheck.
+ */
+export const fieldAccess = {
+  clients: {
+    firstName: { read: everyone, write: everyone },
+    lastName: { read: everyone, write: everyone },
+    dateOfBirth: { read: everyone, write: everyone },
+    email: { read: everyone, write: everyone },
+    phone: { read: everyone, write: everyone },
+    // The practice's notes on the client are clinical; the phone neither shows nor writes them.
+    notes: { read: reviewers, write: reviewers },
+    deletedAt: { read: everyone, write: ['admin'] },
+  },
+  consents: {
+    clientId: { read: everyone, write: ['operator'] },
+    consentTextId: { read: everyone, write: ['operator'] },
+    consentTextVersion: { read: everyone, write: ['operator'] },
+    // A signed consent is a record of what the client signed: nobody edits it afterwards, only the phone creates it.
+    typedName: { read: everyone, write: ['operator'] },
+    consentDate: { read: everyone, write: ['operator'] },
+    recordedBy: { read: reviewers, write: serverOnly },
+    deletedAt: { read: everyone, write: ['admin'] },
+  },
+  recording_sessions: {
+    clientId: { read: everyone, write: ['operator'] },
+    // Practitioners move a session on by reviewing it (completed -> reviewed).
+    status: { read: everyone, write: ['operator', 'practitioner'] },
+    startedAt: { read: everyone, write: ['operator'] },
+    finishedAt: { read: everyone, write: ['operator'] },
+    findings: { read: reviewers, write: ['practitioner'] },
+    plan: { read: reviewers, write: ['practitioner'] },
+    // The phone books the next visit, so it reads when one is due (as GET /api/follow-ups/due shows every role).
+    followUpDate: { read: everyone, write: ['practitioner'] },
+    operatorId: { read: everyone, write: serverOnly },
+    reviewedBy: { read: reviewers, write: serverOnly },
+    reviewedAt: { read: reviewers, write: serverOnly },
+    deletedAt: { read: everyone, write: ['admin'] },
+  },
+  site_recordings: {
+    sessionId: { read: everyone, write: ['operator'] },
+    site: { read: everyone, write: ['operator'] },
+    qualityVerdict: { read: everyone, write: ['operator'] },
+    clipSha256: { read: everyone, write: ['operator'] },
+    durationS: { read: everyone, write: ['operator'] },
+    recordedAt: { read: everyone, write: ['operator'] },
+    skippedReason: { read: everyone, write: ['operator'] },
+    keepAnywayNote: { read: everyone, write: ['operator'] },
+    // Large, and the review routes serve it to practitioners and admins: no pull carries it.
+    analysis: { read: serverOnly, write: serverOnly },
+    clipState: { read: everyone, write: serverOnly },
+    deletedAt: { read: everyone, write: ['admin'] },
+  },
+} as const satisfies {
+  [E in SyncEntity]: { [F in SyncField<E>]: FieldRule } & { deletedAt: { read: typeof everyone } };
+};
+
+const rulesOf = (entity: SyncEntity) => fieldAccess[entity] as Record<string, FieldRule>;
+
+/** The data fields a role's pull carries for an entity (the tombstone travels beside them, not in them). */
+export function readableFields(role: Role, entity: SyncEntity): string[] {
+  return Object.entries(rulesOf(entity))
+    .filter(([field, rule]) => field !== 'deletedAt' && rule.read.includes(role))
+    .map(([field]) => field);
+}
+
+export function mayWriteField(role: Role, entity: SyncEntity, field: string): boolean {
+  return rulesOf(entity)[field]?.write.includes(role) ?? false;
+}
+
+const entityWords: Record<SyncEntity, string> = {
+  clients: 'a client',
+  consents: 'a consent',
+  recording_sessions: 'a session',
+  site_recordings: 'a site recording',
+};
+const fieldWords = (field: string) =>
+  field === 'deletedAt' ? 'deletion' : field.replace(/[A-Z]/g, (c) => ` ${c.toLowerCase()}`);
+const roleWords = (roles: readonly string[]) => roles.map((r) => `${r}s`).join(' or ');
+const listWords = (items: string[]) =>
+  items.length < 2 ? items.join('') : `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`;
+
+/**
+ * Null when the role may write every one of the fields; otherwise why not, in words for the person whose change
+ * it was (shown on their device beside the change).
+ */
+export function fieldWriteRefusal(role: Role, entity: SyncEntity, fields: readonly string[]): string | null {
+  const refused = fields.filter((f) => !mayWriteField(role, entity, f));
+  if (refused.length === 0) return null;
+  const writers = [...new Set(refused.flatMap((f) => rulesOf(entity)[f]?.write ?? []))];
+  return (
+    `${role[0]!.toUpperCase()}${role.slice(1)}s may not change the ${listWords(refused.map(fieldWords))} of ` +
+    `${entityWords[entity]}` +
+    (writers.length ? `; only ${roleWords(writers)} do.` : '; the server sets it.') +
+    ' This change was not applied.'
+  );
+}
