@@ -4,12 +4,13 @@ import { STATE_S1, STATE_S2, type HsmmModel } from './hsmm';
 import { measure, toHeartSounds, type SoundSpan } from './measurements';
 import modelJson from './model/hsmm-model.json';
 import { preprocess } from './preprocess';
+import { rateEvidence, type RateEvidence } from './rate-check';
 import { assessQuality, clippedFraction } from './quality';
 import { segmentFrames, stateRuns } from './segmentation';
 import type { AnalysisOptions, AnalysisResult, Metrics } from './types';
 import { checkSampleRate, decodeWav, MAX_DURATION_S } from './wav';
 
-export const ANALYSIS_VERSION = `1.0.0+model.${(modelJson as HsmmModel).version}`;
+export const ANALYSIS_VERSION = `1.1.0+model.${(modelJson as HsmmModel).version}`;
 
 /** Below this the segmentation has too little to work with; the verdict says so. */
 const MIN_ANALYSED_S = 2;
@@ -65,6 +66,7 @@ export function analysePcm(
   let sounds: AnalysisResult['sounds'] = [];
   let level = 0;
   let periodicity: number | null = null;
+  let evidence: RateEvidence | null = null;
 
   if (durationS >= MIN_ANALYSED_S) {
     const working = preprocess(samples, sampleRate);
@@ -86,11 +88,19 @@ export function analysePcm(
           }));
         metrics = measure(signal, working.sampleRate, spans);
         sounds = toHeartSounds(signal, working.sampleRate, spans);
+        evidence = rateEvidence(features.homomorphic, features.frameRate, metrics);
       }
     }
   }
 
-  const quality = assessQuality({ durationS, clippedFraction: clipped, level, periodicity, metrics });
+  const quality = assessQuality({
+    durationS,
+    clippedFraction: clipped,
+    level,
+    periodicity,
+    metrics,
+    rateEvidence: evidence,
+  });
   return {
     sampleRate,
     durationS,

@@ -1,3 +1,4 @@
+import { rateDoubts, type RateEvidence } from './rate-check';
 import type { Metrics, Quality, QualityReason } from './types';
 
 export interface QualityInput {
@@ -9,6 +10,8 @@ export interface QualityInput {
   /** Autocorrelation of the envelope at the chosen cycle, or null when no cycle was found. */
   periodicity: number | null;
   metrics: Metrics;
+  /** How well the rate of record agrees with the envelope and with itself; null when no rate was found. */
+  rateEvidence: RateEvidence | null;
 }
 
 /*
@@ -37,7 +40,7 @@ export function assessQuality(input: QualityInput): Quality {
   const found: { code: QualityReason; message: string; severity: Severity }[] = [];
   const add = (code: QualityReason, severity: Severity, message: string) =>
     found.push({ code, message, severity });
-  const { durationS, clippedFraction, level, periodicity, metrics } = input;
+  const { durationS, clippedFraction, level, periodicity, metrics, rateEvidence } = input;
 
   if (durationS < limits.retakeBelowS)
     add(
@@ -87,6 +90,13 @@ export function assessQuality(input: QualityInput): Quality {
       add('too_few_cycles', 'usable', `Only ${metrics.usableCycles} clean heart cycles were found.`);
   }
   const rate = metrics.heartRateBpm;
+  const doubts = !noBeat && rate !== null && rateEvidence ? rateDoubts(rateEvidence) : [];
+  if (doubts.length > 0)
+    add(
+      'rate_unsure',
+      'usable',
+      `The heart rate of ${Math.round(rate as number)} bpm is uncertain: ${doubts.join('; ')}. Count the pulse by hand before relying on it.`,
+    );
   if (rate !== null && (rate < limits.lowRateBpm || rate > limits.highRateBpm)) {
     add(
       'rate_out_of_range',

@@ -15,6 +15,12 @@ export interface BeatTrainOptions {
   /** Beat-to-beat interval jitter as a fraction of the cycle (uniform ±). */
   jitter?: number;
   seed?: number;
+  /** The rate at the end of the clip, changing linearly from `rateBpm` (a drifting rate). */
+  endRateBpm?: number;
+  /** Chance that a beat's sounds are missing (a beat the chest piece did not pick up). */
+  dropChance?: number;
+  /** Chance that a premature beat (an S1 and S2 pair) falls at 60 % of a diastole. */
+  extraBeatChance?: number;
 }
 
 export function seededRandom(seed: number): () => number {
@@ -60,23 +66,36 @@ export interface BeatTrain {
 
 export function syntheticBeatTrain(options: BeatTrainOptions): BeatTrain {
   const { rateBpm, durationS, sampleRate } = options;
-  const cycleS = 60 / rateBpm;
-  const systoleS = options.systoleS ?? Math.min(0.1 + cycleS / 4, 0.48 * cycleS);
+  const endRateBpm = options.endRateBpm ?? rateBpm;
+  const rateAt = (t: number) => rateBpm + ((endRateBpm - rateBpm) * t) / durationS;
   const random = seededRandom(options.seed ?? 7);
   const gauss = gaussianRandom(random);
   const samples = new Float32Array(Math.round(durationS * sampleRate));
   const s1OnsetsS: number[] = [];
   const s2OnsetsS: number[] = [];
   const jitter = options.jitter ?? 0;
-  for (
-    let onset = 0.1 + random() * cycleS;
-    onset < durationS;
-    onset += cycleS * (1 + jitter * (2 * random() - 1))
-  ) {
-    addBurst(samples, sampleRate, onset, 0.1, 55, options.s1Amplitude ?? 0.5);
-    addBurst(samples, sampleRate, onset + systoleS, 0.08, 80, options.s2Amplitude ?? 0.35);
+  for (let onset = 0.1 + (random() * 60) / rateBpm; onset < durationS;) {
+    const cycleS = 60 / rateAt(onset);
+    const systoleS = options.systoleS ?? Math.min(0.1 + cycleS / 4, 0.48 * cycleS);
+    const s1Amplitude = options.s1Amplitude ?? 0.5;
+    const s2Amplitude = options.s2Amplitude ?? 0.35;
+    // Only draw from the generator for the options in use, so existing seeds give the same trains.
+    const dropped = options.dropChance !== undefined && random() < options.dropChance;
+    if (!dropped) {
+      addBurst(samples, sampleRate, onset, 0.1, 55, s1Amplitude);
+      addBurst(samples, sampleRate, onset + systoleS, 0.08, 80, s2Amplitude);
+    }
+    if (options.extraBeatChance !== undefined && random() < options.extraBeatChance) {
+      const early = onset + systoleS + 0.6 * (cycleS - systoleS);
+      const earlySystoleS = 0.8 * systoleS;
+      if (early + earlySystoleS + 0.1 < onset + cycleS) {
+        addBurst(samples, sampleRate, early, 0.1, 55, s1Amplitude);
+        addBurst(samples, sampleRate, early + earlySystoleS, 0.08, 80, s2Amplitude);
+      }
+    }
     s1OnsetsS.push(onset);
     if (onset + systoleS < durationS) s2OnsetsS.push(onset + systoleS);
+    onset += cycleS * (1 + jitter * (2 * random() - 1));
   }
   if (options.noise) for (let i = 0; i < samples.length; i++) samples[i] += options.noise * gauss();
   return { samples, s1OnsetsS, s2OnsetsS };

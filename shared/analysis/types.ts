@@ -9,7 +9,13 @@ export interface HeartSound {
 }
 
 export type QualityReason =
-  'too_short' | 'clipped' | 'too_noisy' | 'too_few_cycles' | 'no_heartbeat' | 'rate_out_of_range';
+  | 'too_short'
+  | 'clipped'
+  | 'too_noisy'
+  | 'too_few_cycles'
+  | 'no_heartbeat'
+  | 'rate_out_of_range'
+  | 'rate_unsure';
 
 export interface Quality {
   verdict: 'good' | 'usable' | 'retake';
