@@ -29,6 +29,11 @@ export function dataDir(): string {
   return process.env.FOURPOINT_DATA_DIR ?? path.resolve(__dirname, '../../../shared/data/circor');
 }
 
+/** The second folder of the same dataset (150 more patients, with murmur labels), beside the first. */
+export function heldOutDataDir(): string {
+  return path.resolve(dataDir(), '../circor-train');
+}
+
 /**
  * Why work over the whole open data set cannot run here, in one line, or null when the folder is there. A fresh
  * clone has no `../shared` beside it: tests over the whole set skip with this line (tests/support/open-data.ts),
