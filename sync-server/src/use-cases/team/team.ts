@@ -150,6 +150,7 @@ export async function inviteUser(
   let emailed = true;
   try {
     await practiceServices().mail.send({
+      clinicId: caller.clinicId,
       to: email,
       subject: `You are invited to ${row.clinic_name} on Fourpoint`,
       text: [
