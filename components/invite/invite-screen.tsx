@@ -19,13 +19,16 @@ export function InviteScreen() {
   const accept = useAcceptInvitationMutation(String(token ?? ''));
   const form = useForm<AcceptInvitationRequest>({
     resolver: zodResolver(acceptInvitationRequestSchema),
-    defaultValues: { name: '', password: '' },
+    defaultValues: { email: '', name: '', password: '' },
   });
-  // The invited name goes into the form itself, so accepting it as shown submits it.
+  // The invited address and name go into the form itself, so accepting them as shown submits them; the server
+  // makes the account only for the address the invitation was sent to.
+  const invitedEmail = preview.data?.email;
   const invitedName = preview.data?.name;
   useEffect(() => {
+    if (invitedEmail && !form.getValues('email')) form.setValue('email', invitedEmail);
     if (invitedName && !form.getValues('name')) form.setValue('name', invitedName);
-  }, [invitedName, form]);
+  }, [invitedEmail, invitedName, form]);
 
   return (
     <View style={styles.page} testID="invite-screen">
@@ -61,6 +64,14 @@ export function InviteScreen() {
               {preview.data.email} is invited as {preview.data.role}. Choose a password of at least 10
               characters.
             </AppText>
+            <FormTextField
+              control={form.control}
+              name="email"
+              label="Your e-mail address"
+              testID="invite-accept-email"
+              keyboardType="email-address"
+              autoCapitalize="none"
+            />
             <FormTextField control={form.control} name="name" label="Your name" testID="invite-accept-name" />
             <FormTextField
               control={form.control}

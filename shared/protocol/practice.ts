@@ -77,6 +77,8 @@ export const invitationPreviewSchema = z.object({
 });
 export type InvitationPreview = z.infer<typeof invitationPreviewSchema>;
 export const acceptInvitationRequestSchema = z.object({
+  /** The address the invitation was sent to: a link joins only as the person it was sent to. */
+  email: z.email({ error: 'Enter the e-mail address the invitation was sent to.' }).max(254),
   name: trimmed(120, 'Name'),
   password: z
     .string()

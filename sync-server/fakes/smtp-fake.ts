@@ -34,6 +34,8 @@ function summary(m: StoredMessage) {
     to: m.to,
     envelopeTo: m.envelopeTo,
     subject: m.subject,
+    // The server's mailbox view reads the clinic header from here to show each clinic only its own mail.
+    headers: m.headers,
     attachments: m.attachments.map((a, index) => ({
       index,
       filename: a.filename,
@@ -108,6 +110,10 @@ export async function startSmtpFake(
 
   const app = express();
   app.use(express.json());
+  // Which SMTP port this mailbox belongs to: the server shows its mailbox view only when its mail goes here.
+  app.get('/api/identity', (_req, res) => {
+    res.json({ fake: 'fourpoint-smtp-fake', smtpPort: (smtp.server.address() as AddressInfo).port });
+  });
   app.get('/api/messages', (req, res) => {
     const to = typeof req.query.to === 'string' ? req.query.to.toLowerCase() : null;
     const list = messages.filter((m) => !to || m.envelopeTo.some((t) => t.toLowerCase() === to));

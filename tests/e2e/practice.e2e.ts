@@ -129,7 +129,8 @@ test('when the admin invites a practitioner, then the e-mailed link lets them se
     await visible(page, 'invite-accept').click();
     await visible(page, 'invite-accept-password-error').waitFor();
     await screenshot(page, 'practice-invite');
-    // The invited name is already in the field; accepting it as shown is enough.
+    // The invited address and name are already in the fields; accepting them as shown is enough.
+    expect(await visible(page, 'invite-accept-email').inputValue()).toBe(email);
     expect(await visible(page, 'invite-accept-name').inputValue()).toBe('Juniper Okonkwo-Vale');
     await visible(page, 'invite-accept-password').fill(chosen);
     await visible(page, 'invite-accept').click();

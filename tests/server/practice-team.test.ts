@@ -43,7 +43,7 @@ describe('invitations', () => {
 
     const accepted = await request(ctx.app)
       .post(`/api/invitations/${token}/accept`)
-      .send({ name: 'Rowan Vale', password: 'a long enough password' });
+      .send({ email, name: 'Rowan Vale', password: 'a long enough password' });
     expect(accepted.status).toBe(201);
     expect(accepted.body.user).toMatchObject({ email, role: 'practitioner', clinicId: clinic.id });
     const again = await signIn(ctx.app, email, 'a long enough password');
@@ -61,11 +61,11 @@ describe('invitations', () => {
     const { token } = await invite(email);
     const first = await request(ctx.app)
       .post(`/api/invitations/${token}/accept`)
-      .send({ name: 'A', password: 'first password here' });
+      .send({ email, name: 'A', password: 'first password here' });
     expect(first.status).toBe(201);
     const second = await request(ctx.app)
       .post(`/api/invitations/${token}/accept`)
-      .send({ name: 'B', password: 'second password here' });
+      .send({ email, name: 'B', password: 'second password here' });
     expect(second.status).toBe(409);
     expect(second.body.error.code).toBe('invitation_used');
     const [{ count }] = (await ctx.sequelize.query(
@@ -84,7 +84,7 @@ describe('invitations', () => {
       [1, 2].map((n) =>
         request(ctx.app)
           .post(`/api/invitations/${token}/accept`)
-          .send({ name: `N${n}`, password: `parallel password ${n}` }),
+          .send({ email, name: `N${n}`, password: `parallel password ${n}` }),
       ),
     );
     expect(results.map((r) => r.status).sort()).toEqual([201, 409]);
@@ -97,13 +97,16 @@ describe('invitations', () => {
     await ctx.sequelize.query(`UPDATE invitations SET expires_at = :past WHERE id = :id`, {
       replacements: { past, id: invitationId },
     });
-    const token = signInvitationToken(invitationId, past, ctx.jwtSecret);
+    const token = signInvitationToken(
+      { id: invitationId, clinicId: clinic.id, email, expiresAt: past },
+      ctx.jwtSecret,
+    );
     const preview = await request(ctx.app).get(`/api/invitations/${token}`);
     expect(preview.status).toBe(410);
     expect(preview.body.error.code).toBe('invitation_expired');
     const accept = await request(ctx.app)
       .post(`/api/invitations/${token}/accept`)
-      .send({ name: 'Late', password: 'too late password' });
+      .send({ email, name: 'Late', password: 'too late password' });
     expect(accept.status).toBe(410);
     expect(accept.body.error.message).toMatch(/expired/);
   });
@@ -118,16 +121,82 @@ describe('invitations', () => {
   });
 
   test('when an invitation is withdrawn, then its link stops working', async () => {
-    const { invitationId, token } = await invite(unique());
+    const email = unique();
+    const { invitationId, token } = await invite(email);
     const del = await request(ctx.app)
       .delete(`/api/team/invitations/${invitationId}`)
       .set('authorization', `Bearer ${admin}`);
     expect(del.status).toBe(204);
     const res = await request(ctx.app)
       .post(`/api/invitations/${token}/accept`)
-      .send({ name: 'X', password: 'withdrawn password' });
+      .send({ email, name: 'X', password: 'withdrawn password' });
     expect(res.status).toBe(410);
     expect(res.body.error.code).toBe('invitation_revoked');
+  });
+
+  test('when the link is used with another address, then it is refused, no account is made, and the invited address still can join', async () => {
+    const email = unique();
+    const other = unique();
+    const { token } = await invite(email);
+    const wrong = await request(ctx.app)
+      .post(`/api/invitations/${token}/accept`)
+      .send({ email: other, name: 'Someone Else', password: 'someone else password' });
+    expect(wrong.status).toBe(403);
+    expect(wrong.body.error).toMatchObject({
+      code: 'invitation_other_address',
+      message: expect.stringMatching(/sent to another e-mail address/),
+    });
+    const [{ count }] = (await ctx.sequelize.query(
+      `SELECT count(*)::int AS count FROM users WHERE email IN (:emails)`,
+      { replacements: { emails: [email, other] }, type: 'SELECT' },
+    )) as unknown as [{ count: number }];
+    expect(count).toBe(0);
+    const right = await request(ctx.app)
+      .post(`/api/invitations/${token}/accept`)
+      .send({ email: email.toUpperCase(), name: 'Rowan Vale', password: 'the invitee password' });
+    expect(right.status).toBe(201);
+    expect(right.body.user.email).toBe(email);
+  });
+
+  test('when a link is signed for the same invitation but another clinic or another address, then it is not valid', async () => {
+    const email = unique();
+    const { invitationId } = await invite(email);
+    const expiresAt = new Date(Date.now() + 3_600_000);
+    const otherClinic = await makeClinic('Elsewhere');
+    for (const binding of [
+      { id: invitationId, clinicId: otherClinic.id, email, expiresAt },
+      { id: invitationId, clinicId: clinic.id, email: unique(), expiresAt },
+    ]) {
+      const token = signInvitationToken(binding, ctx.jwtSecret);
+      const preview = await request(ctx.app).get(`/api/invitations/${token}`);
+      expect(preview.status).toBe(404);
+      expect(preview.body.error.code).toBe('invitation_invalid');
+      const accept = await request(ctx.app)
+        .post(`/api/invitations/${token}/accept`)
+        .send({ email: binding.email, name: 'Forger', password: 'forged link password' });
+      expect(accept.status).toBe(404);
+    }
+  });
+
+  test('when an invitation is accepted, then the audit log records who joined, in which clinic, from which invitation', async () => {
+    const email = unique();
+    const { invitationId, token } = await invite(email, 'operator');
+    const accepted = await request(ctx.app)
+      .post(`/api/invitations/${token}/accept`)
+      .send({ email, name: 'Audited Joiner', password: 'audited joiner password' });
+    expect(accepted.status).toBe(201);
+    const events = (await ctx.sequelize.query(
+      `SELECT clinic_id, user_id, entity_id, details FROM audit_events WHERE action = 'team.invitation_accepted' AND entity_id = :id`,
+      { replacements: { id: invitationId }, type: 'SELECT' },
+    )) as { clinic_id: string; user_id: string; entity_id: string; details: { role: string } }[];
+    expect(events).toEqual([
+      {
+        clinic_id: clinic.id,
+        user_id: accepted.body.user.id,
+        entity_id: invitationId,
+        details: { role: 'operator' },
+      },
+    ]);
   });
 
   test('when an address already has an account, then it cannot be invited again', async () => {

@@ -38,6 +38,7 @@ export async function runFollowUpReminders(
     for (const r of claimed) {
       try {
         const result = await mail.send({
+          clinicId: r.clinic_id,
           to: r.email,
           subject: `Your follow-up visit at ${r.clinic_name}`,
           text: [

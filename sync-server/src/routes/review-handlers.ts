@@ -14,7 +14,7 @@ import {
 import { AppError } from '../errors';
 import { callerOf } from '../middleware/authenticate';
 import { listSessionsForReview } from '../use-cases/review/list-sessions';
-import { readMailbox } from '../use-cases/review/mailbox';
+import { listMailbox, readMailboxAttachment, readMailboxMessage } from '../use-cases/review/mailbox';
 import { saveNotes } from '../use-cases/review/notes';
 import { renderReport, reportMails, retryReportMail, sendReport } from '../use-cases/review/report';
 import {
@@ -139,17 +139,22 @@ export const reviewRetryMail: HandlerFactory = (deps) => async (req, res) => {
   res.json({ mail: await retryReportMail(deps, callerOf(req), id(req.params.mailId, 'report e-mail')) });
 };
 
-const forward =
-  (pathOf: (params: Record<string, string>) => string): HandlerFactory =>
-  () =>
-  async (req, res) => {
-    const params = req.params as Record<string, string>;
-    const answer = await readMailbox(pathOf(params));
-    if (answer.disposition) res.setHeader('Content-Disposition', answer.disposition);
-    res.status(answer.status).type(answer.contentType).send(answer.body);
-  };
-const safe = (v: string) => encodeURIComponent(v);
+export const mailboxList: HandlerFactory = () => async (req, res) => {
+  res.json({ messages: await listMailbox(callerOf(req)) });
+};
 
-export const mailboxList = forward(() => '');
-export const mailboxMessage = forward((p) => `/${safe(p.messageId)}`);
-export const mailboxAttachment = forward((p) => `/${safe(p.messageId)}/attachments/${safe(p.index)}`);
+export const mailboxMessage: HandlerFactory = () => async (req, res) => {
+  res.json(await readMailboxMessage(callerOf(req), String(req.params.messageId)));
+};
+
+export const mailboxAttachment: HandlerFactory = () => async (req, res) => {
+  const { contentType, filename, body } = await readMailboxAttachment(
+    callerOf(req),
+    String(req.params.messageId),
+    String(req.params.index),
+  );
+  if (filename)
+    res.setHeader('Content-Disposition', `inline; filename="${filename.replace(/["\\\r\n]/g, '')}"`);
+  res.setHeader('Cache-Control', 'private, no-store');
+  res.type(contentType).send(body);
+};

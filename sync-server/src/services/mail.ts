@@ -3,6 +3,8 @@ import nodemailer, { type Transporter } from 'nodemailer';
 export type MailAttachment = { filename: string; content: Buffer; contentType: string };
 
 export type OutgoingMail = {
+  /** The clinic the mail is sent for; it goes out in CLINIC_HEADER so the local mailbox can show each clinic its own. */
+  clinicId: string;
   to: string;
   subject: string;
   text: string;
@@ -24,9 +26,17 @@ export class MailSendError extends Error {
   }
 }
 
+/**
+ * Set on every message the server sends. The admin's mailbox (a view of the local SMTP fake, which holds every
+ * clinic's mail) lists only messages carrying the caller's clinic, and nothing without it.
+ */
+export const CLINIC_HEADER = 'X-Fourpoint-Clinic';
+
 /** The one interface the rest of the server uses to send e-mail. */
 export interface MailService {
   readonly from: string;
+  /** Where messages go; the mailbox view is on only when this is the local fake. */
+  readonly relay: { host: string; port: number };
   send(mail: OutgoingMail): Promise<SentMail>;
   close(): void;
 }
@@ -86,12 +96,14 @@ export function createSmtpMailService(options: SmtpOptions): MailService {
   });
   return {
     from: options.from,
+    relay: { host: options.host, port: options.port },
     async send(mail) {
       try {
         const info = await transporter.sendMail({
           from: options.from,
           to: mail.to,
           subject: mail.subject,
+          headers: { [CLINIC_HEADER]: mail.clinicId },
           text: mail.text,
           html: mail.html,
           attachments: mail.attachments?.map((a) => ({

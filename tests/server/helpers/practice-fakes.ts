@@ -1,5 +1,5 @@
 // In-process fakes for the practice tests: the SMTP fake and the payments fake on free ports, wired into the
-// server's practice services, with the app listening on a real port so the fake can post its webhooks.
+// server's practice and review services, with the app listening on a real port so the fake can post its webhooks.
 import fs from 'node:fs';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
@@ -16,6 +16,7 @@ import { startSmtpFake, type SmtpFake } from '@/sync-server/fakes/smtp-fake';
 import { createSmtpMailService } from '@/sync-server/src/services/mail';
 import { createStripePaymentsService } from '@/sync-server/src/services/payments';
 import { deleteLocalBlob, setPracticeServices } from '@/sync-server/src/services/practice-services';
+import { configureReviewServices } from '@/sync-server/src/use-cases/review/services';
 
 export type PracticeFakes = {
   mail: SmtpFake;
@@ -48,6 +49,8 @@ export async function startPracticeFakes(app: Express): Promise<PracticeFakes> {
     publicBaseUrl: baseUrl,
     registerWebhook: true,
   });
+  // Report mails go through the review services: the same fake, whose mailbox the admin's Mailbox view reads.
+  configureReviewServices({ mail: mailService, mailboxUrl: `http://127.0.0.1:${mail.httpPort}` });
   return {
     mail,
     payments,

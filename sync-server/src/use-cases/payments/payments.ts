@@ -114,6 +114,7 @@ export async function createPayment(
   if ((input.sendEmail ?? true) && client.email) {
     try {
       await services.mail.send({
+        clinicId: caller.clinicId,
         to: client.email,
         subject: `Payment for your ${offer.label.toLowerCase()} at ${settings.name}`,
         text: [

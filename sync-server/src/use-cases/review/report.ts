@@ -177,6 +177,7 @@ export async function deliverClaimedReportMail(
   let result: ReportMail;
   try {
     const sent = await mailService.send({
+      clinicId: claimed.clinicId,
       to: claimed.mail.to,
       subject: claimed.mail.subject,
       text: claimed.bodyText,

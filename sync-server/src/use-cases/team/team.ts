@@ -1,4 +1,6 @@
 import { createHmac, randomUUID, timingSafeEqual } from 'node:crypto';
+import { UniqueConstraintError, type Transaction } from 'sequelize';
+import { z } from 'zod';
 import type { SignInResponse } from '@/shared/protocol';
 import type {
   AcceptInvitationRequest,
@@ -24,33 +26,56 @@ export const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
 const invalidLink = () =>
   new AppError('invitation_invalid', 'This invitation link is not valid. Ask your admin for a new one.', 404);
 
+const invitationUsed = () =>
+  new AppError('invitation_used', 'This invitation has already been used. Sign in instead.', 409);
+const emailInUse = () =>
+  new AppError('email_in_use', 'Someone already signs in with this e-mail address.', 409);
+
 // `~` joins the two parts: a `.` would read as a file extension, and the web server's fallback for app routes
 // skips paths that look like files.
 const tokenSeparator = '~';
 
-/** The link carries the invitation id and its expiry, signed with the server's secret. */
-export function signInvitationToken(id: string, expiresAt: Date, secret: string): string {
-  const payload = Buffer.from(JSON.stringify({ i: id, e: expiresAt.getTime() })).toString('base64url');
-  const signature = createHmac('sha256', secret).update(`invitation.${payload}`).digest('base64url');
-  return `${payload}${tokenSeparator}${signature}`;
+type InvitationBinding = { id: string; clinicId: string; email: string; expiresAt: Date };
+
+const signature = (payload: string, email: string, secret: string) =>
+  createHmac('sha256', secret)
+    .update(`invitation.${payload}.${normaliseEmail(email)}`)
+    .digest();
+
+/**
+ * The link carries the invitation id, its clinic and its expiry; the signature also covers the invited address,
+ * so a link works only for the very invitation row it was made for: its clinic, its address, its expiry.
+ */
+export function signInvitationToken(invitation: InvitationBinding, secret: string): string {
+  const payload = Buffer.from(
+    JSON.stringify({ i: invitation.id, c: invitation.clinicId, e: invitation.expiresAt.getTime() }),
+  ).toString('base64url');
+  return `${payload}${tokenSeparator}${signature(payload, invitation.email, secret).toString('base64url')}`;
 }
 
-function readInvitationToken(token: string, secret: string): { id: string; expiresAt: number } {
-  const [payload, signature, extra] = token.split(tokenSeparator);
-  if (!payload || !signature || extra !== undefined) throw invalidLink();
-  const expected = createHmac('sha256', secret).update(`invitation.${payload}`).digest();
-  const given = Buffer.from(signature, 'base64url');
-  if (given.length !== expected.length || !timingSafeEqual(given, expected)) throw invalidLink();
+const linkSchema = z.object({ i: z.uuid(), c: z.uuid(), e: z.number() });
+
+/** The invitation row a link names, once its signature is checked against that row; anything else is invalid. */
+async function invitationOfLink(
+  deps: UseCaseDeps,
+  token: string,
+  transaction?: Transaction,
+): Promise<{ row: repo.InvitationRow & { clinic_name: string }; linkExpiry: number }> {
+  const [payload, given, extra] = token.split(tokenSeparator);
+  if (!payload || !given || extra !== undefined) throw invalidLink();
+  let link: z.infer<typeof linkSchema>;
   try {
-    const parsed = JSON.parse(Buffer.from(payload, 'base64url').toString('utf8')) as {
-      i?: unknown;
-      e?: unknown;
-    };
-    if (typeof parsed.i !== 'string' || typeof parsed.e !== 'number') throw invalidLink();
-    return { id: parsed.i, expiresAt: parsed.e };
+    link = linkSchema.parse(JSON.parse(Buffer.from(payload, 'base64url').toString('utf8')));
   } catch {
     throw invalidLink();
   }
+  // The row lock makes a second, simultaneous use of the same link wait and then see it used.
+  const row = await repo.findInvitation(deps.sequelize, link.i, transaction, transaction !== undefined);
+  if (!row || row.clinic_id !== link.c) throw invalidLink();
+  const expected = signature(payload, row.email, deps.jwtSecret);
+  const givenBytes = Buffer.from(given, 'base64url');
+  if (givenBytes.length !== expected.length || !timingSafeEqual(givenBytes, expected)) throw invalidLink();
+  return { row, linkExpiry: link.e };
 }
 
 const invitationStatus = (row: repo.InvitationRow): Invitation['status'] =>
@@ -63,8 +88,7 @@ const invitationStatus = (row: repo.InvitationRow): Invitation['status'] =>
         : 'pending';
 
 function checkUsable(row: repo.InvitationRow, linkExpiry: number): void {
-  if (row.accepted_at)
-    throw new AppError('invitation_used', 'This invitation has already been used. Sign in instead.', 409);
+  if (row.accepted_at) throw invitationUsed();
   if (row.revoked_at)
     throw new AppError(
       'invitation_revoked',
@@ -113,9 +137,7 @@ export async function inviteUser(
   linkBase: string,
 ): Promise<{ invitation: Invitation; emailed: boolean }> {
   const email = normaliseEmail(input.email);
-  if (await repo.emailTaken(deps.sequelize, email)) {
-    throw new AppError('email_in_use', 'Someone already signs in with this e-mail address.', 409);
-  }
+  if (await repo.emailTaken(deps.sequelize, email)) throw emailInUse();
   const id = randomUUID();
   const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
   await deps.sequelize.transaction(async (transaction) => {
@@ -146,10 +168,14 @@ export async function inviteUser(
     );
   });
   const row = (await repo.findInvitation(deps.sequelize, id))!;
-  const link = `${linkBase}/invite/${signInvitationToken(id, expiresAt, deps.jwtSecret)}`;
+  const link = `${linkBase}/invite/${signInvitationToken(
+    { id, clinicId: caller.clinicId, email, expiresAt },
+    deps.jwtSecret,
+  )}`;
   let emailed = true;
   try {
     await practiceServices().mail.send({
+      clinicId: caller.clinicId,
       to: email,
       subject: `You are invited to ${row.clinic_name} on Fourpoint`,
       text: [
@@ -180,10 +206,8 @@ export async function inviteUser(
 }
 
 export async function previewInvitation(deps: UseCaseDeps, token: string): Promise<InvitationPreview> {
-  const link = readInvitationToken(token, deps.jwtSecret);
-  const row = await repo.findInvitation(deps.sequelize, link.id);
-  if (!row) throw invalidLink();
-  checkUsable(row, link.expiresAt);
+  const { row, linkExpiry } = await invitationOfLink(deps, token);
+  checkUsable(row, linkExpiry);
   return {
     email: row.email,
     name: row.name,
@@ -193,29 +217,42 @@ export async function previewInvitation(deps: UseCaseDeps, token: string): Promi
   };
 }
 
+/**
+ * Makes the invited account, once: in the invitation's clinic, for the invitation's address and role, and only
+ * while the invitation is open. Nothing the caller sends (a session of another clinic, another address) can
+ * change where or as whom they join.
+ */
 export async function acceptInvitation(
   deps: UseCaseDeps,
   token: string,
   input: AcceptInvitationRequest,
   ip: string | null,
 ): Promise<SignInResponse> {
-  const link = readInvitationToken(token, deps.jwtSecret);
   const passwordHash = await hashPassword(input.password);
   const email = await deps.sequelize.transaction(async (transaction) => {
-    // The row lock makes a second, simultaneous use of the same link wait and then see it used.
-    const row = await repo.findInvitation(deps.sequelize, link.id, transaction, true);
-    if (!row) throw invalidLink();
-    checkUsable(row, link.expiresAt);
-    if (await repo.emailTaken(deps.sequelize, row.email, transaction)) {
-      throw new AppError('email_in_use', 'Someone already signs in with this e-mail address.', 409);
-    }
+    const { row, linkExpiry } = await invitationOfLink(deps, token, transaction);
+    checkUsable(row, linkExpiry);
+    if (normaliseEmail(input.email) !== row.email)
+      throw new AppError(
+        'invitation_other_address',
+        'This invitation was sent to another e-mail address: use the address the invitation reached.',
+        403,
+      );
+    if (await repo.emailTaken(deps.sequelize, row.email, transaction)) throw emailInUse();
     const userId = randomUUID();
-    await createUser(
-      row.clinic_id,
-      { id: userId, email: row.email, name: input.name, role: row.role, passwordHash },
-      transaction,
-    );
-    await repo.markInvitationAccepted(deps.sequelize, row.id, userId, transaction);
+    try {
+      await createUser(
+        row.clinic_id,
+        { id: userId, email: row.email, name: input.name, role: row.role, passwordHash },
+        transaction,
+      );
+    } catch (error) {
+      // Another clinic's invitation to the same address was accepted at the same moment.
+      if (error instanceof UniqueConstraintError) throw emailInUse();
+      throw error;
+    }
+    if ((await repo.markInvitationAccepted(deps.sequelize, row.id, userId, transaction)) !== 1)
+      throw invitationUsed();
     await recordAuditEvent(
       {
         clinicId: row.clinic_id,
