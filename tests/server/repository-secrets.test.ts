@@ -2,6 +2,7 @@
 // accepts, configured or not; only the secret this run generated can. OWASP ASVS 4.0.3 V2.10.4: "passwords,
 // integrations with databases and third-party systems, seeds and internal secrets, and API keys are managed
 // securely and not included in the source code or stored within source code repositories."
+import { randomUUID } from 'node:crypto';
 import request from 'supertest';
 import Stripe from 'stripe';
 import { readSecrets } from '@/sync-server/src/config/secrets';
@@ -41,9 +42,11 @@ async function pendingPaymentAndForgedEvent() {
     .send({ clientId, offerId: 'package-5' });
   expect(res.status).toBe(201);
   const paymentId: string = res.body.payment.id;
+  // Event ids are unique per run: the server applies each one once, ever.
+  const run = randomUUID().slice(0, 8);
   const payload = (eventId: string) =>
     JSON.stringify({
-      id: eventId,
+      id: `${eventId}_${run}`,
       object: 'event',
       type: 'checkout.session.completed',
       data: {
