@@ -182,7 +182,8 @@ async function firstTrace(sequelize: Sequelize, databaseUrl: string): Promise<bo
   }
   const blobDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-bench-blobs-'));
   const blobStore = new LocalDiskBlobStore(blobDir);
-  await seedDemo({ sequelize, blobStore, analyse: analyseDemoClip, log: () => undefined });
+  const password = randomUUID();
+  await seedDemo({ sequelize, blobStore, password, analyse: analyseDemoClip, log: () => undefined });
   configureReviewServices({ blobStore });
   const app = createApp({
     sequelize,
@@ -204,7 +205,7 @@ async function firstTrace(sequelize: Sequelize, databaseUrl: string): Promise<bo
     const page = await context.newPage();
     await page.goto('/');
     await page.getByTestId('sign-in-email').fill('practitioner@demo.fourpoint.test');
-    await page.getByTestId('sign-in-password').fill('fourpoint-demo');
+    await page.getByTestId('sign-in-password').fill(password);
     await page.getByTestId('sign-in-submit').click();
     await page.waitForURL((u) => u.pathname === '/sessions');
     for (let i = 0; i < 5; i++) {

@@ -3,6 +3,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { startCluster, portIsFree, SetupError } from './pg.mjs';
+import { installSecrets } from './secrets.mjs';
 import { checkNode, dataDir, ensureNpmPackages, fail, root, run, startProcess, tsxBin } from './common.mjs';
 
 async function main() {
@@ -17,7 +18,9 @@ async function main() {
     dataDir: path.join(dataDir, 'pg'),
     port: Number(process.env.PGPORT ?? 54320),
     database: 'fourpoint',
+    // fsync stays on: a crash or power cut must not corrupt a clinic's records.
   });
+  const secrets = installSecrets(dataDir);
   const stopAll = () => cluster.stop();
   process.on('exit', stopAll);
 
@@ -25,6 +28,9 @@ async function main() {
     DATABASE_URL: cluster.url,
     FOURPOINT_DATA: dataDir,
     NODE_ENV: 'production',
+    // The server refuses to start without these; the payments fake signs its webhooks with the same secret.
+    ...secrets,
+    CLINIC_KEYS_DIR: process.env.CLINIC_KEYS_DIR ?? path.join(dataDir, 'clinic-keys'),
     // Local fakes of the hosted services (mail, payments, object storage) and the server agree on these.
     SMTP_PORT: process.env.SMTP_PORT ?? '2525',
     MAIL_FAKE_HTTP_PORT: process.env.MAIL_FAKE_HTTP_PORT ?? '8025',
@@ -59,7 +65,7 @@ async function main() {
     process.exit(code ?? 0);
   });
 
-  console.log(`\nDemo sign-ins (password fourpoint-demo):
+  console.log(`\nDemo sign-ins (password ${secrets.FOURPOINT_DEMO_PASSWORD}, kept in .data/secrets.env):
   operator@demo.fourpoint.test      phone capture
   practitioner@demo.fourpoint.test  review on a wide screen
   admin@demo.fourpoint.test         team, conflicts, billing, audit

@@ -6,9 +6,8 @@ import crypto from 'node:crypto';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import express, { type Request, type Response } from 'express';
+import { readSecrets } from '../src/config/secrets';
 
-export const FAKE_SECRET_KEY = 'sk_test_fourpoint_local';
-export const FAKE_WEBHOOK_SECRET = 'whsec_fourpoint_local_fake';
 const API_VERSION = '2026-10-28.endive';
 
 /** Test cards of the fake (common practice of card test modes, no source): one succeeds, one is declined. */
@@ -94,7 +93,9 @@ export type FakeEvent = {
 export type Delivery = { eventId: string; url: string; status: number | null; attempt: number; at: string };
 
 export type PaymentsFakeOptions = {
+  /** Default: the server's own (PAYMENTS_WEBHOOK_SECRET, see src/config/secrets.ts), so its webhooks verify. */
   webhookSecret?: string;
+  /** Default: the server's PAYMENTS_SECRET_KEY; the API answers only that key. */
   secretKey?: string;
   /** Endpoints to post events to from the start (tests); the server may also register them through the API. */
   webhookUrls?: string[];
@@ -159,8 +160,8 @@ function money(amount: number, currency: string): string {
 }
 
 export async function startPaymentsFake(port = 0, options: PaymentsFakeOptions = {}): Promise<PaymentsFake> {
-  const webhookSecret = options.webhookSecret ?? process.env.PAYMENTS_WEBHOOK_SECRET ?? FAKE_WEBHOOK_SECRET;
-  const secretKey = options.secretKey ?? process.env.PAYMENTS_SECRET_KEY ?? FAKE_SECRET_KEY;
+  const webhookSecret = options.webhookSecret ?? readSecrets().payments.webhookSecret;
+  const secretKey = options.secretKey ?? readSecrets().payments.secretKey;
   const retryDelayMs = options.retryDelayMs ?? 2000;
   const sessions = new Map<string, CheckoutSession>();
   const intents = new Map<string, PaymentIntent>();

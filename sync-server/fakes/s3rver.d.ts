@@ -16,3 +16,12 @@ declare module 's3rver' {
     close(): Promise<void>;
   }
 }
+
+// s3rver's registry of accepted key pairs; the fake replaces the published pair with one made per start.
+declare module 's3rver/lib/models/account' {
+  export default class AWSAccount {
+    static DUMMY_ACCOUNT: AWSAccount;
+    createKeyPair(accessKeyId: string, secretAccessKey: string): void;
+    revokeAccessKey(accessKeyId: string): void;
+  }
+}

@@ -16,11 +16,10 @@ import {
   initModels,
 } from '../src/models';
 import type { BlobStore } from '../src/services/blob-store';
-import { hashPassword } from '../src/services/passwords';
+import { hashPassword, verifyPassword } from '../src/services/passwords';
 import { pushChanges } from '../src/use-cases/sync/push';
 import { synthesizeHeartSounds } from './synthetic-heart-sounds';
 
-export const DEMO_PASSWORD = 'fourpoint-demo';
 const NAMESPACE = '5b0d1c3e-7a52-4f7e-9a63-2f4b8c1d9e70';
 export const demoId = (name: string) => uuidv5(`fourpoint-demo/${name}`, NAMESPACE);
 export const DEMO_CLINIC_ID = demoId('clinic');
@@ -201,6 +200,8 @@ export type AnalyseClip = (samples: Float32Array, sampleRate: number, site: Site
 export interface SeedDemoOptions {
   sequelize: Sequelize;
   blobStore: BlobStore;
+  /** The demo users' sign-in password: each install (and test run) makes its own, none is published. */
+  password: string;
   /** The server's analysis of record; when absent, analysis and verdict stay empty. */
   analyse?: AnalyseClip;
   log?: (message: string) => void;
@@ -225,7 +226,7 @@ export async function seedDemo(options: SeedDemoOptions): Promise<SeedDemoSummar
     if (wasCreated) created++;
   };
 
-  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  const passwordHash = await hashPassword(options.password);
   const userIds: Record<string, string> = {};
   // One transaction under a lock: two processes seeding at once take turns, and a crash leaves no half-loaded clinic.
   await sequelize.transaction(async (transaction) => {
@@ -242,12 +243,15 @@ export async function seedDemo(options: SeedDemoOptions): Promise<SeedDemoSummar
     for (const u of DEMO_USERS) {
       const id = demoId(`user/${u.key}`);
       userIds[u.key] = id;
-      const [, made] = await User.findOrCreate({
+      const [user, made] = await User.findOrCreate({
         where: { id },
         defaults: { id, clinicId: DEMO_CLINIC_ID, email: u.email, name: u.name, role: u.role, passwordHash },
         transaction,
       });
       count(made);
+      // Demo users loaded by an older version have the password that was once published in the code.
+      if (!made && !(await verifyPassword(options.password, user.passwordHash)))
+        await user.update({ passwordHash }, { transaction });
     }
     const textId = demoId('consent-text/1');
     count(

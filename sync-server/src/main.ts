@@ -1,8 +1,7 @@
-import { randomBytes } from 'node:crypto';
-import fs from 'node:fs';
 import path from 'node:path';
 import pino from 'pino';
 import { createApp } from './app';
+import { MissingSecretError, readSecrets, type Secrets } from './config/secrets';
 import { createSequelize } from './db/database';
 import { startFollowUpReminderJob } from './jobs/follow-up-reminders';
 import { startReportMailRetryJob } from './jobs/report-mail-retries';
@@ -10,19 +9,7 @@ import { practiceServices } from './services/practice-services';
 import { purgeErased } from './use-cases/clients/erase-client';
 import { reviewServices } from './use-cases/review/services';
 
-const REPO_ROOT = path.resolve(__dirname, '../..');
 const logger = pino({ level: process.env.LOG_LEVEL ?? 'info' });
-
-/** A secret kept across restarts, so sign-ins survive them; generated on first start. */
-function jwtSecret(): string {
-  if (process.env.JWT_SECRET) return process.env.JWT_SECRET;
-  const file = path.join(REPO_ROOT, '.data', 'jwt-secret');
-  if (fs.existsSync(file)) return fs.readFileSync(file, 'utf8').trim();
-  fs.mkdirSync(path.dirname(file), { recursive: true });
-  const secret = randomBytes(48).toString('base64url');
-  fs.writeFileSync(file, secret, { mode: 0o600 });
-  return secret;
-}
 
 function fail(message: string): never {
   console.error(message);
@@ -65,11 +52,17 @@ function main(): void {
   if (!databaseUrl)
     fail('DATABASE_URL is not set: run `npm start`, which sets up the database, or set it yourself.');
   const webDist = process.env.WEB_DIST ? path.resolve(process.env.WEB_DIST) : undefined;
+  let secrets: Secrets;
+  try {
+    secrets = readSecrets(process.env);
+  } catch (error) {
+    if (error instanceof MissingSecretError) fail(error.message);
+    throw error;
+  }
 
   const sequelize = createSequelize(databaseUrl);
-  const secret = jwtSecret();
-  const app = createApp({ sequelize, jwtSecret: secret, webDist, logger });
-  const backgroundJobs = startBackgroundJobs(sequelize, secret);
+  const app = createApp({ sequelize, jwtSecret: secrets.jwtSecret, webDist, logger });
+  const backgroundJobs = startBackgroundJobs(sequelize, secrets.jwtSecret);
   const server = app.listen(port, host);
 
   server.on('listening', () => {

@@ -2,10 +2,11 @@
 // browser context because expo-sqlite's OPFS database is exclusive to one tab.
 import type { Browser, Page } from 'playwright-core';
 import { launchBrowser, newPage, PHONE, screenshot, WIDE } from '@/tests/support/browser';
+import { demoPassword } from './helpers/operator';
 
 jest.setTimeout(90_000);
 
-const password = 'fourpoint-demo';
+const password = demoPassword;
 
 const roles = [
   { role: 'operator', home: 'operator-home', path: '/clients', content: 'clients-list', row: 'client-row-' },

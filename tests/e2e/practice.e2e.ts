@@ -8,10 +8,11 @@ import path from 'node:path';
 import { unzipSync } from 'fflate';
 import type { Browser, Page } from 'playwright-core';
 import { baseUrl, launchBrowser, newPage, PHONE, screenshot, WIDE } from '@/tests/support/browser';
+import { demoPassword } from './helpers/operator';
 
 jest.setTimeout(240_000);
 
-const password = 'fourpoint-demo';
+const password = demoPassword;
 const admin = 'admin@demo.fourpoint.test';
 const run = Date.now().toString(36);
 let browser: Browser;

@@ -8,10 +8,11 @@ import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { cautionParagraphs } from '@/constants/cautions';
 import { launchBrowser, newPage, screenshot, screenshotDir, WIDE } from '@/tests/support/browser';
+import { demoPassword } from './helpers/operator';
 
 jest.setTimeout(180_000);
 
-const password = 'fourpoint-demo';
+const password = demoPassword;
 // The demo client with the most visits (sync-server/seeders/demo.ts, an invented person).
 const demoClient = 'Wren Halloway';
 let browser: Browser;

@@ -100,6 +100,17 @@ describe('S3 blob store specifics', () => {
     expect(Buffer.compare(Buffer.from(await raw.Body!.transformToByteArray()), Buffer.from(bytes))).toBe(0);
   });
 
+  test('when a client signs with the key pair s3rver publishes, then the fake refuses it', async () => {
+    // s3rver's README documents S3RVER / S3RVER as its accepted pair; ours makes its own per start instead.
+    const published = new S3BlobStore({
+      bucket,
+      endpoint: fake.endpoint,
+      credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
+    });
+    // 403 Forbidden (RFC 9110 §15.5.4): the request is understood and refused.
+    await expect(published.put(uniqueBytes())).rejects.toMatchObject({ $metadata: { httpStatusCode: 403 } });
+  });
+
   test('when the object store is unreachable, then reads fail loudly rather than answering "missing"', async () => {
     const closed = await startS3Fake({
       port: 0,

@@ -30,7 +30,6 @@ describe('sync-server/src/main.ts', () => {
       const result = await exitOf(['sync-server/src/main.ts'], {
         PORT: String(port),
         DATABASE_URL: databaseUrl(),
-        JWT_SECRET: 'x',
       });
       expect(result.code).toBe(1);
       expect(result.stderr.trim()).toBe(
@@ -45,7 +44,7 @@ describe('sync-server/src/main.ts', () => {
     // Node with tsx's loader, not the tsx wrapper: the wrapper relays signals and reports its own exit code.
     const child = spawn(process.execPath, ['--import', 'tsx', 'sync-server/src/main.ts'], {
       cwd: ROOT,
-      env: { ...process.env, PORT: '0', DATABASE_URL: databaseUrl(), JWT_SECRET: 'x', LOG_LEVEL: 'silent' },
+      env: { ...process.env, PORT: '0', DATABASE_URL: databaseUrl(), LOG_LEVEL: 'silent' },
     });
     let out = '';
     const url = await new Promise<string>((resolve, reject) => {
@@ -62,6 +61,30 @@ describe('sync-server/src/main.ts', () => {
     child.kill('SIGTERM');
     expect(await exited).toBe(0);
   });
+});
+
+describe('sync-server/src/main.ts with NODE_ENV=production', () => {
+  // The test set-up generated this run's secrets into the environment (tests/support/server-global-setup.ts).
+  const configured = {
+    NODE_ENV: 'production',
+    PORT: '0',
+    DATABASE_URL: databaseUrl(),
+    CLINIC_KEYS_DIR: fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-clinic-keys-')),
+  };
+
+  test.each(['JWT_SECRET', 'PAYMENTS_SECRET_KEY', 'PAYMENTS_WEBHOOK_SECRET', 'CLINIC_KEYS_DIR'])(
+    'when %s is missing, then it prints one line naming it and exits 1 without serving',
+    async (name) => {
+      const result = await exitOf(['sync-server/src/main.ts'], { ...configured, [name]: '' });
+      expect(result.code).toBe(1);
+      expect(result.stdout).not.toContain('Fourpoint is running');
+      const lines = result.stderr.trim().split('\n');
+      expect(lines).toHaveLength(1);
+      expect(lines[0]).toBe(
+        `Missing setting ${name}: NODE_ENV=production needs it in the environment (npm start generates them into .data/secrets.env).`,
+      );
+    },
+  );
 });
 
 describe('sync-server/src/cli/prepare-db.ts', () => {

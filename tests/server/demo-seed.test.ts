@@ -4,7 +4,7 @@ import path from 'node:path';
 import request from 'supertest';
 import { decodeWav } from '@/shared/analysis';
 import { analyseDemoClip } from '@/sync-server/seeders/analyse-demo-clip';
-import { DEMO_CLINIC_ID, DEMO_PASSWORD, DEMO_USERS, seedDemo } from '@/sync-server/seeders/demo';
+import { DEMO_CLINIC_ID, DEMO_USERS, seedDemo } from '@/sync-server/seeders/demo';
 import {
   Client,
   ClipBlob,
@@ -16,12 +16,15 @@ import {
 } from '@/sync-server/src/models';
 import { demoId } from '@/sync-server/seeders/demo';
 import { LocalDiskBlobStore, sha256Hex } from '@/sync-server/src/services/blob-store';
+import { demoPassword } from '@/sync-server/src/config/secrets';
 import { makeTestContext } from './helpers/test-app';
 
 // The demo clinic has fixed ids by design, so this file shares it with any other run; it only reads and re-seeds.
 const ctx = makeTestContext();
 const blobDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-demo-blobs-'));
 const blobStore = new LocalDiskBlobStore(blobDir);
+// This run's own (tests/support/server-global-setup.ts); demo users seeded by an earlier run get it too.
+const password = demoPassword();
 jest.setTimeout(120_000);
 
 const counts = async () => ({
@@ -33,7 +36,7 @@ const counts = async () => ({
 });
 
 beforeAll(async () => {
-  await seedDemo({ sequelize: ctx.sequelize, blobStore, analyse: analyseDemoClip });
+  await seedDemo({ sequelize: ctx.sequelize, blobStore, password, analyse: analyseDemoClip });
 });
 afterAll(() => ctx.close());
 
@@ -46,13 +49,13 @@ describe('demo seed', () => {
     const before = await ofPendleford();
     expect(before).toHaveLength(1);
     expect(before[0]!.get('clientVersion')).toMatchObject({ change: { phone: '555 0138' } });
-    await seedDemo({ sequelize: ctx.sequelize, blobStore, analyse: analyseDemoClip });
+    await seedDemo({ sequelize: ctx.sequelize, blobStore, password, analyse: analyseDemoClip });
     expect(await ofPendleford()).toHaveLength(1);
   });
 
   test('when it runs again, then it adds no rows', async () => {
     const before = await counts();
-    const again = await seedDemo({ sequelize: ctx.sequelize, blobStore, analyse: analyseDemoClip });
+    const again = await seedDemo({ sequelize: ctx.sequelize, blobStore, password, analyse: analyseDemoClip });
     expect(again.created).toBe(0);
     expect(await counts()).toEqual(before);
     expect(before.users).toBe(3);
@@ -63,7 +66,7 @@ describe('demo seed', () => {
   test('when two seeds run at the same time, then both finish and nothing is doubled', async () => {
     const before = await counts();
     await Promise.all(
-      [1, 2].map(() => seedDemo({ sequelize: ctx.sequelize, blobStore, analyse: analyseDemoClip })),
+      [1, 2].map(() => seedDemo({ sequelize: ctx.sequelize, blobStore, password, analyse: analyseDemoClip })),
     );
     expect(await counts()).toEqual(before);
   });
@@ -71,7 +74,7 @@ describe('demo seed', () => {
   test.each(DEMO_USERS.map((u) => [u.email, u.role] as const))(
     'when %s signs in with the demo password, then they get the %s role',
     async (email, role) => {
-      const res = await request(ctx.app).post('/api/auth/sign-in').send({ email, password: DEMO_PASSWORD });
+      const res = await request(ctx.app).post('/api/auth/sign-in').send({ email, password });
       expect(res.status).toBe(200);
       expect(res.body.user).toMatchObject({ role, clinicId: DEMO_CLINIC_ID });
     },

@@ -19,6 +19,9 @@ type E2eGlobals = {
   };
 };
 
+// A real dynamic import: ts-jest would otherwise turn `import()` into `require()` of an ES module.
+const importEsm = new Function('specifier', 'return import(specifier)') as (s: string) => Promise<unknown>;
+
 function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
     const server = net.createServer();
@@ -60,14 +63,12 @@ export default async function globalSetup(): Promise<void> {
   let cluster: Cluster | undefined;
   let clusterUrl = process.env.FOURPOINT_TEST_PG_URL;
   if (!clusterUrl) {
-    const importEsm = new Function('specifier', 'return import(specifier)') as (
-      s: string,
-    ) => Promise<unknown>;
     const pg = (await importEsm(path.join(root, 'scripts/bootstrap/pg.mjs'))) as {
       startCluster: (o: {
         dataDir: string;
         port: number;
         database: string;
+        fsync: boolean;
         log?: (m: string) => void;
       }) => Promise<Cluster>;
     };
@@ -75,6 +76,8 @@ export default async function globalSetup(): Promise<void> {
       dataDir: process.env.FOURPOINT_TEST_PG_DIR ?? path.join(root, '.data/test-pg'),
       port: Number(process.env.TEST_PGPORT ?? 54339),
       database: 'fourpoint_test',
+      // A throwaway cluster: speed over crash safety.
+      fsync: false,
       log: () => undefined,
     });
     clusterUrl = cluster.url;
@@ -87,8 +90,14 @@ export default async function globalSetup(): Promise<void> {
   fs.rmSync(stateDir, { recursive: true, force: true });
   fs.mkdirSync(stateDir, { recursive: true });
   const tsx = path.join(root, 'node_modules/.bin/tsx');
+  // A fresh set of secrets per run: the server verifies webhooks with the one the payments fake signs with.
+  const { newSecrets } = (await importEsm(path.join(root, 'scripts/bootstrap/secrets.mjs'))) as {
+    newSecrets: () => Record<string, string>;
+  };
+  const secrets = newSecrets();
   const env: NodeJS.ProcessEnv = {
     ...process.env,
+    ...secrets,
     DATABASE_URL: databaseUrl,
     FOURPOINT_DATA: stateDir,
     BLOB_DIR: path.join(stateDir, 'blobs'),
@@ -125,4 +134,5 @@ export default async function globalSetup(): Promise<void> {
   await waitForHealth(url, server);
   process.env.E2E_BASE_URL = url;
   process.env.E2E_DATABASE_URL = databaseUrl;
+  process.env.FOURPOINT_DEMO_PASSWORD = secrets.FOURPOINT_DEMO_PASSWORD;
 }

@@ -1,5 +1,6 @@
 // Brings a database up to date and loads the demo clinic once; `npm start` runs it before the server.
 import path from 'node:path';
+import { demoPassword } from '../config/secrets';
 import { createSequelize } from '../db/database';
 import { runMigrations } from '../db/migrator';
 import { LocalDiskBlobStore } from '../services/blob-store';
@@ -30,6 +31,7 @@ async function main(): Promise<void> {
     await seedDemo({
       sequelize,
       blobStore: new LocalDiskBlobStore(blobDir),
+      password: demoPassword(),
       analyse: analyseDemoClip,
       log: console.log,
     });

@@ -1,3 +1,4 @@
+import { s3Credentials } from '../config/secrets';
 import { LocalDiskBlobStore, type BlobStore } from './blob-store';
 import { S3BlobStore } from './blob-store-s3';
 
@@ -15,16 +16,13 @@ export function blobStoreFromEnv(
   if (kind !== 's3') throw new Error(`BLOB_STORE must be "local" or "s3", not "${env.BLOB_STORE}".`);
   const bucket = env.S3_BUCKET?.trim();
   if (!bucket) throw new Error('BLOB_STORE=s3 needs S3_BUCKET (the bucket that keeps the clips).');
-  const accessKeyId = env.S3_ACCESS_KEY_ID;
-  const secretAccessKey = env.S3_SECRET_ACCESS_KEY;
-  if (Boolean(accessKeyId) !== Boolean(secretAccessKey))
-    throw new Error('Set both S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY, or neither.');
+  const credentials = s3Credentials(env);
   return new S3BlobStore({
     bucket,
     endpoint: env.S3_ENDPOINT || undefined,
     region: env.S3_REGION || undefined,
     prefix: env.S3_PREFIX || undefined,
     forcePathStyle: env.S3_FORCE_PATH_STYLE ? env.S3_FORCE_PATH_STYLE === 'true' : undefined,
-    credentials: accessKeyId && secretAccessKey ? { accessKeyId, secretAccessKey } : undefined,
+    credentials: credentials && { accessKeyId: credentials.user, secretAccessKey: credentials.password },
   });
 }

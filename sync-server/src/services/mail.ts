@@ -1,4 +1,5 @@
 import nodemailer, { type Transporter } from 'nodemailer';
+import { smtpCredentials } from '../config/secrets';
 
 export type MailAttachment = { filename: string; content: Buffer; contentType: string };
 
@@ -89,7 +90,7 @@ export function createSmtpMailService(options: SmtpOptions): MailService {
     secure: options.secure ?? false,
     // The local fake speaks plain SMTP; a real relay is reached over TLS through `secure` or STARTTLS.
     ignoreTLS: !options.secure && options.host === '127.0.0.1',
-    auth: options.user ? { user: options.user, pass: options.password ?? '' } : undefined,
+    auth: options.user && options.password ? { user: options.user, pass: options.password } : undefined,
     connectionTimeout: timeout,
     greetingTimeout: timeout,
     socketTimeout: timeout,
@@ -134,12 +135,13 @@ export function createSmtpMailService(options: SmtpOptions): MailService {
 
 /** SMTP settings from the environment; defaults reach the local fake that `npm start` runs. */
 export function mailServiceFromEnv(env: NodeJS.ProcessEnv = process.env): MailService {
+  const credentials = smtpCredentials(env);
   return createSmtpMailService({
     host: env.SMTP_HOST ?? '127.0.0.1',
     port: Number(env.SMTP_PORT ?? 2525),
     from: env.MAIL_FROM ?? 'Fourpoint reports <reports@fourpoint.test>',
     secure: env.SMTP_SECURE === '1',
-    user: env.SMTP_USER,
-    password: env.SMTP_PASSWORD,
+    user: credentials?.user,
+    password: credentials?.password,
   });
 }

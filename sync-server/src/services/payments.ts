@@ -1,4 +1,5 @@
 import Stripe from 'stripe';
+import { readSecrets } from '../config/secrets';
 import { AppError } from '../errors';
 
 /** What the rest of the server learns from a provider's webhook, in our own words. */
@@ -192,10 +193,11 @@ export function createStripePaymentsService(options: PaymentsOptions): PaymentsS
 export function paymentsServiceFromEnv(
   env: NodeJS.ProcessEnv = process.env,
 ): PaymentsService & { usesFake: boolean } {
-  const usesFake = !env.PAYMENTS_API_HOST && !env.PAYMENTS_SECRET_KEY?.startsWith('sk_live_');
+  const { secretKey, webhookSecret } = readSecrets(env).payments;
+  const usesFake = !env.PAYMENTS_API_HOST && !secretKey.startsWith('sk_live_');
   const service = createStripePaymentsService({
-    secretKey: env.PAYMENTS_SECRET_KEY ?? 'sk_test_fourpoint_local',
-    webhookSecret: env.PAYMENTS_WEBHOOK_SECRET ?? 'whsec_fourpoint_local_fake',
+    secretKey,
+    webhookSecret,
     api: usesFake
       ? { host: '127.0.0.1', port: Number(env.PAYMENTS_FAKE_PORT ?? 12111), protocol: 'http' }
       : undefined,

@@ -1,6 +1,7 @@
 import path from 'node:path';
 import type { Server } from '@tus/server';
 import type { Sequelize } from 'sequelize';
+import { readSecrets } from '../config/secrets';
 import { receiveClip } from '../use-cases/sync/clips';
 import type { BlobStore } from './blob-store';
 import { blobStoreFromEnv } from './blob-store-config';
@@ -35,9 +36,7 @@ export function provideSyncServices(
   const data = path.join(REPO_ROOT, '.data');
   const blobStore =
     options.blobStore ?? blobStoreFromEnv(process.env, process.env.BLOB_DIR ?? path.join(data, 'blobs'));
-  const clinicKeys = new ClinicKeyStore(
-    options.clinicKeysDir ?? process.env.CLINIC_KEYS_DIR ?? path.join(data, 'clinic-keys'),
-  );
+  const clinicKeys = new ClinicKeyStore(options.clinicKeysDir ?? readSecrets().clinicKeysDir);
   const uploadDir = options.uploadDir ?? process.env.UPLOAD_DIR ?? path.join(data, 'uploads');
   const tus = createTusServer(uploadDir, {
     onComplete: async (clinicId, sha256, bytes) => {

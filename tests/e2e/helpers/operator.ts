@@ -3,7 +3,9 @@
 import fs from 'node:fs';
 import type { Page } from 'playwright-core';
 
-export const demoPassword = 'fourpoint-demo';
+/** Made per run by tests/support/e2e-global-setup.ts, which loads the demo clinic with it. */
+export const demoPassword = process.env.FOURPOINT_DEMO_PASSWORD ?? '';
+if (!demoPassword) throw new Error('FOURPOINT_DEMO_PASSWORD is not set: run the e2e tests through jest.');
 export const operatorEmail = 'operator@demo.fourpoint.test';
 export const practitionerEmail = 'practitioner@demo.fourpoint.test';
 

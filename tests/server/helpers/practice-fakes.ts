@@ -6,13 +6,9 @@ import type { AddressInfo } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import type { Express } from 'express';
-import {
-  startPaymentsFake,
-  FAKE_SECRET_KEY,
-  FAKE_WEBHOOK_SECRET,
-  type PaymentsFake,
-} from '@/sync-server/fakes/payments-fake';
+import { startPaymentsFake, type PaymentsFake } from '@/sync-server/fakes/payments-fake';
 import { startSmtpFake, type SmtpFake } from '@/sync-server/fakes/smtp-fake';
+import { readSecrets } from '@/sync-server/src/config/secrets';
 import { createSmtpMailService } from '@/sync-server/src/services/mail';
 import { createStripePaymentsService } from '@/sync-server/src/services/payments';
 import { deleteLocalBlob, setPracticeServices } from '@/sync-server/src/services/practice-services';
@@ -31,7 +27,9 @@ export async function startPracticeFakes(app: Express): Promise<PracticeFakes> {
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   const mail = await startSmtpFake({ smtpPort: 0, httpPort: 0 });
-  const payments = await startPaymentsFake(0, { retryDelayMs: 50 });
+  // The fake signs with the secrets this test run generated (tests/support/server-global-setup.ts).
+  const { secretKey, webhookSecret } = readSecrets().payments;
+  const payments = await startPaymentsFake(0, { retryDelayMs: 50, secretKey, webhookSecret });
   const mailService = createSmtpMailService({
     host: '127.0.0.1',
     port: mail.smtpPort,
@@ -41,8 +39,8 @@ export async function startPracticeFakes(app: Express): Promise<PracticeFakes> {
   setPracticeServices({
     mail: mailService,
     payments: createStripePaymentsService({
-      secretKey: FAKE_SECRET_KEY,
-      webhookSecret: FAKE_WEBHOOK_SECRET,
+      secretKey,
+      webhookSecret,
       api: { host: '127.0.0.1', port: payments.port, protocol: 'http' },
     }),
     deleteBlob: (key) => deleteLocalBlob(blobDir, key),

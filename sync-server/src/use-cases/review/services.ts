@@ -1,5 +1,6 @@
 import path from 'node:path';
 import { openClip } from '@/shared/seal';
+import { readSecrets } from '../../config/secrets';
 import type { BlobStore } from '../../services/blob-store';
 import { blobStoreFromEnv } from '../../services/blob-store-config';
 import { ClinicKeyStore } from '../../services/clinic-keys';
@@ -28,7 +29,7 @@ export function configureReviewServices(services: Partial<ReviewServices>): void
 export function reviewServices(): ReviewServices {
   if (!fromEnv) {
     const data = path.resolve(__dirname, '../../../../.data');
-    const keys = new ClinicKeyStore(process.env.CLINIC_KEYS_DIR ?? path.join(data, 'clinic-keys'));
+    const keys = new ClinicKeyStore(readSecrets().clinicKeysDir);
     fromEnv = {
       mail: mailServiceFromEnv(),
       blobStore: blobStoreFromEnv(process.env, process.env.BLOB_DIR ?? path.join(data, 'blobs')),
