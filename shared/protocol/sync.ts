@@ -73,6 +73,21 @@ export const serverOwnedFields = {
 export const rowDataSchema = z.record(z.string(), z.unknown());
 export type RowData = z.infer<typeof rowDataSchema>;
 
+/** Whether a device may write this field; an own key of the schema, so `constructor` or `toString` is not one. */
+export const isDeviceField = (entity: SyncEntity, name: string): boolean =>
+  Object.hasOwn(syncFieldSchemas[entity].shape, name);
+
+// A change keeps every key the device sent: zod's record drops a `__proto__` key without a word, and the
+// server refuses an unknown field by name instead of ignoring it.
+const changeSchema = z.custom<RowData>(
+  (value) =>
+    typeof value === 'object' &&
+    value !== null &&
+    !Array.isArray(value) &&
+    Object.getPrototypeOf(value) === Object.prototype,
+  { error: 'A change is an object of field names and values.' },
+);
+
 /** A change is a partial set of fields; `deletedAt` set to a time is a delete (a tombstone the server keeps). */
 export const mutationSchema = z.object({
   mutationId: z.uuid(),
@@ -80,7 +95,7 @@ export const mutationSchema = z.object({
   id: z.uuid(),
   /** 0 when the device creates the row. */
   baseVersion: z.number().int().nonnegative(),
-  change: rowDataSchema,
+  change: changeSchema,
 });
 export type Mutation = z.infer<typeof mutationSchema>;
 

@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Sequelize } from 'sequelize';
 import {
+  isDeviceField,
   serverOwnedFields,
   syncFieldSchemas,
   type Mutation,
@@ -37,13 +38,13 @@ const partialSchemas = Object.fromEntries(
 
 /** Splits a change into field values and the tombstone, refusing anything a device may not write. */
 export function checkChange(m: Mutation): { fields: RowData; deletedAt: string | undefined } {
-  const schema = syncFieldSchemas[m.entity];
   const { deletedAt, ...fields } = m.change;
   const serverOwned = serverOwnedFields[m.entity] as readonly string[];
   for (const name of Object.keys(fields)) {
     if (serverOwned.includes(name))
       throw new Rejection('invalid_change', `${name} is set by the server, not by a device.`);
-    if (!(name in schema.shape)) throw new Rejection('invalid_change', `${m.entity} has no field ${name}.`);
+    if (!isDeviceField(m.entity, name))
+      throw new Rejection('invalid_change', `${m.entity} has no field ${name}.`);
   }
   if (deletedAt !== undefined && (typeof deletedAt !== 'string' || Number.isNaN(Date.parse(deletedAt)))) {
     throw new Rejection(
