@@ -5,18 +5,12 @@ import { z } from 'zod';
 import { Button } from '@/components/ui/button';
 import { FormTextField } from '@/components/ui/form-text-field';
 import { space } from '@/constants/theme';
-
-const isoDate = /^\d{4}-\d{2}-\d{2}$/;
+import { isCalendarDate } from '@/shared/protocol/dates';
 
 function realPastDate(value: string): boolean {
-  if (!isoDate.test(value)) return false;
+  if (!isCalendarDate(value)) return false;
   const date = new Date(`${value}T00:00:00Z`);
-  return (
-    !Number.isNaN(date.getTime()) &&
-    date.toISOString().startsWith(value) &&
-    date.getTime() <= Date.now() &&
-    date.getUTCFullYear() >= 1900
-  );
+  return date.getTime() <= Date.now() && date.getUTCFullYear() >= 1900;
 }
 
 export const clientFormSchema = z.object({

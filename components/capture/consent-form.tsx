@@ -7,6 +7,7 @@ import { Button } from '@/components/ui/button';
 import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, radii, space } from '@/constants/theme';
 import type { ShownConsentText } from '@/hooks/consent/clinic-consent-text';
+import { isCalendarDate } from '@/shared/protocol/dates';
 
 function today(): string {
   const now = new Date();
@@ -27,7 +28,7 @@ export function consentFormSchema(clientName: string) {
     signedOn: z
       .string()
       .trim()
-      .regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use the form YYYY-MM-DD.' })
+      .refine(isCalendarDate, { error: 'Use the form YYYY-MM-DD.' })
       .refine((v) => v === today(), { error: 'Consent is dated today.' }),
   });
 }

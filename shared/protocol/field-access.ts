@@ -87,8 +87,10 @@ export function readableFields(role: Role, entity: SyncEntity): string[] {
     .map(([field]) => field);
 }
 
+/** Own keys only: a field named `constructor` or `__proto__` is nobody's to write. */
 export function mayWriteField(role: Role, entity: SyncEntity, field: string): boolean {
-  return rulesOf(entity)[field]?.write.includes(role) ?? false;
+  const rules = rulesOf(entity);
+  return Object.hasOwn(rules, field) && rules[field].write.includes(role);
 }
 
 const entityWords: Record<SyncEntity, string> = {
@@ -110,7 +112,8 @@ const listWords = (items: string[]) =>
 export function fieldWriteRefusal(role: Role, entity: SyncEntity, fields: readonly string[]): string | null {
   const refused = fields.filter((f) => !mayWriteField(role, entity, f));
   if (refused.length === 0) return null;
-  const writers = [...new Set(refused.flatMap((f) => rulesOf(entity)[f]?.write ?? []))];
+  const rules = rulesOf(entity);
+  const writers = [...new Set(refused.flatMap((f) => (Object.hasOwn(rules, f) ? rules[f].write : [])))];
   return (
     `${role[0]!.toUpperCase()}${role.slice(1)}s may not change the ${listWords(refused.map(fieldWords))} of ` +
     `${entityWords[entity]}` +

@@ -3,8 +3,8 @@
 import { z } from 'zod';
 import { roleSchema } from './auth';
 import { siteSchema } from './clinic';
+import { calendarDateSchema } from './dates';
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a date like 2026-03-31.' });
 const trimmed = (max: number, label: string) =>
   z
     .string()
@@ -125,7 +125,7 @@ export type ClientTableResponse = z.infer<typeof clientTableResponseSchema>;
 export const clientDetailsSchema = z.object({
   firstName: trimmed(100, 'First name'),
   lastName: trimmed(100, 'Last name'),
-  dateOfBirth: isoDate.nullable().optional(),
+  dateOfBirth: calendarDateSchema.nullable().optional(),
   email: z
     .email({ error: 'Enter a valid e-mail address.' })
     .max(254)
@@ -284,8 +284,8 @@ export const auditQuerySchema = pageQuerySchema.extend({
   userId: z.uuid().optional(),
   entity: z.string().trim().max(80).optional(),
   entityId: z.string().trim().max(80).optional(),
-  from: isoDate.optional(),
-  to: isoDate.optional(),
+  from: calendarDateSchema.optional(),
+  to: calendarDateSchema.optional(),
 });
 export type AuditQuery = z.input<typeof auditQuerySchema>;
 export const auditEventSchema = z.object({

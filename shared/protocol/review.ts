@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { qualityVerdictSchema, sessionStatusSchema, siteSchema, siteVerdictSchema } from './clinic';
+import { calendarDateSchema } from './dates';
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a YYYY-MM-DD date.' });
 const boolParam = z.enum(['true', 'false']).transform((v) => v === 'true');
 
 export const reviewSortSchema = z.enum(['startedAt', 'clientName', 'operatorName', 'status']);
@@ -14,8 +14,8 @@ export const reviewSessionQuerySchema = z.object({
   dir: z.enum(['asc', 'desc']).default('desc'),
   clientId: z.uuid().optional(),
   operatorId: z.uuid().optional(),
-  from: isoDate.optional(),
-  to: isoDate.optional(),
+  from: calendarDateSchema.optional(),
+  to: calendarDateSchema.optional(),
   status: sessionStatusSchema.optional(),
   flagged: boolParam.optional(),
   quality: qualityVerdictSchema.optional(),
@@ -176,7 +176,7 @@ const notesText = z.string().max(20000, { error: 'At most 20 000 characters.' })
 export const saveNotesRequestSchema = z.object({
   findings: notesText.nullable(),
   plan: notesText.nullable(),
-  followUpDate: isoDate.nullable(),
+  followUpDate: calendarDateSchema.nullable(),
   baseVersion: z.number().int().positive(),
 });
 export type SaveNotesRequest = z.infer<typeof saveNotesRequestSchema>;

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { qualityVerdictSchema, sessionStatusSchema, siteSchema } from './clinic';
+import { calendarDateSchema, instantSchema } from './dates';
 
 // Bumped when a device and the server could misread each other; the server refuses other versions with 426.
 export const SYNC_PROTOCOL_VERSION = 1;
@@ -17,8 +18,6 @@ export const syncEntitySchema = z.enum(['clients', 'consents', 'recording_sessio
 export type SyncEntity = z.infer<typeof syncEntitySchema>;
 export const syncEntities: readonly SyncEntity[] = syncEntitySchema.options;
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a YYYY-MM-DD date.' });
-const isoTime = z.iso.datetime({ offset: true });
 const text = (max: number) => z.string().max(max);
 
 // The fields a device may write, per entity. Server-owned fields (analysis of record, clip state) are not here:
@@ -27,7 +26,7 @@ export const syncFieldSchemas = {
   clients: z.object({
     firstName: text(100).min(1),
     lastName: text(100).min(1),
-    dateOfBirth: isoDate.nullable(),
+    dateOfBirth: calendarDateSchema.nullable(),
     email: z.email().max(254).nullable(),
     phone: text(40).nullable(),
     notes: text(4000).nullable(),
@@ -37,16 +36,16 @@ export const syncFieldSchemas = {
     consentTextId: z.uuid(),
     consentTextVersion: z.number().int().positive(),
     typedName: text(200).min(1),
-    consentDate: isoDate,
+    consentDate: calendarDateSchema,
   }),
   recording_sessions: z.object({
     clientId: z.uuid(),
     status: sessionStatusSchema,
-    startedAt: isoTime,
-    finishedAt: isoTime.nullable(),
+    startedAt: instantSchema,
+    finishedAt: instantSchema.nullable(),
     findings: text(20000).nullable(),
     plan: text(20000).nullable(),
-    followUpDate: isoDate.nullable(),
+    followUpDate: calendarDateSchema.nullable(),
   }),
   site_recordings: z.object({
     sessionId: z.uuid(),
@@ -57,7 +56,7 @@ export const syncFieldSchemas = {
       .regex(/^[0-9a-f]{64}$/)
       .nullable(),
     durationS: z.number().nonnegative().max(600).nullable(),
-    recordedAt: isoTime.nullable(),
+    recordedAt: instantSchema.nullable(),
     skippedReason: text(500).nullable(),
     keepAnywayNote: text(1000).nullable(),
   }),
@@ -74,6 +73,21 @@ export const serverOwnedFields = {
 export const rowDataSchema = z.record(z.string(), z.unknown());
 export type RowData = z.infer<typeof rowDataSchema>;
 
+/** Whether a device may write this field; an own key of the schema, so `constructor` or `toString` is not one. */
+export const isDeviceField = (entity: SyncEntity, name: string): boolean =>
+  Object.hasOwn(syncFieldSchemas[entity].shape, name);
+
+// A change keeps every key the device sent: zod's record drops a `__proto__` key without a word, and the
+// server refuses an unknown field by name instead of ignoring it.
+const changeSchema = z.custom<RowData>(
+  (value) =>
+    typeof value === 'object' &&
+    value !== null &&
+    !Array.isArray(value) &&
+    Object.getPrototypeOf(value) === Object.prototype,
+  { error: 'A change is an object of field names and values.' },
+);
+
 /** A change is a partial set of fields; `deletedAt` set to a time is a delete (a tombstone the server keeps). */
 export const mutationSchema = z.object({
   mutationId: z.uuid(),
@@ -81,7 +95,7 @@ export const mutationSchema = z.object({
   id: z.uuid(),
   /** 0 when the device creates the row. */
   baseVersion: z.number().int().nonnegative(),
-  change: rowDataSchema,
+  change: changeSchema,
 });
 export type Mutation = z.infer<typeof mutationSchema>;
 

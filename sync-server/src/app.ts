@@ -6,6 +6,7 @@ import pino, { type Logger } from 'pino';
 import type { Sequelize } from 'sequelize';
 import { AppError } from './errors';
 import { errorHandler } from './middleware/error-handler';
+import { refuseNulCharacters } from './middleware/refuse-nul';
 import { DEFAULT_SIGN_IN_LIMITS, type SignInLimitOptions } from './middleware/rate-limits';
 import { initModels } from './models';
 import { registerApiRoutes } from './routes/build-router';
@@ -43,7 +44,7 @@ export function createApp(deps: AppDeps): Express {
       crossOriginResourcePolicy: { policy: 'same-origin' },
     }),
   );
-  app.use('/api', express.json({ limit: '1mb' }));
+  app.use('/api', express.json({ limit: '1mb' }), refuseNulCharacters);
 
   registerApiRoutes(
     app,

@@ -25,4 +25,27 @@ describe('GET /api/health with no database', () => {
       await sequelize.close();
     }
   });
+
+  test('when a route that reads the database is called, then it is 503 with Retry-After and a plain message', async () => {
+    // RFC 9110 10.2.3: Retry-After with a 503 says how long the service is expected to be unavailable.
+    const sequelize = createSequelize(`postgres://fourpoint@127.0.0.1:${await closedPort()}/nowhere`);
+    const app = createApp({ sequelize, jwtSecret: 'unused', logger: pino({ level: 'silent' }) });
+    try {
+      const res = await request(app)
+        .post('/api/auth/sign-in')
+        .send({ email: 'someone@example.test', password: 'a password' });
+      expect(res.status).toBe(503);
+      expect(res.headers['retry-after']).toBe('30');
+      expect(res.headers['cache-control']).toBe('no-store');
+      expect(res.body).toEqual({
+        error: {
+          code: 'database_unavailable',
+          message:
+            "The clinic's database cannot be reached just now. Nothing was changed; try again in 30 seconds.",
+        },
+      });
+    } finally {
+      await sequelize.close();
+    }
+  });
 });

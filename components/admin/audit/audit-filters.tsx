@@ -5,11 +5,12 @@ import { z } from 'zod';
 import { Button } from '@/components/ui/button';
 import { FormTextField } from '@/components/ui/form-text-field';
 import { space } from '@/constants/theme';
+import { isCalendarDate } from '@/shared/protocol/dates';
 
 const day = z
   .string()
   .trim()
-  .refine((v) => v === '' || (/^\d{4}-\d{2}-\d{2}$/.test(v) && !Number.isNaN(Date.parse(`${v}T00:00:00Z`))), {
+  .refine((v) => v === '' || isCalendarDate(v), {
     error: 'Use a date like 2026-03-31.',
   });
 

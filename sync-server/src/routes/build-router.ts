@@ -4,6 +4,11 @@ import { signInLimiters, type SignInLimitOptions } from '../middleware/rate-limi
 import type { UseCaseDeps } from '../use-cases/context';
 import { accessTable, type RouteSpec } from './access-table';
 
+const noStore: RequestHandler = (_req, res, next) => {
+  res.setHeader('Cache-Control', 'no-store');
+  next();
+};
+
 export function registerApiRoutes(
   app: Express,
   deps: UseCaseDeps,
@@ -12,7 +17,8 @@ export function registerApiRoutes(
 ): void {
   const limits = { 'sign-in': signInLimiters(options.signInLimits) };
   for (const route of table) {
-    const chain: RequestHandler[] = [];
+    // Answers carry health records, traces and tokens: no browser or proxy keeps a copy.
+    const chain: RequestHandler[] = [noStore];
     if (route.limit) chain.push(...limits[route.limit]);
     if (route.access !== 'public') chain.push(authenticate(deps.jwtSecret), requireRole(route.access));
     chain.push(route.handler(deps));

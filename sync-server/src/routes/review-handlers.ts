@@ -64,7 +64,6 @@ export const reviewTrace: HandlerFactory = (deps) => async (req, res) => {
     id(req.params.sessionId, 'session'),
     site(req.params.site),
   );
-  res.setHeader('Cache-Control', 'private, max-age=300');
   res.json(body);
 };
 

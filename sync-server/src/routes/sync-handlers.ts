@@ -71,6 +71,9 @@ export const syncBlobStatus: HandlerFactory = (deps) => async (req, res) => {
 /** tus requests (POST, HEAD, PATCH, DELETE) all go to the one tus server. */
 export const syncUploads: HandlerFactory = (deps) => async (req, res) => {
   requireProtocol(req);
+  // tus takes the upload id from the end of req.url, query and all, and decodes it again; the tus routes take
+  // no query, so it gets the path alone (a stray `%` after `?` made it throw).
+  req.url = req.path;
   await syncServicesFor(deps.sequelize).tus.handle(req, res);
 };
 

@@ -21,6 +21,17 @@ const refuse = (status: number, message: string) => ({
 });
 
 /**
+ * An upload id names one file in the staging folder, and tus has already decoded it (`%2F..%2F` is `/../`): it is
+ * normalised first, so a path cannot pass the clinic prefix check and then lead out of the folder.
+ */
+function checkUploadId(uploadId: string, clinicId: string): void {
+  const normalised = path.posix.normalize(uploadId.replaceAll('\\', '/'));
+  if (normalised !== uploadId || normalised.includes('/'))
+    throw refuse(400, 'An upload id is a single name; it cannot contain a path (/, \\ or ..).');
+  if (!normalised.startsWith(`${clinicId}.`)) throw refuse(404, 'There is no such upload.');
+}
+
+/**
  * Resumable clip uploads (tus 1.0). Uploads are named `<clinicId>.<sha256>.<random>`, so a request for another
  * clinic's upload is refused before tus touches it. The routes in front have already checked the caller's role.
  */
@@ -40,8 +51,7 @@ export function createTusServer(directory: string, hooks: TusHooks): Server {
     },
     onIncomingRequest: async (req, _res, uploadId) => {
       const caller = callerOf(req as Request);
-      if (uploadId && !uploadId.startsWith(`${caller.clinicId}.`))
-        throw refuse(404, 'There is no such upload.');
+      if (uploadId) checkUploadId(uploadId, caller.clinicId);
     },
     onUploadFinish: async (req: http.IncomingMessage, res: http.ServerResponse, upload) => {
       const [clinicId, sha256] = upload.id.split('.');

@@ -1,7 +1,11 @@
-import type { ReviewSessionPage } from '@/shared/protocol/review';
-import type { reviewSessionQuerySchema } from '@/shared/protocol/review';
-import type { z } from 'zod';
-import type { Site } from '@/shared/protocol';
+import { z } from 'zod';
+import { isCalendarDate, sessionStatusSchema, type Site } from '@/shared/protocol';
+import {
+  reviewSortSchema,
+  type ReviewSessionPage,
+  type ReviewSort,
+  type reviewSessionQuerySchema,
+} from '@/shared/protocol/review';
 import { AppError } from '../../errors';
 import { listReviewSessions, type ReferralLimits } from '../../repositories/review-repository';
 import type { Caller, UseCaseDeps } from '../context';
@@ -26,28 +30,51 @@ export function referralLimits(ranges: RangeLookup): ReferralLimits {
 }
 
 // The cursor carries the last row's sort value and id, so a page never repeats or skips a row when
-// sessions arrive while someone is paging (keyset paging).
-type Cursor = { s: string; d: string; v: string; id: string };
+// sessions arrive while someone is paging (keyset paging). It comes back from the client, so it is checked
+// field by field against what the server writes before any of it reaches SQL.
+const pgTimestamp =
+  /^(\d{4}-\d{2}-\d{2}) ([01]\d|2[0-3]):[0-5]\d:[0-5]\d(\.\d{1,6})?[+-](0\d|1[0-5])(:[0-5]\d){0,2}$/;
+const sortValueSchemas: Record<ReviewSort, z.ZodType<string>> = {
+  // started_at::text in the session's ISO DateStyle, e.g. 2026-03-31 14:05:00.123+00
+  startedAt: z.string().refine((v) => isCalendarDate(pgTimestamp.exec(v)?.[1] ?? '')),
+  clientName: z.string().max(500),
+  operatorName: z.string().max(500),
+  status: sessionStatusSchema,
+};
+const cursorSchema = z.strictObject({
+  s: reviewSortSchema,
+  d: z.enum(['asc', 'desc']),
+  v: z.string().refine((v) => !v.includes('\u0000')),
+  id: z.uuid(),
+});
+type Cursor = z.infer<typeof cursorSchema>;
 const encodeCursor = (c: Cursor) => Buffer.from(JSON.stringify(c)).toString('base64url');
-function decodeCursor(raw: string, sort: string, dir: string): Cursor {
+
+function parseJson(text: string): unknown {
   try {
-    const c = JSON.parse(Buffer.from(raw, 'base64url').toString('utf8')) as Cursor;
-    if (
-      typeof c.v === 'string' &&
-      typeof c.id === 'string' &&
-      c.s === sort &&
-      c.d === dir &&
-      /^[0-9a-f-]{36}$/.test(c.id)
-    )
-      return c;
+    return JSON.parse(text);
   } catch {
-    /* fall through */
+    return undefined;
   }
-  throw new AppError(
-    'bad_cursor',
-    'This page link no longer matches the sort order; start again from the first page.',
-    400,
-  );
+}
+
+function decodeCursor(raw: string, sort: ReviewSort, dir: string): Cursor {
+  const parsed = cursorSchema.safeParse(parseJson(Buffer.from(raw, 'base64url').toString('utf8')));
+  if (!parsed.success)
+    throw new AppError(
+      'bad_cursor',
+      'This page link is not one the server gave; start again from the first page.',
+      400,
+    );
+  const cursor = parsed.data;
+  if (cursor.s !== sort || cursor.d !== dir || !sortValueSchemas[sort].safeParse(cursor.v).success) {
+    throw new AppError(
+      'bad_cursor',
+      'This page link no longer matches the sort order; start again from the first page.',
+      400,
+    );
+  }
+  return cursor;
 }
 
 export async function listSessionsForReview(

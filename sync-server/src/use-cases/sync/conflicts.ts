@@ -150,7 +150,7 @@ export async function resolveConflict(
     let picks: Record<string, 'server' | 'client'>;
     if (request.keep === 'fields') {
       picks = request.fields ?? {};
-      const missing = differing.filter((f) => !(f in picks));
+      const missing = differing.filter((f) => !Object.hasOwn(picks, f));
       const unknown = Object.keys(picks).filter((f) => !differing.includes(f));
       if (missing.length || unknown.length) {
         throw new AppError(

@@ -3,6 +3,7 @@ import type { Sequelize } from 'sequelize';
 import type { Role } from '@/shared/protocol';
 import { fieldWriteRefusal } from '@/shared/protocol/field-access';
 import {
+  isDeviceField,
   serverOwnedFields,
   syncFieldSchemas,
   type Mutation,
@@ -48,13 +49,13 @@ function writtenFields(m: Mutation, fields: RowData, deletedAt: unknown): string
 
 /** Splits a change into field values and the tombstone, refusing anything the caller's device may not write. */
 export function checkChange(m: Mutation, role: Role): { fields: RowData; deletedAt: string | undefined } {
-  const schema = syncFieldSchemas[m.entity];
   const { deletedAt, ...fields } = m.change;
   const serverOwned = serverOwnedFields[m.entity] as readonly string[];
   for (const name of Object.keys(fields)) {
     if (serverOwned.includes(name))
       throw new Rejection('invalid_change', `${name} is set by the server, not by a device.`);
-    if (!(name in schema.shape)) throw new Rejection('invalid_change', `${m.entity} has no field ${name}.`);
+    if (!isDeviceField(m.entity, name))
+      throw new Rejection('invalid_change', `${m.entity} has no field ${name}.`);
   }
   if (deletedAt !== undefined && (typeof deletedAt !== 'string' || Number.isNaN(Date.parse(deletedAt)))) {
     throw new Rejection(
