@@ -255,7 +255,7 @@ describe('findings, plan and follow-up', () => {
       .set(auth(tokens.practitioner))
       .send({ findings: 'x', plan: null, followUpDate: '18/12/2026', baseVersion: 1 });
     expect(res.status).toBe(400);
-    expect(res.body.error.message).toMatch(/YYYY-MM-DD/);
+    expect(res.body.error.message).toMatch(/followUpDate: Use a real date written like 2026-03-31/);
   });
 });
 
