@@ -1,6 +1,6 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useLocalSearchParams, useRouter } from 'expo-router';
-import { useEffect } from 'react';
+import { useEffect, useMemo } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
@@ -9,6 +9,7 @@ import { ErrorState, LoadingState } from '@/components/ui/state-views';
 import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, radii, space } from '@/constants/theme';
 import { useAcceptInvitationMutation, useInvitationPreviewQuery } from '@/hooks/api/team';
+import { newPasswordSchemaFor, PASSWORD_MIN_LENGTH } from '@/shared/protocol';
 import { acceptInvitationRequestSchema, type AcceptInvitationRequest } from '@/shared/protocol/practice';
 
 /** The page an invitation link opens: the invitee sets a password; then they sign in as usual. */
@@ -17,8 +18,14 @@ export function InviteScreen() {
   const router = useRouter();
   const preview = useInvitationPreviewQuery(String(token ?? ''));
   const accept = useAcceptInvitationMutation(String(token ?? ''));
+  const invitedEmail = preview.data?.email ?? '';
+  // The same rule as the server's, less the common-password check (its dictionaries stay on the server).
+  const schema = useMemo(
+    () => acceptInvitationRequestSchema.extend({ password: newPasswordSchemaFor(invitedEmail) }),
+    [invitedEmail],
+  );
   const form = useForm<AcceptInvitationRequest>({
-    resolver: zodResolver(acceptInvitationRequestSchema),
+    resolver: zodResolver(schema),
     defaultValues: { name: '', password: '' },
   });
   // The invited name goes into the form itself, so accepting it as shown submits it.
@@ -58,8 +65,9 @@ export function InviteScreen() {
               Join {preview.data.clinicName}
             </AppText>
             <AppText color={colors.textMuted}>
-              {preview.data.email} is invited as {preview.data.role}. Choose a password of at least 10
-              characters.
+              {preview.data.email} is invited as {preview.data.role}. Choose a password of at least{' '}
+              {PASSWORD_MIN_LENGTH} characters that does not contain your e-mail address: a few unrelated
+              words work well. Common or easily guessed passwords are refused.
             </AppText>
             <FormTextField control={form.control} name="name" label="Your name" testID="invite-accept-name" />
             <FormTextField

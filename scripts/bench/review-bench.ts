@@ -204,7 +204,7 @@ async function firstTrace(sequelize: Sequelize, databaseUrl: string): Promise<bo
     const page = await context.newPage();
     await page.goto('/');
     await page.getByTestId('sign-in-email').fill('practitioner@demo.fourpoint.test');
-    await page.getByTestId('sign-in-password').fill('fourpoint-demo');
+    await page.getByTestId('sign-in-password').fill('tidewater brass lantern');
     await page.getByTestId('sign-in-submit').click();
     await page.waitForURL((u) => u.pathname === '/sessions');
     for (let i = 0; i < 5; i++) {

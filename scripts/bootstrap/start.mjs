@@ -59,7 +59,7 @@ async function main() {
     process.exit(code ?? 0);
   });
 
-  console.log(`\nDemo sign-ins (password fourpoint-demo):
+  console.log(`\nDemo sign-ins (password "tidewater brass lantern"):
   operator@demo.fourpoint.test      phone capture
   practitioner@demo.fourpoint.test  review on a wide screen
   admin@demo.fourpoint.test         team, conflicts, billing, audit

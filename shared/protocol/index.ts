@@ -2,3 +2,4 @@ export * from './auth';
 export * from './clinic';
 export * from './errors';
 export * from './sync';
+export * from './password';

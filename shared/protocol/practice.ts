@@ -3,6 +3,7 @@
 import { z } from 'zod';
 import { roleSchema } from './auth';
 import { siteSchema } from './clinic';
+import { newPasswordSchema } from './password';
 
 const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a date like 2026-03-31.' });
 const trimmed = (max: number, label: string) =>
@@ -78,10 +79,7 @@ export const invitationPreviewSchema = z.object({
 export type InvitationPreview = z.infer<typeof invitationPreviewSchema>;
 export const acceptInvitationRequestSchema = z.object({
   name: trimmed(120, 'Name'),
-  password: z
-    .string()
-    .min(10, { error: 'Use at least 10 characters for the password.' })
-    .max(200, { error: 'The password is at most 200 characters.' }),
+  password: newPasswordSchema,
 });
 export type AcceptInvitationRequest = z.infer<typeof acceptInvitationRequestSchema>;
 

@@ -5,7 +5,7 @@ import { launchBrowser, newPage, PHONE, screenshot, WIDE } from '@/tests/support
 
 jest.setTimeout(90_000);
 
-const password = 'fourpoint-demo';
+const password = 'tidewater brass lantern';
 
 const roles = [
   { role: 'operator', home: 'operator-home', path: '/clients', content: 'clients-list', row: 'client-row-' },

@@ -11,7 +11,7 @@ import { baseUrl, launchBrowser, newPage, PHONE, screenshot, WIDE } from '@/test
 
 jest.setTimeout(240_000);
 
-const password = 'fourpoint-demo';
+const password = 'tidewater brass lantern';
 const admin = 'admin@demo.fourpoint.test';
 const run = Date.now().toString(36);
 let browser: Browser;

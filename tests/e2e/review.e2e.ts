@@ -11,7 +11,7 @@ import { launchBrowser, newPage, screenshot, screenshotDir, WIDE } from '@/tests
 
 jest.setTimeout(180_000);
 
-const password = 'fourpoint-demo';
+const password = 'tidewater brass lantern';
 // The demo client with the most visits (sync-server/seeders/demo.ts, an invented person).
 const demoClient = 'Wren Halloway';
 let browser: Browser;

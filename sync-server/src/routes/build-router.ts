@@ -7,10 +7,12 @@ import { accessTable, type RouteSpec } from './access-table';
 export function registerApiRoutes(
   app: Express,
   deps: UseCaseDeps,
-  options: { signInLimits: SignInLimitOptions },
+  options: { signInLimits: SignInLimitOptions; rateLimitPrefix: string },
   table: readonly RouteSpec[] = accessTable,
 ): void {
-  const limits = { 'sign-in': signInLimiters(options.signInLimits) };
+  const limits = {
+    'sign-in': signInLimiters(options.signInLimits, deps.sequelize, `${options.rateLimitPrefix}:sign-in`),
+  };
   for (const route of table) {
     const chain: RequestHandler[] = [];
     if (route.limit) chain.push(...limits[route.limit]);

@@ -3,7 +3,7 @@
 import fs from 'node:fs';
 import type { Page } from 'playwright-core';
 
-export const demoPassword = 'fourpoint-demo';
+export const demoPassword = 'tidewater brass lantern';
 export const operatorEmail = 'operator@demo.fourpoint.test';
 export const practitionerEmail = 'practitioner@demo.fourpoint.test';
 

@@ -1,5 +1,4 @@
 import { createHmac, randomUUID, timingSafeEqual } from 'node:crypto';
-import type { SignInResponse } from '@/shared/protocol';
 import type {
   AcceptInvitationRequest,
   Invitation,
@@ -14,9 +13,10 @@ import { recordAuditEvent } from '../../repositories/audit-repository';
 import { iso } from '../../repositories/practice-db';
 import * as repo from '../../repositories/team-repository';
 import { createUser, normaliseEmail } from '../../repositories/users-repository';
+import { assertAcceptablePassword } from '../../services/password-policy';
 import { hashPassword } from '../../services/passwords';
 import { practiceServices } from '../../services/practice-services';
-import { signIn } from '../auth';
+import { signIn, type IssuedTokens } from '../auth';
 import type { Caller, UseCaseDeps } from '../context';
 
 export const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
@@ -198,8 +198,13 @@ export async function acceptInvitation(
   token: string,
   input: AcceptInvitationRequest,
   ip: string | null,
-): Promise<SignInResponse> {
+): Promise<IssuedTokens> {
   const link = readInvitationToken(token, deps.jwtSecret);
+  // Checked before the password is judged, so a dead link says so instead of judging the password.
+  const invited = await repo.findInvitation(deps.sequelize, link.id);
+  if (!invited) throw invalidLink();
+  checkUsable(invited, link.expiresAt);
+  assertAcceptablePassword(input.password, invited.email);
   const passwordHash = await hashPassword(input.password);
   const email = await deps.sequelize.transaction(async (transaction) => {
     // The row lock makes a second, simultaneous use of the same link wait and then see it used.
