@@ -1,6 +1,6 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useLocalSearchParams, useRouter } from 'expo-router';
-import { useEffect } from 'react';
+import { useEffect, useMemo } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
@@ -9,6 +9,7 @@ import { ErrorState, LoadingState } from '@/components/ui/state-views';
 import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, radii, space } from '@/constants/theme';
 import { useAcceptInvitationMutation, useInvitationPreviewQuery } from '@/hooks/api/team';
+import { newPasswordSchemaFor, PASSWORD_MIN_LENGTH } from '@/shared/protocol';
 import { acceptInvitationRequestSchema, type AcceptInvitationRequest } from '@/shared/protocol/practice';
 
 /** The page an invitation link opens: the invitee sets a password; then they sign in as usual. */
@@ -17,13 +18,18 @@ export function InviteScreen() {
   const router = useRouter();
   const preview = useInvitationPreviewQuery(String(token ?? ''));
   const accept = useAcceptInvitationMutation(String(token ?? ''));
+  const invitedEmail = preview.data?.email ?? '';
+  // The same rule as the server's, less the common-password check (its dictionaries stay on the server).
+  const schema = useMemo(
+    () => acceptInvitationRequestSchema.extend({ password: newPasswordSchemaFor(invitedEmail) }),
+    [invitedEmail],
+  );
   const form = useForm<AcceptInvitationRequest>({
-    resolver: zodResolver(acceptInvitationRequestSchema),
+    resolver: zodResolver(schema),
     defaultValues: { email: '', name: '', password: '' },
   });
   // The invited address and name go into the form itself, so accepting them as shown submits them; the server
   // makes the account only for the address the invitation was sent to.
-  const invitedEmail = preview.data?.email;
   const invitedName = preview.data?.name;
   useEffect(() => {
     if (invitedEmail && !form.getValues('email')) form.setValue('email', invitedEmail);
@@ -61,8 +67,9 @@ export function InviteScreen() {
               Join {preview.data.clinicName}
             </AppText>
             <AppText color={colors.textMuted}>
-              {preview.data.email} is invited as {preview.data.role}. Choose a password of at least 10
-              characters.
+              {preview.data.email} is invited as {preview.data.role}. Choose a password of at least{' '}
+              {PASSWORD_MIN_LENGTH} characters that does not contain your e-mail address: a few unrelated
+              words work well. Common or easily guessed passwords are refused.
             </AppText>
             <FormTextField
               control={form.control}

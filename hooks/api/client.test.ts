@@ -64,6 +64,25 @@ describe('API client', () => {
     expect(session?.refreshToken).toBe('refresh-2');
   });
 
+  test('when a web session (refresh token in the cookie) refreshes, then it posts an empty JSON body the cookie goes with', async () => {
+    session = { accessToken: 'old-access', user };
+    api.defaults.adapter = (async (config) =>
+      bearer(config) === 'Bearer new-access'
+        ? answer(config, 200, { ok: true })
+        : answer(config, 401, {})) as AxiosAdapter;
+    refreshClient.defaults.adapter = (async (config) => {
+      // The server takes the cookie only from a JSON request (a cross-site form cannot send one).
+      expect(AxiosHeaders.from(config.headers).getContentType()).toMatch(/^application\/json/);
+      expect(JSON.parse(config.data as string)).toEqual({});
+      return answer(config, 200, { accessToken: 'new-access', user });
+    }) as AxiosAdapter;
+
+    const result = await request({ method: 'GET', url: '/clients' }, okSchema);
+
+    expect(result).toEqual({ kind: 'ok', data: { ok: true } });
+    expect(session).toEqual({ accessToken: 'new-access', user });
+  });
+
   test('when the refresh is refused too, then the session is expired and the answer is unauthorized', async () => {
     let calls = 0;
     api.defaults.adapter = (async (config) => {

@@ -1,4 +1,5 @@
 import AsyncStorage from '@react-native-async-storage/async-storage';
+import { Platform } from 'react-native';
 import { z } from 'zod';
 import { signInResponseSchema } from '@/shared/protocol';
 
@@ -19,8 +20,14 @@ export async function loadSession(): Promise<Session | null> {
   }
 }
 
+/**
+ * Keeps the session across reloads and offline starts. On the web, storage is localStorage, which any script
+ * on the page can read: the refresh token never goes there (the server keeps it in an httpOnly cookie), only
+ * the short-lived access token, which sign-out ends on the server.
+ */
 export async function saveSession(session: Session): Promise<void> {
-  await AsyncStorage.setItem(key, JSON.stringify(session));
+  const { refreshToken, ...rest } = session;
+  await AsyncStorage.setItem(key, JSON.stringify(Platform.OS === 'web' ? rest : { ...rest, refreshToken }));
 }
 
 export async function clearSession(): Promise<void> {

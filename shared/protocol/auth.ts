@@ -13,21 +13,31 @@ export const userSchema = z.object({
 });
 export type User = z.infer<typeof userSchema>;
 
+/**
+ * Where the server puts the refresh token. The web app asks for `cookie`: an httpOnly cookie scoped to /api/auth
+ * that page scripts cannot read. Devices keep it in their own storage and take it in the body (the default).
+ */
+export const refreshTokenInSchema = z.enum(['body', 'cookie']);
+export type RefreshTokenIn = z.infer<typeof refreshTokenInSchema>;
+
 export const signInRequestSchema = z.object({
   email: z.email({ error: 'Enter a valid e-mail address.' }).max(254),
   password: z.string().min(1, { error: 'Enter your password.' }).max(200),
+  refreshTokenIn: refreshTokenInSchema.optional(),
 });
 export type SignInRequest = z.infer<typeof signInRequestSchema>;
 
 export const signInResponseSchema = z.object({
   accessToken: z.string().min(1),
-  refreshToken: z.string().min(1),
+  /** Absent when it went into the refresh cookie instead. */
+  refreshToken: z.string().min(1).optional(),
   user: userSchema,
 });
 export type SignInResponse = z.infer<typeof signInResponseSchema>;
 
+/** The refresh token in the body (devices), or none when the web app's cookie carries it. */
 export const refreshRequestSchema = z.object({
-  refreshToken: z.string().min(1, { error: 'A refresh token is required.' }).max(500),
+  refreshToken: z.string().min(1, { error: 'A refresh token is required.' }).max(500).optional(),
 });
 export type RefreshRequest = z.infer<typeof refreshRequestSchema>;
 

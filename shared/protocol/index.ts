@@ -3,3 +3,4 @@ export * from './clinic';
 export * from './errors';
 export * from './sync';
 export * from './dates';
+export * from './password';

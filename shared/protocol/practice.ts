@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { roleSchema } from './auth';
 import { siteSchema } from './clinic';
 import { calendarDateSchema } from './dates';
+import { newPasswordSchema } from './password';
 
 const trimmed = (max: number, label: string) =>
   z
@@ -80,10 +81,7 @@ export const acceptInvitationRequestSchema = z.object({
   /** The address the invitation was sent to: a link joins only as the person it was sent to. */
   email: z.email({ error: 'Enter the e-mail address the invitation was sent to.' }).max(254),
   name: trimmed(120, 'Name'),
-  password: z
-    .string()
-    .min(10, { error: 'Use at least 10 characters for the password.' })
-    .max(200, { error: 'The password is at most 200 characters.' }),
+  password: newPasswordSchema,
 });
 export type AcceptInvitationRequest = z.infer<typeof acceptInvitationRequestSchema>;
 

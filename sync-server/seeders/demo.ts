@@ -250,7 +250,7 @@ export async function seedDemo(options: SeedDemoOptions): Promise<SeedDemoSummar
       });
       count(made);
       // Demo users loaded by an older version have the password that was once published in the code.
-      if (!made && !(await verifyPassword(options.password, user.passwordHash)))
+      if (!made && !(await verifyPassword(options.password, user.passwordHash)).ok)
         await user.update({ passwordHash }, { transaction });
     }
     const textId = demoId('consent-text/1');

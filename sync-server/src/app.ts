@@ -1,5 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
+import cookieParser from 'cookie-parser';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import pino, { type Logger } from 'pino';
@@ -18,6 +19,11 @@ export interface AppDeps {
   webDist?: string;
   logger?: Logger;
   signInLimits?: SignInLimitOptions;
+  /**
+   * Names this app's rate-limit counters in the database. Server processes with the same prefix count together
+   * (the default); a test gives each app its own so they do not share counts.
+   */
+  rateLimitPrefix?: string;
   /** Express's `trust proxy`; leave unset unless a known proxy sits in front. */
   trustProxy?: boolean | number | string;
 }
@@ -45,11 +51,16 @@ export function createApp(deps: AppDeps): Express {
     }),
   );
   app.use('/api', express.json({ limit: '1mb' }), refuseNulCharacters);
+  // Only the auth routes read cookies: the web app's refresh token (routes/refresh-cookie.ts).
+  app.use('/api/auth', cookieParser());
 
   registerApiRoutes(
     app,
     { sequelize: deps.sequelize, jwtSecret: deps.jwtSecret },
-    { signInLimits: deps.signInLimits ?? DEFAULT_SIGN_IN_LIMITS },
+    {
+      signInLimits: deps.signInLimits ?? DEFAULT_SIGN_IN_LIMITS,
+      rateLimitPrefix: deps.rateLimitPrefix ?? 'app',
+    },
   );
   app.use('/api', () => {
     throw new AppError('not_found', 'There is no such API route.', 404);

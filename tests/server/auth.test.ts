@@ -1,4 +1,5 @@
 import jwt from 'jsonwebtoken';
+import type { Express } from 'express';
 import request from 'supertest';
 import { meResponseSchema, signInResponseSchema } from '@/shared/protocol';
 import { AuditEvent, RefreshToken } from '@/sync-server/src/models';
@@ -108,7 +109,7 @@ describe('sign-in', () => {
 
   test('when one address tries many accounts, then the per-address limit stops it', async () => {
     const limited = makeSiblingApp(ctx, {
-      signInLimits: { windowMs: 60_000, perAccountAndAddress: 10, perAddress: 3 },
+      signInLimits: { windowMs: 60_000, perAccount: 10, perAddress: 3 },
     });
     {
       for (let i = 0; i < 3; i++) {
@@ -133,7 +134,7 @@ describe('refresh and sign-out', () => {
     const second = signInResponseSchema.parse(res.body);
     expect(second.refreshToken).not.toBe(first.refreshToken);
     expect(second.user.id).toBe(clinic.users.operator.id);
-    const old = await RefreshToken.findOne({ where: { tokenHash: hashRefreshToken(first.refreshToken) } });
+    const old = await RefreshToken.findOne({ where: { tokenHash: hashRefreshToken(first.refreshToken!) } });
     expect(old?.revokedAt).toBeInstanceOf(Date);
     expect(old?.replacedBy).not.toBeNull();
     const me = await request(ctx.app).get('/api/me').set('authorization', `Bearer ${second.accessToken}`);
@@ -222,7 +223,9 @@ describe('GET /api/me', () => {
 
   test('when the token names a clinic the user is not in, then it is 401', async () => {
     const other = await makeClinic('Other');
-    const crossed = jwt.sign({ role: 'admin', clinicId: other.id }, ctx.jwtSecret, {
+    const own = await signIn(ctx.app, clinic.users.admin.email);
+    const { sid } = jwt.decode(own.accessToken) as { sid: string };
+    const crossed = jwt.sign({ role: 'admin', clinicId: other.id, sid }, ctx.jwtSecret, {
       subject: clinic.users.admin.id,
       issuer: 'fourpoint',
     });
@@ -248,10 +251,105 @@ describe('disabled users', () => {
       .post('/api/auth/refresh')
       .send({ refreshToken: session.refreshToken });
     expect(refresh.status).toBe(401);
-    const again = await request(ctx.app)
-      .post('/api/auth/sign-in')
-      .send({ email: own.users.operator.email, password: TEST_PASSWORD });
-    expect(again.status).toBe(401);
-    expect(again.body.error.code).toBe('account_disabled');
+  });
+
+  test('when a disabled account signs in, then the answer is the wrong-password answer, right password or not (ASVS V2.2.1, no enumeration)', async () => {
+    const own = await makeClinic('DisabledSignIn');
+    await setUserDisabled(own.id, own.users.operator.id, true);
+    const send = (email: string, password: string) =>
+      request(ctx.app).post('/api/auth/sign-in').send({ email, password });
+    const disabledRight = await send(own.users.operator.email, TEST_PASSWORD);
+    const disabledWrong = await send(own.users.operator.email, 'not-it-at-all');
+    const activeWrong = await send(own.users.admin.email, 'not-it-at-all');
+    const unknown = await send(`nobody.${own.id}@test.fourpoint.test`, 'not-it-at-all');
+    for (const answer of [disabledRight, disabledWrong, unknown]) {
+      expect(answer.status).toBe(activeWrong.status);
+      expect(answer.body).toEqual(activeWrong.body);
+    }
+    expect(activeWrong.body.error.code).toBe('invalid_credentials');
+  });
+});
+
+describe('the sign-in limit per account (ASVS V2.2.1)', () => {
+  // Behind a trusted proxy, X-Forwarded-For gives each request the client address the test chooses.
+  const fromAddress = (app: Express, address: string, email: string, password: string) =>
+    request(app).post('/api/auth/sign-in').set('x-forwarded-for', address).send({ email, password });
+
+  test('when one account fails ten times from ten addresses, then an eleventh address is refused with 429, Retry-After and a plain message', async () => {
+    const limited = makeSiblingApp(ctx, { trustProxy: 1 });
+    const email = clinic.users.practitioner.email;
+    for (let i = 0; i < 10; i++)
+      expect((await fromAddress(limited, `198.51.100.${i + 1}`, email, `wrong-${i}`)).status).toBe(401);
+    const blocked = await fromAddress(limited, '203.0.113.77', email, TEST_PASSWORD);
+    expect(blocked.status).toBe(429);
+    // RFC 9110 §10.2.3: Retry-After as delay-seconds; the window is 15 minutes.
+    const retryAfter = Number(blocked.headers['retry-after']);
+    expect(Number.isInteger(retryAfter)).toBe(true);
+    expect(retryAfter).toBeGreaterThan(0);
+    expect(retryAfter).toBeLessThanOrEqual(15 * 60);
+    expect(blocked.body.error).toEqual({
+      code: 'too_many_attempts',
+      message: expect.stringMatching(/^Too many sign-in attempts\. Wait (15|14) minutes and try again\.$/),
+    });
+    // The e-mail is counted normalised: capitals and spaces are the same account.
+    const variant = await fromAddress(limited, '203.0.113.78', ` ${email.toUpperCase()} `.trim(), 'x');
+    expect(variant.status).toBe(429);
+  });
+
+  test('when two server processes share the database, then failures on one count on the other', async () => {
+    const own = await makeClinic('SharedLimit');
+    const shared = { trustProxy: 1, rateLimitPrefix: `shared-${own.id}` };
+    const first = makeSiblingApp(ctx, shared);
+    const second = makeSiblingApp(ctx, shared);
+    const email = own.users.admin.email;
+    for (let i = 0; i < 10; i++) {
+      const app = i % 2 === 0 ? first : second;
+      expect((await fromAddress(app, `192.0.2.${i + 1}`, email, `wrong-${i}`)).status).toBe(401);
+    }
+    expect((await fromAddress(second, '192.0.2.200', email, TEST_PASSWORD)).status).toBe(429);
+    // A successful sign-in of another account is not counted against anyone.
+    expect((await fromAddress(first, '192.0.2.201', own.users.operator.email, TEST_PASSWORD)).status).toBe(
+      200,
+    );
+  });
+});
+
+describe('sign-out ends the access token too (ASVS V3.3.1)', () => {
+  const me = (token: string) => request(ctx.app).get('/api/me').set('authorization', `Bearer ${token}`);
+
+  test('when a user signs out with the refresh token, then the old access token gets 401 and their other sign-in still works', async () => {
+    const session = await signIn(ctx.app, clinic.users.operator.email);
+    const otherDevice = await signIn(ctx.app, clinic.users.operator.email);
+    expect((await me(session.accessToken)).status).toBe(200);
+    const out = await request(ctx.app)
+      .post('/api/auth/sign-out')
+      .send({ refreshToken: session.refreshToken });
+    expect(out.status).toBe(204);
+    const after = await me(session.accessToken);
+    expect(after.status).toBe(401);
+    expect(after.body.error.code).toBe('unauthenticated');
+    expect((await me(otherDevice.accessToken)).status).toBe(200);
+    const audit = await AuditEvent.count({
+      where: { userId: clinic.users.operator.id, action: 'auth.sign_out' },
+    });
+    expect(audit).toBeGreaterThan(0);
+  });
+
+  test('when a used refresh token is replayed, then the access tokens of that sign-in stop too', async () => {
+    const first = await signIn(ctx.app, clinic.users.practitioner.email);
+    const rotated = signInResponseSchema.parse(
+      (await request(ctx.app).post('/api/auth/refresh').send({ refreshToken: first.refreshToken })).body,
+    );
+    expect((await me(rotated.accessToken)).status).toBe(200);
+    await request(ctx.app).post('/api/auth/refresh').send({ refreshToken: first.refreshToken });
+    expect((await me(rotated.accessToken)).status).toBe(401);
+  });
+
+  test('when an access token carries no session id, then it is 401', async () => {
+    const noSid = jwt.sign({ role: 'admin', clinicId: clinic.id }, ctx.jwtSecret, {
+      subject: clinic.users.admin.id,
+      issuer: 'fourpoint',
+    });
+    expect((await me(noSid)).status).toBe(401);
   });
 });

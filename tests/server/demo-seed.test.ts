@@ -4,6 +4,7 @@ import path from 'node:path';
 import request from 'supertest';
 import { decodeWav } from '@/shared/analysis';
 import { analyseDemoClip } from '@/sync-server/seeders/analyse-demo-clip';
+import { assertAcceptablePassword } from '@/sync-server/src/services/password-policy';
 import { DEMO_CLINIC_ID, DEMO_USERS, seedDemo } from '@/sync-server/seeders/demo';
 import {
   Client,
@@ -70,6 +71,13 @@ describe('demo seed', () => {
     );
     expect(await counts()).toEqual(before);
   });
+
+  test.each(DEMO_USERS.map((u) => [u.email] as const))(
+    'when the demo password is checked against the rule for new passwords for %s, then it passes',
+    (email) => {
+      expect(() => assertAcceptablePassword(password, email)).not.toThrow();
+    },
+  );
 
   test.each(DEMO_USERS.map((u) => [u.email, u.role] as const))(
     'when %s signs in with the demo password, then they get the %s role',

@@ -50,6 +50,33 @@ describe('invitations', () => {
     expect(again.user.role).toBe('practitioner');
   });
 
+  test('when the invitee picks a common or e-mail-based password, then it is 400 with what to do and the link still works (ASVS V2.1.1, V2.1.7)', async () => {
+    const email = unique();
+    const { token } = await invite(email);
+    const common = await request(ctx.app)
+      .post(`/api/invitations/${token}/accept`)
+      .send({ name: 'Rowan Vale', password: 'password1234' });
+    expect(common.status).toBe(400);
+    expect(common.body.error).toMatchObject({
+      code: 'weak_password',
+      message: expect.stringMatching(/too easy to guess.*unrelated words/),
+    });
+    const withEmail = await request(ctx.app)
+      .post(`/api/invitations/${token}/accept`)
+      .send({ name: 'Rowan Vale', password: `My ${email} pass` });
+    expect(withEmail.status).toBe(400);
+    expect(withEmail.body.error.message).toMatch(/Do not use your e-mail address/);
+    const short = await request(ctx.app)
+      .post(`/api/invitations/${token}/accept`)
+      .send({ name: 'Rowan Vale', password: 'Zq8#vLp2!mW' });
+    expect(short.status).toBe(400);
+    expect(short.body.error.message).toMatch(/at least 12 characters/);
+    const accepted = await request(ctx.app)
+      .post(`/api/invitations/${token}/accept`)
+      .send({ name: 'Rowan Vale', password: 'tidewater brass lantern' });
+    expect(accepted.status).toBe(201);
+  });
+
   test('when the admin invites someone, then the link path has no file extension, so the web app serves the page', async () => {
     const { token } = await invite(unique());
     // The server's fallback for app routes skips paths that look like files (an extension after a dot).

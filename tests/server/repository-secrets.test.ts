@@ -134,7 +134,12 @@ describe('secrets found in the repository', () => {
   });
 
   test('when an access token is signed with any string in the repository, then the server does not accept it', () => {
-    const claims = { userId: clinic.users.admin.id, role: 'admin' as const, clinicId: clinic.id };
+    const claims = {
+      userId: clinic.users.admin.id,
+      role: 'admin' as const,
+      clinicId: clinic.id,
+      sessionId: randomUUID(),
+    };
     const accepted = strings.filter(
       (candidate) => verifyAccessToken(signAccessToken(claims, candidate), readSecrets().jwtSecret) !== null,
     );

@@ -1,7 +1,7 @@
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import type { Role } from '@/shared/protocol';
 import { forbidden, unauthenticated } from '../errors';
-import { findUserInClinic } from '../repositories/users-repository';
+import { findUserForAccessToken } from '../repositories/users-repository';
 import { verifyAccessToken } from '../services/tokens';
 import { accountDisabled } from '../use-cases/auth';
 import type { Caller } from '../use-cases/context';
@@ -21,8 +21,9 @@ export function authenticate(jwtSecret: string): RequestHandler {
     if (!match) throw unauthenticated();
     const claims = verifyAccessToken(match[1], jwtSecret);
     if (!claims) throw unauthenticated('Your sign-in has expired or is not valid. Sign in again.');
-    // The row, not the token, decides: a disabled user or a changed role takes effect on the next request.
-    const user = await findUserInClinic(claims.clinicId, claims.userId);
+    // The rows, not the token, decide: signing out, a disabled user or a changed role take effect on the next
+    // request (OWASP ASVS 4.0.3 V3.3.1: sign-out invalidates the session).
+    const user = await findUserForAccessToken(claims.clinicId, claims.userId, claims.sessionId);
     if (!user) throw unauthenticated('Your sign-in has expired or is not valid. Sign in again.');
     if (user.disabled) throw accountDisabled();
     callers.set(req, { userId: user.id, role: user.role, clinicId: user.clinicId, ip: req.ip ?? null });

@@ -1,4 +1,4 @@
-import { Op, type Transaction } from 'sequelize';
+import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { RefreshToken } from '../models';
 
 export interface RefreshTokenRecord {
@@ -62,4 +62,36 @@ export async function revokeRefreshTokenFamily(familyId: string, transaction?: T
     { revokedAt: new Date() },
     { where: { familyId, revokedAt: { [Op.is]: null } }, transaction },
   );
+}
+
+/** A sign-in: its id is the refresh-token family and the `sid` of every access token issued under it. */
+export async function insertSignInSession(
+  row: { id: string; userId: string },
+  transaction?: Transaction,
+): Promise<void> {
+  await RefreshToken.sequelize!.query(`INSERT INTO sign_in_sessions (id, user_id) VALUES (:id, :userId)`, {
+    replacements: row,
+    transaction,
+  });
+}
+
+export async function isSignInSessionEnded(id: string, transaction?: Transaction): Promise<boolean> {
+  const rows = await RefreshToken.sequelize!.query<{ ended: boolean }>(
+    `SELECT ended_at IS NOT NULL AS ended FROM sign_in_sessions WHERE id = :id`,
+    { replacements: { id }, type: QueryTypes.SELECT, transaction },
+  );
+  return rows[0]?.ended ?? true;
+}
+
+/**
+ * Ends a sign-in: its access tokens stop at the next request and its refresh tokens are revoked.
+ * Answers the user id when this call ended it, null when it had already ended or does not exist.
+ */
+export async function endSignInSession(id: string, transaction?: Transaction): Promise<string | null> {
+  const rows = await RefreshToken.sequelize!.query<{ user_id: string }>(
+    `UPDATE sign_in_sessions SET ended_at = now() WHERE id = :id AND ended_at IS NULL RETURNING user_id`,
+    { replacements: { id }, type: QueryTypes.SELECT, transaction },
+  );
+  await revokeRefreshTokenFamily(id, transaction);
+  return rows[0]?.user_id ?? null;
 }

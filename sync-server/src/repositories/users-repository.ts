@@ -1,4 +1,4 @@
-import type { Transaction } from 'sequelize';
+import { QueryTypes, type Transaction } from 'sequelize';
 import type { Role, TeamMember, User as PublicUser } from '@/shared/protocol';
 import { User } from '../models';
 
@@ -42,6 +42,29 @@ export async function findUserInClinic(
   // Runs on every authenticated request: a plain row, without building a model instance.
   const user = await User.findOne({ where: { id: userId, clinicId }, transaction, raw: true });
   return user ? toRecord(user) : null;
+}
+
+/**
+ * The user behind an access token, or null when the user is gone, in another clinic, or the sign-in the token
+ * belongs to has ended (signed out). Runs on every authenticated request: one query on two primary keys.
+ */
+export async function findUserForAccessToken(
+  clinicId: string,
+  userId: string,
+  sessionId: string,
+): Promise<UserRecord | null> {
+  const rows = await User.sequelize!.query<UserRecord>(
+    `SELECT u.id, u.clinic_id AS "clinicId", u.email, u.name, u.role, u.disabled, u.password_hash AS "passwordHash"
+     FROM users u JOIN sign_in_sessions s ON s.id = :sessionId AND s.user_id = u.id AND s.ended_at IS NULL
+     WHERE u.id = :userId AND u.clinic_id = :clinicId`,
+    { replacements: { clinicId, userId, sessionId }, type: QueryTypes.SELECT },
+  );
+  return rows[0] ?? null;
+}
+
+/** Replaces the stored hash, e.g. a bcrypt hash upgraded to argon2id after a sign-in that proved the password. */
+export async function setPasswordHash(userId: string, passwordHash: string): Promise<void> {
+  await User.update({ passwordHash }, { where: { id: userId } });
 }
 
 export async function listUsers(clinicId: string): Promise<TeamMember[]> {

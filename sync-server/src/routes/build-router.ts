@@ -12,10 +12,12 @@ const noStore: RequestHandler = (_req, res, next) => {
 export function registerApiRoutes(
   app: Express,
   deps: UseCaseDeps,
-  options: { signInLimits: SignInLimitOptions },
+  options: { signInLimits: SignInLimitOptions; rateLimitPrefix: string },
   table: readonly RouteSpec[] = accessTable,
 ): void {
-  const limits = { 'sign-in': signInLimiters(options.signInLimits) };
+  const limits = {
+    'sign-in': signInLimiters(options.signInLimits, deps.sequelize, `${options.rateLimitPrefix}:sign-in`),
+  };
   for (const route of table) {
     // Answers carry health records, traces and tokens: no browser or proxy keeps a copy.
     const chain: RequestHandler[] = [noStore];

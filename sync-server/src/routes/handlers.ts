@@ -3,17 +3,19 @@ import {
   clientListQuerySchema,
   refreshRequestSchema,
   signInRequestSchema,
+  signOutRequestSchema,
   type ClientListResponse,
   type MeResponse,
   type SessionListResponse,
-  type SignInResponse,
   type UserListResponse,
 } from '@/shared/protocol';
+import { AppError } from '../errors';
 import { callerOf } from '../middleware/authenticate';
 import { getMe, refreshSession, signIn, signOut } from '../use-cases/auth';
 import type { UseCaseDeps } from '../use-cases/context';
 import { checkHealth } from '../use-cases/health';
 import { findClients, findSessions, findTeam } from '../use-cases/lists';
+import { clearRefreshCookie, refreshTokenOf, sendTokens } from './refresh-cookie';
 
 export type HandlerFactory = (deps: UseCaseDeps) => RequestHandler;
 
@@ -23,21 +25,27 @@ export const health: HandlerFactory = (deps) => async (_req, res) => {
 };
 
 export const signInHandler: HandlerFactory = (deps) => async (req, res) => {
-  const body: SignInResponse = await signIn(deps, signInRequestSchema.parse(req.body), req.ip ?? null);
-  res.json(body);
+  const input = signInRequestSchema.parse(req.body);
+  const tokens = await signIn(deps, input, req.ip ?? null);
+  sendTokens(req, res, tokens, input.refreshTokenIn === 'cookie');
 };
 
 export const refreshHandler: HandlerFactory = (deps) => async (req, res) => {
-  const body: SignInResponse = await refreshSession(
-    deps,
-    refreshRequestSchema.parse(req.body),
-    req.ip ?? null,
-  );
-  res.json(body);
+  const given = refreshTokenOf(req, refreshRequestSchema.parse(req.body ?? {}).refreshToken);
+  if (!given) throw new AppError('refresh_token_missing', 'No refresh token was sent. Sign in again.', 400);
+  try {
+    sendTokens(req, res, await refreshSession(deps, given.token, req.ip ?? null), given.via === 'cookie');
+  } catch (error) {
+    // A cookie that no longer refreshes is dropped, so the browser stops sending it.
+    if (given.via === 'cookie') clearRefreshCookie(req, res);
+    throw error;
+  }
 };
 
 export const signOutHandler: HandlerFactory = (deps) => async (req, res) => {
-  await signOut(deps, refreshRequestSchema.parse(req.body), req.ip ?? null);
+  const given = refreshTokenOf(req, signOutRequestSchema.parse(req.body ?? {}).refreshToken);
+  if (given) await signOut(deps, given.token, req.ip ?? null);
+  clearRefreshCookie(req, res);
   res.status(204).end();
 };
 

@@ -11,9 +11,11 @@ export interface AccessClaims {
   userId: string;
   role: Role;
   clinicId: string;
+  /** The sign-in (refresh-token family) the token was issued under; signing out ends it. */
+  sessionId: string;
 }
 
-const payloadSchema = z.object({ sub: z.string(), role: roleSchema, clinicId: z.string() });
+const payloadSchema = z.object({ sub: z.string(), role: roleSchema, clinicId: z.string(), sid: z.uuid() });
 
 // Given a string, jsonwebtoken first tries it as a PEM public or private key, which throws and costs more than
 // the HMAC itself, on every request; a secret KeyObject made once skips that.
@@ -28,7 +30,7 @@ function hmacKey(secret: string): KeyObject {
 }
 
 export function signAccessToken(claims: AccessClaims, secret: string, ttlS = ACCESS_TOKEN_TTL_S): string {
-  return jwt.sign({ role: claims.role, clinicId: claims.clinicId }, hmacKey(secret), {
+  return jwt.sign({ role: claims.role, clinicId: claims.clinicId, sid: claims.sessionId }, hmacKey(secret), {
     subject: claims.userId,
     expiresIn: ttlS,
     issuer: ISSUER,
@@ -43,7 +45,12 @@ export function verifyAccessToken(token: string, secret: string): AccessClaims |
       jwt.verify(token, hmacKey(secret), { issuer: ISSUER, algorithms: ['HS256'] }),
     );
     if (!payload.success) return null;
-    return { userId: payload.data.sub, role: payload.data.role, clinicId: payload.data.clinicId };
+    return {
+      userId: payload.data.sub,
+      role: payload.data.role,
+      clinicId: payload.data.clinicId,
+      sessionId: payload.data.sid,
+    };
   } catch {
     return null;
   }

@@ -1,28 +1,41 @@
 import { randomUUID } from 'node:crypto';
-import type { RefreshRequest, SignInRequest, SignInResponse, User } from '@/shared/protocol';
+import type { SignInRequest, User } from '@/shared/protocol';
 import { AppError, unauthenticated } from '../errors';
 import { recordAuditEvent } from '../repositories/audit-repository';
 import {
+  endSignInSession,
   findRefreshTokenByHash,
   insertRefreshToken,
+  insertSignInSession,
+  isSignInSessionEnded,
   revokeRefreshToken,
-  revokeRefreshTokenFamily,
 } from '../repositories/refresh-tokens-repository';
 import {
   findUserByEmailForSignIn,
   findUserForRefreshToken,
   findUserInClinic,
+  setPasswordHash,
   type UserRecord,
 } from '../repositories/users-repository';
-import { verifyPassword } from '../services/passwords';
+import { hashPassword, verifyPassword } from '../services/passwords';
 import { hashRefreshToken, newRefreshToken, REFRESH_TOKEN_TTL_MS, signAccessToken } from '../services/tokens';
 import type { Transaction } from 'sequelize';
 import type { UseCaseDeps } from './context';
 
+/** Tokens as the use cases issue them; the route decides whether the refresh token goes in a cookie. */
+export interface IssuedTokens {
+  accessToken: string;
+  refreshToken: string;
+  user: User;
+}
+
+// A wrong password, an unknown e-mail and a disabled account all get this one answer (OWASP ASVS 4.0.3
+// V2.2.1 / V3.2: no account enumeration), after the same password verification.
 const wrongCredentials = () =>
   new AppError('invalid_credentials', 'The e-mail or password is not right.', 401);
 const refreshRefused = () =>
   new AppError('invalid_refresh_token', 'Your session has ended. Sign in again.', 401);
+/** For a caller who already proved the password: their account was disabled since. */
 export const accountDisabled = () =>
   new AppError('account_disabled', "This account is disabled. Ask your clinic's admin.", 401);
 
@@ -37,17 +50,17 @@ export const toPublicUser = (u: UserRecord): User => ({
 async function issueTokens(
   deps: UseCaseDeps,
   user: UserRecord,
-  familyId: string,
+  sessionId: string,
   ip: string | null,
   transaction?: Transaction,
-): Promise<SignInResponse & { refreshTokenId: string }> {
+): Promise<IssuedTokens & { refreshTokenId: string }> {
   const refreshToken = newRefreshToken();
   const refreshTokenId = randomUUID();
   await insertRefreshToken(
     {
       id: refreshTokenId,
       userId: user.id,
-      familyId,
+      familyId: sessionId,
       tokenHash: hashRefreshToken(refreshToken),
       expiresAt: new Date(Date.now() + REFRESH_TOKEN_TTL_MS),
       createdIp: ip,
@@ -55,7 +68,7 @@ async function issueTokens(
     transaction,
   );
   const accessToken = signAccessToken(
-    { userId: user.id, role: user.role, clinicId: user.clinicId },
+    { userId: user.id, role: user.role, clinicId: user.clinicId, sessionId },
     deps.jwtSecret,
   );
   return { accessToken, refreshToken, refreshTokenId, user: toPublicUser(user) };
@@ -63,15 +76,18 @@ async function issueTokens(
 
 export async function signIn(
   deps: UseCaseDeps,
-  input: SignInRequest,
+  input: Pick<SignInRequest, 'email' | 'password'>,
   ip: string | null,
-): Promise<SignInResponse> {
+): Promise<IssuedTokens> {
   const user = await findUserByEmailForSignIn(input.email);
-  const passwordOk = await verifyPassword(input.password, user?.passwordHash);
-  if (!user || !passwordOk) throw wrongCredentials();
-  if (user.disabled) throw accountDisabled();
+  const password = await verifyPassword(input.password, user?.passwordHash);
+  if (!user || !password.ok || user.disabled) throw wrongCredentials();
+  // A hash from before argon2id (bcrypt) is replaced now that the password is known to be right.
+  if (password.needsRehash) await setPasswordHash(user.id, await hashPassword(input.password));
   return deps.sequelize.transaction(async (transaction) => {
-    const { refreshTokenId: _id, ...tokens } = await issueTokens(deps, user, randomUUID(), ip, transaction);
+    const sessionId = randomUUID();
+    await insertSignInSession({ id: sessionId, userId: user.id }, transaction);
+    const { refreshTokenId: _id, ...tokens } = await issueTokens(deps, user, sessionId, ip, transaction);
     await recordAuditEvent(
       {
         clinicId: user.clinicId,
@@ -90,14 +106,15 @@ export async function signIn(
 /** Swaps a refresh token for a new pair; presenting an already-used token ends that whole sign-in. */
 export async function refreshSession(
   deps: UseCaseDeps,
-  input: RefreshRequest,
+  refreshToken: string,
   ip: string | null,
-): Promise<SignInResponse> {
+): Promise<IssuedTokens> {
   const outcome = await deps.sequelize.transaction(async (transaction) => {
-    const stored = await findRefreshTokenByHash(hashRefreshToken(input.refreshToken), transaction);
+    const stored = await findRefreshTokenByHash(hashRefreshToken(refreshToken), transaction);
     if (!stored) return { kind: 'unknown' as const };
-    if (stored.revokedAt) return { kind: 'reused' as const, familyId: stored.familyId };
+    if (stored.revokedAt) return { kind: 'reused' as const, sessionId: stored.familyId };
     if (stored.expiresAt.getTime() <= Date.now()) return { kind: 'unknown' as const };
+    if (await isSignInSessionEnded(stored.familyId, transaction)) return { kind: 'unknown' as const };
     const user = await findUserForRefreshToken(stored.userId, transaction);
     if (!user) return { kind: 'unknown' as const };
     if (user.disabled) return { kind: 'disabled' as const };
@@ -110,8 +127,8 @@ export async function refreshSession(
     case 'ok':
       return outcome.tokens;
     case 'reused':
-      // Outside the lookup transaction, so the revocation stands even though the request is refused.
-      await revokeRefreshTokenFamily(outcome.familyId);
+      // Outside the lookup transaction, so ending the sign-in stands even though the request is refused.
+      await endSignInSession(outcome.sessionId);
       throw refreshRefused();
     case 'disabled':
       throw accountDisabled();
@@ -120,24 +137,28 @@ export async function refreshSession(
   }
 }
 
-export async function signOut(deps: UseCaseDeps, input: RefreshRequest, ip: string | null): Promise<void> {
-  const stored = await findRefreshTokenByHash(hashRefreshToken(input.refreshToken));
+/**
+ * Ends the sign-in a refresh token belongs to: its refresh tokens and its access tokens stop working.
+ * Ending an unknown or already ended sign-in is not an error.
+ */
+export async function signOut(deps: UseCaseDeps, refreshToken: string, ip: string | null): Promise<void> {
+  const stored = await findRefreshTokenByHash(hashRefreshToken(refreshToken));
   if (!stored) return;
   await deps.sequelize.transaction(async (transaction) => {
-    if (await revokeRefreshToken(stored.id, null, transaction)) {
-      const user = await findUserForRefreshToken(stored.userId, transaction);
-      await recordAuditEvent(
-        {
-          clinicId: user?.clinicId ?? null,
-          userId: stored.userId,
-          action: 'auth.sign_out',
-          entity: 'user',
-          entityId: stored.userId,
-          ip,
-        },
-        transaction,
-      );
-    }
+    const userId = await endSignInSession(stored.familyId, transaction);
+    if (!userId) return;
+    const owner = await findUserForRefreshToken(userId, transaction);
+    await recordAuditEvent(
+      {
+        clinicId: owner?.clinicId ?? null,
+        userId,
+        action: 'auth.sign_out',
+        entity: 'user',
+        entityId: userId,
+        ip,
+      },
+      transaction,
+    );
   });
 }
 

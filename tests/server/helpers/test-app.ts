@@ -32,7 +32,14 @@ export function makeTestContext(overrides: Partial<AppDeps> = {}): TestContext {
   const sequelize = createSequelize(databaseUrl(), { poolMax: 5 });
   initModels(sequelize);
   const jwtSecret = `test-secret-${randomUUID()}`;
-  const app = createApp({ sequelize, jwtSecret, logger: pino({ level: 'silent' }), ...overrides });
+  const app = createApp({
+    sequelize,
+    jwtSecret,
+    logger: pino({ level: 'silent' }),
+    // Counters of its own: test files share one database and one client address.
+    rateLimitPrefix: `test-${randomUUID()}`,
+    ...overrides,
+  });
   return { sequelize, app, jwtSecret, close: () => sequelize.close() };
 }
 
@@ -42,6 +49,7 @@ export function makeSiblingApp(ctx: TestContext, overrides: Partial<AppDeps> = {
     sequelize: ctx.sequelize,
     jwtSecret: ctx.jwtSecret,
     logger: pino({ level: 'silent' }),
+    rateLimitPrefix: `test-${randomUUID()}`,
     ...overrides,
   });
 }

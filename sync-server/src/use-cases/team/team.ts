@@ -1,7 +1,6 @@
 import { createHmac, randomUUID, timingSafeEqual } from 'node:crypto';
 import { UniqueConstraintError, type Transaction } from 'sequelize';
 import { z } from 'zod';
-import type { SignInResponse } from '@/shared/protocol';
 import type {
   AcceptInvitationRequest,
   Invitation,
@@ -16,9 +15,10 @@ import { recordAuditEvent } from '../../repositories/audit-repository';
 import { iso } from '../../repositories/practice-db';
 import * as repo from '../../repositories/team-repository';
 import { createUser, normaliseEmail } from '../../repositories/users-repository';
+import { assertAcceptablePassword } from '../../services/password-policy';
 import { hashPassword } from '../../services/passwords';
 import { practiceServices } from '../../services/practice-services';
-import { signIn } from '../auth';
+import { signIn, type IssuedTokens } from '../auth';
 import type { Caller, UseCaseDeps } from '../context';
 
 export const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
@@ -227,7 +227,11 @@ export async function acceptInvitation(
   token: string,
   input: AcceptInvitationRequest,
   ip: string | null,
-): Promise<SignInResponse> {
+): Promise<IssuedTokens> {
+  // Checked before the password is judged, so a dead link says so instead of judging the password.
+  const invited = await invitationOfLink(deps, token);
+  checkUsable(invited.row, invited.linkExpiry);
+  assertAcceptablePassword(input.password, invited.row.email);
   const passwordHash = await hashPassword(input.password);
   const email = await deps.sequelize.transaction(async (transaction) => {
     const { row, linkExpiry } = await invitationOfLink(deps, token, transaction);
