@@ -40,18 +40,19 @@ function upToDate() {
   return Math.max(...inputs) < built;
 }
 
-// The analysis worker (Metro cannot bundle workers) and the offline layer (manifest, service worker) go on top.
+// The workers (Metro cannot bundle workers or worklets) and the offline layer (manifest, service worker) go on top.
 async function addWorkerAndOfflineLayer() {
   const { buildWorker } = await import('./build-worker.mjs');
   const { buildPwa } = await import('./build-pwa.mjs');
   await buildWorker({ outDir: dist });
   const { count } = await buildPwa({ dist });
-  console.log(`Analysis worker bundled; service worker precaches ${count} files.`);
+  console.log(`Workers bundled; service worker precaches ${count} files.`);
 }
 
 const force = process.argv.includes('--force');
 if (!force && upToDate()) {
-  if (!fs.existsSync(path.join(dist, 'sw.js')) || !fs.existsSync(path.join(dist, 'workers/analysis.js'))) {
+  const layer = ['sw.js', 'workers/analysis.js', 'workers/recorder-tap.js'];
+  if (!layer.every((file) => fs.existsSync(path.join(dist, file)))) {
     await addWorkerAndOfflineLayer();
     fs.utimesSync(marker, new Date(), new Date());
   }

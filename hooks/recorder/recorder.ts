@@ -88,21 +88,8 @@ export type LiveMicrophone = {
  */
 export const takeSampleRate = 8000;
 
-// Runs on the audio thread and hands the raw samples over in blocks of 2048.
-const tapSource = `class FourpointTap extends AudioWorkletProcessor {
-  constructor() { super(); this.block = new Float32Array(2048); this.filled = 0; }
-  process(inputs) {
-    const channel = inputs[0] && inputs[0][0];
-    if (channel) {
-      for (let i = 0; i < channel.length; i++) {
-        this.block[this.filled++] = channel[i];
-        if (this.filled === this.block.length) { this.port.postMessage(this.block); this.block = new Float32Array(2048); this.filled = 0; }
-      }
-    }
-    return true;
-  }
-}
-registerProcessor('fourpoint-tap', FourpointTap);`;
+/** The audio-thread tap (tap-worklet.ts), served from this origin as the Content-Security-Policy requires. */
+export const tapWorkletUrl = '/workers/recorder-tap.js';
 
 function join(chunks: Float32Array[]): Float32Array {
   const out = new Float32Array(chunks.reduce((n, c) => n + c.length, 0));
@@ -143,9 +130,7 @@ export async function openMicrophone(deviceId: string | null = null): Promise<Li
   let tap: AudioWorkletNode;
   let source: MediaStreamAudioSourceNode;
   try {
-    const url = URL.createObjectURL(new Blob([tapSource], { type: 'text/javascript' }));
-    await context.audioWorklet.addModule(url);
-    URL.revokeObjectURL(url);
+    await context.audioWorklet.addModule(tapWorkletUrl);
     if (context.state === 'suspended') await context.resume();
     source = context.createMediaStreamSource(stream);
     tap = new AudioWorkletNode(context, 'fourpoint-tap', {

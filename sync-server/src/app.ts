@@ -6,6 +6,7 @@ import helmet from 'helmet';
 import pino, { type Logger } from 'pino';
 import type { Sequelize } from 'sequelize';
 import { AppError } from './errors';
+import { contentSecurityPolicy } from './middleware/content-security-policy';
 import { errorHandler } from './middleware/error-handler';
 import { refuseNulCharacters } from './middleware/refuse-nul';
 import { DEFAULT_SIGN_IN_LIMITS, type SignInLimitOptions } from './middleware/rate-limits';
@@ -43,8 +44,7 @@ export function createApp(deps: AppDeps): Express {
   app.set('trust proxy', deps.trustProxy ?? false);
   app.use(
     helmet({
-      // The web export's bundles are not written for a CSP yet.
-      contentSecurityPolicy: false,
+      contentSecurityPolicy: contentSecurityPolicy(deps.webDist),
       crossOriginEmbedderPolicy: { policy: 'require-corp' },
       crossOriginOpenerPolicy: { policy: 'same-origin' },
       crossOriginResourcePolicy: { policy: 'same-origin' },
