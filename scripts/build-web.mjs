@@ -40,21 +40,28 @@ function upToDate() {
   return Math.max(...inputs) < built;
 }
 
-// The workers (Metro cannot bundle workers or worklets) and the offline layer (manifest, service worker) go on top.
+// The workers (Metro cannot bundle workers or worklets) and the offline layer (manifest, service worker) go on
+// top; compression comes last, since the offline layer rewrites index.html.
 async function addWorkerAndOfflineLayer() {
   const { buildWorker } = await import('./build-worker.mjs');
   const { buildPwa } = await import('./build-pwa.mjs');
+  const { compressWebExport } = await import('./compress-web.mjs');
   await buildWorker({ outDir: dist });
   const { count } = await buildPwa({ dist });
-  console.log(`Workers bundled; service worker precaches ${count} files.`);
+  // The marker counts as newer than every input even when the export reused cached files.
+  const now = new Date();
+  fs.utimesSync(marker, now, now);
+  const { files } = compressWebExport({ dist });
+  console.log(
+    `Workers bundled; service worker precaches ${count} files; ${files} files precompressed.`,
+  );
 }
 
 const force = process.argv.includes('--force');
 if (!force && upToDate()) {
-  const layer = ['sw.js', 'workers/analysis.js', 'workers/recorder-tap.js'];
-  if (!layer.every((file) => fs.existsSync(path.join(dist, file)))) {
+  const layerFiles = ['sw.js', 'workers/analysis.js', 'workers/recorder-tap.js', 'index.html.br'];
+  if (layerFiles.some((file) => !fs.existsSync(path.join(dist, file)))) {
     await addWorkerAndOfflineLayer();
-    fs.utimesSync(marker, new Date(), new Date());
   }
   console.log('Web export is up to date (dist/).');
   process.exit(0);
@@ -82,7 +89,4 @@ if (result.status !== 0 || !fs.existsSync(marker)) {
   process.exit(1);
 }
 await addWorkerAndOfflineLayer();
-// Touch the marker so an export that reused cached files still counts as newer than its inputs.
-const now = new Date();
-fs.utimesSync(marker, now, now);
 console.log(`Web export built in ${((Date.now() - started) / 1000).toFixed(1)} s.`);

@@ -1,5 +1,3 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import cookieParser from 'cookie-parser';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
@@ -12,6 +10,7 @@ import { refuseNulCharacters } from './middleware/refuse-nul';
 import { DEFAULT_SIGN_IN_LIMITS, type SignInLimitOptions } from './middleware/rate-limits';
 import { initModels } from './models';
 import { registerApiRoutes } from './routes/build-router';
+import { serveWebExport } from './web-export';
 
 export interface AppDeps {
   sequelize: Sequelize;
@@ -28,13 +27,6 @@ export interface AppDeps {
   /** Express's `trust proxy`; leave unset unless a known proxy sits in front. */
   trustProxy?: boolean | number | string;
 }
-
-// Cross-origin isolation lets the web app's SQLite use SharedArrayBuffer (see STACK.md).
-const isolationHeaders = {
-  'Cross-Origin-Opener-Policy': 'same-origin',
-  'Cross-Origin-Embedder-Policy': 'require-corp',
-  'Cross-Origin-Resource-Policy': 'same-origin',
-} as const;
 
 export function createApp(deps: AppDeps): Express {
   initModels(deps.sequelize);
@@ -70,30 +62,4 @@ export function createApp(deps: AppDeps): Express {
 
   app.use(errorHandler(logger));
   return app;
-}
-
-function serveWebExport(app: Express, webDist: string): void {
-  const root = path.resolve(webDist);
-  const indexHtml = path.join(root, 'index.html');
-  app.use(
-    express.static(root, {
-      index: 'index.html',
-      setHeaders: (res, filePath) => {
-        for (const [name, value] of Object.entries(isolationHeaders)) res.setHeader(name, value);
-        if (filePath.endsWith('.wasm')) res.setHeader('Content-Type', 'application/wasm');
-        if (filePath.endsWith('index.html') || filePath.endsWith('sw.js'))
-          res.setHeader('Cache-Control', 'no-cache');
-      },
-    }),
-  );
-  app.get('/{*splat}', (req, res, next) => {
-    // A missing file (it has an extension) is a 404, not the app shell.
-    if (req.path.startsWith('/api/') || path.extname(req.path) !== '' || !fs.existsSync(indexHtml)) {
-      next(new AppError('not_found', 'Not found.', 404));
-      return;
-    }
-    for (const [name, value] of Object.entries(isolationHeaders)) res.setHeader(name, value);
-    res.setHeader('Cache-Control', 'no-cache');
-    res.sendFile(indexHtml);
-  });
 }
