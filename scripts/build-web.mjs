@@ -52,9 +52,7 @@ async function addWorkerAndOfflineLayer() {
   const now = new Date();
   fs.utimesSync(marker, now, now);
   const { files } = compressWebExport({ dist });
-  console.log(
-    `Workers bundled; service worker precaches ${count} files; ${files} files precompressed.`,
-  );
+  console.log(`Workers bundled; service worker precaches ${count} files; ${files} files precompressed.`);
 }
 
 const force = process.argv.includes('--force');
