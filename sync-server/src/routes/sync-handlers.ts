@@ -71,7 +71,7 @@ export const syncBlobStatus: HandlerFactory = (deps) => async (req, res) => {
 /** tus requests (POST, HEAD, PATCH, DELETE) all go to the one tus server. */
 export const syncUploads: HandlerFactory = (deps) => async (req, res) => {
   requireProtocol(req);
-  await syncServicesFor(deps.sequelize).tus.handle(req, res);
+  await syncServicesFor(deps.sequelize).uploads.handle(req, res);
 };
 
 export const clinicPublicKey: HandlerFactory = (deps) => async (req, res) => {
