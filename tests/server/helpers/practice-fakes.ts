@@ -15,7 +15,7 @@ import {
 import { startSmtpFake, type SmtpFake } from '@/sync-server/fakes/smtp-fake';
 import { createSmtpMailService } from '@/sync-server/src/services/mail';
 import { createStripePaymentsService } from '@/sync-server/src/services/payments';
-import { deleteLocalBlob, setPracticeServices } from '@/sync-server/src/services/practice-services';
+import { setPracticeServices } from '@/sync-server/src/services/practice-services';
 
 export type PracticeFakes = {
   mail: SmtpFake;
@@ -44,7 +44,6 @@ export async function startPracticeFakes(app: Express): Promise<PracticeFakes> {
       webhookSecret: FAKE_WEBHOOK_SECRET,
       api: { host: '127.0.0.1', port: payments.port, protocol: 'http' },
     }),
-    deleteBlob: (key) => deleteLocalBlob(blobDir, key),
     publicBaseUrl: baseUrl,
     registerWebhook: true,
   });
