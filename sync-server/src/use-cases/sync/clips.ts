@@ -73,7 +73,7 @@ export async function receiveClip(
   if (failure)
     throw new AppError(
       'clip_unreadable',
-      `The clip arrived but cannot be opened: ${failure}. It was not kept.`,
+      `The clip arrived but cannot be opened: ${failure.replace(/\.$/, '')}. It was not kept.`,
       422,
     );
   return { sha256: opened.sha256, state, failure };
