@@ -10,6 +10,7 @@ const benchmarks = [
   { file: 'scripts/bench/capture-bench.ts', needsDatabase: false },
   { file: 'scripts/bench/sync-bench.ts', needsDatabase: true },
   { file: 'scripts/bench/review-bench.ts', needsDatabase: true },
+  { file: 'scripts/bench/clip-processing-bench.ts', needsDatabase: true },
 ];
 
 type Cluster = { url: string; stop: () => void };
