@@ -11,6 +11,7 @@ const benchmarks = [
   { file: 'scripts/bench/sync-bench.ts', needsDatabase: true },
   { file: 'scripts/bench/review-bench.ts', needsDatabase: true },
   { file: 'scripts/bench/web-delivery-bench.ts', needsDatabase: true },
+  { file: 'scripts/bench/clip-processing-bench.ts', needsDatabase: true },
 ];
 
 type Cluster = { url: string; stop: () => void };

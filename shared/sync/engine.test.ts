@@ -21,6 +21,11 @@ type Script = {
   reject?: Map<string, string>;
   /** Every call answers 426. */
   outdated?: boolean;
+  /**
+   * Uploads whose last byte arrives but which the server does not process then (it died in between): the bytes
+   * wait in staging until the next request for that upload, as a restarted server's HEAD processes them.
+   */
+  unprocessedUploads?: number;
 };
 
 class ScriptedServer implements SyncTransport {
@@ -28,10 +33,13 @@ class ScriptedServer implements SyncTransport {
   readonly pushedMutationIds: string[] = [];
   readonly rows = new Map<string, { version: number; change: Mutation['change'] }>();
   readonly blobs = new Map<string, Uint8Array>();
+  readonly staged = new Map<string, Uint8Array>();
   private dropsLeft: number;
+  private unprocessedLeft: number;
 
   constructor(private readonly script: Script = {}) {
     this.dropsLeft = script.drop ?? 0;
+    this.unprocessedLeft = script.unprocessedUploads ?? 0;
   }
 
   private gate(name: string): void {
@@ -74,8 +82,22 @@ class ScriptedServer implements SyncTransport {
 
   async uploadClip(upload: ClipUpload) {
     this.gate('uploadClip');
+    const url = `/uploads/${upload.sha256}`;
+    const staged = upload.uploadUrl === url ? this.staged.get(upload.sha256) : undefined;
+    if (staged) {
+      // The resumed upload's HEAD finds every byte staged: the server processes them and answers "complete".
+      this.staged.delete(upload.sha256);
+      this.blobs.set(upload.sha256, staged);
+      return;
+    }
+    await upload.onUploadUrl(url);
     upload.onProgress(upload.bytes.length / 2, upload.bytes.length);
     upload.onProgress(upload.bytes.length, upload.bytes.length);
+    if (this.unprocessedLeft > 0) {
+      this.unprocessedLeft--;
+      this.staged.set(upload.sha256, upload.bytes);
+      return;
+    }
     this.blobs.set(upload.sha256, upload.bytes);
   }
 }
@@ -219,5 +241,30 @@ describe('sync engine over a scripted transport', () => {
     await engine.sync();
     expect(engine.status.outdated).toBe(OUTDATED_CLIENT_MESSAGE);
     expect((await byId(storage)).get(item.id)).toMatchObject({ state: 'waiting', attempts: 0 });
+  });
+
+  test('when every byte of a clip arrives but the server has not stored it, then the clip is not counted as sent until the server says it is stored', async () => {
+    const { storage, server, clock, engine } = setup({ unprocessedUploads: 1 });
+    const bytes = new Uint8Array([9, 8, 7, 6]);
+    const hash = 'cd'.repeat(32);
+    storage.putBlob(hash, bytes);
+    const clip = clipItem({ id: randomUUID(), rowId: randomUUID(), blobHash: hash, sizeBytes: 4, now: 0 });
+    await storage.putOutboxItem(clip);
+
+    const first = await engine.sync();
+    expect(first.sent).toBe(0);
+    expect(server.calls).toEqual(['blobStatus', 'uploadClip', 'blobStatus', 'pull']);
+    expect((await byId(storage)).get(clip.id)).toMatchObject({
+      state: 'waiting',
+      uploadUrl: `/uploads/${hash}`,
+      lastError: expect.stringContaining('not stored yet'),
+    });
+    expect(server.blobs.has(hash)).toBe(false);
+
+    clock.now = 1_000;
+    const second = await engine.sync();
+    expect(second.sent).toBe(1);
+    expect((await byId(storage)).get(clip.id)).toMatchObject({ state: 'sent', progress: 1 });
+    expect(server.blobs.get(hash)).toEqual(bytes);
   });
 });

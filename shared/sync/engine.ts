@@ -294,7 +294,7 @@ export class SyncEngine {
       const sha256 = item.blobHash!;
       await storage.updateOutboxItem(item.id, { state: 'sending' });
       try {
-        const status = await this.o.transport.blobStatus(sha256);
+        let status = await this.o.transport.blobStatus(sha256);
         if (status.state !== 'stored') {
           if (status.state === 'failed' && !item.uploadUrl)
             throw new TransportError(status.failure ?? 'The server could not take this clip.', {
@@ -318,6 +318,19 @@ export class SyncEngine {
               void storage.updateOutboxItem(item.id, { progress });
             },
           });
+          // Every byte arrived, which is not yet the clip kept: only the server's word that it is stored counts.
+          status = await this.o.transport.blobStatus(sha256);
+          if (status.state === 'failed')
+            throw new TransportError(status.failure ?? 'The server could not take this clip.', {
+              temporary: false,
+            });
+          if (status.state !== 'stored')
+            throw new TransportError(
+              'The clip reached the server but is not stored yet; it will be checked again.',
+              {
+                temporary: true,
+              },
+            );
         }
         await storage.updateOutboxItem(item.id, {
           state: 'sent',

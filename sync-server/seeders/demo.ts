@@ -354,7 +354,7 @@ async function repairVisit(
   for (const recording of recordings) {
     if (!recording.clipSha256) continue;
     const blob = await ClipBlob.findByPk(recording.clipSha256, { transaction });
-    const fileMissing = !blob || !(await options.blobStore.has(blob.storageKey));
+    const fileMissing = !blob?.storageKey || !(await options.blobStore.has(blob.storageKey));
     const analysisMissing = recording.analysis == null && options.analyse !== undefined;
     if (!fileMissing && !analysisMissing) continue;
     const clip = demoClip(client, index, visit, recording.site);

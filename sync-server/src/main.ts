@@ -6,6 +6,7 @@ import { createSequelize } from './db/database';
 import { startFollowUpReminderJob } from './jobs/follow-up-reminders';
 import { startReportMailRetryJob } from './jobs/report-mail-retries';
 import { practiceServices } from './services/practice-services';
+import { syncServicesFor } from './services/sync-services';
 import { purgeErased } from './use-cases/clients/erase-client';
 import { reviewServices } from './use-cases/review/services';
 
@@ -40,6 +41,13 @@ function startBackgroundJobs(sequelize: ReturnType<typeof createSequelize>, jwtS
     );
   }, PURGE_INTERVAL_MS);
   purge.unref();
+  // The server may have died between an upload's last byte and its processing: those clips are processed now.
+  syncServicesFor(sequelize)
+    .uploads.processStaged()
+    .then(
+      (counts) => logger.info(counts, 'staged uploads processed at start-up'),
+      (error) => logger.warn({ err: error }, 'staged uploads could not be processed at start-up'),
+    );
   return { stop: () => (reminders.stop(), mailRetries.stop(), clearInterval(purge)) };
 }
 

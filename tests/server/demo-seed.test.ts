@@ -93,7 +93,7 @@ describe('demo seed', () => {
     const blob = await ClipBlob.findByPk(site!.clipSha256!);
     expect(blob).toMatchObject({ state: 'stored', contentType: 'audio/wav', clinicId: DEMO_CLINIC_ID });
     // The store may be another run's folder; re-seeding here wrote the same content-addressed files.
-    const bytes = await blobStore.get(blob!.storageKey);
+    const bytes = await blobStore.get(blob!.storageKey!);
     expect(bytes).not.toBeNull();
     expect(sha256Hex(bytes!)).toBe(blob!.sha256);
     expect(Number(blob!.sizeBytes)).toBe(bytes!.length);

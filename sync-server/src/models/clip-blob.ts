@@ -16,7 +16,8 @@ export class ClipBlob extends Model<InferAttributes<ClipBlob>, InferCreationAttr
   /** bigint column, so a string. */
   declare sizeBytes: string | number;
   declare contentType: string;
-  declare storageKey: string;
+  /** null when the clip was refused: a refused clip keeps no bytes. */
+  declare storageKey: string | null;
   declare state: CreationOptional<ClipBlobState>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -29,7 +30,7 @@ export function initClipBlob(sequelize: Sequelize): void {
       clinicId: { type: DataTypes.UUID, allowNull: false },
       sizeBytes: { type: DataTypes.BIGINT, allowNull: false },
       contentType: { type: DataTypes.TEXT, allowNull: false },
-      storageKey: { type: DataTypes.TEXT, allowNull: false },
+      storageKey: { type: DataTypes.TEXT, allowNull: true },
       state: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'receiving' },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

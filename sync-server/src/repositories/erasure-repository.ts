@@ -108,7 +108,7 @@ export async function deleteUnreferencedBlobs(
   transaction: Transaction,
 ) {
   if (hashes.length === 0) return [];
-  return selectRows<{ storage_key: string }>(
+  return selectRows<{ storage_key: string | null }>(
     sequelize,
     `DELETE FROM clip_blobs b WHERE b.clinic_id = :clinicId AND b.sha256 IN (:hashes)
        AND NOT EXISTS (SELECT 1 FROM site_recordings r WHERE r.clip_sha256 = b.sha256 AND r.clinic_id = b.clinic_id)
@@ -129,6 +129,49 @@ export const insertErasure = (
      VALUES (:id, :clinicId, :clientId, :requestedBy, now(), :blobsDeleted)`,
     row,
     transaction,
+  );
+
+/**
+ * Records, in the erasure's transaction, each blob whose bytes must go: the row stays until the blob store
+ * confirms the delete, so a crash or a store outage after the commit is retried instead of forgotten.
+ */
+export async function queueBlobDeletions(
+  sequelize: Sequelize,
+  row: { clinicId: string; erasureId: string; storageKeys: string[] },
+  transaction: Transaction,
+): Promise<void> {
+  if (row.storageKeys.length === 0) return;
+  await execute(
+    sequelize,
+    `INSERT INTO blob_deletions (storage_key, clinic_id, erasure_id)
+     SELECT unnest(ARRAY[:storageKeys]::text[]), :clinicId, :erasureId ON CONFLICT (storage_key) DO NOTHING`,
+    row,
+    transaction,
+  );
+}
+
+/** Blob deletes still waiting, with whether a clip row (of any clinic) still needs the bytes. */
+export const pendingBlobDeletions = (
+  sequelize: Sequelize,
+  filter: { erasureId?: string; clinicId?: string },
+) =>
+  selectRows<{ storage_key: string; still_needed: boolean }>(
+    sequelize,
+    `SELECT d.storage_key, EXISTS (SELECT 1 FROM clip_blobs b WHERE b.storage_key = d.storage_key) AS still_needed
+     FROM blob_deletions d
+     WHERE (:erasureId::uuid IS NULL OR d.erasure_id = :erasureId) AND (:clinicId::uuid IS NULL OR d.clinic_id = :clinicId)
+     ORDER BY d.created_at`,
+    { erasureId: filter.erasureId ?? null, clinicId: filter.clinicId ?? null },
+  );
+
+export const blobDeletionDone = (sequelize: Sequelize, storageKey: string) =>
+  execute(sequelize, `DELETE FROM blob_deletions WHERE storage_key = :storageKey`, { storageKey });
+
+export const blobDeletionFailed = (sequelize: Sequelize, storageKey: string, error: string) =>
+  execute(
+    sequelize,
+    `UPDATE blob_deletions SET attempts = attempts + 1, last_error = :error, updated_at = now() WHERE storage_key = :storageKey`,
+    { storageKey, error },
   );
 
 /** The second step: once devices have had time to pull the tombstones, the rows themselves go. */

@@ -352,6 +352,15 @@ export class SyncRepository {
     return rows.map((r) => ({ entity: r.entity, ...toStored(r.entity, r.raw) }));
   }
 
+  /** The kept size of a stored clip, or null when this clinic has no stored clip with this hash. */
+  async storedClipSize(clinicId: string, sha256: string): Promise<number | null> {
+    const [row] = await this.select<{ size_bytes: string }>(
+      `SELECT size_bytes FROM clip_blobs WHERE sha256 = $1 AND clinic_id = $2 AND state = 'stored'`,
+      [sha256, clinicId],
+    );
+    return row ? Number(row.size_bytes) : null;
+  }
+
   async clipBlob(
     clinicId: string,
     sha256: string,
@@ -367,7 +376,8 @@ export class SyncRepository {
     sha256: string;
     clinicId: string;
     sizeBytes: number;
-    storageKey: string;
+    /** null for a clip that was refused: its bytes are not kept. */
+    storageKey: string | null;
     state: 'stored' | 'failed';
     analysis: unknown;
     failure: string | null;

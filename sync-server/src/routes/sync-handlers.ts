@@ -74,7 +74,7 @@ export const syncUploads: HandlerFactory = (deps) => async (req, res) => {
   // tus takes the upload id from the end of req.url, query and all, and decodes it again; the tus routes take
   // no query, so it gets the path alone (a stray `%` after `?` made it throw).
   req.url = req.path;
-  await syncServicesFor(deps.sequelize).tus.handle(req, res);
+  await syncServicesFor(deps.sequelize).uploads.handle(req, res);
 };
 
 export const clinicPublicKey: HandlerFactory = (deps) => async (req, res) => {

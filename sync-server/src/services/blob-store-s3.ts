@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import {
   DeleteObjectCommand,
   GetObjectCommand,
@@ -65,6 +66,23 @@ export class S3BlobStore implements BlobStore {
       );
     }
     return { sha256, storageKey, sizeBytes: bytes.byteLength };
+  }
+
+  async putFile(file: string, sha256: string, sizeBytes: number) {
+    const storageKey = blobKeyFor(sha256);
+    if (!(await this.has(storageKey))) {
+      await this.client.send(
+        new PutObjectCommand({
+          Bucket: this.bucket,
+          Key: this.objectKey(storageKey),
+          Body: fs.createReadStream(file),
+          ContentType: 'application/octet-stream',
+          ContentLength: sizeBytes,
+          Metadata: { sha256 },
+        }),
+      );
+    }
+    return { sha256, storageKey, sizeBytes };
   }
 
   async get(storageKey: string) {

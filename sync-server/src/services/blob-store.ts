@@ -2,10 +2,17 @@ import { createHash, randomUUID } from 'node:crypto';
 import fs from 'node:fs/promises';
 import path from 'node:path';
 
+export type StoredBlob = { sha256: string; storageKey: string; sizeBytes: number };
+
 /** Content-addressed storage for clip bytes: local disk by default, S3-compatible storage by configuration. */
 export interface BlobStore {
   /** Stores the bytes under their sha256 and returns the key; storing the same bytes again is a no-op. */
-  put(bytes: Uint8Array): Promise<{ sha256: string; storageKey: string; sizeBytes: number }>;
+  put(bytes: Uint8Array): Promise<StoredBlob>;
+  /**
+   * Stores a file's bytes, streamed from disk, under the sha256 the caller already computed while checking them
+   * (a received clip is hashed in the clip worker, so it is not read twice on the request thread).
+   */
+  putFile(file: string, sha256: string, sizeBytes: number): Promise<StoredBlob>;
   /** null when nothing is stored under the key. */
   get(storageKey: string): Promise<Buffer | null>;
   has(storageKey: string): Promise<boolean>;
@@ -42,6 +49,22 @@ export class LocalDiskBlobStore implements BlobStore {
       await fs.rename(temp, file);
     }
     return { sha256, storageKey, sizeBytes: bytes.byteLength };
+  }
+
+  async putFile(source: string, sha256: string, sizeBytes: number) {
+    const storageKey = blobKeyFor(sha256);
+    const file = this.fileFor(storageKey);
+    if (!(await this.has(storageKey))) {
+      await fs.mkdir(path.dirname(file), { recursive: true });
+      const temp = `${file}.${randomUUID()}.part`;
+      try {
+        await fs.copyFile(source, temp);
+        await fs.rename(temp, file);
+      } finally {
+        await fs.rm(temp, { force: true });
+      }
+    }
+    return { sha256, storageKey, sizeBytes };
   }
 
   async get(storageKey: string) {

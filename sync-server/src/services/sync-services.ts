@@ -1,18 +1,19 @@
 import path from 'node:path';
-import type { Server } from '@tus/server';
 import type { Sequelize } from 'sequelize';
 import { readSecrets } from '../config/secrets';
 import { receiveClip } from '../use-cases/sync/clips';
 import type { BlobStore } from './blob-store';
 import { blobStoreFromEnv } from './blob-store-config';
 import { ClinicKeyStore } from './clinic-keys';
-import { createTusServer } from './tus-uploads';
+import { clipWorker } from './clip-worker';
+import { SyncRepository } from '../repositories/sync-repository';
+import { createClipUploads, type ClipUploads, type TusHooks } from './tus-uploads';
 
 export interface SyncServices {
   blobStore: BlobStore;
   clinicKeys: ClinicKeyStore;
   uploadDir: string;
-  tus: Server;
+  uploads: ClipUploads;
 }
 
 const REPO_ROOT = path.resolve(__dirname, '../../..');
@@ -31,19 +32,31 @@ export function syncServicesFor(sequelize: Sequelize): SyncServices {
 
 export function provideSyncServices(
   sequelize: Sequelize,
-  options: { blobStore?: BlobStore; clinicKeysDir?: string; uploadDir?: string },
+  options: {
+    blobStore?: BlobStore;
+    clinicKeysDir?: string;
+    uploadDir?: string;
+    afterLastByte?: TusHooks['afterLastByte'];
+  },
 ): SyncServices {
   const data = path.join(REPO_ROOT, '.data');
   const blobStore =
     options.blobStore ?? blobStoreFromEnv(process.env, process.env.BLOB_DIR ?? path.join(data, 'blobs'));
   const clinicKeys = new ClinicKeyStore(options.clinicKeysDir ?? readSecrets().clinicKeysDir);
   const uploadDir = options.uploadDir ?? process.env.UPLOAD_DIR ?? path.join(data, 'uploads');
-  const tus = createTusServer(uploadDir, {
-    onComplete: async (clinicId, sha256, bytes) => {
-      await receiveClip({ sequelize, blobStore, clinicKeys }, clinicId, sha256, bytes);
+  const uploads = createClipUploads(uploadDir, {
+    onComplete: async (clinicId, sha256, stagedFile) => {
+      await receiveClip(
+        { sequelize, blobStore, clinicKeys, clipWorker: clipWorker() },
+        clinicId,
+        sha256,
+        stagedFile,
+      );
     },
+    storedSize: (clinicId, sha256) => new SyncRepository(sequelize).storedClipSize(clinicId, sha256),
+    afterLastByte: options.afterLastByte,
   });
-  const services = { blobStore, clinicKeys, uploadDir, tus };
+  const services = { blobStore, clinicKeys, uploadDir, uploads };
   bySequelize.set(sequelize, services);
   return services;
 }

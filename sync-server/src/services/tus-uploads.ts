@@ -11,9 +11,29 @@ import { callerOf } from '../middleware/authenticate';
 export const MAX_CLIP_BYTES = 64 * 1024 * 1024;
 
 export interface TusHooks {
-  /** Called with the whole sealed upload once its last byte is in. Throw an AppError to refuse it. */
-  onComplete(clinicId: string, sha256: string, bytes: Uint8Array): Promise<void>;
+  /** Called once every byte of an upload is in `stagedFile`. Throw an AppError to refuse it. */
+  onComplete(clinicId: string, sha256: string, stagedFile: string): Promise<void>;
+  /** The size of the clip this clinic keeps under this hash, or null: HEAD answers for an upload already processed. */
+  storedSize(clinicId: string, sha256: string): Promise<number | null>;
+  /** Test seam, called after the last byte is written and before it is processed: the crash test dies here. */
+  afterLastByte?(uploadId: string): void;
 }
+
+/** What became of a staged upload. */
+export type StagedOutcome =
+  { kind: 'absent' } | { kind: 'incomplete' } | { kind: 'stored' } | { kind: 'refused'; error: AppError };
+
+export interface ClipUploads {
+  /** Every tus request. A HEAD for a complete upload processes it first (it may have arrived before a crash). */
+  handle(req: http.IncomingMessage, res: http.ServerResponse): Promise<void>;
+  /**
+   * Processes every upload whose bytes are all staged (run at start-up: the server may have died between the
+   * last byte and its processing). Uploads still missing bytes are left for their device to finish.
+   */
+  processStaged(): Promise<{ stored: number; refused: number; failed: number }>;
+}
+
+const UPLOAD_ID = /^([0-9a-f-]{36})\.([0-9a-f]{64})\.([0-9a-z]+)$/;
 
 const refuse = (status: number, message: string) => ({
   status_code: status,
@@ -35,9 +55,46 @@ function checkUploadId(uploadId: string, clinicId: string): void {
  * Resumable clip uploads (tus 1.0). Uploads are named `<clinicId>.<sha256>.<random>`, so a request for another
  * clinic's upload is refused before tus touches it. The routes in front have already checked the caller's role.
  */
-export function createTusServer(directory: string, hooks: TusHooks): Server {
+export function createClipUploads(directory: string, hooks: TusHooks): ClipUploads {
   const datastore = new FileStore({ directory });
-  return new Server({
+  const inFlight = new Map<string, Promise<StagedOutcome>>();
+
+  // One processing per upload at a time: the last PATCH, a HEAD and the start-up scan may all ask at once.
+  const settle = (uploadId: string): Promise<StagedOutcome> => {
+    const running = inFlight.get(uploadId);
+    if (running) return running;
+    const started = settleOnce(uploadId).finally(() => inFlight.delete(uploadId));
+    inFlight.set(uploadId, started);
+    return started;
+  };
+
+  const settleOnce = async (uploadId: string): Promise<StagedOutcome> => {
+    const [, clinicId, sha256] = UPLOAD_ID.exec(uploadId) ?? [];
+    if (!clinicId) return { kind: 'absent' };
+    const file = path.join(directory, uploadId);
+    let upload;
+    try {
+      upload = await datastore.getUpload(uploadId);
+    } catch {
+      return { kind: 'absent' };
+    }
+    if (upload.size === undefined || upload.offset !== upload.size) return { kind: 'incomplete' };
+    let outcome: StagedOutcome;
+    try {
+      await hooks.onComplete(clinicId, sha256, file);
+      outcome = { kind: 'stored' };
+    } catch (error) {
+      // Anything but a refusal (the database or the blob store down) keeps the staged bytes for a retry.
+      if (!(error instanceof AppError)) throw error;
+      outcome = { kind: 'refused', error };
+    }
+    // Kept in the blob store, or refused: either way the staged bytes and their .json sidecar go.
+    await fs.rm(file, { force: true });
+    await fs.rm(`${file}.json`, { force: true });
+    return outcome;
+  };
+
+  const tus = new Server({
     path: SYNC_PATHS.uploads,
     datastore,
     maxSize: MAX_CLIP_BYTES,
@@ -53,21 +110,59 @@ export function createTusServer(directory: string, hooks: TusHooks): Server {
       const caller = callerOf(req as Request);
       if (uploadId) checkUploadId(uploadId, caller.clinicId);
     },
-    onUploadFinish: async (req: http.IncomingMessage, res: http.ServerResponse, upload) => {
-      const [clinicId, sha256] = upload.id.split('.');
-      const file = path.join(directory, upload.id);
-      const bytes = new Uint8Array(await fs.readFile(file));
-      try {
-        await hooks.onComplete(clinicId, sha256, bytes);
-      } catch (error) {
-        if (error instanceof AppError) throw refuse(error.httpStatus, error.message);
-        throw error;
-      } finally {
-        // The blob store holds the kept copy; the staging file and its .json sidecar can go.
-        await fs.rm(file, { force: true });
-        await fs.rm(`${file}.json`, { force: true });
-      }
+    onUploadFinish: async (_req: http.IncomingMessage, res: http.ServerResponse, upload) => {
+      hooks.afterLastByte?.(upload.id);
+      const outcome = await settle(upload.id);
+      if (outcome.kind === 'refused') throw refuse(outcome.error.httpStatus, outcome.error.message);
       return res;
     },
   });
+
+  /** The caller's upload id when this is a HEAD for one, else null (tus then answers as usual). */
+  const headedUpload = (req: http.IncomingMessage): string | null => {
+    if (req.method !== 'HEAD') return null;
+    const id = new URL(req.url ?? '', 'http://uploads.invalid').pathname.split('/').pop() ?? '';
+    const match = UPLOAD_ID.exec(id);
+    return match && match[1] === callerOf(req as Request).clinicId ? id : null;
+  };
+
+  return {
+    async handle(req, res) {
+      const uploadId = headedUpload(req);
+      if (uploadId) {
+        const outcome = await settle(uploadId);
+        if (outcome.kind === 'stored' || outcome.kind === 'absent') {
+          const [, clinicId, sha256] = UPLOAD_ID.exec(uploadId)!;
+          const size = await hooks.storedSize(clinicId, sha256);
+          if (size !== null) {
+            // The staged bytes are gone because they are kept: to the device this upload is complete.
+            res.writeHead(200, {
+              'Tus-Resumable': '1.0.0',
+              'Upload-Offset': String(size),
+              'Upload-Length': String(size),
+              'Cache-Control': 'no-store',
+            });
+            res.end();
+            return;
+          }
+        }
+      }
+      await tus.handle(req, res);
+    },
+    async processStaged() {
+      const counts = { stored: 0, refused: 0, failed: 0 };
+      const entries = await fs.readdir(directory).catch(() => [] as string[]);
+      for (const name of entries) {
+        if (!name.endsWith('.json')) continue;
+        try {
+          const outcome = await settle(name.slice(0, -'.json'.length));
+          if (outcome.kind === 'stored') counts.stored++;
+          if (outcome.kind === 'refused') counts.refused++;
+        } catch {
+          counts.failed++;
+        }
+      }
+      return counts;
+    },
+  };
 }

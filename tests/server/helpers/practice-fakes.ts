@@ -11,7 +11,7 @@ import { startSmtpFake, type SmtpFake } from '@/sync-server/fakes/smtp-fake';
 import { readSecrets } from '@/sync-server/src/config/secrets';
 import { createSmtpMailService } from '@/sync-server/src/services/mail';
 import { createStripePaymentsService } from '@/sync-server/src/services/payments';
-import { deleteLocalBlob, setPracticeServices } from '@/sync-server/src/services/practice-services';
+import { setPracticeServices } from '@/sync-server/src/services/practice-services';
 import { configureReviewServices } from '@/sync-server/src/use-cases/review/services';
 
 export type PracticeFakes = {
@@ -43,7 +43,6 @@ export async function startPracticeFakes(app: Express): Promise<PracticeFakes> {
       webhookSecret,
       api: { host: '127.0.0.1', port: payments.port, protocol: 'http' },
     }),
-    deleteBlob: (key) => deleteLocalBlob(blobDir, key),
     publicBaseUrl: baseUrl,
     registerWebhook: true,
   });

@@ -12,7 +12,7 @@ import {
   mutationItem,
   type SyncEngineOptions,
 } from '@/shared/sync';
-import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
+import { LocalDiskBlobStore, type BlobStore } from '@/sync-server/src/services/blob-store';
 import { provideSyncServices, type SyncServices } from '@/sync-server/src/services/sync-services';
 import { makeClinic, makeTestContext, signIn, type TestClinic, type TestContext } from '../helpers/test-app';
 
@@ -27,13 +27,13 @@ export interface SyncTestServer {
 
 /** The real app on a loopback port with its own key, blob and upload folders. */
 export async function startSyncServer(
-  options: { dataDir?: string; jwtSecret?: string; port?: number } = {},
+  options: { dataDir?: string; jwtSecret?: string; port?: number; blobStore?: BlobStore } = {},
 ): Promise<SyncTestServer> {
   const ctx = makeTestContext(options.jwtSecret ? { jwtSecret: options.jwtSecret } : {});
   if (options.jwtSecret) ctx.jwtSecret = options.jwtSecret;
   const dataDir = options.dataDir ?? fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-sync-'));
   const services = provideSyncServices(ctx.sequelize, {
-    blobStore: new LocalDiskBlobStore(path.join(dataDir, 'blobs')),
+    blobStore: options.blobStore ?? new LocalDiskBlobStore(path.join(dataDir, 'blobs')),
     clinicKeysDir: path.join(dataDir, 'keys'),
     uploadDir: path.join(dataDir, 'uploads'),
   });

@@ -4,7 +4,7 @@ import { syncEntities } from '@/shared/protocol/sync';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as repo from '../../repositories/erasure-repository';
-import { practiceServices } from '../../services/practice-services';
+import { syncServicesFor } from '../../services/sync-services';
 import type { Caller, UseCaseDeps } from '../context';
 import { requireFieldWrites } from '../field-access';
 import { clientNotFound } from './client-records';
@@ -47,6 +47,12 @@ export async function eraseClient(
       },
       transaction,
     );
+    const storageKeys = blobs.map((b) => b.storage_key).filter((key): key is string => key !== null);
+    await repo.queueBlobDeletions(
+      deps.sequelize,
+      { clinicId: caller.clinicId, erasureId, storageKeys },
+      transaction,
+    );
     // The log keeps that an erasure happened, by whom and when, and counts: never the erased data.
     await recordAuditEvent(
       {
@@ -60,18 +66,46 @@ export async function eraseClient(
       },
       transaction,
     );
-    return { rowsTombstoned, storageKeys: blobs.map((b) => b.storage_key) };
+    return { rowsTombstoned };
   });
-  // The rows no longer point at the files, so a failure here leaves only unreachable bytes; the next purge retries.
-  const services = practiceServices();
-  for (const key of outcome.storageKeys) await services.deleteBlob(key).catch(() => undefined);
-  return { erasureId, rowsTombstoned: outcome.rowsTombstoned, blobsDeleted: outcome.storageKeys.length };
+  const blobsDeleted = await deleteQueuedBlobs(deps, { erasureId });
+  return { erasureId, rowsTombstoned: outcome.rowsTombstoned, blobsDeleted };
+}
+
+/**
+ * Deletes queued blobs from the configured blob store (local disk or S3). A delete that fails stays queued with
+ * its error and attempt count, for the purge to retry; bytes another clip row still names are left alone.
+ * Returns how many were deleted now.
+ */
+export async function deleteQueuedBlobs(
+  deps: UseCaseDeps,
+  filter: { erasureId?: string; clinicId?: string },
+): Promise<number> {
+  const { blobStore } = syncServicesFor(deps.sequelize);
+  let deleted = 0;
+  for (const pending of await repo.pendingBlobDeletions(deps.sequelize, filter)) {
+    try {
+      if (!pending.still_needed) {
+        await blobStore.delete(pending.storage_key);
+        deleted++;
+      }
+      await repo.blobDeletionDone(deps.sequelize, pending.storage_key);
+    } catch (error) {
+      await repo.blobDeletionFailed(
+        deps.sequelize,
+        pending.storage_key,
+        error instanceof Error ? error.message : String(error),
+      );
+    }
+  }
+  return deleted;
 }
 
 export async function purgeErased(
   deps: UseCaseDeps,
   options: { graceMs?: number; clinicId?: string } = {},
 ): Promise<number> {
+  await deleteQueuedBlobs(deps, { clinicId: options.clinicId });
   const before = new Date(Date.now() - (options.graceMs ?? PURGE_GRACE_MS));
   const purged = await deps.sequelize.transaction((transaction) =>
     repo.purgeErasedClients(deps.sequelize, before, transaction, options.clinicId),

@@ -1,16 +1,16 @@
 import type { Sequelize } from 'sequelize';
 import type { BlobStatusResponse } from '@/shared/protocol/sync';
-import { openClip, SealError, sha256Hex } from '@/shared/seal';
 import { AppError } from '../../errors';
 import { SyncRepository } from '../../repositories/sync-repository';
 import type { BlobStore } from '../../services/blob-store';
 import type { ClinicKeyStore } from '../../services/clinic-keys';
-import { analyseClip } from './analyse-clip';
+import type { ClipWorker } from '../../services/clip-worker';
 
 export interface ClipDeps {
   sequelize: Sequelize;
   blobStore: BlobStore;
   clinicKeys: ClinicKeyStore;
+  clipWorker: ClipWorker;
 }
 
 export async function blobStatus(
@@ -26,50 +26,55 @@ export async function blobStatus(
 }
 
 /**
- * An upload is complete: check its hash, keep the sealed bytes, open them with the clinic's key, re-run the
- * analysis and attach the result of record to every site recording that names this clip.
+ * An upload's bytes are all in `stagedFile`: check its hash, open it with the clinic's key and re-run the analysis
+ * (in the clip worker, off the request thread), then keep the sealed bytes and attach the result of record to
+ * every site recording that names this clip. A refused clip (wrong hash, not sealed, sealed for another clinic,
+ * unreadable) keeps no bytes: it throws an AppError before anything reaches the blob store.
  */
 export async function receiveClip(
   deps: ClipDeps,
   clinicId: string,
   declaredSha256: string,
-  sealed: Uint8Array,
+  stagedFile: string,
 ): Promise<BlobStatusResponse> {
-  const actual = sha256Hex(sealed);
-  if (actual !== declaredSha256) {
+  const opened = await deps.clipWorker.open({
+    file: stagedFile,
+    declaredSha256,
+    clinicPrivateKey: deps.clinicKeys.privateKey(clinicId),
+  });
+  if (opened.state === 'hash_mismatch') {
     throw new AppError(
       'hash_mismatch',
-      `The uploaded clip does not match its hash (expected ${declaredSha256.slice(0, 12)}…, got ${actual.slice(0, 12)}…). It was not kept; the device will send it again.`,
+      `The uploaded clip does not match its hash (expected ${declaredSha256.slice(0, 12)}…, got ${opened.sha256.slice(0, 12)}…). It was not kept; the device will send it again.`,
       422,
     );
   }
-  const stored = await deps.blobStore.put(sealed);
-
-  let analysis: unknown = null;
-  let failure: string | null = null;
-  try {
-    const plain = openClip(sealed, deps.clinicKeys.privateKey(clinicId));
-    analysis = analyseClip(plain);
-  } catch (error) {
-    if (!(error instanceof SealError)) throw error;
-    failure = error.message;
-  }
-  const state = failure ? 'failed' : 'stored';
+  const stored =
+    opened.state === 'opened'
+      ? await deps.blobStore.putFile(stagedFile, opened.sha256, opened.sizeBytes)
+      : null;
+  const state = stored ? 'stored' : 'failed';
+  const analysis = opened.state === 'opened' ? opened.analysis : null;
+  const failure = opened.state === 'unreadable' ? opened.failure : null;
   await deps.sequelize.transaction(async (transaction) => {
     const repo = new SyncRepository(deps.sequelize, transaction);
     await repo.lockClinicForWrite(clinicId);
     await repo.saveClipBlob({
-      sha256: actual,
+      sha256: opened.sha256,
       clinicId,
-      sizeBytes: stored.sizeBytes,
-      storageKey: stored.storageKey,
+      sizeBytes: opened.sizeBytes,
+      storageKey: stored?.storageKey ?? null,
       state,
       analysis,
       failure,
     });
-    await repo.attachClipToRecordings(clinicId, actual, state, analysis);
+    await repo.attachClipToRecordings(clinicId, opened.sha256, state, analysis);
   });
   if (failure)
-    throw new AppError('clip_unreadable', `The clip arrived but cannot be opened: ${failure}`, 422);
-  return { sha256: actual, state, failure };
+    throw new AppError(
+      'clip_unreadable',
+      `The clip arrived but cannot be opened: ${failure.replace(/\.$/, '')}. It was not kept.`,
+      422,
+    );
+  return { sha256: opened.sha256, state, failure };
 }
