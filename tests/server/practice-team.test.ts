@@ -55,7 +55,7 @@ describe('invitations', () => {
     const { token } = await invite(email);
     const common = await request(ctx.app)
       .post(`/api/invitations/${token}/accept`)
-      .send({ name: 'Rowan Vale', password: 'password1234' });
+      .send({ email, name: 'Rowan Vale', password: 'password1234' });
     expect(common.status).toBe(400);
     expect(common.body.error).toMatchObject({
       code: 'weak_password',
@@ -63,17 +63,17 @@ describe('invitations', () => {
     });
     const withEmail = await request(ctx.app)
       .post(`/api/invitations/${token}/accept`)
-      .send({ name: 'Rowan Vale', password: `My ${email} pass` });
+      .send({ email, name: 'Rowan Vale', password: `My ${email} pass` });
     expect(withEmail.status).toBe(400);
     expect(withEmail.body.error.message).toMatch(/Do not use your e-mail address/);
     const short = await request(ctx.app)
       .post(`/api/invitations/${token}/accept`)
-      .send({ name: 'Rowan Vale', password: 'Zq8#vLp2!mW' });
+      .send({ email, name: 'Rowan Vale', password: 'Zq8#vLp2!mW' });
     expect(short.status).toBe(400);
     expect(short.body.error.message).toMatch(/at least 12 characters/);
     const accepted = await request(ctx.app)
       .post(`/api/invitations/${token}/accept`)
-      .send({ name: 'Rowan Vale', password: 'tidewater brass lantern' });
+      .send({ email, name: 'Rowan Vale', password: 'tidewater brass lantern' });
     expect(accepted.status).toBe(201);
   });
 
