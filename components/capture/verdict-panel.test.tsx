@@ -12,6 +12,7 @@ function analysis(
     heartRateBpm: 72.4,
     sounds: [],
     quality: { verdict, reasons } as AnalysisResult['quality'],
+    screen: { murmur: 'unlikely', score: 0.1, reasons: [] },
     analysisVersion: 'test',
     metrics: { irregularRhythm: false } as AnalysisResult['metrics'],
   };
