@@ -23,12 +23,12 @@ describeWithOpenData(
       expect(f.sensitivity).toBeGreaterThanOrEqual(0.94);
     });
 
-    test('when patients without a murmur are scored, then at least 62 % are called unlikely (measured 63.9 %)', () => {
+    test('when patients without a murmur are scored, then at least 62 % are called unlikely (measured 64.7 %)', () => {
       expect(f.absent).toBe(133);
       expect(f.specificity).toBeGreaterThanOrEqual(0.62);
     });
 
-    test('when scored as in the 2022 challenge (Present 5, Unknown 3, Absent 1), then the weighted accuracy is at least 76 % (measured 78.2 %)', () => {
+    test('when scored as in the 2022 challenge (Present 5, Unknown 3, Absent 1), then the weighted accuracy is at least 76 % (measured 78.5 %)', () => {
       expect(f.weightedAccuracy).toBeGreaterThanOrEqual(0.76);
     });
     // the second folder sits beside the first: checking it covers both

@@ -1,5 +1,5 @@
 import { butter, type TransferFunction } from './butterworth';
-import { filtfilt } from './filtfilt';
+import { lfilter } from './filtfilt';
 import type { SoundSpan } from './measurements';
 import type { MurmurScreen, Quality } from './types';
 import { median } from './variability';
@@ -71,19 +71,16 @@ interface Span {
   end: number;
 }
 
-const bandFilters = new Map<number, { high: TransferFunction; low: TransferFunction }>();
+const highPassFilters = new Map<number, TransferFunction>();
 
-function splitFilters(sampleRate: number) {
-  let pair = bandFilters.get(sampleRate);
-  if (!pair) {
-    pair = {
-      high: butter(2, SPLIT_HZ, sampleRate, 'highpass'),
-      low: butter(2, SPLIT_HZ, sampleRate, 'lowpass'),
-    };
-    if (bandFilters.size > 8) bandFilters.clear();
-    bandFilters.set(sampleRate, pair);
+function highPassFilter(sampleRate: number): TransferFunction {
+  let filter = highPassFilters.get(sampleRate);
+  if (!filter) {
+    filter = butter(2, SPLIT_HZ, sampleRate, 'highpass');
+    if (highPassFilters.size > 8) highPassFilters.clear();
+    highPassFilters.set(sampleRate, filter);
   }
-  return pair;
+  return filter;
 }
 
 function meanSquare(signal: Float64Array, { start, end }: Span): number {
@@ -125,9 +122,12 @@ export function murmurFeatures(
   sampleRate: number,
   sounds: SoundSpan[],
 ): MurmurFeatures | null {
-  const { high: highPass, low: lowPass } = splitFilters(sampleRate);
-  const high = filtfilt(highPass, signal);
-  const low = filtfilt(lowPass, signal);
+  // one forward pass: only powers over intervals are used, so the filter's phase does not matter, and the low
+  // band is what the high band leaves (keeps the screen within the analysis's speed budget)
+  const { b, a } = highPassFilter(sampleRate);
+  const high = lfilter(b, a, signal);
+  const low = new Float64Array(signal.length);
+  for (let i = 0; i < signal.length; i++) low[i] = signal[i] - high[i];
   const minLength = MIN_INTERVAL_S * sampleRate;
   // a level 60 dB under the clip's mean power keeps the logarithms finite on silent stretches
   const tiny = meanSquare(signal, { start: 0, end: signal.length }) * 1e-6 + 1e-20;
