@@ -1,5 +1,6 @@
 import { fireEvent, render, screen } from '@testing-library/react-native';
 import type { AnalysisResult } from '@/shared/analysis/types';
+import { colors } from '@/constants/theme';
 import { VerdictPanel } from './verdict-panel';
 
 function analysis(
@@ -12,6 +13,7 @@ function analysis(
     heartRateBpm: 72.4,
     sounds: [],
     quality: { verdict, reasons } as AnalysisResult['quality'],
+    screen: { murmur: 'unlikely', score: 0.1, reasons: [] },
     analysisVersion: 'test',
     metrics: { irregularRhythm: false } as AnalysisResult['metrics'],
   };
@@ -60,5 +62,23 @@ describe('VerdictPanel', () => {
     expect(String(screen.getByTestId('refer-note').props.children.join(''))).toContain(
       'refer to a licensed clinician',
     );
+  });
+
+  test('when the murmur screen says possible, then it reads "Possible murmur: refer to a licensed clinician" with its reasons in the caution colour', () => {
+    const flagged: AnalysisResult = {
+      ...analysis('good'),
+      screen: { murmur: 'possible', score: 0.9, reasons: ['steady sound through systole in 20 of 22 beats'] },
+    };
+    render(<VerdictPanel analysis={flagged} busy={false} onKeep={jest.fn()} onRetake={jest.fn()} />);
+    expect(screen.getByTestId('murmur-note')).toBeTruthy();
+    expect(screen.getByText('Possible murmur: refer to a licensed clinician.').props.style).toEqual(
+      expect.arrayContaining([expect.objectContaining({ color: colors.caution })]),
+    );
+    expect(screen.getByText(/steady sound through systole/)).toBeTruthy();
+  });
+
+  test('when the murmur screen is unlikely, then no murmur note shows', () => {
+    render(<VerdictPanel analysis={analysis('good')} busy={false} onKeep={jest.fn()} onRetake={jest.fn()} />);
+    expect(screen.queryByTestId('murmur-note')).toBeNull();
   });
 });

@@ -3,7 +3,7 @@ import { StyleSheet, TextInput, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
 import { Badge, type BadgeTone } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { referToClinician } from '@/constants/cautions';
+import { cautionParagraphs, referToClinician } from '@/constants/cautions';
 import { colors, fonts, radii, space } from '@/constants/theme';
 import type { AnalysisResult } from '@/shared/analysis/types';
 
@@ -57,6 +57,26 @@ export function VerdictPanel({ analysis, busy, onKeep, onRetake }: Props) {
       {irregular || reasons.some((r) => r.code === 'rate_out_of_range') ? (
         <AppText variant="smallStrong" color={colors.caution} testID="refer-note">
           Rhythm or rate outside the usual pattern: {referToClinician}.
+        </AppText>
+      ) : null}
+      {analysis.screen?.murmur === 'possible' ? (
+        <View style={styles.reasons} testID="murmur-note">
+          <AppText variant="smallStrong" color={colors.caution}>
+            {`Possible murmur: ${referToClinician}.`}
+          </AppText>
+          {analysis.screen.reasons.map((reason) => (
+            <AppText key={reason} variant="small" color={colors.caution}>
+              • {reason}
+            </AppText>
+          ))}
+          <AppText variant="caption" color={colors.caution}>
+            {cautionParagraphs[0]}
+          </AppText>
+        </View>
+      ) : null}
+      {analysis.screen?.murmur === 'unsure' ? (
+        <AppText variant="small" color={colors.text} testID="murmur-unsure">
+          Murmur screen: this take is too poor to tell.
         </AppText>
       ) : null}
       {verdict === 'retake' ? (

@@ -56,6 +56,7 @@ function toJsonLine(file: string, result: AnalysisResult) {
     sounds: result.sounds.map((s) => ({ type: s.type, startS: round(s.startS, 4), endS: round(s.endS, 4) })),
     metrics: roundMetrics(result.metrics),
     quality: result.quality,
+    screen: { ...result.screen, score: round(result.screen.score, 4) },
     analysisVersion: result.analysisVersion,
   };
 }
@@ -87,7 +88,7 @@ function main(): number {
   let failed = 0;
   if (!args.json)
     process.stdout.write(
-      ['file', 'bpm', 'S1', 'S2', 'cycles', 'sys/dia', 'SDNN ms', 'verdict'].join('\t') + '\n',
+      ['file', 'bpm', 'S1', 'S2', 'cycles', 'sys/dia', 'SDNN ms', 'verdict', 'murmur'].join('\t') + '\n',
     );
   for (const file of args.files) {
     try {
@@ -108,6 +109,7 @@ function main(): number {
             fmt(m.systoleDiastoleRatio, 2),
             fmt(m.sdnnMs),
             `${result.quality.verdict}${reasons ? ` (${reasons})` : ''}`,
+            `${result.screen.murmur} (${result.screen.score.toFixed(2)})`,
           ].join('\t') + '\n',
         );
       }

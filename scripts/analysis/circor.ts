@@ -21,7 +21,20 @@ export interface Recording {
   site: (typeof SITE_CODES)[keyof typeof SITE_CODES];
   wavPath: string;
   segments: Segment[];
+  /** The patient's `#Murmur`: Present, Absent or Unknown. */
   murmur: string;
+  /** Sites where the patient's murmur was heard (`#Murmur locations`, e.g. `AV+MV`); empty without one. */
+  murmurLocations: Recording['site'][];
+}
+
+/**
+ * The murmur screen's label of a recording: true when the patient has a murmur AND it was heard at this site, false
+ * when the patient has none or it was not heard here, null when the patient's murmur status is Unknown (such
+ * recordings are left out of fitting and scored as the challenge's Unknown class).
+ */
+export function murmurAtSite(recording: Recording): boolean | null {
+  if (recording.murmur === 'Unknown') return null;
+  return recording.murmur === 'Present' && recording.murmurLocations.includes(recording.site);
 }
 
 /** The open data folder: `FOURPOINT_DATA_DIR`, else `../shared/data/circor` beside the repository. */
@@ -62,6 +75,11 @@ export function listRecordings(dir = dataDir()): Recording[] {
       ? fs.readFileSync(path.join(dir, `${patient}.txt`), 'utf8')
       : '';
     const murmur = /#Murmur:\s*(\S+)/.exec(header)?.[1] ?? 'Unknown';
+    const locations = /#Murmur locations:\s*(\S+)/.exec(header)?.[1] ?? 'nan';
+    const murmurLocations = locations
+      .split('+')
+      .filter((code): code is keyof typeof SITE_CODES => code in SITE_CODES)
+      .map((code) => SITE_CODES[code]);
     const segments = fs
       .readFileSync(path.join(dir, `${id}.tsv`), 'utf8')
       .split('\n')
@@ -75,6 +93,7 @@ export function listRecordings(dir = dataDir()): Recording[] {
       wavPath: path.join(dir, name),
       segments,
       murmur,
+      murmurLocations,
     };
   });
 }

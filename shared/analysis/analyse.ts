@@ -3,6 +3,8 @@ import { frameFeatures } from './features';
 import { STATE_S1, STATE_S2, type HsmmModel } from './hsmm';
 import { measure, toHeartSounds, type SoundSpan } from './measurements';
 import modelJson from './model/hsmm-model.json';
+import murmurModelJson from './model/murmur-model.json';
+import { murmurFeatures, screenMurmur, type MurmurFeatures, type MurmurModel } from './murmur';
 import { preprocess } from './preprocess';
 import { rateEvidence, type RateEvidence } from './rate-check';
 import { assessQuality, clippedFraction } from './quality';
@@ -10,7 +12,9 @@ import { segmentFrames, stateRuns } from './segmentation';
 import type { AnalysisOptions, AnalysisResult, Metrics } from './types';
 import { checkSampleRate, decodeWav, MAX_DURATION_S } from './wav';
 
-export const ANALYSIS_VERSION = `1.1.0+model.${(modelJson as HsmmModel).version}`;
+const murmurModel = murmurModelJson as MurmurModel;
+
+export const ANALYSIS_VERSION = `1.2.0+model.${(modelJson as HsmmModel).version}+murmur.${murmurModel.version}`;
 
 /** Below this the segmentation has too little to work with; the verdict says so. */
 const MIN_ANALYSED_S = 2;
@@ -18,6 +22,8 @@ const MIN_ANALYSED_S = 2;
 export interface InternalOptions extends AnalysisOptions {
   /** A model other than the committed one (cross-validation). */
   model?: HsmmModel;
+  /** A murmur model other than the committed one (cross-validation). */
+  murmurModel?: MurmurModel;
 }
 
 function emptyMetrics(): Metrics {
@@ -58,6 +64,15 @@ export function analysePcm(
   sampleRate: number,
   options: InternalOptions = {},
 ): AnalysisResult {
+  return analyseInDetail(samples, sampleRate, options).result;
+}
+
+/** The analysis and the murmur features its screen was drawn from (fit-murmur.ts caches them per recording). */
+export function analyseInDetail(
+  samples: Float32Array,
+  sampleRate: number,
+  options: InternalOptions = {},
+): { result: AnalysisResult; murmurFeatures: MurmurFeatures | null } {
   checkSamples(samples, sampleRate);
   const model = options.model ?? (modelJson as HsmmModel);
   const durationS = samples.length / sampleRate;
@@ -67,6 +82,7 @@ export function analysePcm(
   let level = 0;
   let periodicity: number | null = null;
   let evidence: RateEvidence | null = null;
+  let murmur: MurmurFeatures | null = null;
 
   if (durationS >= MIN_ANALYSED_S) {
     const working = preprocess(samples, sampleRate);
@@ -89,6 +105,7 @@ export function analysePcm(
         metrics = measure(signal, working.sampleRate, spans);
         sounds = toHeartSounds(signal, working.sampleRate, spans);
         evidence = rateEvidence(features.homomorphic, features.frameRate, metrics);
+        murmur = murmurFeatures(signal, working.sampleRate, spans);
       }
     }
   }
@@ -101,15 +118,17 @@ export function analysePcm(
     metrics,
     rateEvidence: evidence,
   });
-  return {
+  const result: AnalysisResult = {
     sampleRate,
     durationS,
     heartRateBpm: metrics.heartRateBpm,
     sounds,
     metrics,
     quality,
+    screen: screenMurmur(murmur, quality, options.murmurModel ?? murmurModel),
     analysisVersion: ANALYSIS_VERSION,
   };
+  return { result, murmurFeatures: murmur };
 }
 
 export function analyseWav(bytes: Uint8Array, options: InternalOptions = {}): AnalysisResult {

@@ -4,6 +4,7 @@ export type {
   BeatDetail,
   HeartSound,
   Metrics,
+  MurmurScreen,
   Quality,
   QualityReason,
   SiteCode,
@@ -13,3 +14,4 @@ export { AnalysisError, type AnalysisErrorCode } from './errors';
 export { decodeWav, encodeWav16, type DecodedWav } from './wav';
 export { analysePcm, analyseWav, ANALYSIS_VERSION } from './analyse';
 export { traceForDisplay, type DisplayTrace } from './trace';
+export { visitMurmurScreen } from './murmur';

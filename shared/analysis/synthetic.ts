@@ -21,6 +21,43 @@ export interface BeatTrainOptions {
   dropChance?: number;
   /** Chance that a premature beat (an S1 and S2 pair) falls at 60 % of a diastole. */
   extraBeatChance?: number;
+  /**
+   * A holosystolic murmur: noise band-limited to `lowHz`–`highHz` (default 120–300 Hz) filling each systole from
+   * the end of S1 to the onset of S2 at a steady `amplitude` (RMS), with 10 ms ramps.
+   */
+  systolicMurmur?: { amplitude: number; lowHz?: number; highHz?: number };
+}
+
+/** Band-limited noise: a sum of sinusoids spread over the band with random phases, scaled to unit RMS. */
+function bandNoise(length: number, sampleRate: number, lowHz: number, highHz: number, random: () => number) {
+  const out = new Float32Array(length);
+  const tones = 40;
+  for (let k = 0; k < tones; k++) {
+    const frequency = lowHz + ((highHz - lowHz) * (k + random())) / tones;
+    const phase = 2 * Math.PI * random();
+    const step = (2 * Math.PI * frequency) / sampleRate;
+    for (let i = 0; i < length; i++) out[i] += Math.sin(phase + step * i);
+  }
+  const scale = Math.sqrt(2 / tones);
+  for (let i = 0; i < length; i++) out[i] *= scale;
+  return out;
+}
+
+function addMurmur(
+  out: Float32Array,
+  sampleRate: number,
+  fromS: number,
+  toS: number,
+  noise: Float32Array,
+  amplitude: number,
+) {
+  const start = Math.max(0, Math.round(fromS * sampleRate));
+  const end = Math.min(out.length, Math.round(toS * sampleRate));
+  const ramp = Math.round(0.01 * sampleRate);
+  for (let i = start; i < end; i++) {
+    const edge = Math.min(1, (i - start) / ramp, (end - i) / ramp);
+    out[i] += amplitude * edge * noise[i];
+  }
 }
 
 export function seededRandom(seed: number): () => number {
@@ -74,6 +111,17 @@ export function syntheticBeatTrain(options: BeatTrainOptions): BeatTrain {
   const s1OnsetsS: number[] = [];
   const s2OnsetsS: number[] = [];
   const jitter = options.jitter ?? 0;
+  // the murmur draws from its own generator so the beats of a seed stay the same with or without it
+  const murmur = options.systolicMurmur;
+  const murmurNoise = murmur
+    ? bandNoise(
+        samples.length,
+        sampleRate,
+        murmur.lowHz ?? 120,
+        murmur.highHz ?? 300,
+        seededRandom((options.seed ?? 7) + 1),
+      )
+    : null;
   for (let onset = 0.1 + (random() * 60) / rateBpm; onset < durationS;) {
     const cycleS = 60 / rateAt(onset);
     const systoleS = options.systoleS ?? Math.min(0.1 + cycleS / 4, 0.48 * cycleS);
@@ -84,6 +132,8 @@ export function syntheticBeatTrain(options: BeatTrainOptions): BeatTrain {
     if (!dropped) {
       addBurst(samples, sampleRate, onset, 0.1, 55, s1Amplitude);
       addBurst(samples, sampleRate, onset + systoleS, 0.08, 80, s2Amplitude);
+      if (murmur && murmurNoise)
+        addMurmur(samples, sampleRate, onset + 0.1, onset + systoleS, murmurNoise, murmur.amplitude);
     }
     if (options.extraBeatChance !== undefined && random() < options.extraBeatChance) {
       const early = onset + systoleS + 0.6 * (cycleS - systoleS);

@@ -69,6 +69,18 @@ export interface Metrics {
   beats: BeatDetail[];
 }
 
+/**
+ * The murmur screen of one site. `possible` is always shown as "possible murmur: refer to a licensed clinician",
+ * never as a diagnosis; `unsure` means the clip was too poor to tell.
+ */
+export interface MurmurScreen {
+  murmur: 'possible' | 'unlikely' | 'unsure';
+  /** The model's score, 0–1 (0 when unsure); `possible` at or above the model's threshold. */
+  score: number;
+  /** Why, in plain words. */
+  reasons: string[];
+}
+
 export interface AnalysisResult {
   /** Sample rate of the input, not the working rate. */
   sampleRate: number;
@@ -77,6 +89,7 @@ export interface AnalysisResult {
   sounds: HeartSound[];
   metrics: Metrics;
   quality: Quality;
+  screen: MurmurScreen;
   analysisVersion: string;
 }
 
