@@ -1,3 +1,4 @@
+import os from 'node:os';
 import path from 'node:path';
 import pino from 'pino';
 import { createApp } from './app';
@@ -69,7 +70,17 @@ function main(): void {
   }
 
   const sequelize = createSequelize(databaseUrl);
-  const app = createApp({ sequelize, jwtSecret: secrets.jwtSecret, webDist, logger });
+  // Behind the balancer each process is named by it (i1, i2...); alone, by its host and process id.
+  const instance = process.env.FOURPOINT_INSTANCE || `${os.hostname()}-${process.pid}`;
+  const app = createApp({
+    sequelize,
+    jwtSecret: secrets.jwtSecret,
+    webDist,
+    logger: logger.child({ instance }),
+    instanceName: instance,
+    // TRUST_PROXY=loopback when a balancer on this machine forwards the client's address (npm start sets it).
+    trustProxy: process.env.TRUST_PROXY || false,
+  });
   const backgroundJobs = startBackgroundJobs(sequelize, secrets.jwtSecret);
   const server = app.listen(port, host);
 
