@@ -89,3 +89,15 @@ export function startBalancer({ dir, publicPort, host, instances, log = console.
     throw new SetupError(`HAProxy refused ${configFile}:\n${check.stdout}${check.stderr}`);
   return spawn(bin, ['-db', '-f', configFile], { stdio: ['ignore', 'inherit', 'inherit'] });
 }
+
+// As a command (for the tests, whose jest workers cannot import this ES module):
+//   node scripts/bootstrap/balancer.mjs --find                      exits 0 when HAProxy is installed
+//   node scripts/bootstrap/balancer.mjs DIR PUBLIC_PORT NAME:PORT...  runs it until SIGTERM
+if (process.argv[1] && path.resolve(process.argv[1]) === path.resolve(new URL(import.meta.url).pathname)) {
+  const [first, publicPort, ...backends] = process.argv.slice(2);
+  if (first === '--find') process.exit(findHaproxy() ? 0 : 1);
+  const instances = backends.map((b) => ({ name: b.split(':')[0], port: Number(b.split(':')[1]) }));
+  const child = startBalancer({ dir: first, publicPort: Number(publicPort), instances });
+  for (const signal of ['SIGTERM', 'SIGINT']) process.on(signal, () => child.kill(signal));
+  child.on('exit', (code) => process.exit(code ?? 0));
+}
