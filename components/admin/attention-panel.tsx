@@ -18,7 +18,7 @@ type Item = {
 export function AttentionPanel() {
   const attention = useAttentionQuery();
   if (attention.isPending || attention.isError) return null;
-  const { openConflicts, undeliveredReports, clientsPastRetention } = attention.data;
+  const { openConflicts, undeliveredReports, clientsPastRetention, failingBackgroundTasks } = attention.data;
   const items: Item[] = [
     {
       key: 'conflicts',
@@ -40,6 +40,14 @@ export function AttentionPanel() {
       label: clientsPastRetention === 1 ? 'client past retention' : 'clients past retention',
       detail: 'Their records are older than the clinic keeps them: export, erase, or keep with a reason.',
       action: { label: 'Review them', href: '/client-records?retention=due' },
+    },
+    {
+      key: 'background',
+      count: failingBackgroundTasks,
+      label:
+        failingBackgroundTasks === 1 ? 'automatic task is not working' : 'automatic tasks are not working',
+      detail:
+        'Follow-up reminders, report e-mail retries or the removal of erased records keep failing. The server keeps trying; tell whoever runs your server.',
     },
   ].filter((i) => i.count > 0);
 

@@ -29,9 +29,10 @@ export function ensureNpmPackages(log = console.log) {
 
 const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
 
-/** Debian's Chromium and poppler-utils (pdftoppm), for the end-to-end tests. */
+/** Debian's Chromium, poppler-utils (pdftoppm) and HAProxy (tests/server/instances.test.ts), for the tests. */
 export function ensureTestBinaries(log = console.log) {
   const missing = [];
+  if (!fs.existsSync('/usr/sbin/haproxy')) missing.push('haproxy');
   if (!fs.existsSync('/usr/bin/chromium')) missing.push('chromium');
   if (!fs.existsSync('/usr/bin/pdftoppm')) missing.push('poppler-utils');
   if (missing.length === 0) return;

@@ -1,9 +1,12 @@
 // `npm start`: installs what is missing, starts a project-local PostgreSQL, migrates, loads the demo once,
 // builds the web export, and serves app + API (+ local fakes of hosted services) from one command.
+// INSTANCES=N (default 1) runs N server processes on internal loopback ports behind HAProxy on the public port.
 import fs from 'node:fs';
+import net from 'node:net';
 import path from 'node:path';
 import { startCluster, portIsFree, SetupError } from './pg.mjs';
 import { installSecrets } from './secrets.mjs';
+import { ensureHaproxy, startBalancer } from './balancer.mjs';
 import { checkNode, dataDir, ensureNpmPackages, fail, root, run, startProcess, tsxBin } from './common.mjs';
 
 async function main() {
@@ -13,6 +16,10 @@ async function main() {
   if (!(await portIsFree(port))) {
     throw new SetupError(`Port ${port} is in use: stop what uses it or run PORT=8090 npm start`);
   }
+  const instanceCount = Number(process.env.INSTANCES ?? 1);
+  if (!Number.isInteger(instanceCount) || instanceCount < 1 || instanceCount > 16)
+    throw new SetupError(`INSTANCES must be a whole number from 1 to 16, not "${process.env.INSTANCES}".`);
+  if (instanceCount > 1) ensureHaproxy();
 
   const cluster = await startCluster({
     dataDir: path.join(dataDir, 'pg'),
@@ -46,30 +53,62 @@ async function main() {
   const fakes = path.join(root, 'sync-server/fakes/run-fakes.ts');
   const children = [];
   if (fs.existsSync(fakes)) children.push(startProcess(tsxBin(), [fakes], env));
-  const server = startProcess(tsxBin(), ['sync-server/src/main.ts'], {
-    ...env,
-    PORT: String(port),
-    WEB_DIST: path.join(root, 'dist'),
-    FOURPOINT_DEMO_SIGN_INS: '1',
-  });
-  children.push(server);
+  const serverEnv = { ...env, WEB_DIST: path.join(root, 'dist'), FOURPOINT_DEMO_SIGN_INS: '1' };
+  const servers = [];
+  if (instanceCount === 1) {
+    servers.push(startProcess(tsxBin(), ['sync-server/src/main.ts'], { ...serverEnv, PORT: String(port) }));
+  } else {
+    const instances = [];
+    for (let i = 1; i <= instanceCount; i++) instances.push({ name: `i${i}`, port: await freePort() });
+    for (const instance of instances)
+      servers.push(
+        startProcess(tsxBin(), ['sync-server/src/main.ts'], {
+          ...serverEnv,
+          PORT: String(instance.port),
+          FOURPOINT_INSTANCE: instance.name,
+          // The balancer on loopback is the only proxy trusted for the client's address (sign-in limits).
+          TRUST_PROXY: 'loopback',
+        }),
+      );
+    const balancer = startBalancer({ dir: path.join(dataDir, 'balancer'), publicPort: port, instances });
+    children.push(balancer);
+    balancer.on('exit', () => shutdown());
+    console.log(`${instanceCount} server instances behind HAProxy on port ${port}.`);
+  }
+  children.push(...servers);
 
   const shutdown = () => {
-    for (const child of children) child.kill('SIGTERM');
+    for (const child of children) if (child.exitCode === null) child.kill('SIGTERM');
   };
   process.on('SIGINT', shutdown);
   process.on('SIGTERM', shutdown);
-  server.on('exit', (code) => {
-    shutdown();
-    cluster.stop();
-    process.exit(code ?? 0);
-  });
+  let running = servers.length;
+  for (const server of servers)
+    server.on('exit', (code) => {
+      running -= 1;
+      if (running > 0) return;
+      shutdown();
+      cluster.stop();
+      process.exit(code ?? 0);
+    });
 
   console.log(`\nDemo sign-ins (password ${secrets.FOURPOINT_DEMO_PASSWORD}, kept in .data/secrets.env):
   operator@demo.fourpoint.test      phone capture
   practitioner@demo.fourpoint.test  review on a wide screen
   admin@demo.fourpoint.test         team, conflicts, billing, audit
 Press Ctrl-C to stop the server and its PostgreSQL.\n`);
+}
+
+/** A port the OS has just handed out on loopback, for one instance behind the balancer. */
+function freePort() {
+  return new Promise((resolve, reject) => {
+    const probe = net.createServer();
+    probe.once('error', reject);
+    probe.listen(0, '127.0.0.1', () => {
+      const { port } = probe.address();
+      probe.close(() => resolve(port));
+    });
+  });
 }
 
 main().catch(fail);

@@ -12,3 +12,13 @@ export type ApiError = z.infer<typeof apiErrorSchema>;
 
 export const healthResponseSchema = z.object({ ok: z.boolean(), db: z.enum(['up', 'down']) });
 export type HealthResponse = z.infer<typeof healthResponseSchema>;
+/** Liveness: the process answers. Readiness: it can serve (database and blob storage reachable, not stopping). */
+export const livenessResponseSchema = z.object({ ok: z.literal(true) });
+export type LivenessResponse = z.infer<typeof livenessResponseSchema>;
+export const readinessResponseSchema = z.object({
+  ok: z.boolean(),
+  db: z.enum(['up', 'down']),
+  storage: z.enum(['up', 'down']),
+  stopping: z.boolean(),
+});
+export type ReadinessResponse = z.infer<typeof readinessResponseSchema>;

@@ -354,5 +354,10 @@ export const attentionSchema = z.object({
   /** Report e-mails the server will not try again by itself (refused, or out of attempts). */
   undeliveredReports: z.number().int(),
   clientsPastRetention: z.number().int(),
+  /**
+   * The server's own background tasks (reminders, report e-mail retries, the purge) that keep failing. Counted
+   * over the whole server, not per clinic: it names no clinic's data, and every admin should know.
+   */
+  failingBackgroundTasks: z.number().int(),
 });
 export type Attention = z.infer<typeof attentionSchema>;

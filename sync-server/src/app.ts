@@ -6,6 +6,7 @@ import type { Sequelize } from 'sequelize';
 import { AppError } from './errors';
 import { contentSecurityPolicy } from './middleware/content-security-policy';
 import { errorHandler } from './middleware/error-handler';
+import { instanceName } from './middleware/instance-name';
 import { refuseNulCharacters } from './middleware/refuse-nul';
 import { DEFAULT_SIGN_IN_LIMITS, type SignInLimitOptions } from './middleware/rate-limits';
 import { initModels } from './models';
@@ -26,6 +27,8 @@ export interface AppDeps {
   rateLimitPrefix?: string;
   /** Express's `trust proxy`; leave unset unless a known proxy sits in front. */
   trustProxy?: boolean | number | string;
+  /** Sent as `X-Fourpoint-Instance` on every API answer (FOURPOINT_INSTANCE; main.ts picks a default). */
+  instanceName?: string;
 }
 
 export function createApp(deps: AppDeps): Express {
@@ -42,6 +45,7 @@ export function createApp(deps: AppDeps): Express {
       crossOriginResourcePolicy: { policy: 'same-origin' },
     }),
   );
+  if (deps.instanceName) app.use('/api', instanceName(deps.instanceName));
   app.use('/api', express.json({ limit: '1mb' }), refuseNulCharacters);
   // Only the auth routes read cookies: the web app's refresh token (routes/refresh-cookie.ts).
   app.use('/api/auth', cookieParser());

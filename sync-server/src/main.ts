@@ -1,14 +1,13 @@
+import os from 'node:os';
 import path from 'node:path';
 import pino from 'pino';
 import { createApp } from './app';
 import { MissingSecretError, readSecrets, type Secrets } from './config/secrets';
 import { createSequelize } from './db/database';
-import { startFollowUpReminderJob } from './jobs/follow-up-reminders';
-import { startReportMailRetryJob } from './jobs/report-mail-retries';
-import { practiceServices } from './services/practice-services';
+import { backgroundJobs } from './jobs/background-jobs';
+import { startJobQueue } from './jobs/job-queue';
+import { markStopping } from './lifecycle';
 import { syncServicesFor } from './services/sync-services';
-import { purgeErased } from './use-cases/clients/erase-client';
-import { reviewServices } from './use-cases/review/services';
 
 const logger = pino({ level: process.env.LOG_LEVEL ?? 'info' });
 
@@ -17,39 +16,32 @@ function fail(message: string): never {
   process.exit(1);
 }
 
-const REMINDER_INTERVAL_MS = 10 * 60 * 1000;
-const PURGE_INTERVAL_MS = 6 * 60 * 60 * 1000;
-const REPORT_MAIL_RETRY_INTERVAL_MS = 60 * 1000;
-
-/** Follow-up reminders, report e-mail retries and the purge of erased clients run in the server process, on timers. */
-function startBackgroundJobs(sequelize: ReturnType<typeof createSequelize>, jwtSecret: string) {
-  const reminders = startFollowUpReminderJob(
-    sequelize,
-    practiceServices().mail,
-    REMINDER_INTERVAL_MS,
-    (error) => logger.warn({ err: error }, 'follow-up reminder run failed; the next run retries'),
-  );
-  const mailRetries = startReportMailRetryJob(
-    sequelize,
-    () => reviewServices().mail,
-    REPORT_MAIL_RETRY_INTERVAL_MS,
-    (error) => logger.warn({ err: error }, 'report e-mail retry run failed; the next run retries'),
-  );
-  const purge = setInterval(() => {
-    purgeErased({ sequelize, jwtSecret }).catch((error) =>
-      logger.warn({ err: error }, 'purge of erased clients failed'),
-    );
-  }, PURGE_INTERVAL_MS);
-  purge.unref();
-  // The server may have died between an upload's last byte and its processing: those clips are processed now.
+/**
+ * Follow-up reminders, report e-mail retries and the purge of erased clients run as jobs on the queue shared by
+ * every instance (jobs/job-queue.ts). Staged uploads are processed at start-up by every instance: the server may
+ * have died between an upload's last byte and its processing (a per-upload lock keeps that to one instance).
+ */
+function startBackgroundWork(
+  sequelize: ReturnType<typeof createSequelize>,
+  jwtSecret: string,
+  instance: string,
+) {
+  const queue = startJobQueue(sequelize, backgroundJobs(sequelize, jwtSecret), {
+    instance,
+    pollMs: Number(process.env.JOB_POLL_MS ?? 30_000),
+    onError: (job, error) => logger.warn({ err: error, job }, 'background job failed; it is retried later'),
+  });
   syncServicesFor(sequelize)
     .uploads.processStaged()
     .then(
       (counts) => logger.info(counts, 'staged uploads processed at start-up'),
       (error) => logger.warn({ err: error }, 'staged uploads could not be processed at start-up'),
     );
-  return { stop: () => (reminders.stop(), mailRetries.stop(), clearInterval(purge)) };
+  return queue;
 }
+
+/** How long a stopping instance waits for requests in flight before it cuts them. */
+const SHUTDOWN_GRACE_MS = Number(process.env.SHUTDOWN_GRACE_MS ?? 25_000);
 
 function main(): void {
   const port = Number(process.env.PORT ?? 8080);
@@ -69,8 +61,18 @@ function main(): void {
   }
 
   const sequelize = createSequelize(databaseUrl);
-  const app = createApp({ sequelize, jwtSecret: secrets.jwtSecret, webDist, logger });
-  const backgroundJobs = startBackgroundJobs(sequelize, secrets.jwtSecret);
+  // Behind the balancer each process is named by it (i1, i2...); alone, by its host and process id.
+  const instance = process.env.FOURPOINT_INSTANCE || `${os.hostname()}-${process.pid}`;
+  const app = createApp({
+    sequelize,
+    jwtSecret: secrets.jwtSecret,
+    webDist,
+    logger: logger.child({ instance }),
+    instanceName: instance,
+    // TRUST_PROXY=loopback when a balancer on this machine forwards the client's address (npm start sets it).
+    trustProxy: process.env.TRUST_PROXY || false,
+  });
+  const jobs = startBackgroundWork(sequelize, secrets.jwtSecret, instance);
   const server = app.listen(port, host);
 
   server.on('listening', () => {
@@ -87,20 +89,21 @@ function main(): void {
     fail(`The server could not start: ${error.message}`);
   });
 
+  // Stopping: readiness answers 503 at once (the balancer stops sending), the listener closes (no new
+  // connections), idle keep-alive connections close, requests in flight and running jobs finish, then the
+  // process exits. Requests still open after SHUTDOWN_GRACE_MS are cut, so a stop never hangs.
   let closing = false;
   const close = (signal: string) => {
     if (closing) return;
     closing = true;
-    logger.info({ signal }, 'stopping');
-    backgroundJobs.stop();
-    server.close(() => {
-      sequelize.close().finally(() => process.exit(0));
-    });
+    markStopping();
+    logger.info({ signal }, 'stopping: finishing requests in flight and running jobs');
+    const requestsDone = new Promise<void>((resolve) => server.close(() => resolve()));
     server.closeIdleConnections();
-    // Requests still open after a few seconds are cut, so Ctrl-C never hangs.
-    setTimeout(() => {
-      server.closeAllConnections();
-    }, 3000).unref();
+    setTimeout(() => server.closeAllConnections(), SHUTDOWN_GRACE_MS).unref();
+    Promise.all([requestsDone, jobs.stop()])
+      .then(() => sequelize.close())
+      .finally(() => process.exit(0));
   };
   process.on('SIGINT', () => close('SIGINT'));
   process.on('SIGTERM', () => close('SIGTERM'));

@@ -119,6 +119,10 @@ const notes = { findings: 'Overwritten by B', plan: null, followUpDate: null, ba
 
 const cases: Record<string, CrossCase> = {
   'get /api/health': { notClinicData: 'whether the server and database are up' },
+  'get /api/health/live': { notClinicData: 'whether this server process answers' },
+  'get /api/health/ready': {
+    notClinicData: 'whether the database and blob storage answer and the process is not stopping',
+  },
   'post /api/auth/sign-in': { notClinicData: 'signs in by e-mail and password; covered by the auth tests' },
   'post /api/auth/refresh': { notClinicData: 'renews the caller’s own session only' },
   'post /api/auth/sign-out': { notClinicData: 'ends the caller’s own session only' },
@@ -593,6 +597,8 @@ describe('the cases and the table', () => {
     expect(exempt.sort()).toEqual(
       [
         'get /api/health',
+        'get /api/health/live',
+        'get /api/health/ready',
         'post /api/auth/sign-in',
         'post /api/auth/refresh',
         'post /api/auth/sign-out',

@@ -65,28 +65,3 @@ export async function runFollowUpReminders(
   }
   return { queued, sent, failed };
 }
-
-/** Runs the job now and then every `intervalMs`; one run at a time per process. */
-export function startFollowUpReminderJob(
-  sequelize: Sequelize,
-  mail: MailService,
-  intervalMs = 10 * 60 * 1000,
-  onError?: (e: unknown) => void,
-) {
-  let running = false;
-  const tick = async () => {
-    if (running) return;
-    running = true;
-    try {
-      await runFollowUpReminders(sequelize, mail);
-    } catch (error) {
-      onError?.(error);
-    } finally {
-      running = false;
-    }
-  };
-  void tick();
-  const timer = setInterval(() => void tick(), intervalMs);
-  timer.unref();
-  return { stop: () => clearInterval(timer) };
-}

@@ -33,24 +33,3 @@ export async function runReportMailRetries(
   }
   return { sent, failed };
 }
-
-/** Runs the job every `intervalMs`; one run at a time per process. */
-export function startReportMailRetryJob(
-  sequelize: Sequelize,
-  mail: () => MailService,
-  intervalMs = 60 * 1000,
-  onError?: (e: unknown) => void,
-) {
-  let running = false;
-  const timer = setInterval(() => {
-    if (running) return;
-    running = true;
-    runReportMailRetries(sequelize, mail())
-      .catch((error: unknown) => onError?.(error))
-      .finally(() => {
-        running = false;
-      });
-  }, intervalMs);
-  timer.unref();
-  return { stop: () => clearInterval(timer) };
-}

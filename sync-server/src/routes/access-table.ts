@@ -32,6 +32,8 @@ const anyRole: readonly Role[] = ['operator', 'practitioner', 'admin'];
  */
 export const accessTable: readonly RouteSpec[] = [
   { method: 'get', path: '/api/health', access: 'public', handler: h.health },
+  { method: 'get', path: '/api/health/live', access: 'public', handler: h.healthLive },
+  { method: 'get', path: '/api/health/ready', access: 'public', handler: h.healthReady },
   { method: 'post', path: '/api/auth/sign-in', access: 'public', handler: h.signInHandler, limit: 'sign-in' },
   { method: 'post', path: '/api/auth/refresh', access: 'public', handler: h.refreshHandler },
   { method: 'post', path: '/api/auth/sign-out', access: 'public', handler: h.signOutHandler },

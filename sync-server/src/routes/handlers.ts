@@ -5,6 +5,7 @@ import {
   signInRequestSchema,
   signOutRequestSchema,
   type ClientListResponse,
+  type LivenessResponse,
   type MeResponse,
   type SessionListResponse,
   type UserListResponse,
@@ -13,7 +14,7 @@ import { AppError } from '../errors';
 import { callerOf } from '../middleware/authenticate';
 import { getMe, refreshSession, signIn, signOut } from '../use-cases/auth';
 import type { UseCaseDeps } from '../use-cases/context';
-import { checkHealth } from '../use-cases/health';
+import { checkHealth, checkReadiness } from '../use-cases/health';
 import { findClients, findSessions, findTeam } from '../use-cases/lists';
 import { clearRefreshCookie, refreshTokenOf, sendTokens } from './refresh-cookie';
 
@@ -21,6 +22,18 @@ export type HandlerFactory = (deps: UseCaseDeps) => RequestHandler;
 
 export const health: HandlerFactory = (deps) => async (_req, res) => {
   const result = await checkHealth(deps.sequelize);
+  res.status(result.ok ? 200 : 503).json(result);
+};
+
+/** Liveness: this process answers (no dependency is asked, so a database outage never restarts instances). */
+export const healthLive: HandlerFactory = () => (_req, res) => {
+  const body: LivenessResponse = { ok: true };
+  res.json(body);
+};
+
+/** Readiness: the load balancer sends requests here only while this answers 200. */
+export const healthReady: HandlerFactory = (deps) => async (_req, res) => {
+  const result = await checkReadiness(deps.sequelize);
   res.status(result.ok ? 200 : 503).json(result);
 };
 

@@ -8,6 +8,7 @@ import { ClinicKeyStore } from './clinic-keys';
 import { clipWorker } from './clip-worker';
 import { SyncRepository } from '../repositories/sync-repository';
 import { createClipUploads, type ClipUploads, type TusHooks } from './tus-uploads';
+import { PgUploadLocker } from './upload-locks';
 
 export interface SyncServices {
   blobStore: BlobStore;
@@ -44,18 +45,23 @@ export function provideSyncServices(
     options.blobStore ?? blobStoreFromEnv(process.env, process.env.BLOB_DIR ?? path.join(data, 'blobs'));
   const clinicKeys = new ClinicKeyStore(options.clinicKeysDir ?? readSecrets().clinicKeysDir);
   const uploadDir = options.uploadDir ?? process.env.UPLOAD_DIR ?? path.join(data, 'uploads');
-  const uploads = createClipUploads(uploadDir, {
-    onComplete: async (clinicId, sha256, stagedFile) => {
-      await receiveClip(
-        { sequelize, blobStore, clinicKeys, clipWorker: clipWorker() },
-        clinicId,
-        sha256,
-        stagedFile,
-      );
+  const uploads = createClipUploads(
+    uploadDir,
+    {
+      onComplete: async (clinicId, sha256, stagedFile) => {
+        await receiveClip(
+          { sequelize, blobStore, clinicKeys, clipWorker: clipWorker() },
+          clinicId,
+          sha256,
+          stagedFile,
+        );
+      },
+      storedSize: (clinicId, sha256) => new SyncRepository(sequelize).storedClipSize(clinicId, sha256),
+      afterLastByte: options.afterLastByte,
     },
-    storedSize: (clinicId, sha256) => new SyncRepository(sequelize).storedClipSize(clinicId, sha256),
-    afterLastByte: options.afterLastByte,
-  });
+    // Every instance on this database may serve any request of an upload: the locks live in PostgreSQL.
+    { locker: new PgUploadLocker(sequelize) },
+  );
   const services = { blobStore, clinicKeys, uploadDir, uploads };
   bySequelize.set(sequelize, services);
   return services;

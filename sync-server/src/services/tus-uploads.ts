@@ -7,6 +7,7 @@ import type { Request } from 'express';
 import { SYNC_PATHS } from '@/shared/protocol/sync';
 import { AppError } from '../errors';
 import { callerOf } from '../middleware/authenticate';
+import type { PgUploadLocker } from './upload-locks';
 
 export const MAX_CLIP_BYTES = 64 * 1024 * 1024;
 
@@ -55,15 +56,33 @@ function checkUploadId(uploadId: string, clinicId: string): void {
  * Resumable clip uploads (tus 1.0). Uploads are named `<clinicId>.<sha256>.<random>`, so a request for another
  * clinic's upload is refused before tus touches it. The routes in front have already checked the caller's role.
  */
-export function createClipUploads(directory: string, hooks: TusHooks): ClipUploads {
+export function createClipUploads(
+  directory: string,
+  hooks: TusHooks,
+  options: {
+    /**
+     * Locks shared by every process using `directory` (several instances behind a balancer). Without it, tus's
+     * in-memory locker and this process's own bookkeeping keep one process's requests apart, which is enough
+     * only when one process serves the folder.
+     */
+    locker?: PgUploadLocker;
+  } = {},
+): ClipUploads {
   const datastore = new FileStore({ directory });
+  const { locker } = options;
+  // A clip is processed under this lock, so an upload whose last PATCH reached one instance while its HEAD reached
+  // another is processed once; the second finds the staged file gone and answers from the blob store.
+  const processOnce = (uploadId: string) =>
+    locker
+      ? locker.withLock(`process:${uploadId}`, () => settleOnce(uploadId), 120_000)
+      : settleOnce(uploadId);
   const inFlight = new Map<string, Promise<StagedOutcome>>();
 
   // One processing per upload at a time: the last PATCH, a HEAD and the start-up scan may all ask at once.
   const settle = (uploadId: string): Promise<StagedOutcome> => {
     const running = inFlight.get(uploadId);
     if (running) return running;
-    const started = settleOnce(uploadId).finally(() => inFlight.delete(uploadId));
+    const started = processOnce(uploadId).finally(() => inFlight.delete(uploadId));
     inFlight.set(uploadId, started);
     return started;
   };
@@ -97,6 +116,7 @@ export function createClipUploads(directory: string, hooks: TusHooks): ClipUploa
   const tus = new Server({
     path: SYNC_PATHS.uploads,
     datastore,
+    ...(locker ? { locker } : {}),
     maxSize: MAX_CLIP_BYTES,
     respectForwardedHeaders: false,
     namingFunction: (req, metadata) => {
