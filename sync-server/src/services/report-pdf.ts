@@ -33,6 +33,8 @@ export type ReportComparisonRow = {
   now: number | null;
 };
 export type ReportInput = {
+  /** The session's referral as the session view shows it; when flagged, the report says so first. */
+  referral: { flagged: boolean; reasons: string[] };
   clinicName: string;
   clientName: string;
   clientDateOfBirth: string | null;
@@ -255,6 +257,31 @@ function cautionBox(doc: PDFKit.PDFDocument, y: number): number {
   return y + h + 8;
 }
 
+function referralBox(doc: PDFKit.PDFDocument, referral: ReportInput['referral'], y: number): number {
+  const width = doc.page.width - 2 * MARGIN;
+  if (!referral.flagged) {
+    doc
+      .font(FONT.body)
+      .fontSize(9)
+      .fillColor(INK)
+      .text('Nothing in this visit calls for a referral.', MARGIN, y, { width });
+    return doc.y + 10;
+  }
+  doc
+    .font(FONT.strong)
+    .fontSize(11)
+    .fillColor(ACCENT)
+    .text('Please see a licensed clinician', MARGIN, y, { width });
+  for (const reason of referral.reasons) {
+    doc
+      .font(FONT.body)
+      .fontSize(9)
+      .fillColor(INK)
+      .text(`• ${reason}`, MARGIN + 8, doc.y + 2, { width: width - 8 });
+  }
+  return doc.y + 10;
+}
+
 export function renderReportPdf(input: ReportInput): Promise<Buffer> {
   const doc = new PDFDocument({
     size: 'A4',
@@ -299,6 +326,7 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
     y += 13;
   }
   y = cautionBox(doc, y + 6);
+  y = referralBox(doc, input.referral, y);
 
   y = heading(doc, 'The four sites', y);
   const cellW = (width - 10) / 2;

@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import type { Sequelize } from 'sequelize';
-import { cautionText, referToClinician } from '@/constants/cautions';
+import { clientCautionText } from '@/constants/cautions';
 import type { Site } from '@/shared/protocol';
 import type { ReportMail, SendReportRequest } from '@/shared/protocol/review';
 import { AppError } from '../../errors';
@@ -13,12 +13,11 @@ import {
   insertReportMail,
   listReportMails,
 } from '../../repositories/review-mails-repository';
-import { findSessionRecord, findSiteRecords } from '../../repositories/review-repository';
+import { findSessionRecord } from '../../repositories/review-repository';
 import { MailSendError, type MailService } from '../../services/mail';
 import { renderReportPdf, type ReportInput, type ReportSite } from '../../services/report-pdf';
 import type { Caller, UseCaseDeps } from '../context';
-import { clipBytes, compareSessions, loadSession, reviewSite, SITES, traceFromWav } from './session-view';
-import { rangesForClinic } from './ranges';
+import { clipBytes, compareSessions, loadSession, reviewSitesOf, traceFromWav } from './session-view';
 import { reviewServices } from './services';
 
 const SITE_LABEL: Record<Site, string> = {
@@ -38,13 +37,12 @@ export async function buildReportInput(
   compareWith: string | null,
 ): Promise<ReportInput> {
   const session = await loadSession(deps, caller, sessionId);
-  const ranges = await rangesForClinic(deps.sequelize, caller.clinicId);
-  const records = (await findSiteRecords(deps.sequelize, caller.clinicId, [sessionId])).get(sessionId) ?? [];
+  const { sites: views, records, referral } = await reviewSitesOf(deps, caller, sessionId);
   const sources: string[] = [];
   const sites: ReportSite[] = [];
-  for (const site of SITES) {
+  for (const view of views) {
+    const site = view.site;
     const record = records.find((r) => r.site === site);
-    const view = reviewSite(site, record, ranges);
     let trace: ReportSite['trace'] = null;
     if (view.hasAudio) {
       try {
@@ -97,6 +95,14 @@ export async function buildReportInput(
     };
   }
   return {
+    referral: {
+      flagged: referral.flagged,
+      // The client reads the same reasons, the practitioner's own in their words.
+      reasons: [
+        ...views.flatMap((v) => v.referralReasons.map((r) => `${SITE_LABEL[v.site]} site: ${r}`)),
+        ...(referral.manual ? [`Your practitioner's note: ${referral.manual.note}`] : []),
+      ],
+    },
     clinicName: session.clinicName,
     clientName: `${session.clientFirstName} ${session.clientLastName}`,
     clientDateOfBirth: session.clientDateOfBirth,
@@ -141,19 +147,21 @@ export async function renderReport(
 }
 
 function mailBody(input: ReportInput): string {
-  const flagged = input.sites.some((s) =>
-    s.measurements.some((m) => m.status === 'above' || m.status === 'below'),
-  );
   return [
     `Hello ${input.clientName},`,
     '',
     `Attached is the report of your heart-sound recording at ${input.clinicName} on ${input.sessionDate}.`,
-    flagged
-      ? `Some measurements are outside the clinic's range; the report marks them "${referToClinician}".`
-      : '',
+    ...(input.referral.flagged
+      ? [
+          '',
+          `Please see a licensed clinician. The reason, in short:`,
+          ...input.referral.reasons.map((r) => `- ${r}`),
+          '',
+        ]
+      : []),
     input.followUpDate ? `Your follow-up is planned for ${input.followUpDate}.` : '',
     '',
-    cautionText,
+    clientCautionText,
     '',
     input.clinicName,
   ]
@@ -236,6 +244,26 @@ async function attemptSend(deps: UseCaseDeps, caller: Caller, mailId: string): P
   });
 }
 
+const mailSubject = (input: ReportInput) =>
+  `Your heart-sound report from ${input.clinicName}, ${input.sessionDate}`;
+
+/** The e-mail as it would go out, for the practitioner to read before sending; nothing is stored or sent. */
+export async function previewReportMail(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+  compareWith: string | null,
+): Promise<{ to: string | null; subject: string; bodyText: string; attachmentName: string }> {
+  const session = await loadSession(deps, caller, sessionId);
+  const input = await buildReportInput(deps, caller, sessionId, compareWith);
+  return {
+    to: session.clientEmail,
+    subject: mailSubject(input),
+    bodyText: mailBody(input),
+    attachmentName: reportFileName(input.clientName, input.sessionDate),
+  };
+}
+
 /** Keeps the message (with its PDF) first, then sends; a failure leaves it stored and retryable. */
 export async function sendReport(
   deps: UseCaseDeps,
@@ -259,7 +287,7 @@ export async function sendReport(
     sessionId,
     compareSessionId: request.compareWith ?? null,
     to,
-    subject: `Your heart-sound report from ${input.clinicName}, ${input.sessionDate}`,
+    subject: mailSubject(input),
     bodyText: mailBody(input),
     attachmentName: fileName,
     attachment: pdf,
