@@ -2,6 +2,7 @@ import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import zlib from 'node:zlib';
 import request from 'supertest';
 import type { Role } from '@/shared/protocol';
 import { reviewSessionDetailSchema, type ReviewSessionDetail } from '@/shared/protocol/review';
@@ -88,6 +89,67 @@ const REPORT_REFERRAL = /^\s*Please see a licensed clinician\s*$/m;
 // A row that says "refer" outright, not a short-clip note ("if it persists, refer ...").
 const refersOutright = (reading: string) =>
   /^(Above|Below) range: refer to a licensed clinician$/.test(reading);
+
+// A 1×1 PNG made here (zlib-compressed rows, CRC per the PNG specification, RFC 2083), so the logo is ours.
+function onePixelPng(): string {
+  const crcTable = Array.from({ length: 256 }, (_, n) => {
+    let c = n;
+    for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1;
+    return c >>> 0;
+  });
+  const crc = (buf: Buffer) => {
+    let c = 0xffffffff;
+    for (const b of buf) c = crcTable[(c ^ b) & 0xff]! ^ (c >>> 8);
+    return (c ^ 0xffffffff) >>> 0;
+  };
+  const chunk = (type: string, data: Buffer) => {
+    const body = Buffer.concat([Buffer.from(type, 'ascii'), data]);
+    const out = Buffer.alloc(8 + data.length + 4);
+    out.writeUInt32BE(data.length, 0);
+    body.copy(out, 4);
+    out.writeUInt32BE(crc(body), 8 + data.length);
+    return out;
+  };
+  const ihdr = Buffer.from([0, 0, 0, 1, 0, 0, 0, 1, 8, 2, 0, 0, 0]);
+  const idat = zlib.deflateSync(Buffer.from([0, 200, 80, 40]));
+  const png = Buffer.concat([
+    Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+    chunk('IHDR', ihdr),
+    chunk('IDAT', idat),
+    chunk('IEND', Buffer.alloc(0)),
+  ]);
+  return `data:image/png;base64,${png.toString('base64')}`;
+}
+
+describe("the client's report", () => {
+  test('when the clinic has a logo and an address, then the report carries both, and none of the practitioner-only text', async () => {
+    const settings = await request(ctx.app).get('/api/settings').set(auth(tokens.admin));
+    expect(settings.status).toBe(200);
+    const address = '12 Quayside Row\nPortmere PM1 4QX';
+    const saved = await request(ctx.app)
+      .put('/api/settings')
+      .set(auth(tokens.admin))
+      .send({ ...settings.body, address, logoDataUrl: onePixelPng() });
+    expect(saved.status).toBe(200);
+    const clientId = await addClient(clinic.id, 'Rhea', 'Readwell');
+    const id = await addSession({
+      clinicId: clinic.id,
+      clientId,
+      startedAt: new Date('2026-10-09T09:00:00Z'),
+      sites: { mitral: { heartRateBpm: 72 }, aortic: { heartRateBpm: 73 } },
+    });
+    const text = (await reportText(tokens.practitioner, id)).replace(/\s+/g, ' ');
+    expect(text).toContain('12 Quayside Row, Portmere PM1 4QX');
+    // Product brief, Cautions: the client's copy leaves out the sentence about the practitioner's licence.
+    expect(text).not.toContain('scope of your licence');
+    expect(text).not.toMatch(/from memory/i);
+    expect(text).not.toMatch(/SDNN|RMSSD|pNN50/);
+    expect(text).toContain('Heart rate');
+    // pdfimages (poppler-utils) lists the images the PDF holds: the logo is the only one.
+    const images = execFileSync('pdfimages', ['-list', path.join(blobDir, `${id}.pdf`)]).toString('utf8');
+    expect(images.trim().split('\n').slice(2)).toHaveLength(1);
+  });
+});
 
 describe('referral agreement', () => {
   test('when the demo clinic is reviewed, then the flagged filter, each session view, its report and its e-mail agree', async () => {

@@ -1,8 +1,8 @@
 import { randomUUID } from 'node:crypto';
 import type { Sequelize } from 'sequelize';
-import { clientCautionText } from '@/constants/cautions';
+import { clientCautionText, pleaseSeeClinician } from '@/constants/cautions';
 import type { Site } from '@/shared/protocol';
-import type { ReportMail, SendReportRequest } from '@/shared/protocol/review';
+import type { Measurement, ReportMail, SendReportRequest } from '@/shared/protocol/review';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import {
@@ -14,9 +14,11 @@ import {
   listReportMails,
 } from '../../repositories/review-mails-repository';
 import { findSessionRecord } from '../../repositories/review-repository';
+import { findSettings } from '../../repositories/settings-repository';
 import { MailSendError, type MailService } from '../../services/mail';
 import { renderReportPdf, type ReportInput, type ReportSite } from '../../services/report-pdf';
 import type { Caller, UseCaseDeps } from '../context';
+import { referralKeys } from './measurements';
 import { clipBytes, compareSessions, loadSession, reviewSitesOf, traceFromWav } from './session-view';
 import { reviewServices } from './services';
 
@@ -27,6 +29,24 @@ const SITE_LABEL: Record<Site, string> = {
   pulmonic: 'Pulmonic',
 };
 const REPORT_POINTS_PER_SECOND = 60;
+
+// The client's report speaks to the client (product brief, Cautions): plain names for the measures, no
+// beat-to-beat variability figures (a clip of seconds gives only a rough guide, which the practitioner weighs on
+// screen), and a source only where a published one was checked: never a "(from memory)" note or "no source".
+const CLIENT_LABELS: Record<string, string> = {
+  heartRateBpm: 'Heart rate',
+  s1DurationMs: 'Length of the first heart sound',
+  s2DurationMs: 'Length of the second heart sound',
+  systoleMs: 'Time from the first to the second sound',
+  diastoleMs: 'Time from the second sound to the next beat',
+  systoleDiastoleRatio: 'Balance of the two pauses',
+  s1s2PeakRatio: 'Loudness of the first sound against the second',
+  s1s2EnergyRatio: 'Strength of the first sound against the second',
+  systolicActivity: 'Sound between the first and second sound',
+  diastolicActivity: 'Sound between the second sound and the next beat',
+  usableCycles: 'Clear heartbeats recorded',
+};
+const isPublishedSource = (source: string) => !/from memory|no source|no published source/i.test(source);
 const day = (d: Date) => d.toISOString().slice(0, 10);
 
 /** Everything a session's report shows: the four traces with S1/S2, measurements against ranges, findings. */
@@ -59,22 +79,24 @@ export async function buildReportInput(
       quality: view.qualityVerdict,
       trace,
       sounds: view.sounds,
-      measurements: view.measurements.map((m) => {
-        let sourceIndex = -1;
-        if (m.range) {
-          sourceIndex = sources.indexOf(m.range.source);
-          if (sourceIndex < 0) sourceIndex = sources.push(m.range.source) - 1;
-        }
-        return {
-          key: m.key,
-          label: m.label,
-          reading: m.reading,
-          unit: m.unit,
-          value: m.value,
-          status: m.status,
-          range: m.range ? { low: m.range.low, high: m.range.high, sourceIndex } : null,
-        };
-      }),
+      measurements: view.measurements
+        .filter((m) => CLIENT_LABELS[m.key] !== undefined)
+        .map((m) => {
+          let sourceIndex = -1;
+          if (m.range && isPublishedSource(m.range.source)) {
+            sourceIndex = sources.indexOf(m.range.source);
+            if (sourceIndex < 0) sourceIndex = sources.push(m.range.source) - 1;
+          }
+          return {
+            key: m.key,
+            label: CLIENT_LABELS[m.key]!,
+            reading: clientReading(m),
+            unit: m.unit,
+            value: m.value,
+            status: m.status,
+            range: m.range ? { low: m.range.low, high: m.range.high, sourceIndex } : null,
+          };
+        }),
     });
   }
   let comparison: ReportInput['comparison'] = null;
@@ -83,18 +105,21 @@ export async function buildReportInput(
     comparison = {
       date: c.then.startedAt.slice(0, 10),
       rows: c.rows
-        .filter((r) => r.then !== null || r.now !== null)
+        .filter((r) => (r.then !== null || r.now !== null) && CLIENT_LABELS[r.key] !== undefined)
         .map((r) => ({
           site: SITE_LABEL[r.site],
           key: r.key,
-          label: r.label,
+          label: CLIENT_LABELS[r.key]!,
           unit: r.unit,
           then: r.then,
           now: r.now,
         })),
     };
   }
+  const settings = await findSettings(deps.sequelize, caller.clinicId);
   return {
+    clinicAddress: settings?.address ?? null,
+    clinicLogo: logoBytes(settings?.logo_data_url ?? null),
     referral: {
       flagged: referral.flagged,
       // The client reads the same reasons, the practitioner's own in their words.
@@ -117,6 +142,23 @@ export async function buildReportInput(
     sources,
     generatedAt: `${new Date().toISOString().slice(0, 16).replace('T', ' ')} UTC`,
   };
+}
+
+/** The reading in the client's words: "please see" where the practitioner reads "refer". */
+function clientReading(m: Measurement): string {
+  if (m.status !== 'above' && m.status !== 'below')
+    return m.status === 'in_range' ? 'Within the usual range' : '';
+  const side = m.status === 'above' ? 'Above' : 'Below';
+  if ((referralKeys as readonly string[]).includes(m.key))
+    return `${side} the usual range: ${pleaseSeeClinician}`;
+  if (m.key === 'usableCycles') return 'Too few clear heartbeats for steady figures';
+  return `${side} the usual range: your practitioner follows this across visits`;
+}
+
+/** The logo stored in Settings (a PNG or JPEG data URL) as bytes pdfkit draws; null when there is none. */
+function logoBytes(dataUrl: string | null): Buffer | null {
+  const match = dataUrl ? /^data:image\/(png|jpeg);base64,(.+)$/.exec(dataUrl) : null;
+  return match ? Buffer.from(match[2]!, 'base64') : null;
 }
 
 export function reportFileName(clientName: string, date: string): string {
