@@ -82,6 +82,8 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     await visible(page, 'site-mitral-measurements-s1DurationMs').waitFor();
     expect(await visible(page, 'source-1').textContent()).toMatch(/^\[1\] .+\.$/);
     await screenshot(page, 'review-session-view');
+    await visible(page, 'site-mitral-measurements-more').click();
+    await visible(page, 'site-mitral-gestures').scrollIntoViewIfNeeded();
 
     // Zoom and pan along time.
     const before = await visible(page, 'site-mitral-window').textContent();
@@ -262,7 +264,6 @@ test('when the practitioner filters for referral on a phone, then the demo’s f
     await page
       .locator('[data-testid^="session-row-"]')
       .filter({ visible: true, hasText: 'Callum Brightwater' })
-      .locator('[data-testid^="open-session-"]')
       .first()
       .click();
     await page.waitForURL((url) => url.pathname.startsWith('/sessions/'));

@@ -112,7 +112,9 @@ export function murmurScreenOf(analysis: { screen?: unknown } | null | undefined
 }
 
 const formatted = (value: number | null, unit: string) =>
-  value === null ? '' : ` (${Number.isInteger(value) ? value : value.toFixed(2)}${unit ? ` ${unit}` : ''})`;
+  value === null
+    ? ''
+    : ` (${Math.abs(value) >= 10 ? Math.round(value) : value.toFixed(2)}${unit ? ` ${unit}` : ''})`;
 
 /**
  * Why a site flags its session for referral, in words: an irregular rhythm, a possible murmur, or a measure the
