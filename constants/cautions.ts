@@ -9,3 +9,18 @@ export const cautionText = cautionParagraphs.join(' ');
 
 /** The only wording for anything outside range or possibly abnormal. */
 export const referToClinician = 'refer to a licensed clinician';
+
+/**
+ * The caution as the client reads it (report and e-mail): the same caution without the sentence about the
+ * practitioner's licence, and "please see" where the practitioner reads "refer".
+ */
+export const clientCautionParagraphs = [
+  cautionParagraphs[0],
+  'A possible murmur, an irregular rhythm, or a heart rate outside the clinic\'s range is shown as "please see a licensed clinician", never as a diagnosis.',
+  'Fourpoint makes no claim linking a recording to organs, hormones, stress or supplements.',
+] as const;
+
+export const clientCautionText = clientCautionParagraphs.join(' ');
+
+/** What the client reads where the practitioner reads "refer to a licensed clinician". */
+export const pleaseSeeClinician = 'please see a licensed clinician';

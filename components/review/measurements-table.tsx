@@ -1,7 +1,10 @@
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
+import { Button } from '@/components/ui/button';
 import { colors, space } from '@/constants/theme';
 import type { Measurement } from '@/shared/protocol/review';
+import { isOutOfRange, keyMeasureKeys } from './review-words';
 
 export function formatValue(v: number | null, unit = ''): string {
   if (v === null) return '—';
@@ -18,12 +21,37 @@ export function rangeLabel(m: Measurement): string {
   return 'no range set';
 }
 
-/** Each measurement against the clinic's range, the reading in words, and the range's source. */
-export function MeasurementsTable({ measurements, testID }: { measurements: Measurement[]; testID: string }) {
+/** The numbered sources of a session's ranges, in the order the measurements first cite them. */
+export function sourceNumbers(measurements: Measurement[]): string[] {
+  const sources: string[] = [];
+  for (const m of measurements)
+    if (m.range && !sources.includes(m.range.source)) sources.push(m.range.source);
+  return sources;
+}
+
+const isKey = (m: Measurement) => (keyMeasureKeys as readonly string[]).includes(m.key);
+
+/**
+ * The key measures against the clinic's range with the reading in words and a numbered footnote to the range's
+ * source (listed in full in the sources panel); the rest behind "More measures".
+ */
+export function MeasurementsTable({
+  measurements,
+  sources,
+  testID,
+}: {
+  measurements: Measurement[];
+  sources: string[];
+  testID: string;
+}) {
+  const [more, setMore] = useState(false);
+  const shown = measurements.filter((m) => more || isKey(m));
+  const hidden = measurements.filter((m) => !isKey(m));
   return (
     <View style={styles.table} testID={testID}>
-      {measurements.map((m) => {
-        const out = m.status === 'above' || m.status === 'below';
+      {shown.map((m) => {
+        const out = isOutOfRange(m);
+        const footnote = m.range ? sources.indexOf(m.range.source) + 1 : 0;
         return (
           <View key={m.key} style={[styles.row, out && styles.outRow]} testID={`${testID}-${m.key}`}>
             <AppText variant="small" color={colors.text} style={styles.label}>
@@ -32,16 +60,10 @@ export function MeasurementsTable({ measurements, testID }: { measurements: Meas
             <AppText variant="number" color={out ? colors.danger : colors.ink} style={styles.value}>
               {formatValue(m.value, m.unit)}
             </AppText>
-            <View style={styles.range}>
-              <AppText variant="caption" color={colors.textMuted}>
-                {rangeLabel(m)}
-              </AppText>
-              {m.range ? (
-                <AppText variant="caption" color={colors.textMuted} numberOfLines={2}>
-                  Source: {m.range.source}
-                </AppText>
-              ) : null}
-            </View>
+            <AppText variant="caption" color={colors.textMuted} style={styles.range}>
+              {rangeLabel(m)}
+              {footnote > 0 ? ` [${footnote}]` : ''}
+            </AppText>
             <AppText
               variant={out ? 'smallStrong' : 'small'}
               color={out ? colors.danger : colors.textMuted}
@@ -52,6 +74,14 @@ export function MeasurementsTable({ measurements, testID }: { measurements: Meas
           </View>
         );
       })}
+      {hidden.length ? (
+        <Button
+          label={more ? 'Fewer measures' : `More measures (${hidden.length})`}
+          variant="ghost"
+          testID={`${testID}-more`}
+          onPress={() => setMore(!more)}
+        />
+      ) : null}
     </View>
   );
 }
@@ -60,6 +90,7 @@ const styles = StyleSheet.create({
   table: { borderTopWidth: 1, borderTopColor: colors.line },
   row: {
     flexDirection: 'row',
+    flexWrap: 'wrap',
     gap: space.sm,
     paddingVertical: 4,
     borderBottomWidth: 1,
@@ -67,8 +98,8 @@ const styles = StyleSheet.create({
     alignItems: 'center',
   },
   outRow: { backgroundColor: colors.dangerSoft },
-  label: { flex: 2.2 },
-  value: { flex: 1.2, textAlign: 'right' },
-  range: { flex: 2 },
-  reading: { flex: 2.2 },
+  label: { flexGrow: 2, flexBasis: 140 },
+  value: { flexGrow: 1, flexBasis: 70, textAlign: 'right' },
+  range: { flexGrow: 1, flexBasis: 80 },
+  reading: { flexGrow: 2, flexBasis: 160 },
 });

@@ -3,9 +3,11 @@ import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
+import { formatDate, formatTime } from '@/components/ui/format';
 import { colors, radii, space } from '@/constants/theme';
 import {
   downloadReport,
+  useReportMailPreviewQuery,
   useReportMailsQuery,
   useRetryMailMutation,
   useSendReportMutation,
@@ -28,6 +30,9 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
   const retry = useRetryMailMutation(sessionId);
   const [downloadError, setDownloadError] = useState<string | null>(null);
   const [downloading, setDownloading] = useState(false);
+  // The e-mail is read before it goes: the first press shows it, "Send now" sends it.
+  const [previewing, setPreviewing] = useState(false);
+  const preview = useReportMailPreviewQuery(sessionId, compareWith, previewing);
   return (
     <View style={styles.box} testID="report-panel">
       <AppText variant="heading" color={colors.ink}>
@@ -53,13 +58,53 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
           }}
         />
         <Button
-          label={clientEmail ? `E-mail to ${clientEmail}` : 'No client e-mail on file'}
-          testID="report-send"
-          disabled={!clientEmail || !canSend}
-          busy={send.isPending}
-          onPress={() => send.mutate({ compareWith })}
+          label={clientEmail ? `Preview e-mail to ${clientEmail}` : 'No client e-mail on file'}
+          variant={previewing ? 'secondary' : 'primary'}
+          testID="report-preview"
+          disabled={!clientEmail || !canSend || previewing}
+          onPress={() => setPreviewing(true)}
         />
       </View>
+      {previewing ? (
+        <View style={styles.preview} testID="report-mail-preview">
+          {preview.isPending ? (
+            <AppText variant="small" color={colors.textMuted}>
+              Preparing the e-mail…
+            </AppText>
+          ) : preview.isError ? (
+            <AppText variant="small" color={colors.danger}>
+              {preview.error.message}
+            </AppText>
+          ) : (
+            <>
+              <AppText variant="smallStrong" color={colors.ink}>
+                To: {preview.data.to} · Subject: {preview.data.subject}
+              </AppText>
+              <AppText variant="small" color={colors.text} testID="report-mail-preview-body">
+                {preview.data.bodyText}
+              </AppText>
+              <AppText variant="caption" color={colors.textMuted}>
+                Attached: {preview.data.attachmentName} (the same report as Download PDF)
+              </AppText>
+            </>
+          )}
+          <View style={styles.row}>
+            <Button
+              label="Send now"
+              testID="report-send"
+              disabled={!preview.isSuccess}
+              busy={send.isPending}
+              onPress={() => send.mutate({ compareWith }, { onSuccess: () => setPreviewing(false) })}
+            />
+            <Button
+              label="Cancel"
+              variant="ghost"
+              testID="report-preview-cancel"
+              onPress={() => setPreviewing(false)}
+            />
+          </View>
+        </View>
+      ) : null}
       {downloadError ? (
         <AppText variant="small" color={colors.danger}>
           {downloadError}
@@ -74,12 +119,11 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
         <View key={m.id} style={styles.mail} testID={`report-mail-${m.state}`}>
           <Badge label={m.state === 'failed' ? 'not delivered' : m.state} tone={stateTone[m.state]} />
           <AppText variant="small" color={colors.text} style={styles.flex}>
-            {m.to} · {new Date(m.createdAt).toLocaleString()} · {m.attempts} attempt
-            {m.attempts === 1 ? '' : 's'}
+            {m.to} · {formatDate(m.createdAt)} {formatTime(m.createdAt)}
             {m.lastError ? ` · ${m.lastError}` : ''}
             {m.state === 'failed'
               ? m.nextAttemptAt
-                ? ` · tried again by itself at ${new Date(m.nextAttemptAt).toLocaleTimeString([], { hour: '2-digit', minute: '2-digit' })}`
+                ? ` · tried again by itself at ${formatTime(m.nextAttemptAt)}`
                 : ' · not tried again by itself: check the address, then retry'
               : ''}
           </AppText>
@@ -108,6 +152,13 @@ const styles = StyleSheet.create({
     gap: space.sm,
   },
   row: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
+  preview: {
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.sm,
+    padding: space.md,
+    gap: space.xs,
+  },
   mail: { flexDirection: 'row', gap: space.sm, alignItems: 'center' },
   flex: { flex: 1 },
 });

@@ -7,7 +7,6 @@ import { CautionNote } from '@/components/ui/caution-note';
 import { formatDate, formatTime } from '@/components/ui/format';
 import { ScreenFrame } from '@/components/ui/screen-frame';
 import { ErrorState, LoadingState } from '@/components/ui/state-views';
-import { referToClinician } from '@/constants/cautions';
 import { colors, radii, space } from '@/constants/theme';
 import { useAuth } from '@/hooks/auth/auth-context';
 import {
@@ -19,6 +18,9 @@ import {
 import { useLayout } from '@/hooks/use-layout';
 import { usePlayback } from './clip-playback';
 import { ComparisonTable } from './comparison-table';
+import { sourceNumbers } from './measurements-table';
+import { ReferralPanel } from './referral-panel';
+import { SiteSummaryStrip } from './site-summary-strip';
 import { NotesForm } from './notes-form';
 import { ReportPanel } from './report-panel';
 import { SiteCard } from './site-card';
@@ -64,6 +66,8 @@ export function SessionViewScreen() {
   const clientName = `${s.client.firstName} ${s.client.lastName}`;
   const date = s.startedAt.slice(0, 10);
   const fileName = `fourpoint-report-${clientName.toLowerCase().replace(/[^a-z0-9]+/g, '-')}-${date}.pdf`;
+  const sources = sourceNumbers(s.sites.flatMap((site) => site.measurements));
+  const canEdit = auth.user?.role === 'practitioner';
 
   return (
     <ScreenFrame
@@ -72,14 +76,8 @@ export function SessionViewScreen() {
       testID="session-view"
     >
       <CautionNote compact />
-      {s.flagged ? (
-        <View style={styles.flag} testID="session-flagged" accessibilityRole="alert">
-          <AppText variant="bodyStrong" color={colors.danger}>
-            ⚠ Some readings are outside the clinic&apos;s range or the rhythm is irregular: {referToClinician}
-            .
-          </AppText>
-        </View>
-      ) : null}
+      <SiteSummaryStrip sites={s.sites} />
+      <ReferralPanel sessionId={sessionId} referral={s.referral} canEdit={canEdit} />
       <View style={styles.toolbar}>
         <AppText variant="smallStrong" color={colors.ink}>
           Compare with:
@@ -129,25 +127,50 @@ export function SessionViewScreen() {
       <View style={[styles.grid, isWide && styles.gridWide]} testID="site-grid">
         {s.sites.map((site) => (
           <View key={site.site} style={isWide ? styles.cellWide : styles.cell}>
-            <SiteCard sessionId={sessionId} site={site} playback={playback} compare={compareFor(site.site)} />
+            <SiteCard
+              sessionId={sessionId}
+              site={site}
+              playback={playback}
+              compare={compareFor(site.site)}
+              sources={sources}
+            />
           </View>
         ))}
       </View>
       {comparison.data ? <ComparisonTable comparison={comparison.data} /> : null}
-      <NotesForm sessionId={sessionId} notes={s.notes} canEdit={auth.user?.role === 'practitioner'} />
+      {sources.length ? (
+        <View style={styles.sources} testID="sources-panel">
+          <AppText variant="smallStrong" color={colors.ink}>
+            Sources of the ranges
+          </AppText>
+          {sources.map((source, i) => (
+            <AppText key={source} variant="caption" color={colors.textMuted} testID={`source-${i + 1}`}>
+              [{i + 1}] {source}
+            </AppText>
+          ))}
+        </View>
+      ) : null}
+      <NotesForm sessionId={sessionId} notes={s.notes} canEdit={canEdit} />
       <ReportPanel
         sessionId={sessionId}
         compareWith={compareWith}
         clientEmail={s.client.email}
         fileName={fileName}
-        canSend={auth.user?.role === 'practitioner'}
+        canSend={canEdit}
       />
     </ScreenFrame>
   );
 }
 
 const styles = StyleSheet.create({
-  flag: { backgroundColor: colors.dangerSoft, borderRadius: radii.md, padding: space.md },
+  sources: {
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    padding: space.md,
+    gap: 2,
+  },
   toolbar: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
   chip: {
     borderWidth: 1,

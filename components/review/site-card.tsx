@@ -11,6 +11,7 @@ import { fetchClipUrl, useTraceQuery } from '@/hooks/api/review';
 import type { ReviewSite } from '@/shared/protocol/review';
 import type { Playback } from './clip-playback';
 import { MeasurementsTable } from './measurements-table';
+import { qualityWords } from './review-words';
 import { clampWindow, panWindow, zoomWindow, type TimeWindow } from './time-window';
 import { TraceGestures } from './trace-gestures';
 import { TraceView } from './trace-view';
@@ -22,9 +23,24 @@ type Props = {
   site: ReviewSite;
   playback: Playback;
   compare: { sessionId: string; mode: 'beside' | 'over'; shiftS: number; label: string } | null;
+  sources: string[];
 };
 
-export function SiteCard({ sessionId, site, playback, compare }: Props) {
+export function SiteCard(props: Props) {
+  const { site } = props;
+  // A skipped site is one line with its reason: nothing was recorded, so there is nothing to measure.
+  if (site.skippedReason)
+    return (
+      <View style={styles.card} testID={`site-${site.site}`}>
+        <AppText variant="bodyStrong" color={colors.ink} testID={`site-${site.site}-skipped`}>
+          {siteInfo(site.site).label}: skipped. {site.skippedReason}
+        </AppText>
+      </View>
+    );
+  return <RecordedSiteCard {...props} />;
+}
+
+function RecordedSiteCard({ sessionId, site, playback, compare, sources }: Props) {
   const info = siteInfo(site.site);
   const trace = useTraceQuery(site.hasAudio ? sessionId : null, site.site);
   const then = useTraceQuery(compare?.sessionId ?? null, site.site, Boolean(compare));
@@ -56,14 +72,8 @@ export function SiteCard({ sessionId, site, playback, compare }: Props) {
         </AppText>
         {site.qualityVerdict ? (
           <Badge
-            label={`quality: ${site.qualityVerdict}`}
-            tone={
-              site.qualityVerdict === 'good'
-                ? 'good'
-                : site.qualityVerdict === 'usable'
-                  ? 'caution'
-                  : 'danger'
-            }
+            label={qualityWords[site.qualityVerdict].label}
+            tone={qualityWords[site.qualityVerdict].tone}
           />
         ) : null}
         {site.heartRateBpm !== null ? (
@@ -72,14 +82,9 @@ export function SiteCard({ sessionId, site, playback, compare }: Props) {
           </AppText>
         ) : null}
         {site.irregularRhythm ? (
-          <Badge label={`irregular rhythm: ${referToClinician}`} tone="danger" />
+          <Badge label={`Irregular rhythm: ${referToClinician}`} tone="danger" />
         ) : null}
       </View>
-      {site.skippedReason ? (
-        <AppText variant="small" color={colors.textMuted}>
-          Skipped: {site.skippedReason}
-        </AppText>
-      ) : null}
       {!site.hasAudio ? (
         <AppText variant="small" color={colors.textMuted} testID={`${tid}-no-clip`}>
           No clip on the server for this site.
@@ -159,7 +164,7 @@ export function SiteCard({ sessionId, site, playback, compare }: Props) {
           {site.qualityReasons.join(' ')}
         </AppText>
       ) : null}
-      <MeasurementsTable measurements={site.measurements} testID={`${tid}-measurements`} />
+      <MeasurementsTable measurements={site.measurements} sources={sources} testID={`${tid}-measurements`} />
     </View>
   );
 }

@@ -10,10 +10,12 @@ import {
   reportMailResponseSchema,
   reviewNotesSchema,
   reviewSessionDetailSchema,
+  sessionReferralSchema,
   staleNotesDetailsSchema,
   traceSchema,
   trendsSchema,
   type SaveNotesRequest,
+  type SetReferralFlagRequest,
   type StaleNotesDetails,
 } from '@/shared/protocol/review';
 import { z } from 'zod';
@@ -111,6 +113,51 @@ export function useSaveNotesMutation(sessionId: string) {
       void queryClient.invalidateQueries({ queryKey: reviewKey(sessionId) });
       void queryClient.invalidateQueries({ queryKey: reviewSessionsKey });
     },
+  });
+}
+
+export function useReferralFlagMutation(sessionId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: async (body: SetReferralFlagRequest) =>
+      unwrap(
+        await request(
+          { method: 'PUT', url: `/review/sessions/${sessionId}/referral-flag`, data: body },
+          z.object({ referral: sessionReferralSchema }),
+        ),
+      ).referral,
+    onSuccess: () => {
+      void queryClient.invalidateQueries({ queryKey: reviewKey(sessionId) });
+      void queryClient.invalidateQueries({ queryKey: reviewSessionsKey });
+    },
+  });
+}
+
+const mailPreviewSchema = z.object({
+  preview: z.object({
+    to: z.string().nullable(),
+    subject: z.string(),
+    bodyText: z.string(),
+    attachmentName: z.string(),
+  }),
+});
+
+/** The report e-mail as it would go out; fetched only when the practitioner asks to see it. */
+export function useReportMailPreviewQuery(sessionId: string, compareWith: string | null, enabled: boolean) {
+  return useQuery({
+    queryKey: [...reviewKey(sessionId), 'mail-preview', compareWith],
+    enabled,
+    queryFn: async () =>
+      unwrap(
+        await request(
+          {
+            method: 'GET',
+            url: `/review/sessions/${sessionId}/report-mail-preview`,
+            params: compareWith ? { compareWith } : undefined,
+          },
+          mailPreviewSchema,
+        ),
+      ).preview,
   });
 }
 

@@ -60,6 +60,17 @@ export const measurementSchema = z.object({
 });
 export type Measurement = z.infer<typeof measurementSchema>;
 
+/**
+ * The analysis's murmur screen of one site (`analysis.screen`); analyses made before the screen existed have
+ * none, and read as null.
+ */
+export const murmurScreenSchema = z.object({
+  murmur: z.enum(['possible', 'unlikely', 'unsure']),
+  score: z.number(),
+  reasons: z.array(z.string()),
+});
+export type MurmurScreen = z.infer<typeof murmurScreenSchema>;
+
 export const soundMarkSchema = z.object({ type: z.enum(['S1', 'S2']), startS: z.number(), endS: z.number() });
 export type SoundMark = z.infer<typeof soundMarkSchema>;
 
@@ -76,7 +87,10 @@ export const reviewSiteSchema = z.object({
   irregularRhythm: z.boolean(),
   sounds: z.array(soundMarkSchema),
   measurements: z.array(measurementSchema),
+  murmurScreen: murmurScreenSchema.nullable(),
   referral: z.boolean(),
+  /** Why this site flags the session, in words; empty when it does not. */
+  referralReasons: z.array(z.string()),
 });
 export type ReviewSite = z.infer<typeof reviewSiteSchema>;
 
@@ -89,6 +103,36 @@ export const reviewNotesSchema = z.object({
   reviewedAt: z.string().nullable(),
 });
 export type ReviewNotes = z.infer<typeof reviewNotesSchema>;
+
+/** A practitioner's own referral flag on a session, with the note they wrote. */
+export const manualReferralFlagSchema = z.object({
+  note: z.string(),
+  flaggedBy: z.string().nullable(),
+  flaggedAt: z.string(),
+});
+export type ManualReferralFlag = z.infer<typeof manualReferralFlagSchema>;
+
+/**
+ * Whether the session is flagged for referral and why: any site's referral reasons (a measure the clinic's ranges
+ * mark "refer", an irregular rhythm, a possible murmur) or the practitioner's own flag. The list filter, the session
+ * view, the report and the e-mail all read this one answer.
+ */
+export const sessionReferralSchema = z.object({
+  flagged: z.boolean(),
+  reasons: z.array(z.string()),
+  manual: manualReferralFlagSchema.nullable(),
+});
+export type SessionReferral = z.infer<typeof sessionReferralSchema>;
+
+export const setReferralFlagRequestSchema = z.object({
+  flagged: z.boolean(),
+  note: z
+    .string()
+    .trim()
+    .min(1, { error: 'Write a short note saying why.' })
+    .max(2000, { error: 'At most 2 000 characters.' }),
+});
+export type SetReferralFlagRequest = z.infer<typeof setReferralFlagRequestSchema>;
 
 export const reviewSessionDetailSchema = z.object({
   id: z.uuid(),
@@ -107,6 +151,7 @@ export const reviewSessionDetailSchema = z.object({
   notes: reviewNotesSchema,
   sites: z.array(reviewSiteSchema),
   flagged: z.boolean(),
+  referral: sessionReferralSchema,
 });
 export type ReviewSessionDetail = z.infer<typeof reviewSessionDetailSchema>;
 

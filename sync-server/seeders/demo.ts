@@ -172,7 +172,9 @@ const DEMO_CLIENTS: readonly DemoClient[] = [
     dateOfBirth: '1992-07-21',
     email: 'callum.b@example.test',
     consent: true,
-    visits: [],
+    // One visit with a rate above the default range and more sound between S1 and S2, so the demo has a session
+    // flagged for referral to review.
+    visits: [{ date: '2026-11-25', bpm: 108, s1s2Scale: 1, systolicHum: 0.3, reviewed: false }],
   },
   {
     key: 'saoirse-pendleford',

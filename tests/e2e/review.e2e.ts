@@ -6,8 +6,8 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
-import { cautionParagraphs } from '@/constants/cautions';
-import { launchBrowser, newPage, screenshot, screenshotDir, WIDE } from '@/tests/support/browser';
+import { cautionParagraphs, clientCautionParagraphs } from '@/constants/cautions';
+import { launchBrowser, newPage, PHONE, screenshot, screenshotDir, WIDE } from '@/tests/support/browser';
 import { demoPassword } from './helpers/operator';
 
 jest.setTimeout(180_000);
@@ -62,11 +62,28 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     await page.locator('[data-testid="site-mitral-trace-S1"]').first().waitFor({ state: 'attached' });
     await page.locator('[data-testid="site-mitral-trace-S2"]').first().waitFor({ state: 'attached' });
     await visible(page, 'caution-note').waitFor();
+    // The summary strip leads, in words: rate, recording quality, murmur screen, measures out of range.
+    const summary = await visible(page, 'site-summary-mitral').textContent();
+    expect(summary).toMatch(/\d+ bpm/);
+    expect(summary).toMatch(/Good recording|Usable recording|Retake advised/);
+    expect(summary).toMatch(
+      /Possible murmur: refer to a licensed clinician|No murmur pattern found|Could not tell|Murmur screen not run/,
+    );
+    expect(summary).toMatch(/All measures in range|\d+ measures? out of range/);
+    // The referral panel agrees with the list (this visit is not flagged in the demo).
+    expect(await visible(page, 'referral-state').textContent()).toContain('Not flagged for referral');
     const rate = await visible(page, 'site-mitral-measurements-heartRateBpm').textContent();
     expect(rate).toMatch(/Heart rate/);
-    expect(rate).toMatch(/Source:/);
+    expect(rate).toMatch(/\[\d+\]/);
     expect(rate).toMatch(/Within range|refer to a licensed clinician/);
+    // Key measures first; the rest behind "More measures"; the sources in full in their own panel.
+    expect(await page.getByTestId('site-mitral-measurements-s1DurationMs').count()).toBe(0);
+    await visible(page, 'site-mitral-measurements-more').click();
+    await visible(page, 'site-mitral-measurements-s1DurationMs').waitFor();
+    expect(await visible(page, 'source-1').textContent()).toMatch(/^\[1\] .+\.$/);
     await screenshot(page, 'review-session-view');
+    await visible(page, 'site-mitral-measurements-more').click();
+    await visible(page, 'site-mitral-gestures').scrollIntoViewIfNeeded();
 
     // Zoom and pan along time.
     const before = await visible(page, 'site-mitral-window').textContent();
@@ -135,7 +152,13 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     await visible(page, 'notes-save').click();
     await visible(page, 'notes-saved').waitFor();
 
-    // E-mail the report (with the comparison) to the client's address on file.
+    // E-mail the report (with the comparison) to the client's address on file, read first in a preview.
+    await visible(page, 'report-preview').click();
+    const previewBody = await visible(page, 'report-mail-preview-body').textContent();
+    expect(previewBody).toContain('Hello Wren Halloway');
+    expect(previewBody).not.toContain('scope of your licence');
+    await visible(page, 'report-mail-preview').scrollIntoViewIfNeeded();
+    await screenshot(page, 'review-mail-preview');
     await visible(page, 'report-send').click();
     await visible(page, 'report-mail-sent').waitFor({ timeout: 30_000 });
     await visible(page, 'report-panel').scrollIntoViewIfNeeded();
@@ -215,9 +238,43 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     expect(text).toContain('Repeat the four sites in six weeks.');
     expect(text).toContain('Follow-up: 2027-01-20');
     expect(text).toMatch(/Compared with the visit of 2026-05-06/);
-    for (const p of cautionParagraphs) expect(text).toContain(p.slice(0, 50));
+    for (const p of clientCautionParagraphs) expect(text).toContain(p.slice(0, 50));
+    // Written for the client (product brief, Cautions): no licence sentence, no unchecked sources, no jargon.
+    expect(text).not.toContain('scope of your licence');
+    expect(text).not.toMatch(/from memory/i);
+    expect(text).not.toMatch(/SDNN|RMSSD|pNN50/);
     for (const site of ['Mitral', 'Tricuspid', 'Aortic', 'Pulmonic']) expect(text).toContain(site);
   } finally {
     await admin.context.close();
+  }
+});
+
+test('when the practitioner filters for referral on a phone, then the demo’s flagged visit is listed and its view says why, in the same words', async () => {
+  const { context, page } = await newPage(browser, PHONE);
+  try {
+    await signIn(page, 'practitioner@demo.fourpoint.test');
+    await page.waitForURL((url) => url.pathname === '/sessions');
+    await visible(page, 'filters-toggle').click();
+    await visible(page, 'filter-flagged').click();
+    await page.waitForFunction(() => {
+      const rows = Array.from(document.querySelectorAll('[data-testid^="session-row-"]'));
+      return rows.length > 0 && rows.some((r) => r.textContent?.includes('Callum Brightwater'));
+    });
+    await screenshot(page, 'review-flagged-phone');
+    await page
+      .locator('[data-testid^="session-row-"]')
+      .filter({ visible: true, hasText: 'Callum Brightwater' })
+      .first()
+      .click();
+    await page.waitForURL((url) => url.pathname.startsWith('/sessions/'));
+    const state = await visible(page, 'referral-state').textContent();
+    expect(state).toContain('Flagged for referral: refer to a licensed clinician');
+    expect(await visible(page, 'referral-reasons').textContent()).toMatch(
+      /Heart rate above the clinic's range/,
+    );
+    await visible(page, 'site-summary').waitFor();
+    await screenshot(page, 'review-flagged-session-phone');
+  } finally {
+    await context.close();
   }
 });

@@ -235,6 +235,22 @@ const cases: Record<string, CrossCase> = {
     probe: () => ({ path: `/api/review/sessions/${a.sessionId}/notes`, body: notes }),
     namesA: { unknown: () => ({ path: `/api/review/sessions/${fresh()}/notes`, body: notes }) },
   },
+  'put /api/review/sessions/:sessionId/referral-flag': {
+    probe: () => ({
+      path: `/api/review/sessions/${a.sessionId}/referral-flag`,
+      body: { flagged: true, note: 'Probe from clinic B' },
+    }),
+    namesA: {
+      unknown: () => ({
+        path: `/api/review/sessions/${fresh()}/referral-flag`,
+        body: { flagged: true, note: 'Probe from clinic B' },
+      }),
+    },
+  },
+  'get /api/review/sessions/:sessionId/report-mail-preview': {
+    probe: () => ({ path: `/api/review/sessions/${a.sessionId}/report-mail-preview` }),
+    namesA: { unknown: () => ({ path: `/api/review/sessions/${fresh()}/report-mail-preview` }) },
+  },
   'get /api/review/sessions/:sessionId/report': {
     probe: () => ({ path: `/api/review/sessions/${a.sessionId}/report` }),
     namesA: { unknown: () => ({ path: `/api/review/sessions/${fresh()}/report` }) },

@@ -367,8 +367,10 @@ describe('report by e-mail', () => {
     const detail = (await (
       await fetch(`http://127.0.0.1:${fake.httpPort}/api/messages/${message.id}`)
     ).json()) as { text: string };
-    expect(detail.text).toContain('refer to a licensed clinician');
+    // Written for the client (product brief, Cautions): "please see", and no sentence about the practitioner's licence.
+    expect(detail.text).toContain('Please see a licensed clinician.');
     expect(detail.text).toContain(cautionParagraphs[0]);
+    expect(detail.text).not.toContain('scope of your licence');
   });
 
   test('when the relay defers the message, then it is kept as failed with the reason, and a retry delivers it once', async () => {

@@ -9,7 +9,14 @@ const RANK_QUALITY: Record<number, QualityVerdict> = { 1: 'good', 2: 'usable', 3
 /** Per-site limits beyond which a site reads "refer to a licensed clinician" (null: no limit). */
 export type ReferralLimits = Record<
   Site,
-  { hrLow: number | null; hrHigh: number | null; systolicHigh: number | null; diastolicHigh: number | null }
+  {
+    hrLow: number | null;
+    hrHigh: number | null;
+    systolicLow: number | null;
+    systolicHigh: number | null;
+    diastolicLow: number | null;
+    diastolicHigh: number | null;
+  }
 >;
 
 export type ReviewListFilter = {
@@ -50,20 +57,27 @@ function limitsJoin(limits: ReferralLimits, replacements: Record<string, unknown
       replacements[`site${i}`] = site;
       replacements[`hrLow${i}`] = l.hrLow;
       replacements[`hrHigh${i}`] = l.hrHigh;
+      replacements[`sysLow${i}`] = l.systolicLow;
       replacements[`sysHigh${i}`] = l.systolicHigh;
+      replacements[`diaLow${i}`] = l.diastolicLow;
       replacements[`diaHigh${i}`] = l.diastolicHigh;
-      return `(:site${i}, CAST(:hrLow${i} AS real), CAST(:hrHigh${i} AS real), CAST(:sysHigh${i} AS real), CAST(:diaHigh${i} AS real))`;
+      return `(:site${i}, CAST(:hrLow${i} AS real), CAST(:hrHigh${i} AS real), CAST(:sysLow${i} AS real), CAST(:sysHigh${i} AS real), CAST(:diaLow${i} AS real), CAST(:diaHigh${i} AS real))`;
     })
     .join(', ');
-  return `JOIN (VALUES ${rows}) AS r(site, hr_low, hr_high, sys_high, dia_high) ON ${same ? 'true' : 'r.site = sr.site'}`;
+  return `JOIN (VALUES ${rows}) AS r(site, hr_low, hr_high, sys_low, sys_high, dia_low, dia_high) ON ${same ? 'true' : 'r.site = sr.site'}`;
 }
+
+// Whether a site reads "refer to a licensed clinician" under the clinic's limits: the rules of
+// siteReferralReasons (use-cases/review/measurements.ts) over the generated columns of the analysis of record.
+const siteFlag = `sr.review_irregular OR sr.review_possible_murmur
+    OR sr.review_heart_rate < r.hr_low OR sr.review_heart_rate > r.hr_high
+    OR sr.review_systolic_activity < r.sys_low OR sr.review_systolic_activity > r.sys_high
+    OR sr.review_diastolic_activity < r.dia_low OR sr.review_diastolic_activity > r.dia_high`;
 
 // Per site: its quality rank, and whether it reads "refer to a licensed clinician" under the clinic's limits.
 const siteFacts = `
   CASE sr.quality_verdict WHEN 'good' THEN 1 WHEN 'usable' THEN 2 WHEN 'retake' THEN 3 END AS rank,
-  (sr.review_irregular
-    OR sr.review_heart_rate < r.hr_low OR sr.review_heart_rate > r.hr_high
-    OR sr.review_systolic_activity > r.sys_high OR sr.review_diastolic_activity > r.dia_high) AS flag`;
+  (${siteFlag}) AS flag`;
 
 function filterSql(
   clinicId: string,
@@ -103,10 +117,10 @@ function filterSql(
   const sitesOf = (condition: string) =>
     `EXISTS (SELECT 1 FROM site_recordings sr ${limitsJoin(limits, replacements)}
               WHERE sr.clinic_id = :clinicId AND sr.session_id = s.id AND sr.deleted_at IS NULL AND (${condition}))`;
-  const flag = `sr.review_irregular OR sr.review_heart_rate < r.hr_low OR sr.review_heart_rate > r.hr_high
-                OR sr.review_systolic_activity > r.sys_high OR sr.review_diastolic_activity > r.dia_high`;
-  if (filter.flagged === true) where.push(sitesOf(flag));
-  if (filter.flagged === false) where.push(`NOT ${sitesOf(flag)}`);
+  // Flagged: a site's facts say refer (the same rules as siteReferralReasons), or a practitioner flagged it.
+  const flaggedByHand = `EXISTS (SELECT 1 FROM session_referral_flags f WHERE f.clinic_id = :clinicId AND f.session_id = s.id)`;
+  if (filter.flagged === true) where.push(`(${sitesOf(siteFlag)} OR ${flaggedByHand})`);
+  if (filter.flagged === false) where.push(`NOT ${sitesOf(siteFlag)} AND NOT ${flaggedByHand}`);
   if (filter.quality) {
     // The worst site decides: one site at this verdict and none worse.
     const worse = (['good', 'usable', 'retake'] as const).filter(
@@ -137,6 +151,7 @@ type ListRow = {
   follow_up_date: string | null;
   worst_rank: number | null;
   flagged: boolean | null;
+  flagged_by_hand: boolean;
   sites: { site: Site; verdict: QualityVerdict | null; skipped: boolean }[] | null;
 };
 
@@ -191,7 +206,8 @@ export async function listReviewSessions(
   const details = ids.length
     ? await sequelize.query<ListRow>(
         `SELECT s.id, s.client_id, c.first_name || ' ' || c.last_name AS client_name, s.operator_id, u.name AS operator_name,
-                s.status, s.started_at, s.follow_up_date, f.worst_rank, f.flagged, f.sites
+                s.status, s.started_at, s.follow_up_date, f.worst_rank, f.flagged, f.sites,
+                EXISTS (SELECT 1 FROM session_referral_flags m WHERE m.clinic_id = s.clinic_id AND m.session_id = s.id) AS flagged_by_hand
            FROM recording_sessions s
            JOIN clients c ON c.id = s.client_id AND c.clinic_id = s.clinic_id
            LEFT JOIN users u ON u.id = s.operator_id AND u.clinic_id = s.clinic_id
@@ -225,7 +241,7 @@ export async function listReviewSessions(
         startedAt: new Date(r.started_at).toISOString(),
         followUpDate: r.follow_up_date,
         worstQuality: r.worst_rank ? RANK_QUALITY[r.worst_rank] : null,
-        flagged: r.flagged === true,
+        flagged: r.flagged === true || r.flagged_by_hand === true,
         sites: (r.sites ?? []).sort((a, b) => SITES.indexOf(a.site) - SITES.indexOf(b.site)),
         sortValue: sortValue.get(r.id) ?? '',
       })),
@@ -271,6 +287,8 @@ export type AnalysisLike = {
   sounds?: { type: 'S1' | 'S2'; startS: number; endS: number }[];
   metrics?: Record<string, unknown>;
   quality?: { verdict?: string; reasons?: { code: string; message: string }[] };
+  /** The murmur screen; absent in analyses made before it existed. */
+  screen?: unknown;
 };
 
 export async function findSessionRecord(
@@ -402,4 +420,49 @@ export async function findClipBlob(sequelize: Sequelize, clinicId: string, sha25
   );
   const r = rows[0];
   return r ? { storageKey: r.storage_key, contentType: r.content_type, state: r.state } : null;
+}
+
+export type ReferralFlagRecord = { note: string; flaggedByName: string | null; flaggedAt: Date };
+
+export async function findReferralFlag(
+  sequelize: Sequelize,
+  clinicId: string,
+  sessionId: string,
+  transaction?: Transaction,
+): Promise<ReferralFlagRecord | null> {
+  const rows = await sequelize.query<{ note: string; name: string | null; flagged_at: string }>(
+    `SELECT f.note, u.name, f.flagged_at FROM session_referral_flags f
+       LEFT JOIN users u ON u.id = f.flagged_by
+      WHERE f.clinic_id = :clinicId AND f.session_id = :sessionId`,
+    { replacements: { clinicId, sessionId }, type: QueryTypes.SELECT, transaction },
+  );
+  const r = rows[0];
+  return r ? { note: r.note, flaggedByName: r.name, flaggedAt: new Date(r.flagged_at) } : null;
+}
+
+/** Sets (or replaces) the practitioner's flag on a session. */
+export async function upsertReferralFlag(
+  sequelize: Sequelize,
+  values: { clinicId: string; sessionId: string; note: string; flaggedBy: string },
+  transaction: Transaction,
+): Promise<void> {
+  await sequelize.query(
+    `INSERT INTO session_referral_flags (clinic_id, session_id, note, flagged_by, flagged_at)
+     VALUES (:clinicId, :sessionId, :note, :flaggedBy, now())
+     ON CONFLICT (clinic_id, session_id) DO UPDATE
+       SET note = EXCLUDED.note, flagged_by = EXCLUDED.flagged_by, flagged_at = EXCLUDED.flagged_at`,
+    { replacements: values, transaction },
+  );
+}
+
+export async function deleteReferralFlag(
+  sequelize: Sequelize,
+  clinicId: string,
+  sessionId: string,
+  transaction: Transaction,
+): Promise<void> {
+  await sequelize.query(
+    `DELETE FROM session_referral_flags WHERE clinic_id = :clinicId AND session_id = :sessionId`,
+    { replacements: { clinicId, sessionId }, transaction },
+  );
 }

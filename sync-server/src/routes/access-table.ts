@@ -109,6 +109,18 @@ export const accessTable: readonly RouteSpec[] = [
     handler: r.reviewSaveNotes,
   },
   {
+    method: 'put',
+    path: '/api/review/sessions/:sessionId/referral-flag',
+    access: ['practitioner'],
+    handler: r.reviewSetReferralFlag,
+  },
+  {
+    method: 'get',
+    path: '/api/review/sessions/:sessionId/report-mail-preview',
+    access: ['practitioner'],
+    handler: r.reviewReportMailPreview,
+  },
+  {
     method: 'get',
     path: '/api/review/sessions/:sessionId/report',
     access: ['practitioner', 'admin'],

@@ -5,6 +5,7 @@ import {
   reviewSessionQuerySchema,
   saveNotesRequestSchema,
   sendReportRequestSchema,
+  setReferralFlagRequestSchema,
   type Comparison,
   type ReviewSessionDetail,
   type ReviewSessionPage,
@@ -16,7 +17,14 @@ import { callerOf } from '../middleware/authenticate';
 import { listSessionsForReview } from '../use-cases/review/list-sessions';
 import { listMailbox, readMailboxAttachment, readMailboxMessage } from '../use-cases/review/mailbox';
 import { saveNotes } from '../use-cases/review/notes';
-import { renderReport, reportMails, retryReportMail, sendReport } from '../use-cases/review/report';
+import { setReferralFlag } from '../use-cases/review/referral';
+import {
+  previewReportMail,
+  renderReport,
+  reportMails,
+  retryReportMail,
+  sendReport,
+} from '../use-cases/review/report';
 import {
   clientTrends,
   compareSessions,
@@ -105,6 +113,28 @@ export const reviewSaveNotes: HandlerFactory = (deps) => async (req, res) => {
     saveNotesRequestSchema.parse(req.body),
   );
   res.json({ notes });
+};
+
+export const reviewSetReferralFlag: HandlerFactory = (deps) => async (req, res) => {
+  const referral = await setReferralFlag(
+    deps,
+    callerOf(req),
+    id(req.params.sessionId, 'session'),
+    setReferralFlagRequestSchema.parse(req.body),
+  );
+  res.json({ referral });
+};
+
+export const reviewReportMailPreview: HandlerFactory = (deps) => async (req, res) => {
+  const { compareWith } = reportQuerySchema.parse(req.query);
+  res.json({
+    preview: await previewReportMail(
+      deps,
+      callerOf(req),
+      id(req.params.sessionId, 'session'),
+      compareWith ?? null,
+    ),
+  });
 };
 
 export const reviewReportPdf: HandlerFactory = (deps) => async (req, res) => {

@@ -1,7 +1,7 @@
 // The client report as a PDF: everything drawn as vectors (traces, marks, tables) so it prints sharply.
 import path from 'node:path';
 import PDFDocument from 'pdfkit';
-import { cautionParagraphs, referToClinician } from '@/constants/cautions';
+import { clientCautionParagraphs, pleaseSeeClinician } from '@/constants/cautions';
 
 export type ReportSound = { type: 'S1' | 'S2'; startS: number; endS: number };
 /** A display trace: `values` in -1..1, evenly spaced over `durationS`. */
@@ -33,7 +33,12 @@ export type ReportComparisonRow = {
   now: number | null;
 };
 export type ReportInput = {
+  /** The session's referral as the session view shows it; when flagged, the report says so first. */
+  referral: { flagged: boolean; reasons: string[] };
   clinicName: string;
+  clinicAddress: string | null;
+  /** PNG or JPEG bytes of the clinic's logo from Settings. */
+  clinicLogo: Buffer | null;
   clientName: string;
   clientDateOfBirth: string | null;
   sessionDate: string;
@@ -79,9 +84,9 @@ export function statusText(status: ReportMeasurement['status']): string {
     case 'in_range':
       return 'within range';
     case 'below':
-      return `below range: ${referToClinician}`;
+      return `below range: ${pleaseSeeClinician}`;
     case 'above':
-      return `above range: ${referToClinician}`;
+      return `above range: ${pleaseSeeClinician}`;
     case 'no_range':
       return 'no range set';
     default:
@@ -231,7 +236,7 @@ function heading(doc: PDFKit.PDFDocument, text: string, y: number): number {
 
 function cautionBox(doc: PDFKit.PDFDocument, y: number): number {
   const width = doc.page.width - 2 * MARGIN;
-  const text = cautionParagraphs.join(' ');
+  const text = clientCautionParagraphs.join(' ');
   const h =
     doc
       .font(FONT.body)
@@ -253,6 +258,31 @@ function cautionBox(doc: PDFKit.PDFDocument, y: number): number {
     .fillColor(INK)
     .text(text, MARGIN + 8, y + 17, { width: width - 16 });
   return y + h + 8;
+}
+
+function referralBox(doc: PDFKit.PDFDocument, referral: ReportInput['referral'], y: number): number {
+  const width = doc.page.width - 2 * MARGIN;
+  if (!referral.flagged) {
+    doc
+      .font(FONT.body)
+      .fontSize(9)
+      .fillColor(INK)
+      .text('Nothing in this visit calls for a referral.', MARGIN, y, { width });
+    return doc.y + 10;
+  }
+  doc
+    .font(FONT.strong)
+    .fontSize(11)
+    .fillColor(ACCENT)
+    .text('Please see a licensed clinician', MARGIN, y, { width });
+  for (const reason of referral.reasons) {
+    doc
+      .font(FONT.body)
+      .fontSize(9)
+      .fillColor(INK)
+      .text(`• ${reason}`, MARGIN + 8, doc.y + 2, { width: width - 8 });
+  }
+  return doc.y + 10;
 }
 
 export function renderReportPdf(input: ReportInput): Promise<Buffer> {
@@ -280,8 +310,30 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
   });
 
   const width = doc.page.width - 2 * MARGIN;
-  doc.font(FONT.heading).fontSize(18).fillColor(INK).text(input.clinicName, MARGIN, MARGIN);
-  doc.font(FONT.body).fontSize(10).fillColor(MUTED).text('Heart-sound follow-up report');
+  let textLeft = MARGIN;
+  if (input.clinicLogo) {
+    try {
+      doc.image(input.clinicLogo, MARGIN, MARGIN, { fit: [56, 56] });
+      textLeft = MARGIN + 66;
+    } catch {
+      // A logo pdfkit cannot read is left out rather than losing the report.
+    }
+  }
+  doc.font(FONT.heading).fontSize(18).fillColor(INK).text(input.clinicName, textLeft, MARGIN);
+  if (input.clinicAddress)
+    doc
+      .font(FONT.body)
+      .fontSize(8.5)
+      .fillColor(MUTED)
+      .text(input.clinicAddress.replace(/\s*\n\s*/g, ', '), textLeft, doc.y, {
+        width: width - (textLeft - MARGIN),
+      });
+  doc
+    .font(FONT.body)
+    .fontSize(10)
+    .fillColor(MUTED)
+    .text('Heart-sound follow-up report', textLeft, doc.y + 2);
+  doc.y = Math.max(doc.y, input.clinicLogo ? MARGIN + 60 : 0);
   let y = doc.y + 8;
   const facts: [string, string][] = [
     ['Client', input.clientName + (input.clientDateOfBirth ? ` (born ${input.clientDateOfBirth})` : '')],
@@ -299,6 +351,7 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
     y += 13;
   }
   y = cautionBox(doc, y + 6);
+  y = referralBox(doc, input.referral, y);
 
   y = heading(doc, 'The four sites', y);
   const cellW = (width - 10) / 2;
@@ -318,10 +371,12 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
   const siteW = (width - 150 - 110) / 4;
   const grid: Column[] = [
     { title: 'Measurement', width: 150 },
-    { title: 'Range [source]', width: 110 },
+    { title: 'Usual range', width: 110 },
     ...input.sites.map((s) => ({ title: s.label, width: siteW, align: 'right' as const })),
   ];
   const rowsOf = input.sites[0]?.measurements ?? [];
+  const cite = (range: { sourceIndex: number }) =>
+    range.sourceIndex >= 0 ? ` [${range.sourceIndex + 1}]` : '';
   const mark = (m: ReportMeasurement | undefined) =>
     !m
       ? '–'
@@ -341,13 +396,13 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
           first.unit ? `${first.label} (${first.unit})` : first.label,
           sameRange
             ? first.range
-              ? `${rangeText(first.range)} [${first.range.sourceIndex + 1}]`
+              ? `${rangeText(first.range)}${cite(first.range)}`
               : 'no range set'
             : 'differs by site, under each value',
           ...cells.map((m) =>
             sameRange || !m
               ? mark(m)
-              : `${mark(m)}\n${m.range ? `${rangeText(m.range)} [${m.range.sourceIndex + 1}]` : 'no range'}`,
+              : `${mark(m)}\n${m.range ? `${rangeText(m.range)}${cite(m.range)}` : 'no range'}`,
           ),
         ],
         flagged: cells.map((m) => m?.status === 'above' || m?.status === 'below'),
@@ -449,7 +504,7 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
     const bottom = doc.page.height - 28;
     doc.font(FONT.body).fontSize(6.5).fillColor(MUTED);
     doc.text(
-      `Not a diagnosis. Anything outside range reads "${referToClinician}". Generated ${input.generatedAt}. Page ${i + 1} of ${range.count}.`,
+      `Not a diagnosis. Anything that calls for it reads "${pleaseSeeClinician}". Generated ${input.generatedAt}. Page ${i + 1} of ${range.count}.`,
       MARGIN,
       bottom,
       { width, align: 'center', lineBreak: false, height: 10 },

@@ -24,6 +24,8 @@ export type SiteSpec = {
   systolicActivity?: number | null;
   sounds?: { type: 'S1' | 'S2'; startS: number; endS: number }[];
   clip?: { sha256: string };
+  /** The analysis's murmur screen; left out, the analysis has none (as analyses made before it had). */
+  screen?: { murmur: 'possible' | 'unlikely' | 'unsure'; score: number; reasons: string[] };
 };
 
 /** An analysis of record in the shape shared/analysis writes (AnalysisResult), with only what a test needs. */
@@ -53,6 +55,7 @@ export function analysisOf(spec: SiteSpec) {
     },
     quality: { verdict: spec.verdict ?? 'good', reasons: [] },
     analysisVersion: 'test',
+    ...(spec.screen ? { screen: spec.screen } : {}),
   };
 }
 

@@ -22,7 +22,9 @@ export function referralLimits(ranges: RangeLookup): ReferralLimits {
     out[site] = {
       hrLow: hr?.low ?? null,
       hrHigh: hr?.high ?? null,
+      systolicLow: ranges('systolicActivity', site)?.low ?? null,
       systolicHigh: ranges('systolicActivity', site)?.high ?? null,
+      diastolicLow: ranges('diastolicActivity', site)?.low ?? null,
       diastolicHigh: ranges('diastolicActivity', site)?.high ?? null,
     };
   }

@@ -1,6 +1,11 @@
 import { referToClinician } from '@/constants/cautions';
 import type { Site } from '@/shared/protocol';
-import type { Measurement, MeasurementStatus } from '@/shared/protocol/review';
+import {
+  murmurScreenSchema,
+  type Measurement,
+  type MeasurementStatus,
+  type MurmurScreen,
+} from '@/shared/protocol/review';
 
 export type MeasurementDef = { key: string; label: string; unit: string };
 export type Range = { low: number | null; high: number | null; source: string };
@@ -24,8 +29,14 @@ export const measurementDefs: readonly MeasurementDef[] = [
   { key: 'usableCycles', label: 'Usable cycles', unit: '' },
 ];
 
-/** The metrics whose being out of range flags a session for referral (the brief's cautions name rate and rhythm). */
+/**
+ * The measures the clinic's ranges mark "refer": outside range, they read "refer to a licensed clinician" and flag
+ * the session. The brief's cautions name the rate; activity in the rest intervals is what a murmur adds. Any other
+ * measure outside range is a note to compare across visits, so no row ever says "refer" on a session that is not
+ * flagged. The list filter's SQL (repositories/review-repository.ts) reads the same measures.
+ */
 export const referralKeys = ['heartRateBpm', 'systolicActivity', 'diastolicActivity'] as const;
+const isReferralKey = (key: string) => (referralKeys as readonly string[]).includes(key);
 
 export function statusOf(value: number | null, range: Range | null): MeasurementStatus {
   if (value === null || !Number.isFinite(value)) return 'no_value';
@@ -56,6 +67,9 @@ export function readingOf(status: MeasurementStatus, key = ''): string {
     (status === 'below' || status === 'above')
   ) {
     return 'Outside range: too few clean cycles for steady figures; consider a retake';
+  }
+  if ((status === 'below' || status === 'above') && !isReferralKey(key)) {
+    return `${status === 'below' ? 'Below' : 'Above'} range: note it and compare across visits`;
   }
   switch (status) {
     case 'in_range':
@@ -91,14 +105,32 @@ export function evaluateSite(
   });
 }
 
-/** A site reads "refer to a licensed clinician" when its rhythm is irregular or a referral metric is out of range. */
-export function siteNeedsReferral(
+/** The analysis's murmur screen when it has one and it reads as one; an older analysis has none. */
+export function murmurScreenOf(analysis: { screen?: unknown } | null | undefined): MurmurScreen | null {
+  const parsed = murmurScreenSchema.safeParse(analysis?.screen);
+  return parsed.success ? parsed.data : null;
+}
+
+const formatted = (value: number | null, unit: string) =>
+  value === null
+    ? ''
+    : ` (${Math.abs(value) >= 10 ? Math.round(value) : value.toFixed(2)}${unit ? ` ${unit}` : ''})`;
+
+/**
+ * Why a site flags its session for referral, in words: an irregular rhythm, a possible murmur, or a measure the
+ * clinic's ranges mark "refer" outside its range. Empty when the site does not flag.
+ */
+export function siteReferralReasons(
   metrics: MetricsLike | null | undefined,
   measurements: Measurement[],
-): boolean {
-  if (metrics?.irregularRhythm === true) return true;
-  return measurements.some(
-    (m) =>
-      (referralKeys as readonly string[]).includes(m.key) && (m.status === 'above' || m.status === 'below'),
-  );
+  screen: MurmurScreen | null,
+): string[] {
+  const reasons: string[] = [];
+  if (screen?.murmur === 'possible') reasons.push('Possible murmur');
+  if (metrics?.irregularRhythm === true) reasons.push('Irregular rhythm');
+  for (const m of measurements) {
+    if (!isReferralKey(m.key) || (m.status !== 'above' && m.status !== 'below')) continue;
+    reasons.push(`${m.label} ${m.status} the clinic's range${formatted(m.value, m.unit)}`);
+  }
+  return reasons;
 }

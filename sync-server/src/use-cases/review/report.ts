@@ -1,8 +1,8 @@
 import { randomUUID } from 'node:crypto';
 import type { Sequelize } from 'sequelize';
-import { cautionText, referToClinician } from '@/constants/cautions';
+import { clientCautionText, pleaseSeeClinician } from '@/constants/cautions';
 import type { Site } from '@/shared/protocol';
-import type { ReportMail, SendReportRequest } from '@/shared/protocol/review';
+import type { Measurement, ReportMail, SendReportRequest } from '@/shared/protocol/review';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import {
@@ -13,12 +13,13 @@ import {
   insertReportMail,
   listReportMails,
 } from '../../repositories/review-mails-repository';
-import { findSessionRecord, findSiteRecords } from '../../repositories/review-repository';
+import { findSessionRecord } from '../../repositories/review-repository';
+import { findSettings } from '../../repositories/settings-repository';
 import { MailSendError, type MailService } from '../../services/mail';
 import { renderReportPdf, type ReportInput, type ReportSite } from '../../services/report-pdf';
 import type { Caller, UseCaseDeps } from '../context';
-import { clipBytes, compareSessions, loadSession, reviewSite, SITES, traceFromWav } from './session-view';
-import { rangesForClinic } from './ranges';
+import { referralKeys } from './measurements';
+import { clipBytes, compareSessions, loadSession, reviewSitesOf, traceFromWav } from './session-view';
 import { reviewServices } from './services';
 
 const SITE_LABEL: Record<Site, string> = {
@@ -28,6 +29,24 @@ const SITE_LABEL: Record<Site, string> = {
   pulmonic: 'Pulmonic',
 };
 const REPORT_POINTS_PER_SECOND = 60;
+
+// The client's report speaks to the client (product brief, Cautions): plain names for the measures, no
+// beat-to-beat variability figures (a clip of seconds gives only a rough guide, which the practitioner weighs on
+// screen), and a source only where a published one was checked: never a "(from memory)" note or "no source".
+const CLIENT_LABELS: Record<string, string> = {
+  heartRateBpm: 'Heart rate',
+  s1DurationMs: 'Length of the first heart sound',
+  s2DurationMs: 'Length of the second heart sound',
+  systoleMs: 'Time from the first to the second sound',
+  diastoleMs: 'Time from the second sound to the next beat',
+  systoleDiastoleRatio: 'Balance of the two pauses',
+  s1s2PeakRatio: 'Loudness of the first sound against the second',
+  s1s2EnergyRatio: 'Strength of the first sound against the second',
+  systolicActivity: 'Sound between the first and second sound',
+  diastolicActivity: 'Sound between the second sound and the next beat',
+  usableCycles: 'Clear heartbeats recorded',
+};
+const isPublishedSource = (source: string) => !/from memory|no source|no published source/i.test(source);
 const day = (d: Date) => d.toISOString().slice(0, 10);
 
 /** Everything a session's report shows: the four traces with S1/S2, measurements against ranges, findings. */
@@ -38,13 +57,12 @@ export async function buildReportInput(
   compareWith: string | null,
 ): Promise<ReportInput> {
   const session = await loadSession(deps, caller, sessionId);
-  const ranges = await rangesForClinic(deps.sequelize, caller.clinicId);
-  const records = (await findSiteRecords(deps.sequelize, caller.clinicId, [sessionId])).get(sessionId) ?? [];
+  const { sites: views, records, referral } = await reviewSitesOf(deps, caller, sessionId);
   const sources: string[] = [];
   const sites: ReportSite[] = [];
-  for (const site of SITES) {
+  for (const view of views) {
+    const site = view.site;
     const record = records.find((r) => r.site === site);
-    const view = reviewSite(site, record, ranges);
     let trace: ReportSite['trace'] = null;
     if (view.hasAudio) {
       try {
@@ -61,22 +79,24 @@ export async function buildReportInput(
       quality: view.qualityVerdict,
       trace,
       sounds: view.sounds,
-      measurements: view.measurements.map((m) => {
-        let sourceIndex = -1;
-        if (m.range) {
-          sourceIndex = sources.indexOf(m.range.source);
-          if (sourceIndex < 0) sourceIndex = sources.push(m.range.source) - 1;
-        }
-        return {
-          key: m.key,
-          label: m.label,
-          reading: m.reading,
-          unit: m.unit,
-          value: m.value,
-          status: m.status,
-          range: m.range ? { low: m.range.low, high: m.range.high, sourceIndex } : null,
-        };
-      }),
+      measurements: view.measurements
+        .filter((m) => CLIENT_LABELS[m.key] !== undefined)
+        .map((m) => {
+          let sourceIndex = -1;
+          if (m.range && isPublishedSource(m.range.source)) {
+            sourceIndex = sources.indexOf(m.range.source);
+            if (sourceIndex < 0) sourceIndex = sources.push(m.range.source) - 1;
+          }
+          return {
+            key: m.key,
+            label: CLIENT_LABELS[m.key]!,
+            reading: clientReading(m),
+            unit: m.unit,
+            value: m.value,
+            status: m.status,
+            range: m.range ? { low: m.range.low, high: m.range.high, sourceIndex } : null,
+          };
+        }),
     });
   }
   let comparison: ReportInput['comparison'] = null;
@@ -85,18 +105,29 @@ export async function buildReportInput(
     comparison = {
       date: c.then.startedAt.slice(0, 10),
       rows: c.rows
-        .filter((r) => r.then !== null || r.now !== null)
+        .filter((r) => (r.then !== null || r.now !== null) && CLIENT_LABELS[r.key] !== undefined)
         .map((r) => ({
           site: SITE_LABEL[r.site],
           key: r.key,
-          label: r.label,
+          label: CLIENT_LABELS[r.key]!,
           unit: r.unit,
           then: r.then,
           now: r.now,
         })),
     };
   }
+  const settings = await findSettings(deps.sequelize, caller.clinicId);
   return {
+    clinicAddress: settings?.address ?? null,
+    clinicLogo: logoBytes(settings?.logo_data_url ?? null),
+    referral: {
+      flagged: referral.flagged,
+      // The client reads the same reasons, the practitioner's own in their words.
+      reasons: [
+        ...views.flatMap((v) => v.referralReasons.map((r) => `${SITE_LABEL[v.site]} site: ${r}`)),
+        ...(referral.manual ? [`Your practitioner's note: ${referral.manual.note}`] : []),
+      ],
+    },
     clinicName: session.clinicName,
     clientName: `${session.clientFirstName} ${session.clientLastName}`,
     clientDateOfBirth: session.clientDateOfBirth,
@@ -111,6 +142,23 @@ export async function buildReportInput(
     sources,
     generatedAt: `${new Date().toISOString().slice(0, 16).replace('T', ' ')} UTC`,
   };
+}
+
+/** The reading in the client's words: "please see" where the practitioner reads "refer". */
+function clientReading(m: Measurement): string {
+  if (m.status !== 'above' && m.status !== 'below')
+    return m.status === 'in_range' ? 'Within the usual range' : '';
+  const side = m.status === 'above' ? 'Above' : 'Below';
+  if ((referralKeys as readonly string[]).includes(m.key))
+    return `${side} the usual range: ${pleaseSeeClinician}`;
+  if (m.key === 'usableCycles') return 'Too few clear heartbeats for steady figures';
+  return `${side} the usual range: your practitioner follows this across visits`;
+}
+
+/** The logo stored in Settings (a PNG or JPEG data URL) as bytes pdfkit draws; null when there is none. */
+function logoBytes(dataUrl: string | null): Buffer | null {
+  const match = dataUrl ? /^data:image\/(png|jpeg);base64,(.+)$/.exec(dataUrl) : null;
+  return match ? Buffer.from(match[2]!, 'base64') : null;
 }
 
 export function reportFileName(clientName: string, date: string): string {
@@ -141,19 +189,21 @@ export async function renderReport(
 }
 
 function mailBody(input: ReportInput): string {
-  const flagged = input.sites.some((s) =>
-    s.measurements.some((m) => m.status === 'above' || m.status === 'below'),
-  );
   return [
     `Hello ${input.clientName},`,
     '',
     `Attached is the report of your heart-sound recording at ${input.clinicName} on ${input.sessionDate}.`,
-    flagged
-      ? `Some measurements are outside the clinic's range; the report marks them "${referToClinician}".`
-      : '',
+    ...(input.referral.flagged
+      ? [
+          '',
+          `Please see a licensed clinician. The reason, in short:`,
+          ...input.referral.reasons.map((r) => `- ${r}`),
+          '',
+        ]
+      : []),
     input.followUpDate ? `Your follow-up is planned for ${input.followUpDate}.` : '',
     '',
-    cautionText,
+    clientCautionText,
     '',
     input.clinicName,
   ]
@@ -236,6 +286,26 @@ async function attemptSend(deps: UseCaseDeps, caller: Caller, mailId: string): P
   });
 }
 
+const mailSubject = (input: ReportInput) =>
+  `Your heart-sound report from ${input.clinicName}, ${input.sessionDate}`;
+
+/** The e-mail as it would go out, for the practitioner to read before sending; nothing is stored or sent. */
+export async function previewReportMail(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+  compareWith: string | null,
+): Promise<{ to: string | null; subject: string; bodyText: string; attachmentName: string }> {
+  const session = await loadSession(deps, caller, sessionId);
+  const input = await buildReportInput(deps, caller, sessionId, compareWith);
+  return {
+    to: session.clientEmail,
+    subject: mailSubject(input),
+    bodyText: mailBody(input),
+    attachmentName: reportFileName(input.clientName, input.sessionDate),
+  };
+}
+
 /** Keeps the message (with its PDF) first, then sends; a failure leaves it stored and retryable. */
 export async function sendReport(
   deps: UseCaseDeps,
@@ -259,7 +329,7 @@ export async function sendReport(
     sessionId,
     compareSessionId: request.compareWith ?? null,
     to,
-    subject: `Your heart-sound report from ${input.clinicName}, ${input.sessionDate}`,
+    subject: mailSubject(input),
     bodyText: mailBody(input),
     attachmentName: fileName,
     attachment: pdf,

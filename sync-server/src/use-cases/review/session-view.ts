@@ -4,6 +4,7 @@ import type {
   EarlierVisit,
   ReviewSessionDetail,
   ReviewSite,
+  SessionReferral,
   Trace,
   Trends,
 } from '@/shared/protocol/review';
@@ -15,9 +16,11 @@ import { recordAuditEvent } from '../../repositories/audit-repository';
 import {
   findClient,
   findClipBlob,
+  findReferralFlag,
   findSessionRecord,
   findSiteRecords,
   listClientSessions,
+  type ReferralFlagRecord,
   type SessionRecord,
   type SiteRecord,
 } from '../../repositories/review-repository';
@@ -26,7 +29,8 @@ import {
   evaluateSite,
   measurementDefs,
   metricValue,
-  siteNeedsReferral,
+  murmurScreenOf,
+  siteReferralReasons,
   statusOf,
   type RangeLookup,
 } from './measurements';
@@ -53,6 +57,8 @@ export function reviewSite(site: Site, record: SiteRecord | undefined, ranges: R
   const analysis = record?.analysis ?? null;
   const metrics = (analysis?.metrics ?? null) as Record<string, unknown> | null;
   const measurements = evaluateSite(metrics, site, ranges);
+  const murmurScreen = murmurScreenOf(analysis);
+  const referralReasons = analysis ? siteReferralReasons(metrics, measurements, murmurScreen) : [];
   return {
     site,
     recordingId: record?.id ?? null,
@@ -68,16 +74,38 @@ export function reviewSite(site: Site, record: SiteRecord | undefined, ranges: R
     irregularRhythm: metrics?.irregularRhythm === true,
     sounds: (analysis?.sounds ?? []).map((s) => ({ type: s.type, startS: s.startS, endS: s.endS })),
     measurements,
-    referral: analysis ? siteNeedsReferral(metrics, measurements) : false,
+    murmurScreen,
+    referral: referralReasons.length > 0,
+    referralReasons,
   };
 }
 
-export async function sessionDetail(
+const SITE_NAMES: Record<Site, string> = {
+  mitral: 'Mitral',
+  tricuspid: 'Tricuspid',
+  aortic: 'Aortic',
+  pulmonic: 'Pulmonic',
+};
+
+/** The one answer to "is this session flagged for referral, and why" that every screen, report and mail reads. */
+export function sessionReferral(sites: ReviewSite[], manual: ReferralFlagRecord | null): SessionReferral {
+  const reasons = sites.flatMap((s) => s.referralReasons.map((r) => `${SITE_NAMES[s.site]}: ${r}`));
+  if (manual) reasons.push(`Flagged by ${manual.flaggedByName ?? 'a practitioner'}: ${manual.note}`);
+  return {
+    flagged: reasons.length > 0,
+    reasons,
+    manual: manual
+      ? { note: manual.note, flaggedBy: manual.flaggedByName, flaggedAt: manual.flaggedAt.toISOString() }
+      : null,
+  };
+}
+
+/** The four sites of a session as the review reads them, and its referral. */
+export async function reviewSitesOf(
   deps: UseCaseDeps,
   caller: Caller,
   sessionId: string,
-): Promise<ReviewSessionDetail> {
-  const session = await loadSession(deps, caller, sessionId);
+): Promise<{ sites: ReviewSite[]; records: SiteRecord[]; referral: SessionReferral }> {
   const ranges = await rangesForClinic(deps.sequelize, caller.clinicId);
   const records = (await findSiteRecords(deps.sequelize, caller.clinicId, [sessionId])).get(sessionId) ?? [];
   const sites = SITES.map((site) =>
@@ -87,6 +115,17 @@ export async function sessionDetail(
       ranges,
     ),
   );
+  const manual = await findReferralFlag(deps.sequelize, caller.clinicId, sessionId);
+  return { sites, records, referral: sessionReferral(sites, manual) };
+}
+
+export async function sessionDetail(
+  deps: UseCaseDeps,
+  caller: Caller,
+  sessionId: string,
+): Promise<ReviewSessionDetail> {
+  const session = await loadSession(deps, caller, sessionId);
+  const { sites, referral } = await reviewSitesOf(deps, caller, sessionId);
   await recordAuditEvent({
     clinicId: caller.clinicId,
     userId: caller.userId,
@@ -112,7 +151,8 @@ export async function sessionDetail(
     finishedAt: session.finishedAt?.toISOString() ?? null,
     notes: notesOf(session),
     sites,
-    flagged: sites.some((s) => s.referral),
+    flagged: referral.flagged,
+    referral,
   };
 }
 
