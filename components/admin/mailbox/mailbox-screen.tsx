@@ -3,6 +3,7 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
 import { ScreenFrame } from '@/components/ui/screen-frame';
+import { formatDateTime } from '@/components/ui/format';
 import { LinkedText } from '@/components/ui/linked-text';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-views';
 import { colors, radii, space } from '@/constants/theme';
@@ -47,7 +48,7 @@ export function MailboxScreen() {
                 {m.subject}
               </AppText>
               <AppText variant="caption" color={colors.textMuted}>
-                to {m.to} · {new Date(m.receivedAt).toLocaleString()}{' '}
+                to {m.to} · {formatDateTime(m.receivedAt)}{' '}
                 {m.attachments.length ? `· ${m.attachments.length} attachment(s)` : ''}
               </AppText>
             </Pressable>

@@ -193,5 +193,5 @@ export async function completePasswordReset(
       transaction,
     );
   });
-  return { message: 'Your new password is set. Sign in with it; every earlier sign-in has ended.' };
+  return { message: 'Sign in with it now. Every earlier sign-in of this account has ended.' };
 }
