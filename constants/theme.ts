@@ -1,4 +1,8 @@
-// Fourpoint's own look: deep petrol ink on warm paper, a brick accent, and a mint pulse for good takes.
+import type { TextStyle } from 'react-native';
+
+// Fourpoint's own look: deep petrol ink on warm paper, a lagoon-blue accent for the main action, a mint pulse for
+// good takes, and a red kept for what cannot be undone. The accent sits far from the danger red in hue, so a
+// primary button never reads as a destructive one.
 export const colors = {
   ink: '#12343B',
   inkSoft: '#2A4F57',
@@ -10,16 +14,17 @@ export const colors = {
   textMuted: '#5A6669',
   textOnInk: '#F6F3EC',
   textOnInkMuted: '#A9C1C4',
-  accent: '#C4512F',
-  accentPressed: '#A5401F',
+  accent: '#1F6E8C',
+  accentPressed: '#17556D',
   textOnAccent: '#FFFFFF',
   pulse: '#2E8C7E',
   pulseSoft: '#DDF0EA',
   caution: '#8A5A0B',
   cautionSoft: '#FBF0D6',
   cautionLine: '#E6C987',
-  danger: '#A3302A',
-  dangerSoft: '#F8E1DD',
+  danger: '#B42318',
+  dangerPressed: '#8F1C13',
+  dangerSoft: '#FBE4E1',
   focus: '#4B8FD6',
 } as const;
 
@@ -33,6 +38,8 @@ export const fonts = {
   monoMedium: 'IBMPlexMono_500Medium',
 } as const;
 
+const tabularFigures: TextStyle['fontVariant'] = ['tabular-nums'];
+
 export const type = {
   display: { fontFamily: fonts.headingBold, fontSize: 32, lineHeight: 38 },
   title: { fontFamily: fonts.heading, fontSize: 24, lineHeight: 30 },
@@ -42,8 +49,9 @@ export const type = {
   small: { fontFamily: fonts.body, fontSize: 14, lineHeight: 20 },
   smallStrong: { fontFamily: fonts.bodySemiBold, fontSize: 14, lineHeight: 20 },
   caption: { fontFamily: fonts.bodyMedium, fontSize: 12, lineHeight: 16, letterSpacing: 0.4 },
-  number: { fontFamily: fonts.mono, fontSize: 14, lineHeight: 20 },
-  numberLarge: { fontFamily: fonts.monoMedium, fontSize: 28, lineHeight: 34 },
+  // Figures in the body face with tabular (equal-width) digits, so columns line up without a typewriter look.
+  number: { fontFamily: fonts.body, fontSize: 14, lineHeight: 20, fontVariant: tabularFigures },
+  numberLarge: { fontFamily: fonts.bodySemiBold, fontSize: 28, lineHeight: 34, fontVariant: tabularFigures },
 } as const;
 
 export const space = { xs: 4, sm: 8, md: 12, lg: 16, xl: 24, xxl: 32, xxxl: 48 } as const;

@@ -7,6 +7,14 @@ import { generateSW } from 'workbox-build';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
+// Paths the server answers itself (the API, webhooks, pages it renders such as the payment return): a navigation
+// there must reach the network, never the cached app shell. tests/server/access-table.test.ts checks that every
+// route outside the app lies under one of them.
+const serverPathPrefixes = JSON.parse(
+  fs.readFileSync(path.join(root, 'shared/web/server-paths.json'), 'utf8'),
+);
+const escapeRegExp = (text) => text.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+
 const registration = `<script>if ('serviceWorker' in navigator) { window.addEventListener('load', function () { navigator.serviceWorker.register('/sw.js').catch(function (e) { console.warn('Offline support unavailable:', e); }); }); }</script>`;
 
 export async function buildPwa({ dist = path.join(root, 'dist') } = {}) {
@@ -46,7 +54,7 @@ export async function buildPwa({ dist = path.join(root, 'dist') } = {}) {
     // The export's entry bundle and expo-sqlite's wasm are a few MB; the default 2 MB limit would drop them.
     maximumFileSizeToCacheInBytes: 32 * 1024 * 1024,
     navigateFallback: '/index.html',
-    navigateFallbackDenylist: [/^\/api\//],
+    navigateFallbackDenylist: serverPathPrefixes.map((prefix) => new RegExp(`^${escapeRegExp(prefix)}`)),
     skipWaiting: true,
     clientsClaim: true,
     cleanupOutdatedCaches: true,

@@ -1,5 +1,6 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useRef, useState } from 'react';
+import { Link } from 'expo-router';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View, type TextInput } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
@@ -86,11 +87,17 @@ export function SignInForm({ onSubmit }: Props) {
         </View>
       ) : null}
       <Button label="Sign in" testID="sign-in-submit" busy={isSubmitting} onPress={() => void submit()} />
+      <Link href="/forgot-password" testID="sign-in-forgot" style={styles.forgot}>
+        <AppText variant="smallStrong" color={colors.accent}>
+          Forgot password?
+        </AppText>
+      </Link>
     </View>
   );
 }
 
 const styles = StyleSheet.create({
+  forgot: { alignSelf: 'center' },
   form: { gap: space.lg },
   formError: {
     backgroundColor: colors.dangerSoft,

@@ -34,7 +34,13 @@ export function DiscardSession({ clientName, busy, error, onDiscard }: Props) {
         </AppText>
       ) : null}
       <View style={styles.row}>
-        <Button label="Discard" busy={busy} onPress={onDiscard} testID="discard-session-confirm" />
+        <Button
+          label="Discard"
+          variant="danger"
+          busy={busy}
+          onPress={onDiscard}
+          testID="discard-session-confirm"
+        />
         <Button
           label="Keep recording"
           variant="secondary"

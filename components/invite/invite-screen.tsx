@@ -8,6 +8,7 @@ import { Button } from '@/components/ui/button';
 import { ErrorState, LoadingState } from '@/components/ui/state-views';
 import { FormTextField } from '@/components/ui/form-text-field';
 import { colors, radii, space } from '@/constants/theme';
+import type { ApiFailure } from '@/hooks/api/result';
 import { useAcceptInvitationMutation, useInvitationPreviewQuery } from '@/hooks/api/team';
 import { newPasswordSchemaFor, PASSWORD_MIN_LENGTH } from '@/shared/protocol';
 import { acceptInvitationRequestSchema, type AcceptInvitationRequest } from '@/shared/protocol/practice';
@@ -41,12 +42,27 @@ export function InviteScreen() {
       <View style={styles.card}>
         {preview.isPending ? (
           <LoadingState label="Checking the invitation…" testID="invite-loading" />
-        ) : preview.isError ? (
+        ) : preview.isError && (preview.error as ApiFailure).temporary ? (
           <ErrorState
             message={preview.error.message}
             onRetry={() => void preview.refetch()}
-            testID="invite-invalid"
+            testID="invite-offline"
           />
+        ) : preview.isError ? (
+          // Used, withdrawn, expired or not valid: say which, and lead to sign-in (the account may exist already).
+          <>
+            <AppText variant="title" color={colors.ink}>
+              This invitation can no longer be used
+            </AppText>
+            <AppText color={colors.text} testID="invite-invalid">
+              {preview.error.message}
+            </AppText>
+            <Button
+              label="Go to sign-in"
+              onPress={() => router.replace('/sign-in')}
+              testID="invite-invalid-sign-in"
+            />
+          </>
         ) : accept.isSuccess ? (
           <>
             <AppText variant="title" color={colors.ink} testID="invite-done">

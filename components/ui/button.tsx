@@ -3,7 +3,8 @@ import { ActivityIndicator, Pressable, StyleSheet, View } from 'react-native';
 import { colors, radii, space } from '@/constants/theme';
 import { AppText } from './app-text';
 
-type Variant = 'primary' | 'secondary' | 'ghost' | 'on-ink';
+/** `danger` is for actions that cannot be undone (erase, discard), always behind a confirmation. */
+type Variant = 'primary' | 'secondary' | 'ghost' | 'on-ink' | 'danger';
 
 type Props = {
   label: string;
@@ -25,6 +26,12 @@ const palette: Record<Variant, { bg: string; pressed: string; text: string; bord
   secondary: { bg: colors.surface, pressed: colors.surfaceMuted, text: colors.ink, border: colors.line },
   ghost: { bg: 'transparent', pressed: colors.surfaceMuted, text: colors.ink, border: 'transparent' },
   'on-ink': { bg: 'transparent', pressed: colors.inkSoft, text: colors.textOnInk, border: colors.inkSoft },
+  danger: {
+    bg: colors.danger,
+    pressed: colors.dangerPressed,
+    text: colors.textOnAccent,
+    border: colors.danger,
+  },
 };
 
 export function Button({

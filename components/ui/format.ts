@@ -13,3 +13,10 @@ export function formatTime(iso: string): string {
   if (Number.isNaN(date.getTime())) return '';
   return `${String(date.getHours()).padStart(2, '0')}:${String(date.getMinutes()).padStart(2, '0')}`;
 }
+
+/** "2 Dec 2026, 11:23" in the reader's own zone: when something happened, as one format across the product. */
+export function formatDateTime(iso: string): string {
+  const date = new Date(iso);
+  if (Number.isNaN(date.getTime())) return iso;
+  return `${date.getDate()} ${months[date.getMonth()]} ${date.getFullYear()}, ${formatTime(iso)}`;
+}

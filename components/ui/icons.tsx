@@ -197,3 +197,14 @@ export function MailIcon({ color, size = 22 }: IconProps) {
     </Svg>
   );
 }
+
+/** Three dots: the rest of the sections, where the bar is full. */
+export function MoreIcon({ color, size = 22 }: IconProps) {
+  return (
+    <Svg width={size} height={size} viewBox="0 0 24 24">
+      <Circle cx={5} cy={12} r={1.6} fill={color} />
+      <Circle cx={12} cy={12} r={1.6} fill={color} />
+      <Circle cx={19} cy={12} r={1.6} fill={color} />
+    </Svg>
+  );
+}

@@ -49,3 +49,19 @@ export type SignOutRequest = RefreshRequest;
 
 export const meResponseSchema = z.object({ user: userSchema });
 export type MeResponse = z.infer<typeof meResponseSchema>;
+
+export const passwordResetRequestSchema = z.object({
+  email: z.email({ error: 'Enter a valid e-mail address.' }).max(254),
+});
+export type PasswordResetRequest = z.infer<typeof passwordResetRequestSchema>;
+
+/** The same answer whether or not an account uses the address (OWASP ASVS 4.0.3 V2.5.x, no enumeration). */
+export const passwordResetRequestedSchema = z.object({ message: z.string() });
+
+export const passwordResetPreviewSchema = z.object({ email: z.email(), expiresAt: z.string() });
+export type PasswordResetPreview = z.infer<typeof passwordResetPreviewSchema>;
+
+export const completePasswordResetRequestSchema = z.object({
+  password: z.string().min(1, { error: 'Enter a new password.' }).max(200),
+});
+export type CompletePasswordResetRequest = z.infer<typeof completePasswordResetRequestSchema>;

@@ -234,6 +234,8 @@ export const conflictDetailSchema = conflictSummarySchema.extend({
       resolvedBy: z.string().nullable(),
       resolvedAt: z.string(),
       newVersion: z.number().int(),
+      /** For each field that differed, whose side was kept. */
+      kept: z.record(z.string(), z.enum(['server', 'client'])),
     })
     .nullable(),
 });

@@ -61,6 +61,20 @@ test('when two phones change the same client offline, then the admin sees both v
   await visible(page, 'resolve-submit').click();
   await visible(page, 'conflict-resolved').waitFor();
   expect(await visible(page, 'conflict-resolved-note').innerText()).toContain('Phone confirmed at the desk');
+  // Settled reads as settled: whose side each field kept, by whom and when; nothing still "differs".
+  expect(await visible(page, 'conflict-status').innerText()).toBe('Settled');
+  expect(await visible(page, 'conflict-resolved-by').innerText()).toMatch(
+    /^✓ Settled by .+ on \d{1,2} [A-Z][a-z]{2} \d{4}, \d{2}:\d{2}$/,
+  );
+  expect(await visible(page, 'conflict-kept-server').innerText()).toMatch(/: Phone$/);
+  expect(await visible(page, 'conflict-kept-client').innerText()).toMatch(/: E-mail$/);
+  expect(await visible(page, 'version-kept-phone').innerText()).toBe('Kept the record');
+  expect(await visible(page, 'version-kept-email').innerText()).toBe('Kept the change');
+  expect(await page.getByTestId('conflict-differing').count()).toBe(0);
+  expect(await page.locator('body').innerText()).not.toMatch(
+    /both versions are kept|Differs|device [0-9a-f]{8}/,
+  );
+  await screenshot(page, 'conflict-settled-wide');
   await context.close();
 
   // The resolution is a new version of the row, with a field from each side.

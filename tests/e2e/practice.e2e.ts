@@ -195,6 +195,16 @@ test('when a client pays for a package on the provider page, then billing shows 
     const payer = await newPage(browser, WIDE);
     try {
       const pay = payer.page;
+      // The payer has the app installed: its service worker controls our origin when the provider sends them back.
+      await pay.goto('/');
+      await visible(pay, 'sign-in-email').waitFor();
+      await pay.waitForFunction(() => navigator.serviceWorker.ready.then(() => true), undefined, {
+        timeout: 60_000,
+      });
+      await pay.reload();
+      await pay.waitForFunction(() => Boolean(navigator.serviceWorker.controller), undefined, {
+        timeout: 30_000,
+      });
       await pay.goto(checkoutUrl);
       expect(await pay.getByTestId('pay-amount').textContent()).toBe('$250.00');
       const fill = async (card: string) => {
@@ -208,8 +218,17 @@ test('when a client pays for a package on the provider page, then billing shows 
       await pay.getByRole('alert').waitFor();
       await fill('4242 4242 4242 4242');
       await screenshot(pay, 'practice-provider-page');
+      const returned = pay.waitForResponse(
+        (response) => new URL(response.url()).pathname === '/payments/complete',
+      );
       await pay.click('button[type="submit"]');
-      await pay.getByTestId('payment-return-title').waitFor();
+      // The server's own page, not the cached app shell (which would show the app's "not found").
+      expect((await returned).fromServiceWorker()).toBe(false);
+      // Paid, or still being confirmed when the provider's webhook has not arrived yet: both are the server's.
+      expect(await pay.getByTestId('payment-return-title').textContent()).toMatch(
+        /^(Thank you, your payment is received|Your payment is being confirmed)$/,
+      );
+      await screenshot(pay, 'practice-payment-return');
     } finally {
       await payer.context.close();
     }

@@ -78,6 +78,16 @@ describe('the router and the table', () => {
     for (const r of accessTable) if (r.access !== 'public') expect(r.access.length).toBeGreaterThan(0);
   });
 
+  // The service worker (scripts/build-pwa.mjs) answers navigations with the cached app unless the path is one
+  // of these; a server page outside them would show the app's "not found" to a browser with the app installed.
+  test('when a route is in the table, then its path is one the service worker leaves to the server', () => {
+    const serverPaths = JSON.parse(
+      fs.readFileSync(path.resolve(__dirname, '../../shared/web/server-paths.json'), 'utf8'),
+    ) as string[];
+    const outside = accessTable.filter((r) => !serverPaths.some((prefix) => r.path.startsWith(prefix)));
+    expect(outside.map((r) => `${r.method} ${r.path}`)).toEqual([]);
+  });
+
   test('when an /api path is not in the table, then it is a 404 JSON answer', async () => {
     const res = await request(ctx.app)
       .get('/api/no-such-thing')

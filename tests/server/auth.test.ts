@@ -65,6 +65,21 @@ describe('sign-in', () => {
     expect(wrong.body.error.code).toBe('invalid_credentials');
   });
 
+  test('when an account’s password is wrong, then the failure is in its clinic’s audit log without the password (ASVS V7.1.1, V7.2.1)', async () => {
+    const tried = `wrong-password-${clinic.id}`;
+    const res = await request(ctx.app)
+      .post('/api/auth/sign-in')
+      .send({ email: clinic.users.operator.email, password: tried });
+    expect(res.status).toBe(401);
+    const events = await AuditEvent.findAll({
+      where: { userId: clinic.users.operator.id, action: 'auth.sign_in_failed' },
+      raw: true,
+    });
+    expect(events).toHaveLength(1);
+    expect(events[0].clinicId).toBe(clinic.id);
+    expect(JSON.stringify(events[0])).not.toContain(tried);
+  });
+
   test('when the body is not an e-mail and password, then it is 400 with a readable message', async () => {
     const res = await request(ctx.app).post('/api/auth/sign-in').send({ email: 'not-an-email' });
     expect(res.status).toBe(400);

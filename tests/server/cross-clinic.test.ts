@@ -126,6 +126,36 @@ const cases: Record<string, CrossCase> = {
   'post /api/auth/sign-in': { notClinicData: 'signs in by e-mail and password; covered by the auth tests' },
   'post /api/auth/refresh': { notClinicData: 'renews the caller’s own session only' },
   'post /api/auth/sign-out': { notClinicData: 'ends the caller’s own session only' },
+  'post /api/auth/password-reset': {
+    // B asks for a link for its own admin and for an address nobody uses: the same answer, nothing of A's.
+    probe: () => ({ path: '/api/auth/password-reset', body: { email: B.users.admin.email } }),
+    extra: async (answer) => {
+      expect(answer.status).toBe(202);
+      const unknown = await request(ctx.app)
+        .post('/api/auth/password-reset')
+        .send({ email: `nobody.${fresh().slice(0, 8)}@clinic-b.test` });
+      expect(unknown.status).toBe(202);
+      expect(JSON.parse(answer.text)).toEqual(unknown.body);
+    },
+  },
+  'get /api/auth/password-reset/:token': {
+    probe: () => ({ path: `/api/auth/password-reset/${a.invitationToken}` }),
+    extra: async (answer) => {
+      expect(answer.status).toBe(404);
+      expect(JSON.parse(answer.text).error.code).toBe('reset_link_invalid');
+    },
+  },
+  'post /api/auth/password-reset/:token': {
+    // An invitation link of A's is no reset link: refused, and A's admin keeps their password.
+    probe: () => ({
+      path: `/api/auth/password-reset/${a.invitationToken}`,
+      body: { password: 'b tries a password for a' },
+    }),
+    extra: async (answer) => {
+      expect(answer.status).toBe(404);
+      expect(JSON.parse(answer.text).error.code).toBe('reset_link_invalid');
+    },
+  },
   'get /api/me': { probe: () => ({ path: '/api/me' }) },
   'get /api/clients': { probe: () => ({ path: `/api/clients?q=${CLIENT.last}` }) },
   'get /api/sessions': { probe: () => ({ path: '/api/sessions' }) },

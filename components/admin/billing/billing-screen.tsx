@@ -58,6 +58,7 @@ function RefundAction({ payment }: { payment: Payment }) {
       <View style={styles.confirmButtons}>
         <Button
           label="Yes, refund"
+          variant="danger"
           onPress={() => refund.mutate(payment.id)}
           busy={refund.isPending}
           testID={`payment-refund-confirm-${payment.id}`}

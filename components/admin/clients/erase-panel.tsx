@@ -83,6 +83,7 @@ export function ErasePanel({ fullName, onErase, onDone }: Props) {
           <View style={styles.buttons}>
             <Button
               label="Erase permanently"
+              variant="danger"
               onPress={() => void submit()}
               busy={form.formState.isSubmitting}
               testID="erase-submit"

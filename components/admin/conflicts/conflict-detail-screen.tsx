@@ -9,7 +9,7 @@ import { colors, radii, space } from '@/constants/theme';
 import { useConflictQuery, useResolveConflictMutation } from '@/hooks/api/conflicts';
 import { useLayout } from '@/hooks/use-layout';
 import type { ConflictDetail } from '@/shared/protocol/sync';
-import { entityWords, fieldLabel, shortDevice, whenText } from './conflict-words';
+import { changedBy, entityWords, fieldLabel, whenText } from './conflict-words';
 import type { DifferingField } from './field-picker';
 import { ResolveForm } from './resolve-form';
 import { VersionsSideBySide } from './versions-side-by-side';
@@ -22,17 +22,40 @@ export function differingOf(conflict: ConflictDetail): DifferingField[] {
   }));
 }
 
-function Resolved({ resolution }: { resolution: NonNullable<ConflictDetail['resolution']> }) {
+/** A settled conflict in words: whose side each field kept, who settled it, when, and why. */
+function Settled({ conflict }: { conflict: ConflictDetail }) {
+  const resolution = conflict.resolution!;
+  const fieldsKeptFrom = (side: 'server' | 'client') =>
+    Object.entries(resolution.kept)
+      .filter(([, kept]) => kept === side)
+      .map(([field]) => fieldLabel(field));
+  const fromRecord = fieldsKeptFrom('server');
+  const fromChange = fieldsKeptFrom('client');
   return (
     <View style={styles.resolved} testID="conflict-resolved" accessibilityRole="summary">
-      <AppText variant="bodyStrong" color={colors.pulse}>
-        ✓ Resolved by {resolution.resolvedBy ?? 'an admin'} on {whenText(resolution.resolvedAt)}
+      <AppText variant="bodyStrong" color={colors.pulse} testID="conflict-resolved-by">
+        ✓ Settled by {resolution.resolvedBy ?? 'an admin'} on {whenText(resolution.resolvedAt)}
       </AppText>
-      <AppText variant="small" color={colors.text}>
-        The row is now at version {resolution.newVersion}; every device takes it on its next sync.
-      </AppText>
+      {fromRecord.length ? (
+        <AppText variant="small" color={colors.text} testID="conflict-kept-server">
+          Kept from the clinic’s record ({changedBy(conflict.serverUserName)}): {fromRecord.join(', ')}
+        </AppText>
+      ) : null}
+      {fromChange.length ? (
+        <AppText variant="small" color={colors.text} testID="conflict-kept-client">
+          Kept from {changedBy(conflict.userName)}’s change: {fromChange.join(', ')}
+        </AppText>
+      ) : null}
+      {!fromRecord.length && !fromChange.length ? (
+        <AppText variant="small" color={colors.text}>
+          Nothing differed any more, so the clinic’s record stayed as it was.
+        </AppText>
+      ) : null}
       <AppText variant="small" color={colors.text} testID="conflict-resolved-note">
         Note: {resolution.note}
+      </AppText>
+      <AppText variant="small" color={colors.textMuted}>
+        Every phone takes the settled record on its next sync.
       </AppText>
     </View>
   );
@@ -59,7 +82,7 @@ export function ConflictDetailScreen() {
   return (
     <ScreenFrame
       title={c.label || entityWords[c.entity]}
-      subtitle={`${entityWords[c.entity]} ${c.rowId.slice(0, 8)} · stale change from ${c.userName ?? 'unknown'} (${shortDevice(c.deviceId)}) on ${whenText(c.createdAt)}`}
+      subtitle={`${entityWords[c.entity]} · changed by ${changedBy(c.userName)} on ${whenText(c.createdAt)}, while the clinic’s record had changed too`}
       testID="conflict-detail"
       header={
         <View style={styles.headerRow}>
@@ -69,29 +92,34 @@ export function ConflictDetailScreen() {
             </AppText>
           </Link>
           <Badge
-            label={c.status === 'open' ? 'OPEN' : 'RESOLVED'}
+            label={c.status === 'open' ? 'To settle' : 'Settled'}
             tone={c.status === 'open' ? 'caution' : 'good'}
             testID="conflict-status"
           />
         </View>
       }
     >
-      <AppText variant="small" color={colors.text} testID="conflict-differing">
-        {c.differingFields.length
-          ? `Differing: ${c.differingFields.map(fieldLabel).join(', ')}. Nothing was overwritten: both versions are kept until you choose.`
-          : 'No field differs any more; resolving records the server’s row as the version of record.'}
-      </AppText>
-      <VersionsSideBySide conflict={c} wide={isWide} />
       {c.resolution ? (
-        <Resolved resolution={c.resolution} />
+        <>
+          <Settled conflict={c} />
+          <VersionsSideBySide conflict={c} wide={isWide} />
+        </>
       ) : (
-        <ResolveForm
-          differing={differingOf(c)}
-          wide={isWide}
-          busy={resolve.isPending}
-          serverError={resolve.isError ? resolve.error.message : null}
-          onSubmit={(request) => resolve.mutate(request)}
-        />
+        <>
+          <AppText variant="small" color={colors.text} testID="conflict-differing">
+            {c.differingFields.length
+              ? `Differs in: ${c.differingFields.map(fieldLabel).join(', ')}. Nothing was overwritten: both versions are kept until you choose.`
+              : 'Nothing differs any more; settling keeps the clinic’s record as it is.'}
+          </AppText>
+          <VersionsSideBySide conflict={c} wide={isWide} />
+          <ResolveForm
+            differing={differingOf(c)}
+            wide={isWide}
+            busy={resolve.isPending}
+            serverError={resolve.isError ? resolve.error.message : null}
+            onSubmit={(request) => resolve.mutate(request)}
+          />
+        </>
       )}
       {c.entity === 'site_recordings' || c.entity === 'recording_sessions' ? <CautionNote compact /> : null}
     </ScreenFrame>

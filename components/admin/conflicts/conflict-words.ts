@@ -1,3 +1,4 @@
+import { formatDateTime } from '@/components/ui/format';
 import type { SyncEntity } from '@/shared/protocol/sync';
 
 export const entityWords: Record<SyncEntity, string> = {
@@ -16,7 +17,7 @@ const fieldWords: Record<string, string> = {
   notes: 'Notes',
   clientId: 'Client',
   consentTextId: 'Consent text',
-  consentTextVersion: 'Consent text version',
+  consentTextVersion: 'Consent wording',
   typedName: 'Typed name',
   consentDate: 'Consent date',
   status: 'Status',
@@ -28,8 +29,8 @@ const fieldWords: Record<string, string> = {
   sessionId: 'Session',
   site: 'Site',
   qualityVerdict: 'Quality verdict',
-  clipSha256: 'Clip (sha256)',
-  durationS: 'Duration (s)',
+  clipSha256: 'Recording',
+  durationS: 'Length (seconds)',
   recordedAt: 'Recorded',
   skippedReason: 'Reason skipped',
   keepAnywayNote: 'Kept-anyway note',
@@ -38,7 +39,7 @@ const fieldWords: Record<string, string> = {
   operatorId: 'Operator',
   reviewedBy: 'Reviewed by',
   reviewedAt: 'Reviewed',
-  clipState: 'Clip state',
+  clipState: 'Recording sent',
 };
 
 export function fieldLabel(field: string): string {
@@ -47,25 +48,18 @@ export function fieldLabel(field: string): string {
 
 /** Values as an admin reads them; an empty value says so rather than showing nothing. */
 export function valueText(field: string, value: unknown): string {
-  if (field === 'deletedAt')
-    return value ? `Deleted ${String(value).slice(0, 16).replace('T', ' ')}` : 'Not deleted';
+  if (field === 'deletedAt') return value ? `Deleted ${formatDateTime(String(value))}` : 'Not deleted';
   if (value === null || value === undefined || value === '') return '(empty)';
   if (typeof value === 'string') {
-    if (/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}/.test(value)) return value.slice(0, 16).replace('T', ' ');
+    if (/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}/.test(value)) return formatDateTime(value);
     return value;
   }
   if (typeof value === 'number' || typeof value === 'boolean') return String(value);
   return JSON.stringify(value);
 }
 
-export const shortDevice = (deviceId: string | null) =>
-  deviceId ? `device ${deviceId.slice(0, 8)}` : 'unknown device';
+/** When something happened, in the product's one date format. */
+export const whenText = formatDateTime;
 
-const pad = (n: number) => String(n).padStart(2, '0');
-
-/** Local date and time of the device reading it, e.g. "2026-12-01 14:05". */
-export function whenText(iso: string): string {
-  const d = new Date(iso);
-  if (Number.isNaN(d.getTime())) return iso;
-  return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())} ${pad(d.getHours())}:${pad(d.getMinutes())}`;
-}
+/** Who made the change that met a newer one; the device is not something a practice names. */
+export const changedBy = (name: string | null) => name ?? 'someone no longer on the team';

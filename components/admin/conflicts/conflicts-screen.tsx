@@ -9,15 +9,13 @@ import { colors, radii, space } from '@/constants/theme';
 import { useConflictListQuery, type ConflictStatusFilter } from '@/hooks/api/conflicts';
 import { useLayout } from '@/hooks/use-layout';
 import type { ConflictSummary } from '@/shared/protocol/sync';
-import { entityWords, fieldLabel, shortDevice, whenText } from './conflict-words';
+import { changedBy, entityWords, fieldLabel, whenText } from './conflict-words';
 
 const filters: readonly { value: ConflictStatusFilter; label: string }[] = [
   { value: 'open', label: 'Open' },
-  { value: 'resolved', label: 'Resolved' },
+  { value: 'resolved', label: 'Settled' },
   { value: 'all', label: 'All' },
 ];
-
-const who = (name: string | null, device: string | null) => `${name ?? 'unknown'} (${shortDevice(device)})`;
 
 function ConflictRow({ c, wide, onOpen }: { c: ConflictSummary; wide: boolean; onOpen: () => void }) {
   const differing = c.differingFields.map(fieldLabel).join(', ') || 'none now';
@@ -25,7 +23,7 @@ function ConflictRow({ c, wide, onOpen }: { c: ConflictSummary; wide: boolean; o
     <Pressable
       testID={`conflict-row-${c.id}`}
       accessibilityRole="link"
-      accessibilityLabel={`${c.label}, ${entityWords[c.entity]}, ${c.status}`}
+      accessibilityLabel={`${c.label}, ${entityWords[c.entity]}, ${c.status === 'open' ? 'to settle' : 'settled'}`}
       onPress={onOpen}
       style={({ pressed }) => [styles.row, wide && styles.rowWide, pressed && styles.rowPressed]}
     >
@@ -34,15 +32,15 @@ function ConflictRow({ c, wide, onOpen }: { c: ConflictSummary; wide: boolean; o
           {c.label || entityWords[c.entity]}
         </AppText>
         <AppText variant="small" color={colors.textMuted}>
-          {entityWords[c.entity]} {c.rowId.slice(0, 8)} · differs in {differing}
+          {entityWords[c.entity]} · differs in {differing}
         </AppText>
       </View>
       <View style={wide ? styles.colWho : undefined}>
         <AppText variant="small" color={colors.text}>
-          Stale change: {who(c.userName, c.deviceId)}
+          Changed by {changedBy(c.userName)}
         </AppText>
         <AppText variant="small" color={colors.text}>
-          Server version: {who(c.serverUserName, c.serverDeviceId)}
+          The record last changed by {changedBy(c.serverUserName)}
         </AppText>
       </View>
       <View style={[wide ? styles.colWhen : styles.phoneFoot]}>
@@ -50,7 +48,7 @@ function ConflictRow({ c, wide, onOpen }: { c: ConflictSummary; wide: boolean; o
           {whenText(c.createdAt)}
         </AppText>
         <Badge
-          label={c.status === 'open' ? 'OPEN' : 'RESOLVED'}
+          label={c.status === 'open' ? 'To settle' : 'Settled'}
           tone={c.status === 'open' ? 'caution' : 'good'}
         />
       </View>

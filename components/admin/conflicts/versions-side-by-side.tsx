@@ -3,14 +3,18 @@ import { AppText } from '@/components/ui/app-text';
 import { Badge } from '@/components/ui/badge';
 import { colors, radii, space } from '@/constants/theme';
 import type { ConflictDetail } from '@/shared/protocol/sync';
-import { fieldLabel, shortDevice, valueText } from './conflict-words';
+import { changedBy, fieldLabel, valueText } from './conflict-words';
 
 type Props = { conflict: ConflictDetail; wide: boolean };
+
+// Once settled, the fields that differed are the ones the admin chose for: the row no longer differs in them.
+const differingOf = (conflict: ConflictDetail) =>
+  conflict.resolution ? Object.keys(conflict.resolution.kept) : conflict.differingFields;
 
 function fieldsOf(conflict: ConflictDetail): string[] {
   const names = new Set([...Object.keys(conflict.server.data), ...Object.keys(conflict.client.data)]);
   // Differing fields first, so the admin reads what matters before the rest.
-  const differing = conflict.differingFields.filter((f) => f !== 'deletedAt');
+  const differing = differingOf(conflict).filter((f) => f !== 'deletedAt');
   const rest = [...names].filter((f) => !differing.includes(f));
   return [...differing, ...rest, 'deletedAt'];
 }
@@ -18,16 +22,20 @@ function fieldsOf(conflict: ConflictDetail): string[] {
 const sideValue = (side: ConflictDetail['server'], field: string) =>
   field === 'deletedAt' ? side.deletedAt : side.data[field];
 
-/** Both versions of the row, field by field; a differing field says so in words as well as colour. */
+/**
+ * Both versions of the row, field by field; a differing field says so in words as well as colour, and once
+ * settled, which side it kept.
+ */
 export function VersionsSideBySide({ conflict, wide }: Props) {
-  const serverHead = `On the server · version ${conflict.server.version} · last written by ${conflict.serverUserName ?? 'unknown'} (${shortDevice(conflict.serverDeviceId)})`;
-  const clientHead = `From the device · based on version ${conflict.client.version} · by ${conflict.userName ?? 'unknown'} (${shortDevice(conflict.deviceId)})`;
+  const serverHead = `The clinic’s record · last changed by ${changedBy(conflict.serverUserName)}`;
+  const clientHead = `The change from ${changedBy(conflict.userName)}`;
+  const kept = conflict.resolution?.kept;
   return (
     <View style={styles.table} testID="versions">
       {wide ? (
         <View style={[styles.row, styles.headRow]}>
           <AppText variant="caption" color={colors.textMuted} style={styles.fieldCol}>
-            FIELD
+            Field
           </AppText>
           <AppText variant="smallStrong" color={colors.ink} style={styles.valueCol}>
             {serverHead}
@@ -39,25 +47,29 @@ export function VersionsSideBySide({ conflict, wide }: Props) {
       ) : (
         <View style={styles.phoneHead}>
           <AppText variant="small" color={colors.ink}>
-            Server: {serverHead.replace(/^On the server · /, '')}
+            {serverHead}
           </AppText>
           <AppText variant="small" color={colors.ink}>
-            Device: {clientHead.replace(/^From the device · /, '')}
+            {clientHead}
           </AppText>
         </View>
       )}
       {fieldsOf(conflict).map((field) => {
-        const differs = conflict.differingFields.includes(field);
+        const differs = differingOf(conflict).includes(field);
         const server = valueText(field, sideValue(conflict.server, field));
         const client = valueText(field, sideValue(conflict.client, field));
         return (
           <View
             key={field}
-            style={[styles.row, !wide && styles.rowPhone, differs && styles.rowDiffers]}
+            style={[
+              styles.row,
+              !wide && styles.rowPhone,
+              differs && (kept ? styles.rowSettled : styles.rowDiffers),
+            ]}
             testID={`version-row-${field}`}
             accessibilityLabel={
               differs
-                ? `${fieldLabel(field)} differs: server ${server}, device ${client}`
+                ? `${fieldLabel(field)} differs: record ${server}, change ${client}`
                 : `${fieldLabel(field)} same on both: ${server}`
             }
           >
@@ -65,8 +77,14 @@ export function VersionsSideBySide({ conflict, wide }: Props) {
               <AppText variant="smallStrong" color={colors.ink}>
                 {fieldLabel(field)}
               </AppText>
-              {differs ? (
-                <Badge label="≠ DIFFERS" tone="caution" testID={`version-differs-${field}`} />
+              {differs && kept?.[field] ? (
+                <Badge
+                  label={kept[field] === 'server' ? 'Kept the record' : 'Kept the change'}
+                  tone="good"
+                  testID={`version-kept-${field}`}
+                />
+              ) : differs ? (
+                <Badge label="Differs" tone="caution" testID={`version-differs-${field}`} />
               ) : (
                 <AppText variant="caption" color={colors.textMuted}>
                   same
@@ -89,11 +107,11 @@ export function VersionsSideBySide({ conflict, wide }: Props) {
             ) : (
               <View style={styles.phoneValues}>
                 <AppText variant="small" color={colors.text}>
-                  Server: {server}
+                  Record: {server}
                 </AppText>
                 {differs ? (
                   <AppText variant="smallStrong" color={colors.text}>
-                    Device: {client}
+                    Change: {client}
                   </AppText>
                 ) : null}
               </View>
@@ -127,6 +145,7 @@ const styles = StyleSheet.create({
   },
   rowPhone: { flexDirection: 'column', gap: space.xs, paddingHorizontal: space.md },
   rowDiffers: { backgroundColor: colors.cautionSoft, borderLeftColor: colors.caution },
+  rowSettled: { borderLeftColor: colors.pulse },
   fieldCol: { width: 200, gap: 2 },
   fieldPhone: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
   valueCol: { flex: 1 },

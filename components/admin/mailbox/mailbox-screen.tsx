@@ -3,6 +3,8 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
 import { ScreenFrame } from '@/components/ui/screen-frame';
+import { formatDateTime } from '@/components/ui/format';
+import { LinkedText } from '@/components/ui/linked-text';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-views';
 import { colors, radii, space } from '@/constants/theme';
 import { openAttachment, useMailboxMessageQuery, useMailboxQuery } from '@/hooks/api/mailbox';
@@ -46,7 +48,7 @@ export function MailboxScreen() {
                 {m.subject}
               </AppText>
               <AppText variant="caption" color={colors.textMuted}>
-                to {m.to} · {new Date(m.receivedAt).toLocaleString()}{' '}
+                to {m.to} · {formatDateTime(m.receivedAt)}{' '}
                 {m.attachments.length ? `· ${m.attachments.length} attachment(s)` : ''}
               </AppText>
             </Pressable>
@@ -73,13 +75,11 @@ export function MailboxScreen() {
               <AppText variant="small" color={colors.textMuted}>
                 From {message.data.from} to {message.data.to}
               </AppText>
-              <AppText variant="body" color={colors.text} testID="mailbox-body">
-                {message.data.text ?? '(no text part)'}
-              </AppText>
+              <LinkedText text={message.data.text ?? '(This e-mail has no text.)'} testID="mailbox-body" />
               {message.data.attachments.map((a) => (
                 <View key={a.index} style={styles.attachment} testID={`mailbox-attachment-${a.index}`}>
                   <AppText variant="small" color={colors.ink} style={styles.flex}>
-                    📎 {a.filename ?? 'attachment'} · {a.contentType} · {Math.round(a.size / 1024)} KB
+                    📎 {a.filename ?? 'Attachment'}
                   </AppText>
                   <Button
                     label="Open"

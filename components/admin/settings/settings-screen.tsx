@@ -40,6 +40,7 @@ function ResetAll() {
       </AppText>
       <Button
         label="Yes, reset all"
+        variant="danger"
         busy={reset.isPending}
         onPress={() => reset.mutate(undefined, { onSuccess: () => setAsking(false) })}
         testID="ranges-reset-all-confirm"

@@ -7,6 +7,7 @@ import { Button } from '@/components/ui/button';
 import { ScreenFrame } from '@/components/ui/screen-frame';
 import { ErrorState, LoadingState } from '@/components/ui/state-views';
 import { FormTextField } from '@/components/ui/form-text-field';
+import { formatDateTime } from '@/components/ui/format';
 import { colors, radii, space } from '@/constants/theme';
 import {
   useInviteMutation,
@@ -152,7 +153,7 @@ export function TeamScreen() {
                     {i.name} · {i.role}
                   </AppText>
                   <AppText variant="small" color={colors.textMuted}>
-                    {i.email} · expires {new Date(i.expiresAt).toLocaleDateString()}
+                    {i.email} · expires {formatDateTime(i.expiresAt)}
                   </AppText>
                 </View>
                 <Badge

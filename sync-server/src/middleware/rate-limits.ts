@@ -88,13 +88,13 @@ export class PostgresRateLimitStore implements Store {
   }
 }
 
-function tooMany(resetTime: Date | undefined, windowMs: number): ApiError {
+function tooMany(resetTime: Date | undefined, windowMs: number, what = 'sign-in attempts'): ApiError {
   const waitMs = resetTime ? resetTime.getTime() - Date.now() : windowMs;
   const minutes = Math.max(1, Math.ceil(waitMs / 60_000));
   return {
     error: {
       code: 'too_many_attempts',
-      message: `Too many sign-in attempts. Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again.`,
+      message: `Too many ${what}. Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again.`,
     },
   };
 }
@@ -136,6 +136,43 @@ export function signInLimiters(
       store: new PostgresRateLimitStore(sequelize, `${keyPrefix}:account`),
       keyGenerator: (req) => emailOf(req.body),
       // A request without an e-mail (accepting an invitation) is for no account; the address limit covers it.
+      skip: (req) => emailOf(req.body) === '',
+    }),
+  ];
+}
+
+/**
+ * Password-reset requests: every request counts (not only failures), per address asked for and per caller's
+ * address, so nobody can flood a mailbox or walk the list of addresses. The answer is the same whether or not
+ * the address has an account, the limit included.
+ */
+export const PASSWORD_RESET_LIMITS = { windowMs: 60 * 60 * 1000, perAccount: 3, perAddress: 20 } as const;
+
+export function passwordResetLimiters(sequelize: Sequelize, keyPrefix: string): RequestHandler[] {
+  const { windowMs, perAccount, perAddress } = PASSWORD_RESET_LIMITS;
+  const common = {
+    windowMs,
+    standardHeaders: 'draft-8' as const,
+    legacyHeaders: false,
+    handler: (req: Request, res: Response) =>
+      res
+        .status(429)
+        .json(
+          tooMany((req as AugmentedRequest).rateLimit.resetTime, windowMs, 'requests for a new password'),
+        ),
+  };
+  return [
+    rateLimit({
+      ...common,
+      limit: perAddress,
+      store: new PostgresRateLimitStore(sequelize, `${keyPrefix}:address`),
+      keyGenerator: (req) => ipKeyGenerator(req.ip ?? ''),
+    }),
+    rateLimit({
+      ...common,
+      limit: perAccount,
+      store: new PostgresRateLimitStore(sequelize, `${keyPrefix}:account`),
+      keyGenerator: (req) => emailOf(req.body),
       skip: (req) => emailOf(req.body) === '',
     }),
   ];

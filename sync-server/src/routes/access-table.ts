@@ -8,6 +8,7 @@ import * as consent from './consent';
 import * as exportRoutes from './export';
 import * as followUps from './follow-ups';
 import * as overview from './overview';
+import * as passwordReset from './password-reset';
 import * as payments from './payments';
 import * as settings from './settings';
 import * as team from './team';
@@ -20,8 +21,8 @@ export interface RouteSpec {
   path: string;
   access: Access;
   handler: h.HandlerFactory;
-  /** Extra guard before the handler; the sign-in limiter is the only one so far. */
-  limit?: 'sign-in';
+  /** Extra guard before the handler: the sign-in limiter (failures) or the password-reset one (every request). */
+  limit?: 'sign-in' | 'password-reset';
 }
 
 const anyRole: readonly Role[] = ['operator', 'practitioner', 'admin'];
@@ -37,6 +38,26 @@ export const accessTable: readonly RouteSpec[] = [
   { method: 'post', path: '/api/auth/sign-in', access: 'public', handler: h.signInHandler, limit: 'sign-in' },
   { method: 'post', path: '/api/auth/refresh', access: 'public', handler: h.refreshHandler },
   { method: 'post', path: '/api/auth/sign-out', access: 'public', handler: h.signOutHandler },
+  {
+    method: 'post',
+    path: '/api/auth/password-reset',
+    access: 'public',
+    handler: passwordReset.requestPasswordReset,
+    limit: 'password-reset',
+  },
+  {
+    method: 'get',
+    path: '/api/auth/password-reset/:token',
+    access: 'public',
+    handler: passwordReset.previewPasswordReset,
+  },
+  {
+    method: 'post',
+    path: '/api/auth/password-reset/:token',
+    access: 'public',
+    handler: passwordReset.completePasswordReset,
+    limit: 'sign-in',
+  },
   { method: 'get', path: '/api/me', access: anyRole, handler: h.me },
   { method: 'get', path: '/api/clients', access: ['operator', 'practitioner', 'admin'], handler: h.clients },
   { method: 'get', path: '/api/sessions', access: ['practitioner', 'admin'], handler: h.sessions },

@@ -1,6 +1,6 @@
 import type { Express, RequestHandler } from 'express';
 import { authenticate, requireRole } from '../middleware/authenticate';
-import { signInLimiters, type SignInLimitOptions } from '../middleware/rate-limits';
+import { passwordResetLimiters, signInLimiters, type SignInLimitOptions } from '../middleware/rate-limits';
 import type { UseCaseDeps } from '../use-cases/context';
 import { accessTable, type RouteSpec } from './access-table';
 
@@ -17,6 +17,7 @@ export function registerApiRoutes(
 ): void {
   const limits = {
     'sign-in': signInLimiters(options.signInLimits, deps.sequelize, `${options.rateLimitPrefix}:sign-in`),
+    'password-reset': passwordResetLimiters(deps.sequelize, `${options.rateLimitPrefix}:password-reset`),
   };
   for (const route of table) {
     // Answers carry health records, traces and tokens: no browser or proxy keeps a copy.

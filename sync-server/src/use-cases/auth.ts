@@ -81,7 +81,21 @@ export async function signIn(
 ): Promise<IssuedTokens> {
   const user = await findUserByEmailForSignIn(input.email);
   const password = await verifyPassword(input.password, user?.passwordHash);
-  if (!user || !password.ok || user.disabled) throw wrongCredentials();
+  if (!user || !password.ok || user.disabled) {
+    // The account's admin sees failed sign-ins in its audit log; never the password tried, and nothing for an
+    // address without an account (there is no clinic to tell).
+    if (user)
+      await recordAuditEvent({
+        clinicId: user.clinicId,
+        userId: user.id,
+        action: 'auth.sign_in_failed',
+        entity: 'user',
+        entityId: user.id,
+        ip,
+        details: { reason: user.disabled ? 'account disabled' : 'wrong password' },
+      });
+    throw wrongCredentials();
+  }
   // A hash from before argon2id (bcrypt) is replaced now that the password is known to be right.
   if (password.needsRehash) await setPasswordHash(user.id, await hashPassword(input.password));
   return deps.sequelize.transaction(async (transaction) => {

@@ -61,7 +61,11 @@ async function describe(
     record.serverVersion as { lastWriter?: { deviceId: string | null; userId: string | null } | null }
   ).lastWriter;
   const repo = new SyncConflictsRepository(sequelize);
-  const resolution = record.resolution as { note?: string; newVersion?: number } | null;
+  const resolution = record.resolution as {
+    note?: string;
+    newVersion?: number;
+    picks?: Record<string, 'server' | 'client'>;
+  } | null;
   return {
     id: record.id,
     entity: syncEntitySchema.parse(record.entity),
@@ -85,6 +89,7 @@ async function describe(
             resolvedBy: record.resolvedByName,
             resolvedAt: record.resolvedAt ?? '',
             newVersion: Number(resolution.newVersion ?? 0),
+            kept: resolution.picks ?? {},
           }
         : null,
   };
