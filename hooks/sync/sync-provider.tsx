@@ -3,6 +3,7 @@ import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } fro
 import { api } from '@/hooks/api/client';
 import { useAuth } from '@/hooks/auth/auth-context';
 import { loadSession } from '@/hooks/auth/session-store';
+import { clinicConsentTextKey } from '@/hooks/consent/clinic-consent-text';
 import { localKeys } from '@/hooks/local-store/queries';
 import { localSyncStorage } from '@/hooks/local-store/sync-storage';
 import { SyncEngine, createHttpTransport, type SyncStatus, type SyncStorage } from '@/shared/sync';
@@ -124,6 +125,8 @@ export function DeviceSyncProvider({ children }: { children: ReactNode }) {
     const offOnline = onWindow('online', () => {
       const storage = storageRef.current;
       if (!storage) return;
+      // The clinic may have published a new consent wording meanwhile; the list and client page both follow it.
+      void queryClient.invalidateQueries({ queryKey: clinicConsentTextKey });
       void makeWaitingDue(storage)
         .catch(() => undefined)
         .then(() => {
