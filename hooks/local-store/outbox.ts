@@ -3,6 +3,7 @@ import type { SQLiteDatabase } from 'expo-sqlite';
 import { read, write } from './database';
 import type { Mutation, SyncEntity } from '@/shared/protocol/sync';
 import type { OutboxItemPatch } from '@/shared/sync/storage';
+import type { UnsentSummary } from '@/hooks/sync/sync-context';
 import type { OutboxItem, OutboxRow, OutboxState } from './records';
 
 type OutboxDbRow = {
@@ -120,8 +121,6 @@ export function pendingOutboxCount(): Promise<number> {
     return row?.n ?? 0;
   });
 }
-
-export type UnsentSummary = { items: number; recordings: number; sessions: number; clients: number };
 
 /** What would wait on this phone if the operator signed out now. */
 export function unsentSummary(): Promise<UnsentSummary> {

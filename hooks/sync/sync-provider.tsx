@@ -4,7 +4,7 @@ import { api } from '@/hooks/api/client';
 import { useAuth } from '@/hooks/auth/auth-context';
 import { loadSession } from '@/hooks/auth/session-store';
 import { clinicConsentTextKey } from '@/hooks/consent/clinic-consent-text';
-import { localKeys } from '@/hooks/local-store/queries';
+import { localKeys, useUnsentSummary } from '@/hooks/local-store/queries';
 import { localSyncStorage } from '@/hooks/local-store/sync-storage';
 import { SyncEngine, createHttpTransport, type SyncStatus, type SyncStorage } from '@/shared/sync';
 import { deviceId } from './device-id';
@@ -154,6 +154,8 @@ export function DeviceSyncProvider({ children }: { children: ReactNode }) {
     });
   }, [ready, queryClient]);
 
+  const unsent = useUnsentSummary(ready).data;
+
   const syncNow = useCallback(async () => {
     const engine = engineRef.current;
     const storage = storageRef.current;
@@ -170,9 +172,10 @@ export function DeviceSyncProvider({ children }: { children: ReactNode }) {
       lastRunAt: status.lastRunAt,
       lastError: status.lastError,
       outdated: status.outdated,
+      unsent,
       syncNow,
     }),
-    [ready, status, online, syncNow],
+    [ready, status, online, unsent, syncNow],
   );
   return <DeviceSyncContext.Provider value={value}>{children}</DeviceSyncContext.Provider>;
 }
