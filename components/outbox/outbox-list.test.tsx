@@ -36,7 +36,7 @@ test('when a session waits, then it reads in plain words with the client’s nam
     />,
   );
   const group = screen.getByTestId('outbox-group-s1');
-  expect(within(group).getByTestId('outbox-group-client')).toHaveTextContent('Maren Okonkwo-Lind');
+  expect(within(group).getByTestId('outbox-group-name')).toHaveTextContent('Maren Okonkwo-Lind');
   expect(within(group).getByTestId('outbox-group-progress')).toHaveTextContent('3 of 4 recordings sent');
   expect(within(group).getByTestId('outbox-refused-help')).toHaveTextContent(
     /show the reason to your clinic’s admin/,

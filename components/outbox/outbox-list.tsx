@@ -83,10 +83,10 @@ function OutboxGroupCard({ group }: { group: OutboxGroup }) {
   const percent = Math.round(group.progress * 100);
   const queued = new Date(group.queuedAt).toISOString();
   return (
-    <View style={styles.group} testID={`outbox-group-${group.sessionId ?? 'client'}`}>
+    <View style={styles.group} testID={`outbox-group-${group.sessionId ?? 'new-client'}`}>
       <View style={styles.head}>
         <View style={styles.grow}>
-          <AppText variant="bodyStrong" color={colors.ink} numberOfLines={1} testID="outbox-group-client">
+          <AppText variant="bodyStrong" color={colors.ink} numberOfLines={1} testID="outbox-group-name">
             {group.clientName}
           </AppText>
           <AppText variant="caption" color={colors.textMuted}>
