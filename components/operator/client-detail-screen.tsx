@@ -78,8 +78,8 @@ export function ClientDetailScreen() {
           <View style={styles.card} testID="consent-on-file">
             <Badge label="Consent on file" tone="good" />
             <AppText variant="small" color={colors.text}>
-              Signed by {consent.data.signedName} on {formatDate(consent.data.signedOn)} (text{' '}
-              {consent.data.textVersion}).
+              Signed by {consent.data.signedName} on {formatDate(consent.data.signedOn)} to the consent
+              wording in force (version {consent.data.textVersion}).
             </AppText>
           </View>
         ) : (
