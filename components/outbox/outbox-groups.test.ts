@@ -58,3 +58,11 @@ test('when an item was refused, then its group needs the operator’s attention'
   const [group] = groupOutbox([item({ state: 'failed', lastError: 'Refused.' })]);
   expect(group!.needsAttention).toBe(true);
 });
+
+test('when some items of a session are sent, then those still waiting are listed first', () => {
+  const [group] = groupOutbox([
+    item({ state: 'sent', label: 'first' }),
+    item({ state: 'waiting', label: 'second' }),
+  ]);
+  expect(group!.items.map((i) => i.label)).toEqual(['second', 'first']);
+});

@@ -48,8 +48,11 @@ export function groupOutbox(items: readonly OutboxRow[]): OutboxGroup[] {
     if (item.state !== 'sent') group.unsent++;
     if (item.state === 'failed' || item.state === 'conflict') group.needsAttention = true;
   }
-  for (const group of groups.values())
+  for (const group of groups.values()) {
     group.progress = group.items.reduce((sum, i) => sum + itemProgress(i), 0) / group.items.length;
+    // Within a group too, what still waits comes first (a stable sort keeps the drain order).
+    group.items.sort((a, b) => Number(a.state === 'sent') - Number(b.state === 'sent'));
+  }
   return [...groups.values()].sort(
     (a, b) => Number(b.unsent > 0) - Number(a.unsent > 0) || b.queuedAt - a.queuedAt,
   );

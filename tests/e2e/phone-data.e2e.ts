@@ -4,7 +4,7 @@
 // "Sync"; issue 12); no outside source.
 import { randomUUID } from 'node:crypto';
 import type { Page } from 'playwright-core';
-import { baseUrl, browserForThisFile, newPage, PHONE, screenshot } from '@/tests/support/browser';
+import { baseUrl, browserForThisFile, newPage, PHONE, screenshot, WIDE } from '@/tests/support/browser';
 import { currentConsentText, push, tokenFor } from './helpers/api';
 import { operatorEmail, signInOperatorOnline, uniqueLetters, visible } from './helpers/operator';
 
@@ -140,6 +140,9 @@ test('when a client is added on the phone without a session, then they reach the
   await group.waitFor();
   expect(await group.innerText()).toContain('Client details waiting to send');
   await screenshot(page, 'phone-outbox-new-client-offline');
+  await page.setViewportSize(WIDE);
+  await screenshot(page, 'phone-outbox-new-client-offline-wide');
+  await page.setViewportSize(PHONE);
 
   await context.setOffline(false);
   const operatorToken = await tokenFor(operatorEmail);
