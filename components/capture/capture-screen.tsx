@@ -16,9 +16,11 @@ import {
   useFinishSession,
   useLocalClient,
   useLocalSession,
+  useOutbox,
 } from '@/hooks/local-store/queries';
 import { keepTake, setCurrentSite, skipSite } from '@/hooks/local-store/sessions';
 import type { SiteRecording } from '@/hooks/local-store/records';
+import { useDeviceSync } from '@/hooks/sync/sync-context';
 import { useLayout } from '@/hooks/use-layout';
 import { encodeWav16 } from '@/shared/analysis/wav';
 import type { Site } from '@/shared/protocol';
@@ -106,10 +108,7 @@ export function CaptureScreen() {
     return (
       <ScreenFrame title="Session sealed" subtitle={who} testID="capture-finished">
         <View style={[styles.column, { maxWidth: contentMax }]}>
-          <AppText variant="body" color={colors.text} testID="finished-message">
-            The clips are sealed for the clinic and waiting in the outbox. They send themselves when the
-            device is back online.
-          </AppText>
+          <SealedSessionMessage sessionId={id} />
           <SessionSummary recordings={recordings} traceWidth={contentWidth - 28} />
           <CautionNote />
           <Button label="Open the outbox" onPress={() => router.push('/outbox')} testID="open-outbox" />
@@ -196,3 +195,21 @@ const styles = StyleSheet.create({
   review: { gap: space.md },
   error: { padding: space.md, borderRadius: radii.md, backgroundColor: colors.dangerSoft },
 });
+
+/** Where the sealed session stands, from its outbox items and the network. */
+function SealedSessionMessage({ sessionId }: { sessionId: string }) {
+  const { online } = useDeviceSync();
+  const items = (useOutbox().data ?? []).filter((i) => i.sessionId === sessionId);
+  const waiting = items.filter((i) => i.state !== 'sent').length;
+  const text =
+    items.length > 0 && waiting === 0
+      ? 'The session reached the clinic.'
+      : online
+        ? 'The clips are sealed for the clinic and on their way; the outbox shows how far they are.'
+        : 'The clips are sealed for the clinic and waiting in the outbox. They send themselves when the device is back online.';
+  return (
+    <AppText variant="body" color={colors.text} testID="finished-message">
+      {text}
+    </AppText>
+  );
+}

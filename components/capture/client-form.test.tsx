@@ -1,6 +1,7 @@
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
 import { ClientForm } from './client-form';
 import { toShownConsentText } from '@/hooks/consent/clinic-consent-text';
+import { formatDate } from '@/components/ui/format';
 import { ConsentForm } from './consent-form';
 
 describe('ClientForm', () => {
@@ -68,13 +69,16 @@ describe('ConsentForm', () => {
     expect(onSubmit.mock.calls[0][0].signedOn).toMatch(/^\d{4}-\d{2}-\d{2}$/);
   });
 
-  test('when the consent date is not today, then the date field says consent is dated today', async () => {
-    const onSubmit = jest.fn();
+  test('when consent is taken, then it is dated today, shown as such and not typed', async () => {
+    const onSubmit = jest.fn().mockResolvedValue(undefined);
     render(<ConsentForm clientName="Ilse Vantongeren" text={toShownConsentText(null)} onSubmit={onSubmit} />);
+    const now = new Date();
+    const pad = (n: number) => String(n).padStart(2, '0');
+    const today = `${now.getFullYear()}-${pad(now.getMonth() + 1)}-${pad(now.getDate())}`;
+    expect(screen.getByTestId('consent-date')).toHaveTextContent(`Today, ${formatDate(today)}`);
     fireEvent.changeText(screen.getByTestId('consent-name'), 'Ilse Vantongeren');
-    fireEvent.changeText(screen.getByTestId('consent-date'), '2001-01-01');
     fireEvent.press(screen.getByTestId('consent-submit'));
-    expect(await screen.findByTestId('consent-date-error')).toHaveTextContent('Consent is dated today.');
-    expect(onSubmit).not.toHaveBeenCalled();
+    await waitFor(() => expect(onSubmit).toHaveBeenCalled());
+    expect(onSubmit.mock.calls[0][0].signedOn).toBe(today);
   });
 });

@@ -5,9 +5,9 @@ import { z } from 'zod';
 import { AppText } from '@/components/ui/app-text';
 import { Button } from '@/components/ui/button';
 import { FormTextField } from '@/components/ui/form-text-field';
+import { formatDate } from '@/components/ui/format';
 import { colors, radii, space } from '@/constants/theme';
 import type { ShownConsentText } from '@/hooks/consent/clinic-consent-text';
-import { isCalendarDate } from '@/shared/protocol/dates';
 
 function today(): string {
   const now = new Date();
@@ -25,11 +25,6 @@ export function consentFormSchema(clientName: string) {
       .refine((v) => normal(v) === normal(clientName), {
         error: `Type the name exactly as on file: ${clientName}.`,
       }),
-    signedOn: z
-      .string()
-      .trim()
-      .refine(isCalendarDate, { error: 'Use the form YYYY-MM-DD.' })
-      .refine((v) => v === today(), { error: 'Consent is dated today.' }),
   });
 }
 export type ConsentFormValues = { signedName: string; signedOn: string };
@@ -46,10 +41,12 @@ export function ConsentForm({ clientName, text: shown, onSubmit }: Props) {
     control,
     handleSubmit,
     formState: { isSubmitting },
-  } = useForm<ConsentFormValues>({
+  } = useForm<{ signedName: string }>({
     resolver: zodResolver(consentFormSchema(clientName)),
-    defaultValues: { signedName: '', signedOn: today() },
+    defaultValues: { signedName: '' },
   });
+  // Consent is signed in the room, so it is dated the day it is taken; the date is shown, not typed.
+  const signedOn = today();
   return (
     <View style={styles.root} testID="consent-form">
       <View style={styles.text}>
@@ -69,10 +66,19 @@ export function ConsentForm({ clientName, text: shown, onSubmit }: Props) {
         testID="consent-name"
         autoComplete="off"
       />
-      <FormTextField control={control} name="signedOn" label="Date" testID="consent-date" />
+      <View style={styles.date}>
+        <AppText variant="caption" color={colors.textMuted}>
+          DATE
+        </AppText>
+        <AppText variant="body" color={colors.text} testID="consent-date">
+          Today, {formatDate(signedOn)}
+        </AppText>
+      </View>
       <Button
         label="Record consent"
-        onPress={handleSubmit((values) => onSubmit({ ...values, textVersion: String(shown.version) }))}
+        onPress={handleSubmit((values) =>
+          onSubmit({ ...values, signedOn, textVersion: String(shown.version) }),
+        )}
         testID="consent-submit"
         busy={isSubmitting}
       />
@@ -82,6 +88,7 @@ export function ConsentForm({ clientName, text: shown, onSubmit }: Props) {
 
 const styles = StyleSheet.create({
   root: { gap: space.md },
+  date: { gap: 2 },
   text: {
     gap: space.sm,
     padding: space.md,

@@ -2,11 +2,10 @@ import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
 import { Badge } from '@/components/ui/badge';
 import { sites } from '@/constants/sites';
+import { verdictWords } from '@/constants/verdicts';
 import { colors, radii, space } from '@/constants/theme';
 import type { SiteRecording } from '@/hooks/local-store/records';
 import { TraceView } from './trace-view';
-
-const verdictTone = { good: 'good', usable: 'caution', retake: 'danger' } as const;
 
 /** Each site's outcome, with a small trace where there is one. */
 export function SessionSummary({
@@ -32,8 +31,8 @@ export function SessionSummary({
                 <Badge label="Skipped" tone="neutral" testID={`summary-${site.id}-skipped`} />
               ) : (
                 <Badge
-                  label={r.verdict ?? 'recorded'}
-                  tone={r.verdict ? verdictTone[r.verdict] : 'neutral'}
+                  label={r.verdict ? verdictWords[r.verdict].label : 'Recorded'}
+                  tone={r.verdict ? verdictWords[r.verdict].tone : 'neutral'}
                   testID={`summary-${site.id}-verdict`}
                 />
               )}

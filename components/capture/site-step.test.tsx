@@ -108,3 +108,13 @@ test('when the operator picks another length, then the record button uses it', (
   fireEvent.press(screen.getByTestId('length-30'));
   expect(mockedUseTake).toHaveBeenLastCalledWith('tricuspid', 30, null, expect.any(Function));
 });
+
+test('when a length was chosen at one site, then the next site and the next visit start with it', async () => {
+  withTake({ phase: 'idle' });
+  renderStep();
+  fireEvent.press(screen.getByTestId('length-20'));
+  screen.unmount();
+  renderStep();
+  expect(await screen.findByText('Record 20 s')).toBeTruthy();
+  expect(mockedUseTake).toHaveBeenLastCalledWith('tricuspid', 20, null, expect.any(Function));
+});

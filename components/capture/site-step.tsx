@@ -8,6 +8,7 @@ import { colors, radii, space } from '@/constants/theme';
 import type { RecordingSource, SiteRecording } from '@/hooks/local-store/records';
 import { useAudioInputs } from '@/hooks/recorder/inputs';
 import { playClip } from '@/hooks/recorder/playback';
+import { takeLengths, useTakeLength } from '@/hooks/recorder/take-length';
 import { encodeWav16 } from '@/shared/analysis/wav';
 import type { Site } from '@/shared/protocol';
 import { Countdown } from './countdown';
@@ -18,8 +19,6 @@ import { SkipSiteForm } from './skip-site-form';
 import { TraceView } from './trace-view';
 import { useTake, type TakeResult } from './use-take';
 import { VerdictPanel } from './verdict-panel';
-
-export const takeLengths = [10, 15, 20, 30] as const;
 
 type Props = {
   site: Site;
@@ -46,7 +45,7 @@ export function SiteStep({
   onBack,
 }: Props) {
   const info = siteInfo(site);
-  const [lengthS, setLengthS] = useState(defaultLengthS);
+  const [lengthS, setLengthS] = useTakeLength(defaultLengthS);
   const [skipping, setSkipping] = useState(false);
   const audioInputs = useAudioInputs();
   // A kept input that is unplugged now falls back to the default rather than failing the take.

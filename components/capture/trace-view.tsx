@@ -8,16 +8,22 @@ type Props = { trace: DisplayTrace; sounds: HeartSound[]; width: number; height?
 
 const labelGapPx = 18;
 
-/** Labels where they fit: none on small traces (the shading carries it), and never two closer than labelGapPx. */
-function labelled(sounds: HeartSound[], toX: (s: number) => number, height: number) {
+const labelRowY: Record<HeartSound['type'], number> = { S1: 10, S2: 21 };
+
+/**
+ * Labels where they fit: none on small traces (the shading carries it). S1 and S2 sit a few pixels apart on a
+ * phone, so each kind has its own row, and within a row labels are thinned by space alone (never two closer than
+ * labelGapPx): both kinds stay labelled at any width.
+ */
+export function labelled(sounds: HeartSound[], toX: (s: number) => number, height: number) {
   if (height < 100) return [];
-  const out: { sound: HeartSound; x: number }[] = [];
-  let last = -Infinity;
+  const out: { sound: HeartSound; x: number; y: number }[] = [];
+  const last: Record<HeartSound['type'], number> = { S1: -Infinity, S2: -Infinity };
   for (const sound of sounds) {
     const x = toX((sound.startS + sound.endS) / 2);
-    if (x - last < labelGapPx) continue;
-    out.push({ sound, x });
-    last = x;
+    if (x - last[sound.type] < labelGapPx) continue;
+    out.push({ sound, x, y: labelRowY[sound.type] });
+    last[sound.type] = x;
   }
   return out;
 }
@@ -25,7 +31,7 @@ function labelled(sounds: HeartSound[], toX: (s: number) => number, height: numb
 /** The clip as a min/max band per column, with each detected S1 and S2 shaded and labelled. */
 export function TraceView({ trace, sounds, width, height = 150, testID = 'trace' }: Props) {
   const columns = trace.min.length;
-  const labelBand = height < 100 ? 4 : 18;
+  const labelBand = height < 100 ? 4 : 25;
   const mid = labelBand + (height - labelBand) / 2;
   const peak = Math.max(1e-6, ...trace.max.map(Math.abs), ...trace.min.map(Math.abs));
   const half = (height - labelBand) / 2 - 2;
@@ -62,13 +68,14 @@ export function TraceView({ trace, sounds, width, height = 150, testID = 'trace'
         })}
         <Line x1={0} y1={mid} x2={width} y2={mid} stroke={colors.line} strokeWidth={1} />
         <Path d={d} stroke={colors.ink} strokeWidth={1} />
-        {labelled(sounds, toX, height).map(({ sound, x: at }, i) => {
+        {labelled(sounds, toX, height).map(({ sound, x: at, y }, i) => {
           const tint = sound.type === 'S1' ? colors.accent : colors.pulse;
           return (
             <SvgText
               key={`l${i}`}
+              testID={`label-${sound.type}`}
               x={at}
-              y={12}
+              y={y}
               fontSize={9}
               fontFamily={fonts.bodySemiBold}
               fontWeight="bold"

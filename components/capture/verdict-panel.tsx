@@ -1,17 +1,12 @@
 import { useState } from 'react';
 import { StyleSheet, TextInput, View } from 'react-native';
 import { AppText } from '@/components/ui/app-text';
-import { Badge, type BadgeTone } from '@/components/ui/badge';
+import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { cautionParagraphs, referToClinician } from '@/constants/cautions';
+import { verdictWords } from '@/constants/verdicts';
 import { colors, fonts, radii, space } from '@/constants/theme';
 import type { AnalysisResult } from '@/shared/analysis/types';
-
-const verdictWords: Record<AnalysisResult['quality']['verdict'], { label: string; tone: BadgeTone }> = {
-  good: { label: 'Good take', tone: 'good' },
-  usable: { label: 'Usable take', tone: 'caution' },
-  retake: { label: 'Retake advised', tone: 'danger' },
-};
 
 type Props = {
   analysis: AnalysisResult;

@@ -21,6 +21,8 @@ export function RoleTabs({ tabs }: { tabs: readonly TabSpec[] }) {
           badges={Object.fromEntries(tabs.filter((t) => t.Badge).map((t) => [t.name, t.Badge!]))}
         />
       )}
+      // Back goes to the screen the person came from (a client page before its capture), not to the first tab.
+      backBehavior="history"
       screenOptions={{
         headerShown: false,
         tabBarPosition: isWide ? 'left' : 'bottom',

@@ -1,5 +1,5 @@
 import { router, useLocalSearchParams } from 'expo-router';
-import { useEffect, useState } from 'react';
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { ConsentForm } from '@/components/capture/consent-form';
 import { useClinicConsentText } from '@/hooks/consent/clinic-consent-text';
@@ -8,10 +8,8 @@ import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { formatDate } from '@/components/ui/format';
 import { ScreenFrame } from '@/components/ui/screen-frame';
-import { ErrorState, LoadingState } from '@/components/ui/state-views';
+import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-views';
 import { colors, radii, space } from '@/constants/theme';
-import { useClientsQuery } from '@/hooks/data/clients';
-import { rememberServerClient, rememberServerConsent } from '@/hooks/local-store/clients';
 import {
   useClientSessions,
   useClinicKeyPrefetch,
@@ -25,7 +23,6 @@ export function ClientDetailScreen() {
   const { clientId } = useLocalSearchParams<{ clientId: string }>();
   const id = String(clientId ?? '');
   const local = useLocalClient(id);
-  const server = useClientsQuery('');
   const consentTextShown = useClinicConsentText();
   const consent = useCurrentConsent(id, String(consentTextShown.version));
   const sessions = useClientSessions(id);
@@ -34,45 +31,19 @@ export function ClientDetailScreen() {
   const [error, setError] = useState<string | null>(null);
   useClinicKeyPrefetch();
 
-  // A client known only from the clinic list is copied to the device so it can be recorded offline.
-  const fromServer = server.data?.find((c) => c.id === id);
-  useEffect(() => {
-    if (local.data === null && fromServer) {
-      void rememberServerClient({ ...fromServer, version: 0 }).then(() => local.refetch());
-    }
-  }, [local, fromServer]);
-  // Consent the clinic already holds is kept on the device too, so it is not asked again (nor sent back). Only
-  // one to the text in force counts, and only while the device has none of its own: without these checks every
-  // refresh of the clinic list would write it again.
-  const serverConsent = fromServer?.consent ?? null;
-  const needsServerConsent =
-    local.data !== null &&
-    local.data !== undefined &&
-    serverConsent !== null &&
-    String(serverConsent.textVersion) === String(consentTextShown.version) &&
-    consent.data === null;
-  const { refetch: refetchConsent } = consent;
-  useEffect(() => {
-    if (needsServerConsent && serverConsent) {
-      void rememberServerConsent(id, serverConsent).then(() => refetchConsent());
-    }
-  }, [id, needsServerConsent, serverConsent, refetchConsent]);
-
   if (local.isPending) return <LoadingState label="Opening the client…" testID="client-loading" />;
   if (local.isError)
     return (
       <ErrorState message={local.error.message} onRetry={() => void local.refetch()} testID="client-error" />
     );
-  if (!local.data) {
-    if (server.isPending) return <LoadingState label="Opening the client…" testID="client-loading" />;
+  if (!local.data)
     return (
-      <ErrorState
-        message="This client is not on this device yet. Open them once while online."
-        onRetry={() => router.replace('/clients')}
+      <EmptyState
+        title="Not on this phone"
+        detail="This client is not kept on this phone: the clinic may have erased them, or they arrive with the next sync."
         testID="client-missing"
       />
     );
-  }
   const client = local.data;
   const name = `${client.firstName} ${client.lastName}`;
   const open = sessions.data?.find((s) => s.status === 'in_progress');
@@ -107,8 +78,8 @@ export function ClientDetailScreen() {
           <View style={styles.card} testID="consent-on-file">
             <Badge label="Consent on file" tone="good" />
             <AppText variant="small" color={colors.text}>
-              Signed by {consent.data.signedName} on {formatDate(consent.data.signedOn)} (text{' '}
-              {consent.data.textVersion}).
+              Signed by {consent.data.signedName} on {formatDate(consent.data.signedOn)} to the consent
+              wording in force (version {consent.data.textVersion}).
             </AppText>
           </View>
         ) : (

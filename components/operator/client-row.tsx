@@ -4,9 +4,10 @@ import { AppText } from '@/components/ui/app-text';
 import { Badge } from '@/components/ui/badge';
 import { formatDate } from '@/components/ui/format';
 import { colors, radii, space } from '@/constants/theme';
-import type { ClientSummary } from '@/shared/protocol';
+import type { ListedClient } from '@/hooks/local-store/clients';
 
-export function ClientRow({ client }: { client: ClientSummary }) {
+/** A client kept on the phone; the consent badge is for the wording in force, as on the client page. */
+export function ClientRow({ client }: { client: ListedClient }) {
   const router = useRouter();
   const initials = `${client.firstName.charAt(0)}${client.lastName.charAt(0)}`.toUpperCase();
   return (
@@ -36,11 +37,16 @@ export function ClientRow({ client }: { client: ClientSummary }) {
           </AppText>
         )}
       </View>
-      <Badge
-        label={client.hasConsent ? 'Consent on file' : 'Needs consent'}
-        tone={client.hasConsent ? 'good' : 'caution'}
-        testID={`client-consent-${client.id}`}
-      />
+      <View style={styles.badges}>
+        <Badge
+          label={client.hasConsent ? 'Consent on file' : 'Needs consent'}
+          tone={client.hasConsent ? 'good' : 'caution'}
+          testID={`client-consent-${client.id}`}
+        />
+        {client.unsent ? (
+          <Badge label="Not yet synced" tone="neutral" testID={`client-unsent-${client.id}`} />
+        ) : null}
+      </View>
     </Pressable>
   );
 }
@@ -66,4 +72,5 @@ const styles = StyleSheet.create({
     justifyContent: 'center',
   },
   main: { flex: 1, gap: 2 },
+  badges: { alignItems: 'flex-end', gap: space.xs },
 });

@@ -8,40 +8,49 @@ import { SearchIcon } from '@/components/ui/icons';
 import { ScreenFrame } from '@/components/ui/screen-frame';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-views';
 import { colors, fonts, radii, space } from '@/constants/theme';
-import { useClientsQuery } from '@/hooks/data/clients';
+import { useClinicConsentText } from '@/hooks/consent/clinic-consent-text';
+import { useLocalClients } from '@/hooks/local-store/queries';
 import { useDebouncedValue } from '@/hooks/use-debounced-value';
 import { ClientRow } from './client-row';
-import { DeviceClients } from './device-clients';
 import { FollowUpsDue } from './follow-ups-due';
+import { OfflineMark } from './offline-mark';
 
+/**
+ * The clients kept on this phone: every client of the clinic (pulled at sign-in and whenever the network
+ * returns) and those added here. The list reads the phone only, so it is the same online and offline.
+ */
 export function OperatorHomeScreen() {
   const [search, setSearch] = useState('');
   const q = useDebouncedValue(search);
-  const clients = useClientsQuery(q);
+  const consentText = useClinicConsentText();
+  const clients = useLocalClients(q, String(consentText.version));
   const router = useRouter();
 
   const searchBox = (
-    <View style={styles.tools}>
-      <View style={styles.search}>
-        <SearchIcon color={colors.textMuted} />
-        <TextInput
-          testID="client-search"
-          accessibilityLabel="Search clients"
-          placeholder="Search by name or e-mail"
-          placeholderTextColor={colors.textMuted}
-          value={search}
-          onChangeText={setSearch}
-          autoCapitalize="none"
-          autoCorrect={false}
-          style={styles.searchInput}
+    <View style={styles.header}>
+      <OfflineMark />
+      <View style={styles.tools}>
+        <View style={styles.search}>
+          <SearchIcon color={colors.textMuted} />
+          <TextInput
+            testID="client-search"
+            accessibilityLabel="Search clients"
+            placeholder="Search by name or e-mail"
+            placeholderTextColor={colors.textMuted}
+            value={search}
+            onChangeText={setSearch}
+            autoCapitalize="none"
+            autoCorrect={false}
+            style={styles.searchInput}
+          />
+        </View>
+        <Button
+          label="New client"
+          testID="client-add"
+          variant="secondary"
+          onPress={() => router.push('/clients/new')}
         />
       </View>
-      <Button
-        label="New client"
-        testID="client-add"
-        variant="secondary"
-        onPress={() => router.push('/clients/new')}
-      />
     </View>
   );
 
@@ -66,7 +75,7 @@ export function OperatorHomeScreen() {
     ) : (
       <EmptyState
         title="No clients yet"
-        detail="Clients added by your clinic appear here."
+        detail="Clients of your clinic appear here after the first sync; add a new one with New client."
         testID="clients-empty"
       />
     );
@@ -91,8 +100,6 @@ export function OperatorHomeScreen() {
       testID="operator-home"
       header={searchBox}
     >
-      {/* Clients kept on this device stay listed when the clinic server cannot be reached. */}
-      <DeviceClients search={q} excludeIds={clients.data?.map((c) => c.id) ?? []} />
       {body}
       <CautionNote compact />
     </ScreenFrame>
@@ -100,7 +107,8 @@ export function OperatorHomeScreen() {
 }
 
 const styles = StyleSheet.create({
-  tools: { flexDirection: 'row', gap: space.sm, marginTop: space.sm, maxWidth: 640, alignItems: 'center' },
+  header: { gap: space.sm, marginTop: space.sm },
+  tools: { flexDirection: 'row', gap: space.sm, maxWidth: 640, alignItems: 'center' },
   search: {
     flex: 1,
     minWidth: 0,

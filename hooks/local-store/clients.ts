@@ -1,5 +1,7 @@
 import { v4 as uuid } from 'uuid';
+import type { Mutation } from '@/shared/protocol/sync';
 import { read, transaction } from './database';
+import { enqueue } from './outbox';
 import type { LocalClient, LocalConsent } from './records';
 
 type ClientRow = {
@@ -52,6 +54,24 @@ function toConsent(row: ConsentRow): LocalConsent {
 
 export type NewClient = Pick<LocalClient, 'firstName' | 'lastName' | 'dateOfBirth' | 'email' | 'phone'>;
 
+export const clientDetailsLabel = 'Client details';
+
+/** The client's fields as a sync change; `extra` carries the practice's fields a new row sends empty. */
+export function clientChange(
+  row: Pick<ClientRow, 'first_name' | 'last_name' | 'date_of_birth' | 'email' | 'phone'>,
+  extra: Record<string, null> = {},
+): Record<string, unknown> {
+  return {
+    firstName: row.first_name,
+    lastName: row.last_name,
+    dateOfBirth: row.date_of_birth,
+    email: row.email,
+    phone: row.phone,
+    ...extra,
+  };
+}
+
+/** Adds the client and queues them for the clinic in one transaction: they go with the next sync, session or not. */
 export async function addClient(input: NewClient, now = new Date()): Promise<LocalClient> {
   const stamp = now.toISOString();
   const client: LocalClient = {
@@ -75,33 +95,38 @@ export async function addClient(input: NewClient, now = new Date()): Promise<Loc
       stamp,
       stamp,
     );
-  });
-  return client;
-}
-
-/** Keeps a copy of a client read from the clinic server, so the device can record them offline later. */
-export async function rememberServerClient(
-  input: Omit<LocalClient, 'origin' | 'createdAt' | 'phone'> & { phone?: string | null },
-): Promise<void> {
-  await transaction(async (db) => {
-    await db.runAsync(
-      `INSERT INTO clients (id, first_name, last_name, date_of_birth, email, phone, origin, version, created_at, updated_at)
-       VALUES (?, ?, ?, ?, ?, ?, 'server', ?, ?, ?)
-       ON CONFLICT(id) DO UPDATE SET first_name = excluded.first_name, last_name = excluded.last_name,
-         date_of_birth = excluded.date_of_birth, email = excluded.email, version = excluded.version,
-         updated_at = excluded.updated_at
-       WHERE clients.origin = 'server'`,
-      input.id,
-      input.firstName,
-      input.lastName,
-      input.dateOfBirth,
-      input.email,
-      input.phone ?? null,
-      input.version,
-      input.updatedAt,
-      input.updatedAt,
+    const mutation: Mutation = {
+      mutationId: uuid(),
+      entity: 'clients',
+      id: client.id,
+      baseVersion: 0,
+      change: clientChange(
+        {
+          first_name: client.firstName,
+          last_name: client.lastName,
+          date_of_birth: client.dateOfBirth,
+          email: client.email,
+          phone: client.phone,
+        },
+        { notes: null },
+      ),
+    };
+    await enqueue(
+      db,
+      {
+        kind: 'mutation',
+        entity: 'clients',
+        rowId: client.id,
+        mutation,
+        sizeBytes: JSON.stringify(mutation).length,
+        label: clientDetailsLabel,
+        clientId: client.id,
+        sessionId: null,
+      },
+      now,
     );
   });
+  return client;
 }
 
 export function getClient(id: string): Promise<LocalClient | null> {
@@ -114,17 +139,29 @@ export function getClient(id: string): Promise<LocalClient | null> {
   });
 }
 
-export function listClients(search = ''): Promise<LocalClient[]> {
+/** A client as the list shows them: consent for the wording in force, and whether anything of theirs still waits. */
+export type ListedClient = LocalClient & { hasConsent: boolean; unsent: boolean };
+
+export function listClients(search: string, consentTextVersion: string): Promise<ListedClient[]> {
   const like = `%${search.trim().toLowerCase()}%`;
   return read(async (db) => {
-    const rows = await db.getAllAsync<ClientRow>(
-      `SELECT * FROM clients WHERE deleted_at IS NULL
+    const rows = await db.getAllAsync<ClientRow & { has_consent: number; unsent: number }>(
+      `SELECT clients.*,
+         EXISTS (SELECT 1 FROM consents WHERE consents.client_id = clients.id AND consents.text_version = ?
+           AND consents.deleted_at IS NULL) AS has_consent,
+         EXISTS (SELECT 1 FROM outbox WHERE outbox.client_id = clients.id AND outbox.state <> 'sent') AS unsent
+       FROM clients WHERE deleted_at IS NULL
          AND (lower(first_name || ' ' || last_name) LIKE ? OR lower(coalesce(email, '')) LIKE ?)
-       ORDER BY updated_at DESC LIMIT 200`,
+       ORDER BY lower(last_name), lower(first_name) LIMIT 500`,
+      consentTextVersion,
       like,
       like,
     );
-    return rows.map(toClient);
+    return rows.map((row) => ({
+      ...toClient(row),
+      hasConsent: Boolean(row.has_consent),
+      unsent: Boolean(row.unsent),
+    }));
   });
 }
 
@@ -147,33 +184,6 @@ export async function recordConsent(input: NewConsent, now = new Date()): Promis
     );
   });
   return consent;
-}
-
-/**
- * Keeps a consent the clinic already holds for a client known from the server, so the operator does not ask for it
- * again. Its version (1 or more) marks it as the server's: finishing a session does not send it back.
- */
-export async function rememberServerConsent(
-  clientId: string,
-  consent: { id: string; signedName: string; signedOn: string; textVersion: number; version: number },
-  now = new Date(),
-): Promise<void> {
-  const stamp = now.toISOString();
-  await transaction(async (db) => {
-    await db.runAsync(
-      `INSERT INTO consents (id, client_id, signed_name, signed_on, text_version, version, created_at, updated_at)
-       VALUES (?, ?, ?, ?, ?, ?, ?, ?)
-       ON CONFLICT(id) DO NOTHING`,
-      consent.id,
-      clientId,
-      consent.signedName,
-      consent.signedOn,
-      String(consent.textVersion),
-      Math.max(1, consent.version),
-      stamp,
-      stamp,
-    );
-  });
 }
 
 /** The newest consent on this device for the client and the current text version, if any. */

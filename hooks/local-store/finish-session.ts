@@ -7,6 +7,7 @@ import { sealClip, sha256Hex } from '@/shared/seal';
 import type { Site } from '@/shared/protocol';
 import { cachedClinicKey } from './clinic-key';
 import { read, transaction, write } from './database';
+import { clientDetailsLabel, clientChange } from './clients';
 import { enqueue } from './outbox';
 
 export class MissingClinicKeyError extends Error {
@@ -80,7 +81,6 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
       phone: string | null;
     }>('SELECT * FROM clients WHERE id = ?', session.client_id);
     if (!client) throw new Error('The session’s client is missing on this device.');
-    const who = `${client.first_name} ${client.last_name}`;
 
     for (const clip of sealed) {
       await db.runAsync(
@@ -107,11 +107,21 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
       baseVersion: number,
       change: Record<string, unknown>,
       label: string,
+      inSession: string | null = sessionId,
     ) => {
       const body: Mutation = { mutationId: uuid(), entity, id: rowId, baseVersion, change };
       await enqueue(
         db,
-        { kind: 'mutation', entity, rowId, mutation: body, sizeBytes: JSON.stringify(body).length, label },
+        {
+          kind: 'mutation',
+          entity,
+          rowId,
+          mutation: body,
+          sizeBytes: JSON.stringify(body).length,
+          label,
+          clientId: session.client_id,
+          sessionId: inSession,
+        },
         now,
         order++,
       );
@@ -127,20 +137,15 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
         )?.n,
       );
 
+    // Devices since the outbox's client column queue a new client when it is added; this covers older ones.
     if (client.origin === 'device' && !(await alreadyQueued('clients', session.client_id))) {
       await queue(
         'clients',
         session.client_id,
         client.version,
-        {
-          firstName: client.first_name,
-          lastName: client.last_name,
-          dateOfBirth: client.date_of_birth,
-          email: client.email,
-          phone: client.phone,
-          ...practiceFieldsOnCreate(client.version, { notes: null }),
-        },
-        `Client ${who}`,
+        clientChange(client, practiceFieldsOnCreate(client.version, { notes: null })),
+        clientDetailsLabel,
+        null,
       );
     }
     const consent = await db.getFirstAsync<{
@@ -166,7 +171,7 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
           typedName: consent.signed_name,
           consentDate: consent.signed_on,
         },
-        `Consent of ${who}`,
+        'Consent',
       );
     }
 
@@ -187,7 +192,7 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
         finishedAt: stamp,
         ...practiceFieldsOnCreate(session.version, { findings: null, plan: null, followUpDate: null }),
       },
-      `Session of ${who}`,
+      'Session record',
     );
 
     const recordings = await db.getAllAsync<{
@@ -220,7 +225,7 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
           skippedReason: recorded ? null : r.skip_reason,
           keepAnywayNote: r.note,
         },
-        `${siteInfo(r.site).label} ${recorded ? 'record' : 'skip'} · ${who}`,
+        recorded ? `${siteInfo(r.site).label} details` : `${siteInfo(r.site).label} skipped`,
       );
     }
     for (const clip of sealed) {
@@ -231,7 +236,9 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
           rowId: clip.id,
           blobHash: clip.hash,
           sizeBytes: clip.sealed.byteLength,
-          label: `${siteInfo(clip.site).label} clip (sealed) · ${who}`,
+          label: `${siteInfo(clip.site).label} recording`,
+          clientId: session.client_id,
+          sessionId,
         },
         now,
         order++,

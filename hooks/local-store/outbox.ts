@@ -3,6 +3,7 @@ import type { SQLiteDatabase } from 'expo-sqlite';
 import { read, write } from './database';
 import type { Mutation, SyncEntity } from '@/shared/protocol/sync';
 import type { OutboxItemPatch } from '@/shared/sync/storage';
+import type { UnsentSummary } from '@/hooks/sync/sync-context';
 import type { OutboxItem, OutboxRow, OutboxState } from './records';
 
 type OutboxDbRow = {
@@ -22,6 +23,10 @@ type OutboxDbRow = {
   upload_url: string | null;
   conflict_id: string | null;
   label: string | null;
+  client_id: string | null;
+  session_id: string | null;
+  client_name?: string | null;
+  site?: string | null;
 };
 
 export function toOutboxRow(row: OutboxDbRow): OutboxRow {
@@ -42,6 +47,10 @@ export function toOutboxRow(row: OutboxDbRow): OutboxRow {
     ...(row.upload_url ? { uploadUrl: row.upload_url } : {}),
     ...(row.conflict_id ? { conflictId: row.conflict_id } : {}),
     label: row.label,
+    clientId: row.client_id,
+    sessionId: row.session_id,
+    clientName: row.client_name ?? null,
+    site: (row.site as OutboxRow['site']) ?? null,
   };
 }
 
@@ -49,7 +58,10 @@ export type NewOutboxItem = Omit<
   OutboxItem,
   'id' | 'state' | 'attempts' | 'nextAttemptAt' | 'progress' | 'createdAt' | 'uploadUrl' | 'conflictId'
 > & {
+  /** What the item is, in words and without the client's name (the name is read from the client row). */
   label: string;
+  clientId: string;
+  sessionId: string | null;
 };
 
 /**
@@ -67,8 +79,8 @@ export async function enqueue(
   const at = now.getTime() + order;
   await db.runAsync(
     `INSERT INTO outbox (id, kind, entity, row_id, mutation_json, blob_hash, size_bytes, state, attempts, next_attempt_at,
-       progress, created_at, label)
-     VALUES (?, ?, ?, ?, ?, ?, ?, 'waiting', 0, ?, 0, ?, ?)`,
+       progress, created_at, label, client_id, session_id)
+     VALUES (?, ?, ?, ?, ?, ?, ?, 'waiting', 0, ?, 0, ?, ?, ?, ?)`,
     id,
     item.kind,
     item.entity ?? null,
@@ -79,13 +91,23 @@ export async function enqueue(
     at,
     at,
     item.label,
+    item.clientId,
+    item.sessionId,
   );
   return id;
 }
 
+/** The queue in drain order, each item with its client's name and site read from the rows it belongs to. */
 export function listOutbox(): Promise<OutboxRow[]> {
   return read(async (db) => {
-    const rows = await db.getAllAsync<OutboxDbRow>('SELECT * FROM outbox ORDER BY created_at, id');
+    const rows = await db.getAllAsync<OutboxDbRow>(
+      `SELECT outbox.*, clients.first_name || ' ' || clients.last_name AS client_name, site_recordings.site AS site
+       FROM outbox
+       LEFT JOIN clients ON clients.id = outbox.client_id
+       LEFT JOIN site_recordings ON site_recordings.id = outbox.row_id
+         AND (outbox.entity = 'site_recordings' OR outbox.kind = 'clip')
+       ORDER BY outbox.created_at, outbox.id`,
+    );
     return rows.map(toOutboxRow);
   });
 }
@@ -97,6 +119,18 @@ export function pendingOutboxCount(): Promise<number> {
       "SELECT count(*) AS n FROM outbox WHERE state <> 'sent'",
     );
     return row?.n ?? 0;
+  });
+}
+
+/** What would wait on this phone if the operator signed out now. */
+export function unsentSummary(): Promise<UnsentSummary> {
+  return read(async (db) => {
+    const row = await db.getFirstAsync<UnsentSummary>(
+      `SELECT count(*) AS items, coalesce(sum(kind = 'clip'), 0) AS recordings,
+         count(DISTINCT session_id) AS sessions, count(DISTINCT client_id) AS clients
+       FROM outbox WHERE state <> 'sent'`,
+    );
+    return row ?? { items: 0, recordings: 0, sessions: 0, clients: 0 };
   });
 }
 

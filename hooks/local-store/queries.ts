@@ -1,4 +1,4 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import {
   addClient,
   currentConsent,
@@ -10,25 +10,33 @@ import {
 } from './clients';
 import { fetchClinicKey } from './clinic-key';
 import { finishSession } from './finish-session';
-import { listOutbox, pendingOutboxCount } from './outbox';
+import { listOutbox, pendingOutboxCount, unsentSummary } from './outbox';
 import { discardSession, getSession, listRecordings, listSessionsForClient, startSession } from './sessions';
 
 export const localKeys = {
   root: ['local'] as const,
-  clients: (search: string) => ['local', 'clients', search] as const,
+  clients: (search: string, consentTextVersion: string) =>
+    ['local', 'clients', search, consentTextVersion] as const,
   client: (id: string) => ['local', 'client', id] as const,
   consent: (clientId: string, version: string) => ['local', 'consent', clientId, version] as const,
   sessionsOf: (clientId: string) => ['local', 'sessions-of', clientId] as const,
   session: (id: string) => ['local', 'session', id] as const,
   outbox: ['local', 'outbox'] as const,
   outboxCount: ['local', 'outbox-count'] as const,
+  unsent: ['local', 'unsent'] as const,
 };
 
 // Local reads are cheap and offline; never treat them as stale network data or retry them.
 const localQuery = { networkMode: 'always', retry: false, staleTime: 0 } as const;
 
-export function useLocalClients(search: string) {
-  return useQuery({ ...localQuery, queryKey: localKeys.clients(search), queryFn: () => listClients(search) });
+/** Every client kept on the phone, with consent on file for the wording in force and whether any item waits. */
+export function useLocalClients(search: string, consentTextVersion: string) {
+  return useQuery({
+    ...localQuery,
+    queryKey: localKeys.clients(search, consentTextVersion),
+    queryFn: () => listClients(search, consentTextVersion),
+    placeholderData: keepPreviousData,
+  });
 }
 
 export function useLocalClient(id: string) {
@@ -74,6 +82,11 @@ export function useOutboxCount() {
     queryFn: pendingOutboxCount,
     refetchInterval: 5_000,
   });
+}
+
+/** What would wait on the phone after a sign-out; only asked where the device keeps an outbox. */
+export function useUnsentSummary(enabled: boolean) {
+  return useQuery({ ...localQuery, queryKey: localKeys.unsent, queryFn: unsentSummary, enabled });
 }
 
 function useInvalidateLocal() {

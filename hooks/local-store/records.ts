@@ -68,4 +68,11 @@ export type SiteRecording = {
 export type { OutboxItem, OutboxState } from '@/shared/sync/storage';
 import type { OutboxItem } from '@/shared/sync/storage';
 
-export type OutboxRow = OutboxItem & { label: string | null };
+export type OutboxRow = OutboxItem & {
+  label: string | null;
+  clientId: string | null;
+  sessionId: string | null;
+  /** Read from the client row at listing time, so an erased client's name leaves the outbox with the row. */
+  clientName: string | null;
+  site: Site | null;
+};

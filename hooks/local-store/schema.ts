@@ -103,6 +103,22 @@ const steps: string[] = [
     value TEXT NOT NULL
   );
   `,
+  // Each outbox item names its client and session, so the outbox groups by session, a client's badge derives
+  // from what still waits, and erasing a client finds every item about them. Labels no longer carry names.
+  `
+  ALTER TABLE outbox ADD COLUMN client_id TEXT;
+  ALTER TABLE outbox ADD COLUMN session_id TEXT;
+  UPDATE outbox SET client_id = row_id WHERE entity = 'clients';
+  UPDATE outbox SET client_id = (SELECT client_id FROM consents WHERE consents.id = outbox.row_id)
+    WHERE entity = 'consents';
+  UPDATE outbox SET session_id = row_id WHERE entity = 'recording_sessions';
+  UPDATE outbox SET session_id = (SELECT session_id FROM site_recordings WHERE site_recordings.id = outbox.row_id)
+    WHERE entity = 'site_recordings' OR kind = 'clip';
+  UPDATE outbox SET client_id = (SELECT client_id FROM sessions WHERE sessions.id = outbox.session_id)
+    WHERE session_id IS NOT NULL;
+  UPDATE outbox SET label = NULL;
+  CREATE INDEX outbox_by_client ON outbox(client_id);
+  `,
 ];
 
 export async function migrate(db: SQLiteDatabase): Promise<void> {

@@ -1,7 +1,7 @@
-import type { SQLiteDatabase } from 'expo-sqlite';
 import { INITIAL_CHECKPOINT, type PulledRow, type RowData, type SyncEntity } from '@/shared/protocol/sync';
 import type { OutboxItem, OutboxItemPatch, SyncStorage } from '@/shared/sync/storage';
 import { read, transaction, write } from './database';
+import { showClient, showConsentsOf } from './mirror';
 import { listOutbox, readSealedBlob, updateOutboxItem } from './outbox';
 
 const checkpointKey = 'sync.checkpoint';
@@ -16,41 +16,6 @@ function newer(
   return BigInt(row.changeSeq) > BigInt(than.change_seq);
 }
 
-const str = (v: unknown): string | null => (typeof v === 'string' ? v : null);
-
-/** Mirrors a confirmed client into the table the operator's screens read, unless a local edit is waiting. */
-async function showClient(
-  db: SQLiteDatabase,
-  id: string,
-  version: number,
-  deletedAt: string | null,
-  data: RowData,
-  updatedAt: string,
-) {
-  const waiting = await db.getFirstAsync<{ n: number }>(
-    "SELECT count(*) AS n FROM outbox WHERE entity = 'clients' AND row_id = ? AND state IN ('waiting', 'sending')",
-    id,
-  );
-  if (waiting?.n) return;
-  await db.runAsync(
-    `INSERT INTO clients (id, first_name, last_name, date_of_birth, email, phone, origin, version, created_at, updated_at, deleted_at)
-     VALUES (?, ?, ?, ?, ?, ?, 'server', ?, ?, ?, ?)
-     ON CONFLICT(id) DO UPDATE SET first_name = excluded.first_name, last_name = excluded.last_name,
-       date_of_birth = excluded.date_of_birth, email = excluded.email, phone = excluded.phone,
-       version = excluded.version, updated_at = excluded.updated_at, deleted_at = excluded.deleted_at`,
-    id,
-    str(data.firstName) ?? '',
-    str(data.lastName) ?? '',
-    str(data.dateOfBirth),
-    str(data.email),
-    str(data.phone),
-    version,
-    updatedAt,
-    updatedAt,
-    deletedAt,
-  );
-}
-
 const versionedTables: Partial<Record<SyncEntity, string>> = {
   clients: 'clients',
   consents: 'consents',
@@ -61,7 +26,18 @@ const versionedTables: Partial<Record<SyncEntity, string>> = {
 /** The sync engine's storage over the device's expo-sqlite database; each method is one transaction. */
 export class LocalSyncStorage implements SyncStorage {
   listOutbox(): Promise<OutboxItem[]> {
-    return listOutbox().then((rows) => rows.map(({ label: _label, ...item }) => item));
+    return listOutbox().then((rows) =>
+      rows.map(
+        ({
+          label: _label,
+          clientId: _client,
+          sessionId: _session,
+          clientName: _name,
+          site: _site,
+          ...item
+        }) => item,
+      ),
+    );
   }
 
   putOutboxItem(item: OutboxItem): Promise<void> {
@@ -136,10 +112,15 @@ export class LocalSyncStorage implements SyncStorage {
           row.version,
           row.changeSeq,
           row.deletedAt,
-          JSON.stringify(row.data),
+          // A tombstone keeps no data: an erased client's name must not outlive them on the phone.
+          row.deletedAt ? '{}' : JSON.stringify(row.data),
         );
-        if (row.entity === 'clients')
-          await showClient(db, row.id, row.version, row.deletedAt, row.data, row.updatedAt);
+        if (row.entity === 'clients') await showClient(db, row);
+        const clientId = row.data.clientId;
+        if (row.entity === 'consents' && row.deletedAt)
+          await db.runAsync('UPDATE consents SET deleted_at = ? WHERE id = ?', row.deletedAt, row.id);
+        else if (row.entity === 'consents' && typeof clientId === 'string')
+          await showConsentsOf(db, clientId);
       }
     });
   }

@@ -1,6 +1,9 @@
 import { createContext, useContext } from 'react';
 import type { SyncReport } from '@/shared/sync';
 
+/** What would wait on the phone after a sign-out: items not yet acknowledged by the clinic. */
+export type UnsentSummary = { items: number; recordings: number; sessions: number; clients: number };
+
 export interface DeviceSyncState {
   /** False until the engine is built (device id read) and after sign-out. */
   ready: boolean;
@@ -11,6 +14,8 @@ export interface DeviceSyncState {
   lastError?: string;
   /** The server refused this app version (426); the text is the server's. */
   outdated?: string;
+  /** Read from the outbox while the operator is signed in; none elsewhere. */
+  unsent?: UnsentSummary;
   /** Drains now, ignoring the retry wait of items that failed before. */
   syncNow: () => Promise<SyncReport | null>;
 }

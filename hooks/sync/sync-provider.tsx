@@ -3,7 +3,8 @@ import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } fro
 import { api } from '@/hooks/api/client';
 import { useAuth } from '@/hooks/auth/auth-context';
 import { loadSession } from '@/hooks/auth/session-store';
-import { localKeys } from '@/hooks/local-store/queries';
+import { clinicConsentTextKey } from '@/hooks/consent/clinic-consent-text';
+import { localKeys, useUnsentSummary } from '@/hooks/local-store/queries';
 import { localSyncStorage } from '@/hooks/local-store/sync-storage';
 import { SyncEngine, createHttpTransport, type SyncStatus, type SyncStorage } from '@/shared/sync';
 import { deviceId } from './device-id';
@@ -124,6 +125,8 @@ export function DeviceSyncProvider({ children }: { children: ReactNode }) {
     const offOnline = onWindow('online', () => {
       const storage = storageRef.current;
       if (!storage) return;
+      // The clinic may have published a new consent wording meanwhile; the list and client page both follow it.
+      void queryClient.invalidateQueries({ queryKey: clinicConsentTextKey });
       void makeWaitingDue(storage)
         .catch(() => undefined)
         .then(() => {
@@ -151,6 +154,8 @@ export function DeviceSyncProvider({ children }: { children: ReactNode }) {
     });
   }, [ready, queryClient]);
 
+  const unsent = useUnsentSummary(ready).data;
+
   const syncNow = useCallback(async () => {
     const engine = engineRef.current;
     const storage = storageRef.current;
@@ -167,9 +172,10 @@ export function DeviceSyncProvider({ children }: { children: ReactNode }) {
       lastRunAt: status.lastRunAt,
       lastError: status.lastError,
       outdated: status.outdated,
+      unsent,
       syncNow,
     }),
-    [ready, status, online, syncNow],
+    [ready, status, online, unsent, syncNow],
   );
   return <DeviceSyncContext.Provider value={value}>{children}</DeviceSyncContext.Provider>;
 }

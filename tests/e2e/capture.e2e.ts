@@ -263,6 +263,13 @@ describe('offline capture on the phone', () => {
     await visible(page, 'capture-finished').waitFor();
     await page.goto('/outbox');
     await visible(page, 'outbox-list').waitFor();
+    // One group for the session, in plain words; sizes only behind Details.
+    const sessionGroup = visible(page, `outbox-group-${sessionPath.split('/').pop()}`);
+    expect(await sessionGroup.getByTestId('outbox-group-progress').innerText()).toBe(
+      '0 of 4 recordings sent',
+    );
+    expect(await sessionGroup.getByTestId('outbox-size').count()).toBe(0);
+    await sessionGroup.getByTestId('outbox-details-toggle').click();
     const clips = page.locator('[data-testid="outbox-item-clip"]').filter({ visible: true });
     expect(await clips.count()).toBe(4);
     for (let i = 0; i < 4; i++) {

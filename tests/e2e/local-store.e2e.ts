@@ -177,8 +177,17 @@ describe('the records kept on the device', () => {
       .locator('[data-testid^="outbox-item-"]')
       .filter({ visible: true })
       .allInnerTexts();
-    expect(labels.some((l) => l.includes(`Session of Linnea ${lastName}`))).toBe(true);
-    expect(labels.some((l) => /Consent of/.test(l))).toBe(false);
+    expect(labels.some((l) => l.includes('Session record'))).toBe(true);
+    expect(labels.some((l) => /Consent/.test(l))).toBe(false);
+    // The session's group carries the client's name, read from the client row.
+    const group = page.locator('[data-testid="outbox-group-name"]').filter({ visible: true });
+    expect(await group.allInnerTexts()).toContain(`Linnea ${lastName}`);
+    expect(
+      await page
+        .getByTestId('outbox-group-progress')
+        .filter({ visible: true, hasText: '1 of 1 recording sent' })
+        .count(),
+    ).toBeGreaterThanOrEqual(1);
     await context.close();
   });
 });
