@@ -10,7 +10,7 @@ import {
   traceSchema,
   trendsSchema,
 } from '@/shared/protocol/review';
-import { cautionParagraphs } from '@/constants/cautions';
+import { cautionParagraphs, clientCautionParagraphs } from '@/constants/cautions';
 import { generateClinicKeyPair, openClip, sealClip } from '@/shared/seal';
 import { runReportMailRetries, SENDING_STALE_MS } from '@/sync-server/src/jobs/report-mail-retries';
 import { AuditEvent } from '@/sync-server/src/models';
@@ -333,10 +333,12 @@ describe('report', () => {
     );
     expect(text).toContain(clinic.name);
     expect(text).toContain('Tamsin Oakridge');
-    expect(text).toContain('Above range: refer to a licensed clinician');
+    // The client's report words a referral for the client, without the practitioner-only sentences.
+    expect(text).toContain('Above the usual range: please see a licensed clinician');
+    expect(text).not.toContain('scope of your licence');
     expect(text).toContain('Compared with the visit of 2026-09-01');
     expect(text).toContain('Rate high at mitral.');
-    for (const p of cautionParagraphs) expect(text).toContain(p.slice(0, 60));
+    for (const p of clientCautionParagraphs) expect(text).toContain(p.slice(0, 60));
   });
 });
 
