@@ -1,6 +1,9 @@
 import jwt from 'jsonwebtoken';
 import request from 'supertest';
 import { signInResponseSchema } from '@/shared/protocol';
+import { RefreshToken } from '@/sync-server/src/models';
+import { hashRefreshToken } from '@/sync-server/src/services/tokens';
+import { REUSE_GRACE_MS } from '@/sync-server/src/use-cases/auth';
 import {
   makeClinic,
   makeSiblingApp,
@@ -80,7 +83,12 @@ describe('the web refresh cookie (ASVS 4.0.3 V3.4)', () => {
     expect(body.refreshToken).toBeUndefined();
     const second = refreshCookie(res.headers).value;
     expect(second).not.toBe(first);
-    // The first cookie is spent: sending it again is a replay and ends the sign-in, cookie cleared.
+    // The first cookie is spent: sending it again after the reuse window is a replay and ends the sign-in,
+    // cookie cleared.
+    await RefreshToken.update(
+      { revokedAt: new Date(Date.now() - 2 * REUSE_GRACE_MS) },
+      { where: { tokenHash: hashRefreshToken(first) } },
+    );
     const replay = await request(ctx.app)
       .post('/api/auth/refresh')
       .set('cookie', `fourpoint_refresh=${first}`)

@@ -118,6 +118,14 @@ export async function signIn(
 }
 
 /** Swaps a refresh token for a new pair; presenting an already-used token ends that whole sign-in. */
+/**
+ * A refresh token used again within this window of its rotation is a lost answer, not a theft: a page that
+ * reloads or navigates while its refresh is in flight never stores the new cookie and sends the old one again.
+ * It gets fresh tokens in the same sign-in; after the window, a reuse ends the sign-in (OWASP ASVS 4.0.3 V3.5,
+ * refresh token rotation with a short reuse interval: common practice, no source).
+ */
+export const REUSE_GRACE_MS = 30_000;
+
 export async function refreshSession(
   deps: UseCaseDeps,
   refreshToken: string,
@@ -126,14 +134,16 @@ export async function refreshSession(
   const outcome = await deps.sequelize.transaction(async (transaction) => {
     const stored = await findRefreshTokenByHash(hashRefreshToken(refreshToken), transaction);
     if (!stored) return { kind: 'unknown' as const };
-    if (stored.revokedAt) return { kind: 'reused' as const, sessionId: stored.familyId };
+    const lostAnswer = stored.revokedAt !== null && Date.now() - stored.revokedAt.getTime() < REUSE_GRACE_MS;
+    if (stored.revokedAt && !lostAnswer) return { kind: 'reused' as const, sessionId: stored.familyId };
     if (stored.expiresAt.getTime() <= Date.now()) return { kind: 'unknown' as const };
     if (await isSignInSessionEnded(stored.familyId, transaction)) return { kind: 'unknown' as const };
     const user = await findUserForRefreshToken(stored.userId, transaction);
     if (!user) return { kind: 'unknown' as const };
     if (user.disabled) return { kind: 'disabled' as const };
     const next = await issueTokens(deps, user, stored.familyId, ip, transaction);
-    if (!(await revokeRefreshToken(stored.id, next.refreshTokenId, transaction))) throw refreshRefused();
+    if (!lostAnswer && !(await revokeRefreshToken(stored.id, next.refreshTokenId, transaction)))
+      throw refreshRefused();
     const { refreshTokenId: _id, ...tokens } = next;
     return { kind: 'ok' as const, tokens };
   });
