@@ -5,7 +5,6 @@
 // in tests/fixtures/circor.
 import { browserForThisFile, newPage, PHONE, screenshot, trackPage } from '@/tests/support/browser';
 import { circorFixture } from '@/tests/support/circor-fixtures';
-import { randomUUID } from 'node:crypto';
 import {
   addClientAndStartSession,
   importSite,
@@ -14,7 +13,7 @@ import {
   uniqueLetters,
   visible,
 } from './helpers/operator';
-import { currentConsentText, push, tokenFor } from './helpers/api';
+import { clientWithConsentAtTheClinic } from './helpers/api';
 
 jest.setTimeout(180_000);
 
@@ -108,31 +107,8 @@ describe('the records kept on the device', () => {
     await signIn(page, operatorEmail);
     await page.waitForURL((url) => url.pathname === '/clients');
     // A client another phone added, with consent to the clinic's current text, already on the server.
-    const token = await tokenFor(operatorEmail);
-    const text = await currentConsentText(token);
-    const otherPhone = randomUUID();
-    const clientId = randomUUID();
     const lastName = `Ashgrove${uniqueLetters()}`;
-    const pushed = [
-      await push(token, otherPhone, {
-        entity: 'clients',
-        id: clientId,
-        baseVersion: 0,
-        change: { firstName: 'Linnea', lastName, dateOfBirth: null, email: null, phone: null, notes: null },
-      }),
-      await push(token, otherPhone, {
-        entity: 'consents',
-        id: randomUUID(),
-        baseVersion: 0,
-        change: {
-          clientId,
-          consentTextId: text.id,
-          consentTextVersion: text.version,
-          typedName: `Linnea ${lastName}`,
-          consentDate: new Date().toISOString().slice(0, 10),
-        },
-      }),
-    ];
+    const { results: pushed } = await clientWithConsentAtTheClinic('Linnea', lastName);
     expect(pushed.map((r) => r.status)).toEqual(['applied', 'applied']);
     await page.reload();
     await visible(page, 'client-search').fill(lastName);

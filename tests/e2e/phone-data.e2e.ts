@@ -2,10 +2,9 @@
 // a quiet state rather than an error, a client added on the phone reaches the clinic without a session, and an
 // erased client leaves the phone. Expected behaviour is the product's own rule (DESIGN.md, "The capture flow" and
 // "Sync"; issue 12); no outside source.
-import { randomUUID } from 'node:crypto';
 import type { Page } from 'playwright-core';
 import { baseUrl, browserForThisFile, newPage, PHONE, screenshot, WIDE } from '@/tests/support/browser';
-import { currentConsentText, push, tokenFor } from './helpers/api';
+import { clientWithConsentAtTheClinic, tokenFor } from './helpers/api';
 import { operatorEmail, signInOperatorOnline, uniqueLetters, visible } from './helpers/operator';
 
 jest.setTimeout(240_000);
@@ -24,30 +23,7 @@ async function api(token: string, method: string, path: string, body?: unknown) 
 
 /** A client another phone added, with consent to the wording in force, already at the clinic. */
 async function clientAtTheClinic(lastName: string): Promise<string> {
-  const token = await tokenFor(operatorEmail);
-  const text = await currentConsentText(token);
-  const otherPhone = randomUUID();
-  const clientId = randomUUID();
-  const results = [
-    await push(token, otherPhone, {
-      entity: 'clients',
-      id: clientId,
-      baseVersion: 0,
-      change: { firstName: 'Solveig', lastName, dateOfBirth: null, email: null, phone: null, notes: null },
-    }),
-    await push(token, otherPhone, {
-      entity: 'consents',
-      id: randomUUID(),
-      baseVersion: 0,
-      change: {
-        clientId,
-        consentTextId: text.id,
-        consentTextVersion: text.version,
-        typedName: `Solveig ${lastName}`,
-        consentDate: new Date().toISOString().slice(0, 10),
-      },
-    }),
-  ];
+  const { clientId, results } = await clientWithConsentAtTheClinic('Solveig', lastName);
   expect(results.map((r) => r.status)).toEqual(['applied', 'applied']);
   return clientId;
 }

@@ -3,7 +3,7 @@
 import { randomUUID } from 'node:crypto';
 import { SYNC_PROTOCOL_VERSION, type SyncEntity } from '@/shared/protocol/sync';
 import { baseUrl } from '@/tests/support/browser';
-import { demoPassword } from './operator';
+import { demoPassword, operatorEmail } from './operator';
 
 export async function tokenFor(email: string): Promise<string> {
   const response = await fetch(`${baseUrl()}/api/auth/sign-in`, {
@@ -45,4 +45,39 @@ export async function currentConsentText(token: string): Promise<{ id: string; v
   const current = texts.find((t) => t.isCurrent);
   if (!current) throw new Error('The clinic has no current consent text.');
   return current;
+}
+
+/**
+ * A client another phone added, with consent to the wording in force, already at the clinic (pushed by the
+ * real sync as the demo operator). Returns the client's id and the push results, for the caller to assert.
+ */
+export async function clientWithConsentAtTheClinic(
+  firstName: string,
+  lastName: string,
+): Promise<{ clientId: string; results: PushResult[] }> {
+  const token = await tokenFor(operatorEmail);
+  const text = await currentConsentText(token);
+  const otherPhone = randomUUID();
+  const clientId = randomUUID();
+  const results = [
+    await push(token, otherPhone, {
+      entity: 'clients',
+      id: clientId,
+      baseVersion: 0,
+      change: { firstName, lastName, dateOfBirth: null, email: null, phone: null, notes: null },
+    }),
+    await push(token, otherPhone, {
+      entity: 'consents',
+      id: randomUUID(),
+      baseVersion: 0,
+      change: {
+        clientId,
+        consentTextId: text.id,
+        consentTextVersion: text.version,
+        typedName: `${firstName} ${lastName}`,
+        consentDate: new Date().toISOString().slice(0, 10),
+      },
+    }),
+  ];
+  return { clientId, results };
 }
