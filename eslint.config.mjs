@@ -31,4 +31,23 @@ export default tseslint.config(
       '@typescript-eslint/no-require-imports': 'off',
     },
   },
+  {
+    // The server and the shared core run without the app: they may not reach into the client's folders. What both
+    // sides need (cautions, consent wording, sites, schemas) lives in shared/.
+    files: ['sync-server/**', 'shared/**'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              regex: '^(@/|(\\.\\./)+)(app|api|components|constants|device|features|hooks|ui)(/|$)',
+              message:
+                'The server and shared/ may not import client code; move what both sides need into shared/.',
+            },
+          ],
+        },
+      ],
+    },
+  },
 );

@@ -41,9 +41,10 @@ module.exports = {
       preset: 'jest-expo',
       setupFiles: ['<rootDir>/tests/support/app-jest-setup.ts'],
       testMatch: [
-        '<rootDir>/components/**/*.test.ts?(x)',
-        '<rootDir>/hooks/**/*.test.ts?(x)',
-        '<rootDir>/constants/**/*.test.ts',
+        '<rootDir>/features/**/*.test.ts?(x)',
+        '<rootDir>/ui/**/*.test.ts?(x)',
+        '<rootDir>/device/**/*.test.ts?(x)',
+        '<rootDir>/api/**/*.test.ts?(x)',
       ],
       moduleNameMapper: { '^@/(.*)$': '<rootDir>/$1' },
     },

@@ -1,1 +1,1 @@
-export { AppRoot as default } from '@/components/root/app-root';
+export { AppRoot as default } from '@/features/root/app-root';

@@ -1,1 +1,1 @@
-export { ForgotPasswordScreen as default } from '@/components/auth/forgot-password-screen';
+export { ForgotPasswordScreen as default } from '@/features/auth/forgot-password-screen';

@@ -1,1 +1,1 @@
-export { StartRedirect as default } from '@/components/auth/start-redirect';
+export { StartRedirect as default } from '@/features/auth/start-redirect';

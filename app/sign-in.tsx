@@ -1,1 +1,1 @@
-export { SignInScreen as default } from '@/components/auth/sign-in-screen';
+export { SignInScreen as default } from '@/features/auth/sign-in-screen';

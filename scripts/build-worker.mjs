@@ -8,8 +8,8 @@ const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 // Each entry becomes dist/workers/<name>.js, loaded from this origin (the Content-Security-Policy allows scripts,
 // workers and worklets only from 'self'): the analysis Web Worker, and the recorder's audio-worklet tap.
 const entries = {
-  analysis: 'hooks/analysis-worker/worker-entry.ts',
-  'recorder-tap': 'hooks/recorder/tap-worklet.ts',
+  analysis: 'device/analysis-worker/worker-entry.ts',
+  'recorder-tap': 'device/recorder/tap-worklet.ts',
 };
 
 export async function buildWorker({ outDir = path.join(root, 'dist') } = {}) {

@@ -1,1 +1,1 @@
-export { AdminLayout as default } from '@/components/admin/admin-layout';
+export { AdminLayout as default } from '@/features/nav/admin-layout';

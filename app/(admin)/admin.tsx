@@ -1,1 +1,1 @@
-export { AdminHomeScreen as default } from '@/components/admin/admin-home-screen';
+export { AdminHomeScreen as default } from '@/features/home/admin-home-screen';

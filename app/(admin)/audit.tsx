@@ -1,1 +1,1 @@
-export { AuditScreen as default } from '@/components/admin/audit/audit-screen';
+export { AuditScreen as default } from '@/features/audit/audit-screen';

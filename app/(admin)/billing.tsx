@@ -1,1 +1,1 @@
-export { BillingScreen as default } from '@/components/admin/billing/billing-screen';
+export { BillingScreen as default } from '@/features/billing/billing-screen';

@@ -1,1 +1,1 @@
-export { MailboxScreen as default } from '@/components/admin/mailbox/mailbox-screen';
+export { MailboxScreen as default } from '@/features/mailbox/mailbox-screen';

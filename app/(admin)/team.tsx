@@ -1,1 +1,1 @@
-export { TeamScreen as default } from '@/components/admin/team/team-screen';
+export { TeamScreen as default } from '@/features/team/team-screen';

@@ -1,1 +1,1 @@
-export { OperatorLayout as default } from '@/components/operator/operator-layout';
+export { OperatorLayout as default } from '@/features/nav/operator-layout';

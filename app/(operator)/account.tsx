@@ -1,1 +1,1 @@
-export { OperatorAccountScreen as default } from '@/components/operator/operator-account-screen';
+export { OperatorAccountScreen as default } from '@/features/auth/operator-account-screen';

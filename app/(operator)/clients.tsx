@@ -1,1 +1,1 @@
-export { OperatorHomeScreen as default } from '@/components/operator/operator-home-screen';
+export { OperatorHomeScreen as default } from '@/features/home/operator-home-screen';

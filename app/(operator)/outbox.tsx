@@ -1,1 +1,1 @@
-export { OutboxScreen as default } from '@/components/outbox/outbox-screen';
+export { OutboxScreen as default } from '@/features/outbox/outbox-screen';

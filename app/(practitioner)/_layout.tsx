@@ -1,1 +1,1 @@
-export { PractitionerLayout as default } from '@/components/practitioner/practitioner-layout';
+export { PractitionerLayout as default } from '@/features/nav/practitioner-layout';

@@ -1,1 +1,1 @@
-export { PractitionerHomeScreen as default } from '@/components/practitioner/practitioner-home-screen';
+export { PractitionerHomeScreen as default } from '@/features/home/practitioner-home-screen';

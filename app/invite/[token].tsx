@@ -1,1 +1,1 @@
-export { InviteScreen as default } from '@/components/invite/invite-screen';
+export { InviteScreen as default } from '@/features/auth/invite-screen';

@@ -1,1 +1,1 @@
-export { ResetPasswordScreen as default } from '@/components/auth/reset-password-screen';
+export { ResetPasswordScreen as default } from '@/features/auth/reset-password-screen';

@@ -6,7 +6,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
-import { cautionParagraphs, clientCautionParagraphs } from '@/constants/cautions';
+import { cautionParagraphs, clientCautionParagraphs } from '@/shared/cautions';
 import { launchBrowser, newPage, PHONE, screenshot, screenshotDir, WIDE } from '@/tests/support/browser';
 import { demoPassword } from './helpers/operator';
 

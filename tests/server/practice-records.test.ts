@@ -4,7 +4,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
-import { clientCautionParagraphs } from '@/constants/cautions';
+import { clientCautionParagraphs } from '@/shared/cautions';
 import { sealClip } from '@/shared/seal';
 import { runFollowUpReminders } from '@/sync-server/src/jobs/follow-up-reminders';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';

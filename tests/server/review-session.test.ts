@@ -10,7 +10,7 @@ import {
   traceSchema,
   trendsSchema,
 } from '@/shared/protocol/review';
-import { cautionParagraphs, clientCautionParagraphs } from '@/constants/cautions';
+import { cautionParagraphs, clientCautionParagraphs } from '@/shared/cautions';
 import { generateClinicKeyPair, openClip, sealClip } from '@/shared/seal';
 import { runReportMailRetries, SENDING_STALE_MS } from '@/sync-server/src/jobs/report-mail-retries';
 import { AuditEvent } from '@/sync-server/src/models';

@@ -1,1 +1,1 @@
-export { ClientRecordScreen as default } from '@/components/admin/clients/client-record-screen';
+export { ClientRecordScreen as default } from '@/features/client-records/client-record-screen';

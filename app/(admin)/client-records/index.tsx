@@ -1,1 +1,1 @@
-export { ClientTableScreen as default } from '@/components/admin/clients/client-table-screen';
+export { ClientTableScreen as default } from '@/features/client-records/client-table-screen';

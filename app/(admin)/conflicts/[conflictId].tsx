@@ -1,1 +1,1 @@
-export { ConflictDetailScreen as default } from '@/components/admin/conflicts/conflict-detail-screen';
+export { ConflictDetailScreen as default } from '@/features/conflicts/conflict-detail-screen';

@@ -1,1 +1,1 @@
-export { ConflictsScreen as default } from '@/components/admin/conflicts/conflicts-screen';
+export { ConflictsScreen as default } from '@/features/conflicts/conflicts-screen';

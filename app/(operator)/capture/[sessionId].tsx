@@ -1,1 +1,1 @@
-export { CaptureScreen as default } from '@/components/capture/capture-screen';
+export { CaptureScreen as default } from '@/features/capture/capture-screen';

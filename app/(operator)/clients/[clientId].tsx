@@ -1,1 +1,1 @@
-export { ClientDetailScreen as default } from '@/components/operator/client-detail-screen';
+export { ClientDetailScreen as default } from '@/features/clients/client-detail-screen';

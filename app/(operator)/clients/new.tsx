@@ -1,1 +1,1 @@
-export { NewClientScreen as default } from '@/components/operator/new-client-screen';
+export { NewClientScreen as default } from '@/features/clients/new-client-screen';

@@ -1,1 +1,1 @@
-export { SessionViewScreen as default } from '@/components/review/session-view-screen';
+export { SessionViewScreen as default } from '@/features/review/session-view-screen';

@@ -2,7 +2,7 @@
 // STALE_MS. Never twice for the same reminder: the row is unique per client and date, a run claims it (status
 // 'sending') in a committed transaction before the message goes out, and a sent row is never claimed again.
 import type { Sequelize } from 'sequelize';
-import { cautionText } from '@/constants/cautions';
+import { cautionText } from '@/shared/cautions';
 import * as repo from '../repositories/follow-ups-repository';
 import type { MailService } from '../services/mail';
 import { MailSendError } from '../services/mail';

@@ -1,7 +1,7 @@
 // The client report as a PDF: everything drawn as vectors (traces, marks, tables) so it prints sharply.
 import path from 'node:path';
 import PDFDocument from 'pdfkit';
-import { clientCautionParagraphs, pleaseSeeClinician } from '@/constants/cautions';
+import { clientCautionParagraphs, pleaseSeeClinician } from '@/shared/cautions';
 
 export type ReportSound = { type: 'S1' | 'S2'; startS: number; endS: number };
 /** A display trace: `values` in -1..1, evenly spaced over `durationS`. */

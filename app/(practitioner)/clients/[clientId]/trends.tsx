@@ -1,1 +1,1 @@
-export { TrendsScreen as default } from '@/components/review/trends-screen';
+export { TrendsScreen as default } from '@/features/review/trends-screen';

@@ -1,6 +1,6 @@
 import type { Writable } from 'node:stream';
 import archiver from 'archiver';
-import { cautionText } from '@/constants/cautions';
+import { cautionText } from '@/shared/cautions';
 import { isSealed, openClip } from '@/shared/seal';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as records from '../../repositories/client-records-repository';

@@ -1,4 +1,4 @@
-import { referToClinician } from '@/constants/cautions';
+import { referToClinician } from '@/shared/cautions';
 import type { Site } from '@/shared/protocol';
 import {
   murmurScreenSchema,

@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import type { Sequelize } from 'sequelize';
-import { clientCautionText, pleaseSeeClinician } from '@/constants/cautions';
+import { clientCautionText, pleaseSeeClinician } from '@/shared/cautions';
 import type { Site } from '@/shared/protocol';
 import type { Measurement, ReportMail, SendReportRequest } from '@/shared/protocol/review';
 import { AppError } from '../../errors';

@@ -1,6 +1,0 @@
-import { ReviewSessionsScreen } from './review-sessions-screen';
-
-/** The practitioner's home is the review table of synced sessions. */
-export function PractitionerHomeScreen() {
-  return <ReviewSessionsScreen testID="practitioner-home" />;
-}

@@ -1,0 +1,240 @@
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { AppText } from '@/ui/app-text';
+import { Badge, type BadgeTone } from '@/ui/badge';
+import { Button } from '@/ui/button';
+import { ChoiceChips } from '@/ui/choice-chips';
+import { Cell, DataTable, type Column } from '@/ui/data-table';
+import { formatDate, formatTime } from '@/ui/format';
+import { Pager } from '@/ui/pager';
+import { ScreenFrame } from '@/ui/screen-frame';
+import { SearchField } from '@/ui/search-field';
+import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
+import { colors, space } from '@/ui/theme';
+import { usePaymentsQuery, useRefundMutation } from './api';
+import { useDebouncedValue } from '@/ui/use-debounced-value';
+import { useLayout } from '@/ui/use-layout';
+import type { Payment, PaymentStatus } from '@/shared/protocol/practice';
+import { formatMoney } from './money';
+import { NewPaymentForm } from './new-payment-form';
+
+const pageSize = 20;
+const statusTone: Record<PaymentStatus, BadgeTone> = {
+  paid: 'good',
+  pending: 'neutral',
+  failed: 'danger',
+  refunded: 'caution',
+  expired: 'neutral',
+};
+type StatusFilter = PaymentStatus | 'all';
+const filters: { value: StatusFilter; label: string }[] = [
+  { value: 'all', label: 'All' },
+  { value: 'pending', label: 'Pending' },
+  { value: 'paid', label: 'Paid' },
+  { value: 'failed', label: 'Failed' },
+  { value: 'refunded', label: 'Refunded' },
+  { value: 'expired', label: 'Expired' },
+];
+
+function RefundAction({ payment }: { payment: Payment }) {
+  const refund = useRefundMutation();
+  const [asking, setAsking] = useState(false);
+  if (payment.status !== 'paid') return null;
+  if (!asking) {
+    return (
+      <Button
+        label="Refund…"
+        variant="secondary"
+        onPress={() => setAsking(true)}
+        testID={`payment-refund-${payment.id}`}
+      />
+    );
+  }
+  return (
+    <View style={styles.confirm}>
+      <AppText variant="small" color={colors.text}>
+        Refund {formatMoney(payment.amountCents, payment.currency)}?
+      </AppText>
+      <View style={styles.confirmButtons}>
+        <Button
+          label="Yes, refund"
+          variant="danger"
+          onPress={() => refund.mutate(payment.id)}
+          busy={refund.isPending}
+          testID={`payment-refund-confirm-${payment.id}`}
+        />
+        <Button
+          label="No"
+          variant="ghost"
+          onPress={() => setAsking(false)}
+          testID={`payment-refund-cancel-${payment.id}`}
+        />
+      </View>
+      {refund.isError ? (
+        <AppText variant="small" color={colors.danger} testID={`payment-refund-error-${payment.id}`}>
+          {refund.error.message}
+        </AppText>
+      ) : null}
+    </View>
+  );
+}
+
+const columns: readonly Column<Payment>[] = [
+  {
+    key: 'created',
+    title: 'Created',
+    render: (p) => (
+      <Cell>
+        {formatDate(p.createdAt)} {formatTime(p.createdAt)}
+      </Cell>
+    ),
+  },
+  {
+    key: 'client',
+    title: 'Client',
+    flex: 1.3,
+    render: (p) => <Cell strong>{p.clientName ?? 'erased client'}</Cell>,
+  },
+  {
+    key: 'what',
+    title: 'For',
+    flex: 1.4,
+    render: (p) => (
+      <Cell>
+        {p.description} ({p.visits} {p.visits === 1 ? 'visit' : 'visits'})
+      </Cell>
+    ),
+  },
+  {
+    key: 'amount',
+    title: 'Amount',
+    render: (p) => <Cell mono>{formatMoney(p.amountCents, p.currency)}</Cell>,
+  },
+  {
+    key: 'status',
+    title: 'State',
+    render: (p) => (
+      <View style={styles.status}>
+        <Badge label={p.status} tone={statusTone[p.status]} testID={`payment-status-${p.id}`} />
+        {p.status === 'failed' && p.failureReason ? (
+          <AppText variant="caption" color={colors.danger} numberOfLines={2}>
+            {p.failureReason}
+          </AppText>
+        ) : null}
+        {p.status === 'paid' && p.paidAt ? (
+          <AppText variant="caption" color={colors.textMuted}>
+            paid {formatDate(p.paidAt)}
+          </AppText>
+        ) : null}
+        {p.status === 'refunded' && p.refundedAt ? (
+          <AppText variant="caption" color={colors.textMuted}>
+            refunded {formatDate(p.refundedAt)}
+          </AppText>
+        ) : null}
+      </View>
+    ),
+  },
+  { key: 'action', title: '', flex: 1.2, render: (p) => <RefundAction payment={p} /> },
+];
+
+/** Payments for test visits and packages, their state as the provider reports it, refunds. */
+export function BillingScreen() {
+  const { isWide } = useLayout();
+  const [status, setStatus] = useState<StatusFilter>('all');
+  const [search, setSearch] = useState('');
+  const q = useDebouncedValue(search.trim());
+  const [page, setPage] = useState(1);
+  const payments = usePaymentsQuery({
+    page,
+    pageSize,
+    status: status === 'all' ? undefined : status,
+    q: q || undefined,
+  });
+
+  let list;
+  if (payments.isPending) {
+    list = <LoadingState label="Loading payments…" testID="payments-loading" />;
+  } else if (payments.isError) {
+    list = (
+      <ErrorState
+        message={payments.error.message}
+        onRetry={() => void payments.refetch()}
+        testID="payments-error"
+      />
+    );
+  } else if (payments.data.payments.length === 0) {
+    list = (
+      <EmptyState
+        title={status === 'all' && !q ? 'No payments yet' : 'No payment matches'}
+        detail={
+          status === 'all' && !q
+            ? 'Payments you create appear here with their state.'
+            : 'Change the filter or the search.'
+        }
+        testID="payments-empty"
+      />
+    );
+  } else {
+    list = (
+      <>
+        <DataTable
+          rows={payments.data.payments}
+          columns={columns}
+          rowKey={(p) => p.id}
+          rowTestID={(p) => `payment-row-${p.id}`}
+          wide={isWide}
+          testID="payments-table"
+        />
+        <Pager
+          page={page}
+          pageSize={pageSize}
+          total={payments.data.pageInfo.total}
+          onPage={setPage}
+          testID="payments-pager"
+        />
+      </>
+    );
+  }
+
+  return (
+    <ScreenFrame
+      title="Billing"
+      subtitle="Test visits and packages of visits, paid by card on the provider's page."
+      testID="billing-screen"
+    >
+      {payments.data ? (
+        <NewPaymentForm offers={payments.data.offers} currency={payments.data.currency} />
+      ) : null}
+      <View style={styles.filters}>
+        <ChoiceChips
+          label="Payment state"
+          testID="payments-filter"
+          value={status}
+          onChange={(s) => {
+            setStatus(s);
+            setPage(1);
+          }}
+          choices={filters}
+        />
+        <SearchField
+          value={search}
+          onChangeText={(t) => {
+            setSearch(t);
+            setPage(1);
+          }}
+          placeholder="Search by client or description"
+          label="Search payments"
+          testID="payments-search"
+        />
+      </View>
+      {list}
+    </ScreenFrame>
+  );
+}
+
+const styles = StyleSheet.create({
+  filters: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md },
+  status: { gap: 2 },
+  confirm: { gap: space.xs },
+  confirmButtons: { flexDirection: 'row', gap: space.xs, flexWrap: 'wrap' },
+});

@@ -1,0 +1,79 @@
+import { StyleSheet, View } from 'react-native';
+import { AppText } from '@/ui/app-text';
+import { formatDate } from '@/ui/format';
+import { sites } from '@/shared/sites';
+import { colors, radii, space } from '@/ui/theme';
+import type { Comparison } from '@/shared/protocol/review';
+import { formatValue } from './measurements-table';
+
+/** Each measurement then and now at every site, with the change. */
+export function ComparisonTable({ comparison }: { comparison: Comparison }) {
+  const keys = [
+    ...new Set(comparison.rows.filter((r) => r.then !== null || r.now !== null).map((r) => r.key)),
+  ];
+  return (
+    <View style={styles.box} testID="comparison-table">
+      <AppText variant="heading" color={colors.ink}>
+        Then ({formatDate(comparison.then.startedAt)}) → now ({formatDate(comparison.now.startedAt)})
+      </AppText>
+      <View style={[styles.row, styles.head]}>
+        <AppText variant="caption" color={colors.textMuted} style={styles.label}>
+          MEASUREMENT
+        </AppText>
+        {sites.map((s) => (
+          <AppText key={s.id} variant="caption" color={colors.textMuted} style={styles.cell}>
+            {s.label.toUpperCase()}
+          </AppText>
+        ))}
+      </View>
+      {keys.map((key) => {
+        const any = comparison.rows.find((r) => r.key === key)!;
+        return (
+          <View key={key} style={styles.row}>
+            <AppText variant="small" style={styles.label}>
+              {any.label}
+              {any.unit ? ` (${any.unit})` : ''}
+            </AppText>
+            {sites.map((s) => {
+              const r = comparison.rows.find((x) => x.key === key && x.site === s.id);
+              return (
+                <View key={s.id} style={styles.cell} testID={`compare-${s.id}-${key}`}>
+                  <AppText variant="number" color={colors.text}>
+                    {formatValue(r?.then ?? null)} → {formatValue(r?.now ?? null)}
+                  </AppText>
+                  <AppText variant="caption" color={colors.textMuted}>
+                    {r?.change === null || r?.change === undefined
+                      ? 'no change to show'
+                      : `change ${r.change > 0 ? '+' : ''}${formatValue(r.change)}`}
+                  </AppText>
+                </View>
+              );
+            })}
+          </View>
+        );
+      })}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  box: {
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    padding: space.lg,
+    gap: space.xs,
+  },
+  row: {
+    flexDirection: 'row',
+    gap: space.sm,
+    paddingVertical: 4,
+    borderBottomWidth: 1,
+    borderBottomColor: colors.line,
+    alignItems: 'center',
+  },
+  head: { borderBottomColor: colors.ink },
+  label: { flex: 2 },
+  cell: { flex: 1.3 },
+});

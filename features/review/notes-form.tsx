@@ -1,0 +1,180 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useEffect, useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { StyleSheet, View } from 'react-native';
+import { z } from 'zod';
+import { AppText } from '@/ui/app-text';
+import { Button } from '@/ui/button';
+import { FormTextField } from '@/ui/form-text-field';
+import { colors, radii, space } from '@/ui/theme';
+import { StaleNotesError, useSaveNotesMutation } from './api';
+import type { ReviewNotes, StaleNotesDetails } from '@/shared/protocol/review';
+
+const formSchema = z.object({
+  findings: z.string().max(20000, { error: 'At most 20 000 characters.' }),
+  plan: z.string().max(20000, { error: 'At most 20 000 characters.' }),
+  followUpDate: z
+    .string()
+    .trim()
+    .refine((v) => v === '' || (/^\d{4}-\d{2}-\d{2}$/.test(v) && !Number.isNaN(Date.parse(v))), {
+      error: 'Use a date like 2027-01-31, or leave it empty.',
+    }),
+});
+type FormValues = z.infer<typeof formSchema>;
+
+const toForm = (n: ReviewNotes): FormValues => ({
+  findings: n.findings ?? '',
+  plan: n.plan ?? '',
+  followUpDate: n.followUpDate ?? '',
+});
+
+export function NotesForm({
+  sessionId,
+  notes,
+  canEdit,
+}: {
+  sessionId: string;
+  notes: ReviewNotes;
+  canEdit: boolean;
+}) {
+  const save = useSaveNotesMutation(sessionId);
+  const [baseVersion, setBaseVersion] = useState(notes.version);
+  const [stale, setStale] = useState<StaleNotesDetails | null>(null);
+  const [savedAt, setSavedAt] = useState<string | null>(null);
+  const form = useForm<FormValues>({ resolver: zodResolver(formSchema), defaultValues: toForm(notes) });
+  useEffect(() => {
+    if (!form.formState.isDirty && !stale) {
+      form.reset(toForm(notes));
+      setBaseVersion(notes.version);
+    }
+  }, [notes, form, stale]);
+
+  const submit = form.handleSubmit(async (values) => {
+    setSavedAt(null);
+    try {
+      const saved = await save.mutateAsync({
+        findings: values.findings || null,
+        plan: values.plan || null,
+        followUpDate: values.followUpDate || null,
+        baseVersion,
+      });
+      setStale(null);
+      setBaseVersion(saved.version);
+      form.reset(toForm(saved));
+      setSavedAt(new Date().toLocaleTimeString());
+    } catch (error) {
+      if (error instanceof StaleNotesError) setStale(error.details);
+    }
+  });
+
+  return (
+    <View style={styles.box} testID="notes-form">
+      <AppText variant="heading" color={colors.ink}>
+        Findings and plan
+      </AppText>
+      {!canEdit ? (
+        <AppText variant="small" color={colors.textMuted}>
+          Only a practitioner can write findings.
+        </AppText>
+      ) : null}
+      <FormTextField
+        control={form.control}
+        name="findings"
+        label="Findings"
+        testID="notes-findings"
+        multiline
+        numberOfLines={4}
+        editable={canEdit}
+      />
+      <FormTextField
+        control={form.control}
+        name="plan"
+        label="Plan"
+        testID="notes-plan"
+        multiline
+        numberOfLines={3}
+        editable={canEdit}
+      />
+      <FormTextField
+        control={form.control}
+        name="followUpDate"
+        label="Follow-up date (YYYY-MM-DD)"
+        testID="notes-follow-up"
+        placeholder="2027-01-31"
+        editable={canEdit}
+      />
+      {stale ? (
+        <View style={styles.stale} testID="notes-stale" accessibilityRole="alert">
+          <AppText variant="bodyStrong" color={colors.danger}>
+            Someone else saved this session while you were writing (version {stale.current.version}
+            {stale.current.reviewedBy ? `, by ${stale.current.reviewedBy}` : ''}). Nothing was overwritten.
+          </AppText>
+          <AppText variant="smallStrong" color={colors.ink}>
+            Their findings: <AppText variant="small">{stale.current.findings ?? '—'}</AppText>
+          </AppText>
+          <AppText variant="smallStrong" color={colors.ink}>
+            Their plan: <AppText variant="small">{stale.current.plan ?? '—'}</AppText> · follow-up{' '}
+            {stale.current.followUpDate ?? '—'}
+          </AppText>
+          <View style={styles.row}>
+            <Button
+              label="Keep mine and save over theirs"
+              testID="notes-keep-mine"
+              onPress={() => {
+                setBaseVersion(stale.current.version);
+                setStale(null);
+              }}
+              variant="secondary"
+            />
+            <Button
+              label="Take theirs"
+              testID="notes-take-theirs"
+              variant="ghost"
+              onPress={() => {
+                form.reset(toForm(stale.current));
+                setBaseVersion(stale.current.version);
+                setStale(null);
+              }}
+            />
+          </View>
+        </View>
+      ) : null}
+      {save.isError && !(save.error instanceof StaleNotesError) ? (
+        <AppText variant="small" color={colors.danger} testID="notes-error">
+          {save.error.message} Your text is still here; try again.
+        </AppText>
+      ) : null}
+      <View style={styles.row}>
+        <Button
+          label="Save findings"
+          testID="notes-save"
+          onPress={() => void submit()}
+          busy={save.isPending}
+          disabled={!canEdit || Boolean(stale)}
+        />
+        {savedAt ? (
+          <AppText variant="small" color={colors.pulse} testID="notes-saved">
+            Saved at {savedAt} (version {baseVersion})
+          </AppText>
+        ) : notes.reviewedAt ? (
+          <AppText variant="small" color={colors.textMuted}>
+            Last saved by {notes.reviewedBy ?? '—'}
+          </AppText>
+        ) : null}
+      </View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  box: {
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    padding: space.lg,
+    gap: space.md,
+  },
+  stale: { backgroundColor: colors.dangerSoft, borderRadius: radii.md, padding: space.md, gap: space.sm },
+  row: { flexDirection: 'row', gap: space.sm, alignItems: 'center', flexWrap: 'wrap' },
+});

@@ -1,0 +1,111 @@
+import { useLocalSearchParams } from 'expo-router';
+import { useState } from 'react';
+import { Pressable, StyleSheet, View } from 'react-native';
+import { AppText } from '@/ui/app-text';
+import { CautionNote } from '@/ui/caution-note';
+import { ScreenFrame } from '@/ui/screen-frame';
+import { ErrorState, LoadingState } from '@/ui/state-views';
+import { referToClinician } from '@/shared/cautions';
+import { sites } from '@/shared/sites';
+import { colors, radii, space } from '@/ui/theme';
+import { useTrendsQuery } from './api';
+import { useLayout } from '@/ui/use-layout';
+import type { Site } from '@/shared/protocol';
+import { formatValue } from './measurements-table';
+import { TrendChart } from './trend-chart';
+
+export function TrendsScreen() {
+  const { clientId } = useLocalSearchParams<{ clientId: string }>();
+  const trends = useTrendsQuery(clientId);
+  const [site, setSite] = useState<Site>('mitral');
+  const { isWide } = useLayout();
+  if (trends.isPending) return <LoadingState label="Loading trends…" testID="trends-loading" />;
+  if (trends.isError)
+    return (
+      <ErrorState
+        message={trends.error.message}
+        onRetry={() => void trends.refetch()}
+        testID="trends-error"
+      />
+    );
+  const { client, series } = trends.data;
+  const shown = series.filter((s) => s.site === site && s.points.some((p) => p.value !== null));
+  return (
+    <ScreenFrame
+      title={`Trends: ${client.firstName} ${client.lastName}`}
+      subtitle="Each measurement across visits; the green band is the clinic's range."
+      testID="trends-screen"
+    >
+      <CautionNote compact />
+      <View style={styles.tabs}>
+        {sites.map((s) => (
+          <Pressable
+            key={s.id}
+            onPress={() => setSite(s.id)}
+            style={[styles.chip, site === s.id && styles.chipOn]}
+            testID={`trends-site-${s.id}`}
+            accessibilityRole="button"
+          >
+            <AppText variant="small" color={site === s.id ? colors.textOnInk : colors.ink}>
+              {s.label}
+            </AppText>
+          </Pressable>
+        ))}
+      </View>
+      <View style={[styles.grid, isWide && styles.gridWide]}>
+        {shown.map((s) => {
+          const outCount = s.points.filter((p) => p.status === 'above' || p.status === 'below').length;
+          const last = [...s.points].reverse().find((p) => p.value !== null);
+          return (
+            <View
+              key={s.key}
+              style={[styles.card, isWide && styles.cardWide]}
+              testID={`trend-${s.site}-${s.key}`}
+            >
+              <AppText variant="smallStrong" color={colors.ink}>
+                {s.label}
+                {s.unit ? ` (${s.unit})` : ''}
+              </AppText>
+              <TrendChart series={s} testID={`trend-chart-${s.site}-${s.key}`} />
+              <AppText variant="caption" color={colors.textMuted}>
+                Latest {formatValue(last?.value ?? null, s.unit)} · range{' '}
+                {s.range
+                  ? `${formatValue(s.range.low)}–${formatValue(s.range.high)} (${s.range.source})`
+                  : 'not set'}
+              </AppText>
+              {outCount ? (
+                <AppText variant="caption" color={colors.danger}>
+                  ⚠ {outCount} visit{outCount === 1 ? '' : 's'} outside range: {referToClinician}
+                </AppText>
+              ) : null}
+            </View>
+          );
+        })}
+      </View>
+    </ScreenFrame>
+  );
+}
+
+const styles = StyleSheet.create({
+  tabs: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
+  chip: {
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.pill,
+    paddingHorizontal: space.md,
+    paddingVertical: 6,
+    backgroundColor: colors.surface,
+  },
+  chipOn: { backgroundColor: colors.ink, borderColor: colors.ink },
+  grid: { gap: space.md },
+  gridWide: { flexDirection: 'row', flexWrap: 'wrap' },
+  card: {
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radii.md,
+    padding: space.md,
+    gap: space.xs,
+  },
+  cardWide: { width: '32%', flexGrow: 1, flexBasis: 320 },
+});

@@ -1,0 +1,120 @@
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { AppText } from '@/ui/app-text';
+import { Button } from '@/ui/button';
+import { Panel } from '@/ui/panel';
+import { ScreenFrame } from '@/ui/screen-frame';
+import { ErrorState, LoadingState } from '@/ui/state-views';
+import { colors, space } from '@/ui/theme';
+import {
+  useRangesQuery,
+  useResetRangeMutation,
+  useResetRangesMutation,
+  useSaveSettingsMutation,
+  useSetRangeMutation,
+  useSettingsQuery,
+} from './api';
+import { ClinicForm } from './clinic-form';
+import { ConsentTextsPanel } from './consent-texts-panel';
+import { RangeEditor } from './range-editor';
+
+function ResetAll() {
+  const reset = useResetRangesMutation();
+  const [asking, setAsking] = useState(false);
+  if (!asking) {
+    return (
+      <View style={styles.row}>
+        <Button
+          label="Reset all to defaults…"
+          variant="secondary"
+          onPress={() => setAsking(true)}
+          testID="ranges-reset-all"
+        />
+      </View>
+    );
+  }
+  return (
+    <View style={styles.row}>
+      <AppText variant="small" color={colors.text}>
+        Drop every range the clinic set, at every site?
+      </AppText>
+      <Button
+        label="Yes, reset all"
+        variant="danger"
+        busy={reset.isPending}
+        onPress={() => reset.mutate(undefined, { onSuccess: () => setAsking(false) })}
+        testID="ranges-reset-all-confirm"
+      />
+      <Button
+        label="Cancel"
+        variant="ghost"
+        onPress={() => setAsking(false)}
+        testID="ranges-reset-all-cancel"
+      />
+      {reset.isError ? (
+        <AppText variant="small" color={colors.danger}>
+          {reset.error.message}
+        </AppText>
+      ) : null}
+    </View>
+  );
+}
+
+export function SettingsScreen() {
+  const settings = useSettingsQuery();
+  const save = useSaveSettingsMutation();
+  const ranges = useRangesQuery();
+  const setRange = useSetRangeMutation();
+  const resetRange = useResetRangeMutation();
+
+  return (
+    <ScreenFrame
+      title="Settings"
+      subtitle="The clinic's details, record keeping, consent wording and reference ranges."
+      testID="settings-screen"
+    >
+      <Panel title="Clinic" detail="Shown on every report and e-mail." testID="settings-clinic">
+        {settings.isPending ? (
+          <LoadingState label="Loading the settings…" testID="settings-loading" />
+        ) : settings.isError ? (
+          <ErrorState
+            message={settings.error.message}
+            onRetry={() => void settings.refetch()}
+            testID="settings-error"
+          />
+        ) : (
+          <ClinicForm settings={settings.data} onSave={(s) => save.mutateAsync(s)} />
+        )}
+      </Panel>
+      <ConsentTextsPanel />
+      <Panel
+        title="Reference ranges"
+        detail="Each measurement is shown against these. The defaults carry their sources; a clinic may set its own limits per site. Values outside a range read “refer to a licensed clinician”, never a diagnosis."
+        testID="settings-ranges"
+      >
+        {ranges.isPending ? (
+          <LoadingState label="Loading the ranges…" testID="ranges-loading" />
+        ) : ranges.isError ? (
+          <ErrorState
+            message={ranges.error.message}
+            onRetry={() => void ranges.refetch()}
+            testID="ranges-error"
+          />
+        ) : (
+          <>
+            <ResetAll />
+            <RangeEditor
+              ranges={ranges.data}
+              onSave={(r, value) => setRange.mutateAsync({ metric: r.metric, site: r.site, range: value })}
+              onReset={(r) => resetRange.mutateAsync({ metric: r.metric, site: r.site })}
+            />
+          </>
+        )}
+      </Panel>
+    </ScreenFrame>
+  );
+}
+
+const styles = StyleSheet.create({
+  row: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
+});

@@ -1,0 +1,68 @@
+import { ActivityIndicator, StyleSheet, View } from 'react-native';
+import { colors, radii, space } from './theme';
+import { AppText } from './app-text';
+import { Button } from './button';
+
+export function LoadingState({ label, testID }: { label: string; testID: string }) {
+  return (
+    <View style={styles.box} testID={testID}>
+      <ActivityIndicator color={colors.ink} />
+      <AppText variant="small" color={colors.textMuted}>
+        {label}
+      </AppText>
+    </View>
+  );
+}
+
+export function EmptyState({ title, detail, testID }: { title: string; detail?: string; testID: string }) {
+  return (
+    <View style={styles.box} testID={testID}>
+      <AppText variant="heading" color={colors.ink}>
+        {title}
+      </AppText>
+      {detail ? (
+        <AppText variant="small" color={colors.textMuted} style={styles.center}>
+          {detail}
+        </AppText>
+      ) : null}
+    </View>
+  );
+}
+
+export function ErrorState({
+  message,
+  onRetry,
+  testID,
+}: {
+  message: string;
+  onRetry: () => void;
+  testID: string;
+}) {
+  return (
+    <View style={[styles.box, styles.error]} testID={testID}>
+      <AppText variant="bodyStrong" color={colors.danger}>
+        Could not load
+      </AppText>
+      <AppText variant="small" color={colors.text} style={styles.center}>
+        {message}
+      </AppText>
+      <Button label="Try again" variant="secondary" onPress={onRetry} testID={`${testID}-retry`} />
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  box: {
+    alignItems: 'center',
+    justifyContent: 'center',
+    gap: space.sm,
+    paddingVertical: space.xxl,
+    paddingHorizontal: space.lg,
+    borderRadius: radii.lg,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderStyle: 'dashed',
+  },
+  error: { borderStyle: 'solid', borderColor: colors.danger, backgroundColor: colors.dangerSoft },
+  center: { textAlign: 'center' },
+});
