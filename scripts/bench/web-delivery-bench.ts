@@ -140,7 +140,7 @@ async function main(): Promise<void> {
     const encodings = new Map<string, number>();
     for (const r of coldTraffic.responses)
       encodings.set(r.encoding, (encodings.get(r.encoding) ?? 0) + r.bytes);
-    const heaviest = [...coldTraffic.responses].sort((a, b) => b.bytes - a.bytes).slice(0, 8);
+    const byFile = [...coldTraffic.responses].sort((a, b) => b.bytes - a.bytes);
     const fromNetworkOnRepeat = repeatTraffic.responses.filter((r) => !r.fromServiceWorker);
 
     console.log(
@@ -152,8 +152,8 @@ async function main(): Promise<void> {
         `and ≤ ${targets.cold.ms / 1000} s (${verdict(coldMs, targets.cold.ms)})`,
     );
     console.log(`  by encoding: ${[...encodings].map(([name, bytes]) => `${name} ${kb(bytes)}`).join(', ')}`);
-    console.log('  heaviest:');
-    for (const r of heaviest)
+    console.log('  by file:');
+    for (const r of byFile)
       console.log(`    ${kb(r.bytes).padStart(7)} ${r.encoding.padEnd(8)} ${new URL(r.url).pathname}`);
     console.log(`then the service worker's precache: ${kb(precacheBytes)} more`);
     console.log(
