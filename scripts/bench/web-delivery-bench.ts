@@ -9,6 +9,7 @@
 import fs from 'node:fs';
 import http from 'node:http';
 import type { AddressInfo, Socket } from 'node:net';
+import os from 'node:os';
 import path from 'node:path';
 import pino from 'pino';
 import type { CDPSession, Page } from 'playwright-core';
@@ -145,6 +146,11 @@ async function main(): Promise<void> {
 
     console.log(
       `link: ${(slowLink.downloadThroughput * 8e-6).toFixed(1)} Mbit/s down, ${slowLink.latency} ms latency; ${PHONE.width}×${PHONE.height}`,
+    );
+    // The times include the page's own script work, which the link emulation does not slow but a busy machine
+    // does: a load well above the number of cores makes them say more about the machine than about the app.
+    console.log(
+      `machine: load ${os.loadavg()[0].toFixed(1)} (1-minute average) on ${os.cpus().length} cores during the visits`,
     );
     console.log(
       `cold visit to the sign-in form: ${kb(coldBytes)} from the server (page's own requests ${kb(coldPageBytes)}) ` +
