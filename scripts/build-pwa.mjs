@@ -15,8 +15,6 @@ const serverPathPrefixes = JSON.parse(
 );
 const escapeRegExp = (text) => text.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
 
-const registration = `<script>if ('serviceWorker' in navigator) { window.addEventListener('load', function () { navigator.serviceWorker.register('/sw.js').catch(function (e) { console.warn('Offline support unavailable:', e); }); }); }</script>`;
-
 export async function buildPwa({ dist = path.join(root, 'dist') } = {}) {
   const app = JSON.parse(fs.readFileSync(path.join(root, 'app.json'), 'utf8')).expo;
   fs.mkdirSync(path.join(dist, 'icons'), { recursive: true });
@@ -39,7 +37,7 @@ export async function buildPwa({ dist = path.join(root, 'dist') } = {}) {
   if (!html.includes('rel="manifest"')) {
     html = html.replace(
       '</head>',
-      `<link rel="manifest" href="/manifest.webmanifest" /><meta name="theme-color" content="${manifest.theme_color}" />${registration}</head>`,
+      `<link rel="manifest" href="/manifest.webmanifest" /><meta name="theme-color" content="${manifest.theme_color}" /></head>`,
     );
     fs.writeFileSync(indexFile, html);
   }
@@ -55,7 +53,10 @@ export async function buildPwa({ dist = path.join(root, 'dist') } = {}) {
     maximumFileSizeToCacheInBytes: 32 * 1024 * 1024,
     navigateFallback: '/index.html',
     navigateFallbackDenylist: serverPathPrefixes.map((prefix) => new RegExp(`^${escapeRegExp(prefix)}`)),
-    skipWaiting: true,
+    // A new version waits until the person reloads (features/root/update-banner.tsx announces it and sends
+    // SKIP_WAITING, which Workbox's generated worker obeys): taking over a running page would change its files
+    // under it. The app registers this worker itself, once its first screen is up (service-worker.web.ts).
+    skipWaiting: false,
     clientsClaim: true,
     cleanupOutdatedCaches: true,
     inlineWorkboxRuntime: true,

@@ -35,7 +35,6 @@ export const fonts = {
   bodyMedium: 'Inter_500Medium',
   bodySemiBold: 'Inter_600SemiBold',
   mono: 'IBMPlexMono_400Regular',
-  monoMedium: 'IBMPlexMono_500Medium',
 } as const;
 
 const tabularFigures: TextStyle['fontVariant'] = ['tabular-nums'];

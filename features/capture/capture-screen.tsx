@@ -2,6 +2,7 @@ import { useQueryClient } from '@tanstack/react-query';
 import { router, useLocalSearchParams } from 'expo-router';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
+import { useHoldUpdates } from '@/features/root/app-update';
 import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
 import { CautionNote } from '@/ui/caution-note';
@@ -43,6 +44,8 @@ export function CaptureScreen() {
   const { width, isWide } = useLayout();
   const [saving, setSaving] = useState(false);
   useClinicKeyPrefetch();
+  // A reload would lose the take on screen: a new version of the app waits until the session is sealed.
+  useHoldUpdates(loaded.data?.session.status === 'in_progress');
   const [saveError, setSaveError] = useState<string | null>(null);
   const contentWidth = Math.min(contentMax, width - (isWide ? 320 : 32));
 

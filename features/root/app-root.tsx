@@ -1,10 +1,3 @@
-import { IBMPlexMono_400Regular } from '@expo-google-fonts/ibm-plex-mono/400Regular';
-import { IBMPlexMono_500Medium } from '@expo-google-fonts/ibm-plex-mono/500Medium';
-import { Inter_400Regular } from '@expo-google-fonts/inter/400Regular';
-import { Inter_500Medium } from '@expo-google-fonts/inter/500Medium';
-import { Inter_600SemiBold } from '@expo-google-fonts/inter/600SemiBold';
-import { SpaceGrotesk_600SemiBold } from '@expo-google-fonts/space-grotesk/600SemiBold';
-import { SpaceGrotesk_700Bold } from '@expo-google-fonts/space-grotesk/700Bold';
 import { QueryClientProvider } from '@tanstack/react-query';
 import { useFonts } from 'expo-font';
 import { Stack } from 'expo-router';
@@ -14,18 +7,12 @@ import { Splash } from '@/features/auth/splash';
 import { colors } from '@/ui/theme';
 import { AuthProvider } from '@/features/auth/auth-provider';
 import { makeQueryClient } from '@/api/query-client';
+import { appFonts } from './app-fonts';
+import { UpdateBanner } from './update-banner';
 
 export function AppRoot() {
   const [queryClient] = useState(makeQueryClient);
-  const [fontsLoaded, fontError] = useFonts({
-    SpaceGrotesk_600SemiBold,
-    SpaceGrotesk_700Bold,
-    Inter_400Regular,
-    Inter_500Medium,
-    Inter_600SemiBold,
-    IBMPlexMono_400Regular,
-    IBMPlexMono_500Medium,
-  });
+  const [fontsLoaded, fontError] = useFonts(appFonts);
   // A font that fails to load falls back to the system face rather than blocking the app.
   const ready = fontsLoaded || fontError !== null;
 
@@ -34,7 +21,12 @@ export function AppRoot() {
       <QueryClientProvider client={queryClient}>
         <AuthProvider>
           {ready ? (
-            <Stack screenOptions={{ headerShown: false, contentStyle: { backgroundColor: colors.paper } }} />
+            <>
+              <UpdateBanner />
+              <Stack
+                screenOptions={{ headerShown: false, contentStyle: { backgroundColor: colors.paper } }}
+              />
+            </>
           ) : (
             <Splash />
           )}

@@ -9,6 +9,7 @@
 import fs from 'node:fs';
 import http from 'node:http';
 import type { AddressInfo, Socket } from 'node:net';
+import os from 'node:os';
 import path from 'node:path';
 import pino from 'pino';
 import type { CDPSession, Page } from 'playwright-core';
@@ -140,11 +141,16 @@ async function main(): Promise<void> {
     const encodings = new Map<string, number>();
     for (const r of coldTraffic.responses)
       encodings.set(r.encoding, (encodings.get(r.encoding) ?? 0) + r.bytes);
-    const heaviest = [...coldTraffic.responses].sort((a, b) => b.bytes - a.bytes).slice(0, 8);
+    const byFile = [...coldTraffic.responses].sort((a, b) => b.bytes - a.bytes);
     const fromNetworkOnRepeat = repeatTraffic.responses.filter((r) => !r.fromServiceWorker);
 
     console.log(
       `link: ${(slowLink.downloadThroughput * 8e-6).toFixed(1)} Mbit/s down, ${slowLink.latency} ms latency; ${PHONE.width}×${PHONE.height}`,
+    );
+    // The times include the page's own script work, which the link emulation does not slow but a busy machine
+    // does: a load well above the number of cores makes them say more about the machine than about the app.
+    console.log(
+      `machine: load ${os.loadavg()[0].toFixed(1)} (1-minute average) on ${os.cpus().length} cores during the visits`,
     );
     console.log(
       `cold visit to the sign-in form: ${kb(coldBytes)} from the server (page's own requests ${kb(coldPageBytes)}) ` +
@@ -152,8 +158,8 @@ async function main(): Promise<void> {
         `and ≤ ${targets.cold.ms / 1000} s (${verdict(coldMs, targets.cold.ms)})`,
     );
     console.log(`  by encoding: ${[...encodings].map(([name, bytes]) => `${name} ${kb(bytes)}`).join(', ')}`);
-    console.log('  heaviest:');
-    for (const r of heaviest)
+    console.log('  by file:');
+    for (const r of byFile)
       console.log(`    ${kb(r.bytes).padStart(7)} ${r.encoding.padEnd(8)} ${new URL(r.url).pathname}`);
     console.log(`then the service worker's precache: ${kb(precacheBytes)} more`);
     console.log(

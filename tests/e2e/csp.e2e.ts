@@ -1,7 +1,7 @@
 // The web app under its Content-Security-Policy (sync-server/src/middleware/content-security-policy.ts) in Debian's
 // Chromium: each demo role walks its main screens and the browser reports no violation. The operator's walk uses
-// every part the policy has to allow: the service worker (registered by an inline script, allowed by hash),
-// expo-sqlite's wasm in its OPFS worker, the microphone through the audio-worklet tap, the analysis worker, and
+// every part the policy has to allow: the service worker (which the app registers itself), expo-sqlite's wasm
+// in its OPFS worker, the microphone through the audio-worklet tap, the analysis worker, and
 // playback from a blob: URL; the practitioner plays a review clip (blob:) over its trace.
 // OWASP ASVS 4.0.3 V14.4.3 (a CSP is in place), V14.4.7 (frame-ancestors).
 import fs from 'node:fs';

@@ -11,8 +11,8 @@ type CspOptions = Exclude<HelmetOptions['contentSecurityPolicy'], boolean | unde
 
 /** The `'sha256-…'` sources of the inline scripts of an HTML page, as CSP Level 3 (§ 8.4) hashes them. */
 export function inlineScriptHashes(html: string): string[] {
-  // The page is our own build's output (scripts/build-pwa.mjs adds the only inline script today); a pattern is
-  // enough for it. Scripts with a src are covered by 'self'.
+  // The page is our own build's output (it has no inline script today: the app registers its service worker
+  // itself); a pattern is enough for it. Scripts with a src are covered by 'self'.
   const inline = /<script\b([^>]*)>([\s\S]*?)<\/script\s*>/gi;
   const hashes = new Set<string>();
   for (const [, attributes, body] of html.matchAll(inline)) {
@@ -58,7 +58,7 @@ export function contentSecurityPolicy(webDist?: string): CspOptions {
             // expo-sqlite compiles its SQLite build (wa-sqlite.wasm) in its worker; without this the browser
             // refuses WebAssembly compilation. It allows wasm only, not eval() or new Function().
             "'wasm-unsafe-eval'",
-            // The inline scripts of index.html (the service-worker registration), by hash.
+            // The inline scripts of index.html, if a build adds any, by hash.
             ...scriptHashes(),
           ].join(' '),
       ],
@@ -69,7 +69,7 @@ export function contentSecurityPolicy(webDist?: string): CspOptions {
       // the screen, which a hash cannot name, and neither library takes a nonce; the export's index.html has an
       // inline reset too. Styles cannot run script, which stays without 'unsafe-inline'.
       styleSrc: ["'self'", "'unsafe-inline'"],
-      // The app's fonts (@expo-google-fonts) are files of the export.
+      // The app's fonts (Fontsource WOFF2, components/root/app-fonts.web.ts) are files of the export.
       fontSrc: ["'self'"],
       // blob: the clip the operator plays back and the practitioner's review audio are object URLs, because
       // the audio is in memory or fetched with the bearer token an <audio> element cannot send.
