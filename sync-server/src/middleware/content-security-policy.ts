@@ -69,7 +69,7 @@ export function contentSecurityPolicy(webDist?: string): CspOptions {
       // the screen, which a hash cannot name, and neither library takes a nonce; the export's index.html has an
       // inline reset too. Styles cannot run script, which stays without 'unsafe-inline'.
       styleSrc: ["'self'", "'unsafe-inline'"],
-      // The app's fonts (Fontsource WOFF2, components/root/app-fonts.web.ts) are files of the export.
+      // The app's fonts (Fontsource WOFF2, features/root/app-fonts.web.ts) are files of the export.
       fontSrc: ["'self'"],
       // blob: the clip the operator plays back and the practitioner's review audio are object URLs, because
       // the audio is in memory or fetched with the bearer token an <audio> element cannot send.
