@@ -154,10 +154,7 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     await visible(page, 'notes-plan').fill('Repeat the four sites in six weeks.');
     // The follow-up day is chosen on the calendar (react-day-picker): days up to today are not offered.
     await visible(page, 'notes-follow-up-calendar-toggle').click();
-    await visible(page, 'notes-follow-up-calendar')
-      .locator('td:not([data-disabled]) button')
-      .first()
-      .click();
+    await visible(page, 'notes-follow-up-calendar').locator('td:not([data-disabled]) button').first().click();
     const followUp = await visible(page, 'notes-follow-up').inputValue();
     expect(followUp > new Date().toISOString().slice(0, 10)).toBe(true);
     await visible(page, 'notes-follow-up-in-words').waitFor();
