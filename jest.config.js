@@ -46,7 +46,7 @@ module.exports = {
         '<rootDir>/device/**/*.test.ts?(x)',
         '<rootDir>/api/**/*.test.ts?(x)',
       ],
-      moduleNameMapper: { '^@/(.*)$': '<rootDir>/$1' },
+      moduleNameMapper: { '^@/(.*)$': '<rootDir>/$1', '\\.css$': '<rootDir>/tests/support/style-stub.js' },
     },
     {
       displayName: 'e2e',

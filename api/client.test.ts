@@ -14,6 +14,7 @@ const user = {
   email: 'client-test@demo.fourpoint.test',
   role: 'operator' as const,
   clinicId: '1a2b3c4d-5e6f-4a7b-8c9d-0e1f2a3b4c5d',
+  timeZone: 'UTC',
   name: 'Client Test',
 };
 

@@ -1,22 +1,36 @@
-const months = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+import {
+  FALLBACK_TIME_ZONE,
+  formatClock,
+  formatDay,
+  formatMoment,
+  type DateStyle,
+} from '@/shared/format/dates';
 
-/** "4 Mar 2025" from an ISO date or timestamp; the calendar date as written, whatever the device's zone. */
-export function formatDate(iso: string | null): string {
-  if (!iso) return '—';
-  const match = /^(\d{4})-(\d{2})-(\d{2})/.exec(iso);
-  if (!match) return iso;
-  return `${Number(match[3])} ${months[Number(match[2]) - 1]} ${match[1]}`;
+// Screens write dates in the browser's locale and the signed-in clinic's time zone (set on sign-in from the
+// user's clinic; the device's own zone until then). One module-level setting, because dates are written deep in
+// table cells and labels that have no React context of their own.
+const deviceZone = (() => {
+  try {
+    return Intl.DateTimeFormat().resolvedOptions().timeZone || FALLBACK_TIME_ZONE;
+  } catch {
+    return FALLBACK_TIME_ZONE;
+  }
+})();
+
+let displayStyle: DateStyle = { timeZone: deviceZone };
+
+/** Called by the sign-in state when the clinic (and so its zone) is known or forgotten. */
+export function setDisplayTimeZone(timeZone: string | null): void {
+  displayStyle = { timeZone: timeZone ?? deviceZone };
 }
 
-export function formatTime(iso: string): string {
-  const date = new Date(iso);
-  if (Number.isNaN(date.getTime())) return '';
-  return `${String(date.getHours()).padStart(2, '0')}:${String(date.getMinutes()).padStart(2, '0')}`;
-}
+export const displayTimeZone = (): string => displayStyle.timeZone;
 
-/** "2 Dec 2026, 11:23" in the reader's own zone: when something happened, as one format across the product. */
-export function formatDateTime(iso: string): string {
-  const date = new Date(iso);
-  if (Number.isNaN(date.getTime())) return iso;
-  return `${date.getDate()} ${months[date.getMonth()]} ${date.getFullYear()}, ${formatTime(iso)}`;
-}
+/** A day: a calendar date as it stands, or the day an instant falls on in the clinic's zone. */
+export const formatDate = (value: string | null | undefined): string => formatDay(value, displayStyle);
+
+/** The clock time of an instant, in the clinic's zone. */
+export const formatTime = (iso: string): string => formatClock(iso, displayStyle);
+
+/** When something happened: day and clock time, in the clinic's zone. */
+export const formatDateTime = (iso: string): string => formatMoment(iso, displayStyle);

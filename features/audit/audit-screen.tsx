@@ -3,7 +3,7 @@ import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { ChoiceChips } from '@/ui/choice-chips';
 import { Cell, DataTable, type Column } from '@/ui/data-table';
-import { formatDate } from '@/ui/format';
+import { formatDateTime } from '@/ui/format';
 import { Pager } from '@/ui/pager';
 import { Panel } from '@/ui/panel';
 import { ScreenFrame } from '@/ui/screen-frame';
@@ -17,11 +17,6 @@ import { AuditFilters, emptyAuditFilter, type AuditFilterValues } from './audit-
 
 const pageSize = 50;
 
-const clock = (iso: string) => {
-  const d = new Date(iso);
-  return Number.isNaN(d.getTime()) ? '' : d.toLocaleTimeString('en-GB', { hour12: false });
-};
-
 function detailsText(details: AuditEventRow['details']): string {
   if (!details) return '';
   return Object.entries(details)
@@ -33,11 +28,7 @@ const columns: readonly Column<AuditEventRow>[] = [
   {
     key: 'when',
     title: 'When',
-    render: (e) => (
-      <Cell>
-        {formatDate(e.occurredAt)} {clock(e.occurredAt)}
-      </Cell>
-    ),
+    render: (e) => <Cell>{formatDateTime(e.occurredAt)}</Cell>,
   },
   {
     key: 'who',

@@ -2,6 +2,7 @@ import { useQueryClient } from '@tanstack/react-query';
 import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import { connectSession } from '@/api/client';
 import type { SignInRequest } from '@/shared/protocol';
+import { setDisplayTimeZone } from '@/ui/format';
 import { AuthContext, type AuthState } from './auth-context';
 import { postSignIn, postSignOut } from './sign-in-requests';
 import { clearSession, loadSession, saveSession, type Session } from './session-store';
@@ -13,6 +14,8 @@ export function AuthProvider({ children }: { children: ReactNode }) {
 
   const adopt = useCallback((session: Session | null) => {
     sessionRef.current = session;
+    // Dates on every screen are written in the signed-in clinic's zone (the device's own when signed out).
+    setDisplayTimeZone(session?.user.timeZone ?? null);
     setState(session ? { status: 'signed-in', user: session.user } : { status: 'signed-out', user: null });
   }, []);
 

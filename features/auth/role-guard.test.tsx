@@ -17,6 +17,7 @@ function signedInAs(role: Role): AuthState {
       email: `${role}-guard@demo.fourpoint.test`,
       role,
       clinicId: '8d2c4b6a-1e3f-4a5b-9c7d-0e1f2a3b4c5d',
+      timeZone: 'UTC',
       name: `Guard ${role}`,
     },
   };

@@ -7,6 +7,7 @@ const user = {
   email: 'session-store@demo.fourpoint.test',
   role: 'operator' as const,
   clinicId: '1a2b3c4d-5e6f-4a7b-8c9d-0e1f2a3b4c5d',
+  timeZone: 'UTC',
   name: 'Session Store',
 };
 const session = { accessToken: 'access-1', refreshToken: 'refresh-1', user };

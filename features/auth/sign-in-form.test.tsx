@@ -28,6 +28,7 @@ const okAnswer: Answer = {
       email: 'sign-in-form@demo.fourpoint.test',
       role: 'operator',
       clinicId: '0c6f1b2e-8f0f-4c55-9a51-6f3b8a1d2e33',
+      timeZone: 'UTC',
       name: 'Form Tester',
     },
   },

@@ -23,7 +23,7 @@ describe('ClientForm', () => {
     fireEvent.changeText(screen.getByTestId('client-email'), 'not-an-email');
     fireEvent.press(screen.getByTestId('client-submit'));
     expect(await screen.findByTestId('client-dateOfBirth-error')).toHaveTextContent(
-      'Use the form YYYY-MM-DD, a real date in the past.',
+      'Choose a day in the past on the calendar, or type it as YYYY-MM-DD.',
     );
     expect(screen.getByTestId('client-email-error')).toHaveTextContent(
       'Enter an e-mail address like name@example.com, or leave it empty.',

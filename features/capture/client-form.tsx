@@ -3,7 +3,10 @@ import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { Button } from '@/ui/button';
+import { FormDateField } from '@/ui/form-date-field';
 import { FormTextField } from '@/ui/form-text-field';
+import { displayTimeZone } from '@/ui/format';
+import { todayIn } from '@/shared/format/dates';
 import { space } from '@/ui/theme';
 import { isCalendarDate } from '@/shared/protocol/dates';
 
@@ -28,7 +31,7 @@ export const clientFormSchema = z.object({
     .string()
     .trim()
     .refine((v) => v === '' || realPastDate(v), {
-      error: 'Use the form YYYY-MM-DD, a real date in the past.',
+      error: 'Choose a day in the past on the calendar, or type it as YYYY-MM-DD.',
     }),
   email: z
     .string()
@@ -72,12 +75,13 @@ export function ClientForm({ onSubmit, submitLabel = 'Add client' }: Props) {
         testID="client-lastName"
         autoComplete="off"
       />
-      <FormTextField
+      <FormDateField
         control={control}
         name="dateOfBirth"
-        label="Date of birth (optional, YYYY-MM-DD)"
+        label="Date of birth (optional)"
         testID="client-dateOfBirth"
-        placeholder="1980-04-23"
+        max={todayIn(displayTimeZone())}
+        farDates
       />
       <FormTextField
         control={control}

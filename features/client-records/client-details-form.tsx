@@ -5,7 +5,10 @@ import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
+import { FormDateField } from '@/ui/form-date-field';
 import { FormTextField } from '@/ui/form-text-field';
+import { displayTimeZone } from '@/ui/format';
+import { todayIn } from '@/shared/format/dates';
 import { Panel } from '@/ui/panel';
 import { colors, space } from '@/ui/theme';
 import { ApiFailure } from '@/api/result';
@@ -38,7 +41,7 @@ const formSchema = z
       .refine((v) => v === '' || (/^\d{4}-\d{2}-\d{2}$/.test(v) && realDate(v)), {
         error: 'Use a real date like 1984-03-31.',
       })
-      .refine((v) => v === '' || v <= new Date().toISOString().slice(0, 10), {
+      .refine((v) => v === '' || v <= todayIn(displayTimeZone()), {
         error: 'The date of birth cannot be in the future.',
       }),
     email: z
@@ -78,13 +81,11 @@ function Field({
   name,
   label,
   multiline = false,
-  hint,
 }: {
   control: Control<FormValues, unknown, ClientDetails>;
   name: FieldName;
   label: string;
   multiline?: boolean;
-  hint?: string;
 }) {
   return (
     <View style={multiline ? styles.full : styles.half}>
@@ -93,7 +94,6 @@ function Field({
         name={name}
         label={label}
         testID={`client-field-${name}`}
-        placeholder={hint}
         multiline={multiline}
         numberOfLines={multiline ? 5 : undefined}
         autoCapitalize={name === 'email' ? 'none' : 'sentences'}
@@ -159,7 +159,16 @@ export function ClientDetailsForm({ client, onSave, onReload }: Props) {
       <View style={styles.grid}>
         <Field control={form.control} name="firstName" label="First name" />
         <Field control={form.control} name="lastName" label="Last name" />
-        <Field control={form.control} name="dateOfBirth" label="Date of birth" hint="YYYY-MM-DD" />
+        <View style={styles.half}>
+          <FormDateField
+            control={form.control}
+            name="dateOfBirth"
+            label="Date of birth"
+            testID="client-field-dateOfBirth"
+            max={todayIn(displayTimeZone())}
+            farDates
+          />
+        </View>
         <Field control={form.control} name="email" label="E-mail" />
         <Field control={form.control} name="phone" label="Phone" />
         <Field control={form.control} name="notes" label="Notes" multiline />

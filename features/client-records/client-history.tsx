@@ -3,7 +3,7 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
 import { Cell, DataTable, type Column } from '@/ui/data-table';
-import { formatDate, formatTime } from '@/ui/format';
+import { formatDate, formatDateTime } from '@/ui/format';
 import { Panel } from '@/ui/panel';
 import { colors, radii, space } from '@/ui/theme';
 import { useConsentTextsQuery } from './api';
@@ -16,11 +16,7 @@ const visitColumns: readonly Column<Visit>[] = [
   {
     key: 'when',
     title: 'When',
-    render: (v) => (
-      <Cell strong>
-        {formatDate(v.startedAt)} {formatTime(v.startedAt)}
-      </Cell>
-    ),
+    render: (v) => <Cell strong>{formatDateTime(v.startedAt)}</Cell>,
   },
   { key: 'status', title: 'Status', render: (v) => <Badge label={v.status.replace(/_/g, ' ')} /> },
   { key: 'operator', title: 'Recorded by', render: (v) => <Cell>{v.operatorName ?? '—'}</Cell> },

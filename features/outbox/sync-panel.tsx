@@ -1,13 +1,14 @@
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
+import { formatTime } from '@/ui/format';
 import { colors, radii, space } from '@/ui/theme';
 import { useOutboxCount } from '@/device/local-store/queries';
 import { useDeviceSync } from '@/device/sync/sync-context';
 
 function lastRunWords(at: number | undefined): string {
   if (!at) return 'Not synced yet on this visit.';
-  return `Last tried at ${new Date(at).toLocaleTimeString([], { hour: '2-digit', minute: '2-digit', second: '2-digit' })}.`;
+  return `Last tried at ${formatTime(new Date(at).toISOString())}.`;
 }
 
 /** Whether the device is sending, why it is not, and a manual "Sync now". */

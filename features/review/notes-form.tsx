@@ -5,22 +5,41 @@ import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
+import { FormDateField } from '@/ui/form-date-field';
 import { FormTextField } from '@/ui/form-text-field';
+import { displayTimeZone, formatDate, formatTime } from '@/ui/format';
+import { addDays, todayIn } from '@/shared/format/dates';
+import { calendarDateSchema } from '@/shared/protocol/dates';
 import { colors, radii, space } from '@/ui/theme';
 import { StaleNotesError, useSaveNotesMutation } from './api';
 import type { ReviewNotes, StaleNotesDetails } from '@/shared/protocol/review';
 
-const formSchema = z.object({
-  findings: z.string().max(20000, { error: 'At most 20 000 characters.' }),
-  plan: z.string().max(20000, { error: 'At most 20 000 characters.' }),
-  followUpDate: z
-    .string()
-    .trim()
-    .refine((v) => v === '' || (/^\d{4}-\d{2}-\d{2}$/.test(v) && !Number.isNaN(Date.parse(v))), {
-      error: 'Use a date like 2027-01-31, or leave it empty.',
-    }),
-});
-type FormValues = z.infer<typeof formSchema>;
+/**
+ * The form's rules. A new follow-up day is after today in the clinic's zone (the server checks the same); a day
+ * saved earlier may stay as it is when other fields change.
+ */
+const formSchemaFrom = (firstFollowUpDay: string, savedFollowUp: string | null) =>
+  z.object({
+    findings: z.string().max(20000, { error: 'At most 20 000 characters.' }),
+    plan: z.string().max(20000, { error: 'At most 20 000 characters.' }),
+    followUpDate: z
+      .string()
+      .trim()
+      .refine((v) => v === '' || calendarDateSchema.safeParse(v).success, {
+        error: 'Choose a day on the calendar or type it as YYYY-MM-DD, or leave it empty.',
+      })
+      .refine(
+        (v) =>
+          v === '' ||
+          v === savedFollowUp ||
+          !calendarDateSchema.safeParse(v).success ||
+          v >= firstFollowUpDay,
+        {
+          error: `A follow-up is after today: choose ${formatDate(firstFollowUpDay)} or later.`,
+        },
+      ),
+  });
+type FormValues = z.infer<ReturnType<typeof formSchemaFrom>>;
 
 const toForm = (n: ReviewNotes): FormValues => ({
   findings: n.findings ?? '',
@@ -41,7 +60,11 @@ export function NotesForm({
   const [baseVersion, setBaseVersion] = useState(notes.version);
   const [stale, setStale] = useState<StaleNotesDetails | null>(null);
   const [savedAt, setSavedAt] = useState<string | null>(null);
-  const form = useForm<FormValues>({ resolver: zodResolver(formSchema), defaultValues: toForm(notes) });
+  const firstFollowUpDay = addDays(todayIn(displayTimeZone()), 1);
+  const form = useForm<FormValues>({
+    resolver: zodResolver(formSchemaFrom(firstFollowUpDay, notes.followUpDate)),
+    defaultValues: toForm(notes),
+  });
   useEffect(() => {
     if (!form.formState.isDirty && !stale) {
       form.reset(toForm(notes));
@@ -61,7 +84,7 @@ export function NotesForm({
       setStale(null);
       setBaseVersion(saved.version);
       form.reset(toForm(saved));
-      setSavedAt(new Date().toLocaleTimeString());
+      setSavedAt(formatTime(new Date().toISOString()));
     } catch (error) {
       if (error instanceof StaleNotesError) setStale(error.details);
     }
@@ -95,12 +118,12 @@ export function NotesForm({
         numberOfLines={3}
         editable={canEdit}
       />
-      <FormTextField
+      <FormDateField
         control={form.control}
         name="followUpDate"
-        label="Follow-up date (YYYY-MM-DD)"
+        label="Follow-up date"
         testID="notes-follow-up"
-        placeholder="2027-01-31"
+        min={firstFollowUpDay}
         editable={canEdit}
       />
       {stale ? (

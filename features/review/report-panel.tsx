@@ -3,7 +3,7 @@ import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
 import { Button } from '@/ui/button';
-import { formatDate, formatTime } from '@/ui/format';
+import { formatDateTime, formatTime } from '@/ui/format';
 import { colors, radii, space } from '@/ui/theme';
 import {
   downloadReport,
@@ -119,7 +119,7 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
         <View key={m.id} style={styles.mail} testID={`report-mail-${m.state}`}>
           <Badge label={m.state === 'failed' ? 'not delivered' : m.state} tone={stateTone[m.state]} />
           <AppText variant="small" color={colors.text} style={styles.flex}>
-            {m.to} · {formatDate(m.createdAt)} {formatTime(m.createdAt)}
+            {m.to} · {formatDateTime(m.createdAt)}
             {m.lastError ? ` · ${m.lastError}` : ''}
             {m.state === 'failed'
               ? m.nextAttemptAt

@@ -5,7 +5,7 @@ import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
 import { Button } from '@/ui/button';
 import { CautionNote } from '@/ui/caution-note';
-import { formatDate, formatTime } from '@/ui/format';
+import { formatDateTime } from '@/ui/format';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
 import { referToClinician } from '@/shared/cautions';
@@ -301,7 +301,7 @@ export function ReviewSessionsScreen({ testID = 'review-sessions' }: { testID?: 
                     {s.clientName}
                   </AppText>
                   <AppText variant="number" color={colors.textMuted}>
-                    {formatDate(s.startedAt)} {formatTime(s.startedAt)} · {s.operatorName ?? '—'}
+                    {formatDateTime(s.startedAt)} · {s.operatorName ?? '—'}
                   </AppText>
                   <SiteChips verdicts={s.sites} testID={`review-sites-${s.id}`} />
                   <View style={styles.chips}>
@@ -385,7 +385,7 @@ function Row({
         </Pressable>
       </View>
       <AppText variant="number" color={colors.text} style={{ flex: 1.4 }}>
-        {formatDate(s.startedAt)} {formatTime(s.startedAt)}
+        {formatDateTime(s.startedAt)}
       </AppText>
       <Pressable
         style={{ flex: 1.3 }}

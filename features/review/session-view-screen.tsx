@@ -4,7 +4,8 @@ import { useEffect, useMemo, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { CautionNote } from '@/ui/caution-note';
-import { formatDate, formatTime } from '@/ui/format';
+import { displayTimeZone, formatDate, formatDateTime } from '@/ui/format';
+import { calendarDateIn } from '@/shared/format/dates';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { ErrorState, LoadingState } from '@/ui/state-views';
 import { colors, radii, space } from '@/ui/theme';
@@ -59,7 +60,7 @@ export function SessionViewScreen() {
     );
   const s = detail.data;
   const clientName = `${s.client.firstName} ${s.client.lastName}`;
-  const date = s.startedAt.slice(0, 10);
+  const date = calendarDateIn(s.startedAt, displayTimeZone());
   const fileName = `fourpoint-report-${clientName.toLowerCase().replace(/[^a-z0-9]+/g, '-')}-${date}.pdf`;
   const sources = sourceNumbers(s.sites.flatMap((site) => site.measurements));
   const canEdit = auth.user?.role === 'practitioner';
@@ -67,7 +68,7 @@ export function SessionViewScreen() {
   return (
     <ScreenFrame
       title={clientName}
-      subtitle={`Visit of ${formatDate(s.startedAt)} ${formatTime(s.startedAt)} · recorded by ${s.operatorName ?? '—'} · ${s.clinicName}`}
+      subtitle={`Visit of ${formatDateTime(s.startedAt)} · recorded by ${s.operatorName ?? '—'} · ${s.clinicName}`}
       testID="session-view"
     >
       <CautionNote compact />

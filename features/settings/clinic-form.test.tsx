@@ -44,7 +44,12 @@ describe('ClinicForm', () => {
     fireEvent.changeText(screen.getByTestId('settings-retentionMonths'), '84');
     fireEvent.press(screen.getByTestId('settings-save'));
     await waitFor(() =>
-      expect(onSave).toHaveBeenCalledWith({ ...settings, address: null, retentionMonths: 84 }),
+      expect(onSave).toHaveBeenCalledWith({
+        ...settings,
+        address: null,
+        retentionMonths: 84,
+        timeZone: 'UTC',
+      }),
     );
     expect(await screen.findByTestId('settings-save-ok')).toHaveTextContent('Saved.');
   });

@@ -7,6 +7,8 @@ import { z } from 'zod';
 import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
 import { FormTextField } from '@/ui/form-text-field';
+import { isTimeZone } from '@/shared/format/dates';
+import { setDisplayTimeZone } from '@/ui/format';
 import { colors, radii, space } from '@/ui/theme';
 import type { ClinicSettings } from '@/shared/protocol/practice';
 
@@ -28,6 +30,10 @@ const formSchema = z.object({
   logoDataUrl: z.string().nullable(),
   retentionMonths: wholeNumber('Months', 1, 600),
   reminderDaysBefore: wholeNumber('Days', 0, 60),
+  timeZone: z
+    .string()
+    .trim()
+    .refine(isTimeZone, { error: 'Use a time zone name such as Europe/Lisbon or America/Chicago.' }),
 });
 type FormValues = z.infer<typeof formSchema>;
 
@@ -71,10 +77,13 @@ export function ClinicForm({
       logoDataUrl: settings.logoDataUrl ?? null,
       retentionMonths: String(settings.retentionMonths),
       reminderDaysBefore: String(settings.reminderDaysBefore),
+      timeZone: settings.timeZone ?? 'UTC',
     },
   });
   const [message, setMessage] = useState<{ text: string; error: boolean } | null>(null);
   const logo = form.watch('logoDataUrl');
+  const zone = form.watch('timeZone');
+  const deviceZone = Intl.DateTimeFormat().resolvedOptions().timeZone;
 
   const submit = form.handleSubmit(async (v) => {
     setMessage(null);
@@ -86,7 +95,9 @@ export function ClinicForm({
         logoDataUrl: v.logoDataUrl,
         retentionMonths: Number(v.retentionMonths),
         reminderDaysBefore: Number(v.reminderDaysBefore),
+        timeZone: v.timeZone,
       });
+      setDisplayTimeZone(v.timeZone);
       setMessage({ text: 'Saved.', error: false });
     } catch (error) {
       setMessage({ text: error instanceof Error ? error.message : 'Could not save.', error: true });
@@ -94,7 +105,7 @@ export function ClinicForm({
   });
 
   const text = (
-    name: 'name' | 'address' | 'retentionMonths' | 'reminderDaysBefore',
+    name: 'name' | 'address' | 'retentionMonths' | 'reminderDaysBefore' | 'timeZone',
     label: string,
     multiline = false,
   ) => (
@@ -105,7 +116,7 @@ export function ClinicForm({
       testID={`settings-${name}`}
       multiline={multiline}
       numberOfLines={multiline ? 3 : undefined}
-      inputMode={multiline || name === 'name' ? 'text' : 'numeric'}
+      inputMode={multiline || name === 'name' || name === 'timeZone' ? 'text' : 'numeric'}
     />
   );
 
@@ -172,6 +183,27 @@ export function ClinicForm({
         <View style={styles.cell}>{text('retentionMonths', 'Keep records for (months)')}</View>
         <View style={styles.cell}>
           {text('reminderDaysBefore', 'Send follow-up reminders (days before)')}
+        </View>
+      </View>
+      <View style={styles.grid}>
+        <View style={styles.cell}>
+          {text('timeZone', 'Time zone of the clinic')}
+          {deviceZone && deviceZone !== zone ? (
+            <Button
+              label={`Use this device's zone (${deviceZone})`}
+              variant="ghost"
+              testID="settings-timeZone-device"
+              onPress={() =>
+                form.setValue('timeZone', deviceZone, { shouldDirty: true, shouldValidate: true })
+              }
+            />
+          ) : null}
+        </View>
+        <View style={styles.cell}>
+          <AppText variant="small" color={colors.textMuted}>
+            Visit days, follow-up dates, reminders and the times on reports are written in this zone, for
+            everyone in the clinic.
+          </AppText>
         </View>
       </View>
       <AppText variant="small" color={colors.textMuted}>

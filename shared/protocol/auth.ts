@@ -10,6 +10,8 @@ export const userSchema = z.object({
   role: roleSchema,
   clinicId: z.uuid(),
   name: z.string(),
+  /** The clinic's time zone (IANA); a session saved on a device before it existed reads as UTC. */
+  timeZone: z.string().default('UTC'),
 });
 export type User = z.infer<typeof userSchema>;
 

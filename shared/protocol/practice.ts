@@ -5,6 +5,7 @@ import { roleSchema } from './auth';
 import { siteSchema } from './clinic';
 import { calendarDateSchema } from './dates';
 import { newPasswordSchema } from './password';
+import { isTimeZone } from '../format/dates';
 
 const trimmed = (max: number, label: string) =>
   z
@@ -306,6 +307,11 @@ export const auditListResponseSchema = z.object({
 export type AuditListResponse = z.infer<typeof auditListResponseSchema>;
 
 // Settings
+/** An IANA zone name such as "Europe/Lisbon", as this runtime's Intl knows it. */
+export const timeZoneSchema = z
+  .string()
+  .max(64)
+  .refine(isTimeZone, { error: 'Choose a time zone from the list, such as Europe/Lisbon.' });
 export const clinicSettingsSchema = z.object({
   name: trimmed(120, 'Clinic name'),
   address: optionalText(500),
@@ -321,6 +327,8 @@ export const clinicSettingsSchema = z.object({
   reminderDaysBefore: z.number().int().min(0).max(60),
   currency: z.string().regex(/^[a-z]{3}$/, { error: 'Use a three-letter currency code such as usd.' }),
   offers: z.array(offerSchema).max(12),
+  /** Older devices and saved forms send none: the clinic keeps its zone (see saveSettings). */
+  timeZone: timeZoneSchema.optional(),
 });
 export type ClinicSettings = z.infer<typeof clinicSettingsSchema>;
 export type ClinicSettingsInput = z.input<typeof clinicSettingsSchema>;

@@ -152,7 +152,13 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     // Findings, plan and follow-up, saved through the version check.
     await visible(page, 'notes-findings').fill(findings);
     await visible(page, 'notes-plan').fill('Repeat the four sites in six weeks.');
-    await visible(page, 'notes-follow-up').fill('2027-01-20');
+    // The follow-up day is chosen on the calendar (react-day-picker): days up to today are not offered.
+    await visible(page, 'notes-follow-up-calendar-toggle').click();
+    await visible(page, 'notes-follow-up-calendar').locator('td:not([data-disabled]) button').first().click();
+    const followUp = await visible(page, 'notes-follow-up').inputValue();
+    expect(followUp > new Date().toISOString().slice(0, 10)).toBe(true);
+    await visible(page, 'notes-follow-up-in-words').waitFor();
+    await screenshot(page, 'review-follow-up-picked');
     await visible(page, 'notes-save').click();
     await visible(page, 'notes-saved').waitFor();
 

@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
+import { addDays, todayIn } from '@/shared/format/dates';
 import type { Role } from '@/shared/protocol';
 import {
   comparisonSchema,
@@ -209,6 +210,25 @@ describe('session view', () => {
 });
 
 describe('findings, plan and follow-up', () => {
+  // The demo and test clinics keep the default zone, UTC, until an admin chooses one.
+  const today = todayIn('UTC');
+  const inTwoWeeks = addDays(today, 14);
+
+  test('a follow-up date is a day after today at the clinic: today and earlier days are refused in words', async () => {
+    const detail = reviewSessionDetailSchema.parse(
+      (await request(ctx.app).get(`/api/review/sessions/${latest}`).set(auth(tokens.practitioner))).body,
+    );
+    for (const day of [today, addDays(today, -30)]) {
+      const refused = await request(ctx.app)
+        .put(`/api/review/sessions/${latest}/notes`)
+        .set(auth(tokens.practitioner))
+        .send({ findings: null, plan: null, followUpDate: day, baseVersion: detail.notes.version });
+      expect(refused.status).toBe(400);
+      expect(refused.body.error.code).toBe('follow_up_not_after_today');
+      expect(refused.body.error.message).toMatch(/after today/);
+    }
+  });
+
   test('when saved on the version read, then the version moves on and the save is audited; a save on the old version is a 409 with both', async () => {
     const detail = reviewSessionDetailSchema.parse(
       (await request(ctx.app).get(`/api/review/sessions/${latest}`).set(auth(tokens.practitioner))).body,
@@ -220,14 +240,14 @@ describe('findings, plan and follow-up', () => {
       .send({
         findings: 'Rate high at mitral.',
         plan: 'Repeat in 4 weeks.',
-        followUpDate: '2026-12-18',
+        followUpDate: inTwoWeeks,
         baseVersion: base,
       });
     expect(first.status).toBe(200);
     expect(first.body.notes).toMatchObject({
       findings: 'Rate high at mitral.',
       version: base + 1,
-      followUpDate: '2026-12-18',
+      followUpDate: inTwoWeeks,
     });
 
     const stale = await request(ctx.app)

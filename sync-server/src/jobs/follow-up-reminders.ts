@@ -3,6 +3,7 @@
 // 'sending') in a committed transaction before the message goes out, and a sent row is never claimed again.
 import type { Sequelize } from 'sequelize';
 import { cautionText } from '@/shared/cautions';
+import { DOCUMENT_LOCALE, formatDay } from '@/shared/format/dates';
 import * as repo from '../repositories/follow-ups-repository';
 import type { MailService } from '../services/mail';
 import { MailSendError } from '../services/mail';
@@ -12,22 +13,12 @@ const MAX_ATTEMPTS = 5;
 
 export type ReminderRun = { queued: number; sent: number; failed: number };
 
-const longDate = (isoDate: string) =>
-  new Date(`${isoDate}T12:00:00Z`).toLocaleDateString('en-GB', {
-    weekday: 'long',
-    day: 'numeric',
-    month: 'long',
-    year: 'numeric',
-    timeZone: 'UTC',
-  });
-
 export async function runFollowUpReminders(
   sequelize: Sequelize,
   mail: MailService,
   options: { today?: string; clinicId?: string; batch?: number } = {},
 ): Promise<ReminderRun> {
-  const today = options.today ?? new Date().toISOString().slice(0, 10);
-  const queued = await repo.queueReminders(sequelize, today, options.clinicId ?? null);
+  const queued = await repo.queueReminders(sequelize, options.today ?? null, options.clinicId ?? null);
   let sent = 0;
   let failed = 0;
   for (;;) {
@@ -44,7 +35,7 @@ export async function runFollowUpReminders(
           text: [
             `Hello ${r.first_name},`,
             '',
-            `This is a reminder that your follow-up visit at ${r.clinic_name} is due on ${longDate(String(r.follow_up_date).slice(0, 10))}.`,
+            `This is a reminder that your follow-up visit at ${r.clinic_name} is due on ${formatDay(String(r.follow_up_date).slice(0, 10), { locale: DOCUMENT_LOCALE, timeZone: 'UTC' })}.`,
             'Please contact the clinic to book a time if you have not done so yet.',
             ...(r.address ? ['', r.clinic_name, r.address] : []),
             '',

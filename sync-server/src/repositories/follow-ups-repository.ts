@@ -28,9 +28,10 @@ export const listDue = (sequelize: Sequelize, clinicId: string, withinDays: numb
 
 /**
  * Makes one reminder row per client and follow-up date that falls within each clinic's notice period. The
- * unique key means a second run, or a second server, adds nothing.
+ * unique key means a second run, or a second server, adds nothing. "Today" is each clinic's own (in its time
+ * zone) unless a day is given.
  */
-export const queueReminders = (sequelize: Sequelize, today: string, clinicId: string | null) =>
+export const queueReminders = (sequelize: Sequelize, today: string | null, clinicId: string | null) =>
   execute(
     sequelize,
     `INSERT INTO follow_up_reminders (id, clinic_id, client_id, session_id, follow_up_date)
@@ -40,8 +41,10 @@ export const queueReminders = (sequelize: Sequelize, today: string, clinicId: st
            ORDER BY s.client_id, s.started_at DESC) s
      JOIN clients c ON c.id = s.client_id AND c.deleted_at IS NULL AND c.email IS NOT NULL
      LEFT JOIN clinic_settings cs ON cs.clinic_id = s.clinic_id
-     WHERE s.follow_up_date IS NOT NULL AND s.follow_up_date >= CAST(:today AS date)
-       AND s.follow_up_date - coalesce(cs.reminder_days_before, 3) <= CAST(:today AS date)
+     CROSS JOIN LATERAL (SELECT coalesce(CAST(:today AS date),
+                                         (now() AT TIME ZONE coalesce(cs.time_zone, 'UTC'))::date) AS today) d
+     WHERE s.follow_up_date IS NOT NULL AND s.follow_up_date >= d.today
+       AND s.follow_up_date - coalesce(cs.reminder_days_before, 3) <= d.today
      ON CONFLICT (client_id, follow_up_date) DO NOTHING`,
     { today, clinicId },
   );

@@ -13,6 +13,7 @@ export type SettingsRow = {
   reminder_days_before: number | null;
   currency: string | null;
   offers: Offer[] | null;
+  time_zone: string | null;
 };
 
 export async function findSettings(
@@ -22,7 +23,7 @@ export async function findSettings(
 ): Promise<SettingsRow | null> {
   const rows = await selectRows<SettingsRow>(
     sequelize,
-    `SELECT c.name, s.address, s.logo_data_url, s.retention_months, s.reminder_days_before, s.currency, s.offers
+    `SELECT c.name, s.address, s.logo_data_url, s.retention_months, s.reminder_days_before, s.currency, s.offers, s.time_zone
      FROM clinics c LEFT JOIN clinic_settings s ON s.clinic_id = c.id WHERE c.id = :clinicId`,
     { clinicId },
     transaction,
@@ -41,6 +42,7 @@ export async function saveSettings(
     reminderDaysBefore: number;
     currency: string;
     offers: Offer[];
+    timeZone: string | null;
   },
   transaction: Transaction,
 ) {
@@ -52,11 +54,12 @@ export async function saveSettings(
   );
   await execute(
     sequelize,
-    `INSERT INTO clinic_settings (clinic_id, address, logo_data_url, retention_months, reminder_days_before, currency, offers)
-     VALUES (:clinicId, :address, :logo, :retention, :reminder, :currency, CAST(:offers AS jsonb))
+    `INSERT INTO clinic_settings (clinic_id, address, logo_data_url, retention_months, reminder_days_before, currency, offers, time_zone)
+     VALUES (:clinicId, :address, :logo, :retention, :reminder, :currency, CAST(:offers AS jsonb), :timeZone)
      ON CONFLICT (clinic_id) DO UPDATE SET address = EXCLUDED.address, logo_data_url = EXCLUDED.logo_data_url,
        retention_months = EXCLUDED.retention_months, reminder_days_before = EXCLUDED.reminder_days_before,
-       currency = EXCLUDED.currency, offers = EXCLUDED.offers, updated_at = now()`,
+       currency = EXCLUDED.currency, offers = EXCLUDED.offers,
+       time_zone = COALESCE(EXCLUDED.time_zone, clinic_settings.time_zone), updated_at = now()`,
     {
       clinicId,
       address: s.address,
@@ -65,6 +68,7 @@ export async function saveSettings(
       reminder: s.reminderDaysBefore,
       currency: s.currency,
       offers: JSON.stringify(s.offers),
+      timeZone: s.timeZone,
     },
     transaction,
   );

@@ -2,7 +2,7 @@ import { QueryTypes, type Transaction } from 'sequelize';
 import type { Role, TeamMember, User as PublicUser } from '@/shared/protocol';
 import { User } from '../models';
 
-export interface UserRecord extends PublicUser {
+export interface UserRecord extends Omit<PublicUser, 'timeZone'> {
   disabled: boolean;
   passwordHash: string;
 }

@@ -62,9 +62,9 @@ export const signOutHandler: HandlerFactory = (deps) => async (req, res) => {
   res.status(204).end();
 };
 
-export const me: HandlerFactory = () => async (req, res) => {
+export const me: HandlerFactory = (deps) => async (req, res) => {
   const caller = callerOf(req);
-  const body: MeResponse = { user: await getMe(caller.clinicId, caller.userId) };
+  const body: MeResponse = { user: await getMe(deps, caller.clinicId, caller.userId) };
   res.json(body);
 };
 

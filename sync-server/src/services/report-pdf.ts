@@ -40,7 +40,10 @@ export type ReportInput = {
   /** PNG or JPEG bytes of the clinic's logo from Settings. */
   clinicLogo: Buffer | null;
   clientName: string;
+  /** Dates below are written for the reader (the clinic's zone, the document locale). */
   clientDateOfBirth: string | null;
+  /** The visit's calendar day (YYYY-MM-DD), for file names. */
+  sessionDay: string;
   sessionDate: string;
   operatorName: string | null;
   practitionerName: string | null;

@@ -20,6 +20,7 @@ import {
 import { hashPassword, verifyPassword } from '../services/passwords';
 import { hashRefreshToken, newRefreshToken, REFRESH_TOKEN_TTL_MS, signAccessToken } from '../services/tokens';
 import type { Transaction } from 'sequelize';
+import { clinicTimeZone } from './settings/settings';
 import type { UseCaseDeps } from './context';
 
 /** Tokens as the use cases issue them; the route decides whether the refresh token goes in a cookie. */
@@ -39,12 +40,14 @@ const refreshRefused = () =>
 export const accountDisabled = () =>
   new AppError('account_disabled', "This account is disabled. Ask your clinic's admin.", 401);
 
-export const toPublicUser = (u: UserRecord): User => ({
+/** The user as the app sees it, with the zone its clinic writes dates in (kept on the device for offline use). */
+export const toPublicUser = async (deps: Pick<UseCaseDeps, 'sequelize'>, u: UserRecord): Promise<User> => ({
   id: u.id,
   email: u.email,
   role: u.role,
   clinicId: u.clinicId,
   name: u.name,
+  timeZone: await clinicTimeZone(deps, u.clinicId),
 });
 
 async function issueTokens(
@@ -71,7 +74,7 @@ async function issueTokens(
     { userId: user.id, role: user.role, clinicId: user.clinicId, sessionId },
     deps.jwtSecret,
   );
-  return { accessToken, refreshToken, refreshTokenId, user: toPublicUser(user) };
+  return { accessToken, refreshToken, refreshTokenId, user: await toPublicUser(deps, user) };
 }
 
 export async function signIn(
@@ -186,8 +189,8 @@ export async function signOut(deps: UseCaseDeps, refreshToken: string, ip: strin
   });
 }
 
-export async function getMe(clinicId: string, userId: string): Promise<User> {
+export async function getMe(deps: UseCaseDeps, clinicId: string, userId: string): Promise<User> {
   const user = await findUserInClinic(clinicId, userId);
   if (!user) throw unauthenticated();
-  return toPublicUser(user);
+  return toPublicUser(deps, user);
 }

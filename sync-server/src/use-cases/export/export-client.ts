@@ -198,7 +198,7 @@ export async function exportClient(
   for (const s of sessions) {
     if (!s.findings && !s.plan && s.status !== 'reviewed') continue;
     const input = await buildReportInput(deps, caller, s.id, null);
-    add(`reports/${input.sessionDate}-${s.id.slice(0, 8)}.pdf`, await renderReportPdf(input));
+    add(`reports/${input.sessionDay}-${s.id.slice(0, 8)}.pdf`, await renderReportPdf(input));
   }
 
   add(

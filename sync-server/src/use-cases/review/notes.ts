@@ -1,9 +1,11 @@
 import type { ReviewNotes, SaveNotesRequest } from '@/shared/protocol/review';
+import { DOCUMENT_LOCALE, formatDay, todayIn } from '@/shared/format/dates';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import { findSessionRecord, updateNotesIfVersion } from '../../repositories/review-repository';
 import type { Caller, UseCaseDeps } from '../context';
 import { requireFieldWrites } from '../field-access';
+import { clinicTimeZone } from '../settings/settings';
 import { notesOf, sessionNotFound } from './session-view';
 
 /**
@@ -25,7 +27,21 @@ export async function saveNotes(
   };
   // The save also moves a completed session to reviewed; reviewedBy and reviewedAt are the server's.
   requireFieldWrites(caller.role, 'recording_sessions', ['findings', 'plan', 'followUpDate', 'status']);
+  const today = todayIn(await clinicTimeZone(deps, caller.clinicId));
   return deps.sequelize.transaction(async (transaction) => {
+    const before = await findSessionRecord(deps.sequelize, caller.clinicId, sessionId, transaction);
+    if (!before) throw sessionNotFound();
+    // A new follow-up is a day after today at the clinic; one saved earlier may stay while other fields change.
+    if (
+      values.followUpDate &&
+      values.followUpDate !== notesOf(before).followUpDate &&
+      values.followUpDate <= today
+    )
+      throw new AppError(
+        'follow_up_not_after_today',
+        `A follow-up date must be after today (${formatDay(today, { locale: DOCUMENT_LOCALE, timeZone: 'UTC' })} at the clinic).`,
+        400,
+      );
     const saved = await updateNotesIfVersion(
       deps.sequelize,
       caller.clinicId,

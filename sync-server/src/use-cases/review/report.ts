@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Sequelize } from 'sequelize';
 import { clientCautionText, pleaseSeeClinician } from '@/shared/cautions';
+import { calendarDateIn, DOCUMENT_LOCALE, formatDay, formatMoment } from '@/shared/format/dates';
 import type { Site } from '@/shared/protocol';
 import type { Measurement, ReportMail, SendReportRequest } from '@/shared/protocol/review';
 import { AppError } from '../../errors';
@@ -18,6 +19,7 @@ import { findSettings } from '../../repositories/settings-repository';
 import { MailSendError, type MailService } from '../../services/mail';
 import { renderReportPdf, type ReportInput, type ReportSite } from '../../services/report-pdf';
 import type { Caller, UseCaseDeps } from '../context';
+import { clinicTimeZone } from '../settings/settings';
 import { referralKeys } from './measurements';
 import { clipBytes, compareSessions, loadSession, reviewSitesOf, traceFromWav } from './session-view';
 import { reviewServices } from './services';
@@ -47,7 +49,6 @@ const CLIENT_LABELS: Record<string, string> = {
   usableCycles: 'Clear heartbeats recorded',
 };
 const isPublishedSource = (source: string) => !/from memory|no source|no published source/i.test(source);
-const day = (d: Date) => d.toISOString().slice(0, 10);
 
 /** Everything a session's report shows: the four traces with S1/S2, measurements against ranges, findings. */
 export async function buildReportInput(
@@ -57,6 +58,9 @@ export async function buildReportInput(
   compareWith: string | null,
 ): Promise<ReportInput> {
   const session = await loadSession(deps, caller, sessionId);
+  // Every date on the report is written one way: the document locale, in the clinic's time zone.
+  const style = { locale: DOCUMENT_LOCALE, timeZone: await clinicTimeZone(deps, caller.clinicId) };
+  const written = (value: string | Date | null) => (value === null ? null : formatDay(value, style));
   const { sites: views, records, referral } = await reviewSitesOf(deps, caller, sessionId);
   const sources: string[] = [];
   const sites: ReportSite[] = [];
@@ -103,7 +107,7 @@ export async function buildReportInput(
   if (compareWith) {
     const c = await compareSessions(deps, caller, sessionId, compareWith);
     comparison = {
-      date: c.then.startedAt.slice(0, 10),
+      date: formatDay(c.then.startedAt, style),
       rows: c.rows
         .filter((r) => (r.then !== null || r.now !== null) && CLIENT_LABELS[r.key] !== undefined)
         .map((r) => ({
@@ -130,17 +134,18 @@ export async function buildReportInput(
     },
     clinicName: session.clinicName,
     clientName: `${session.clientFirstName} ${session.clientLastName}`,
-    clientDateOfBirth: session.clientDateOfBirth,
-    sessionDate: day(session.startedAt),
+    clientDateOfBirth: written(session.clientDateOfBirth),
+    sessionDay: calendarDateIn(session.startedAt, style.timeZone),
+    sessionDate: formatDay(session.startedAt, style),
     operatorName: session.operatorName,
     practitionerName: session.reviewedByName,
     sites,
     comparison,
     findings: session.findings,
     plan: session.plan,
-    followUpDate: session.followUpDate,
+    followUpDate: written(session.followUpDate),
     sources,
-    generatedAt: `${new Date().toISOString().slice(0, 16).replace('T', ' ')} UTC`,
+    generatedAt: `${formatMoment(new Date(), style)} (${style.timeZone})`,
   };
 }
 
@@ -185,7 +190,7 @@ export async function renderReport(
     ip: caller.ip,
     details: { compareWith },
   });
-  return { pdf, fileName: reportFileName(input.clientName, input.sessionDate), input };
+  return { pdf, fileName: reportFileName(input.clientName, input.sessionDay), input };
 }
 
 function mailBody(input: ReportInput): string {

@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import type { ClinicRange, ClinicSettings, Offer, SetRangeRequest } from '@/shared/protocol/practice';
+import { FALLBACK_TIME_ZONE } from '@/shared/format/dates';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as repo from '../../repositories/settings-repository';
@@ -25,6 +26,7 @@ export async function getSettings(deps: UseCaseDeps, clinicId: string): Promise<
     reminderDaysBefore: row.reminder_days_before ?? DEFAULT_REMINDER_DAYS,
     currency: row.currency ?? 'usd',
     offers: row.offers ?? DEFAULT_OFFERS,
+    timeZone: row.time_zone ?? FALLBACK_TIME_ZONE,
   };
 }
 
@@ -40,7 +42,12 @@ export async function saveSettings(
     await repo.saveSettings(
       deps.sequelize,
       caller.clinicId,
-      { ...input, address: input.address ?? null, logoDataUrl: input.logoDataUrl ?? null },
+      {
+        ...input,
+        address: input.address ?? null,
+        logoDataUrl: input.logoDataUrl ?? null,
+        timeZone: input.timeZone ?? null,
+      },
       transaction,
     );
     await recordAuditEvent(
@@ -125,4 +132,13 @@ export async function resetRanges(
     );
   });
   return getRanges(deps, caller.clinicId);
+}
+
+/** The clinic's time zone, in which its days and clock times are written. */
+export async function clinicTimeZone(
+  deps: Pick<UseCaseDeps, 'sequelize'>,
+  clinicId: string,
+): Promise<string> {
+  const row = await repo.findSettings(deps.sequelize, clinicId);
+  return row?.time_zone ?? FALLBACK_TIME_ZONE;
 }
