@@ -8,7 +8,7 @@ import * as fs from 'fs';
 import * as path from 'path';
 import { fittable, fitScreen, L2_PENALTY, loadExamples, TARGET_SENSITIVITY } from './murmur-lib';
 
-const MODEL_VERSION = '1';
+const MODEL_VERSION = '2';
 const round = (x: number) => Number(x.toPrecision(6));
 
 function main() {

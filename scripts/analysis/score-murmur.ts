@@ -29,7 +29,11 @@ function main() {
     `murmur screen: ${examples.length} recordings, ${f.present + f.absent + f.unknown} patients ` +
       `(${f.present} Present, ${f.absent} Absent, ${f.unknown} Unknown), ${folds}-fold patient-wise cross-validation`,
   );
-  console.log(`per-patient sensitivity ${pct(f.sensitivity)}, specificity ${pct(f.specificity)}`);
+  const flagged = Math.round(f.sensitivity * f.present);
+  const cleared = Math.round(f.specificity * f.absent);
+  console.log(
+    `per-patient sensitivity ${pct(f.sensitivity)} (${flagged} of ${f.present}), specificity ${pct(f.specificity)} (${cleared} of ${f.absent})`,
+  );
   console.log(`challenge weighted accuracy ${pct(f.weightedAccuracy)}`);
   console.log(`patients called unsure: ${JSON.stringify(f.unsure)}`);
   if (verbose) {

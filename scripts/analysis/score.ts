@@ -1,9 +1,10 @@
 /**
  * Patient-wise cross-validation on the CirCor DigiScope subset (Oliveira et al., IEEE JBHI 2022,
  * doi:10.1109/JBHI.2021.3137048): the model is fitted on the other patients' recordings and scored on the
- * held-out patient group with the rule of Springer et al., IEEE TBME 2016 (midpoint within 100 ms, and 60 ms).
+ * held-out patient group with the rule of Springer et al., IEEE TBME 2016 (midpoint within 100 ms, and 60, 40 and
+ * 20 ms). Both open folders together by default (174 patients); `--folder circor` scores the first alone.
  * Heart-rate truth as the dataset README defines it: 60 / median interval between annotated S1 onsets.
- * Run: npx tsx scripts/analysis/score.ts [--folds N]
+ * Run: npx tsx scripts/analysis/score.ts [--folds N] [--folder circor|both] [--verbose]
  */
 import { analysePcm } from '../../shared/analysis/analyse';
 import {
@@ -17,7 +18,14 @@ import {
 } from '../../shared/analysis/scoring';
 import { preprocess } from '../../shared/analysis/preprocess';
 import { median } from '../../shared/analysis/variability';
-import { annotatedHeartRate, listRecordings, readSamples, type Segment } from './circor';
+import {
+  annotatedHeartRate,
+  dataDir,
+  heldOutDataDir,
+  listRecordings,
+  readSamples,
+  type Segment,
+} from './circor';
 
 /** Our rate from the beats inside the annotated stretch only: the annotation often covers part of the clip. */
 function rateInsideAnnotation(result: ReturnType<typeof analysePcm>, segments: Segment[]): number | null {
@@ -81,11 +89,20 @@ function main() {
   const foldArg = process.argv.indexOf('--folds');
   const folds = foldArg > 0 ? Number(process.argv[foldArg + 1]) : 6;
   const verbose = process.argv.includes('--verbose');
-  const recordings = listRecordings();
+  const folderArg = process.argv.indexOf('--folder');
+  const folder = folderArg > 0 ? process.argv[folderArg + 1] : 'both';
+  const recordings =
+    folder === 'circor'
+      ? listRecordings(dataDir())
+      : [...listRecordings(dataDir()), ...listRecordings(heldOutDataDir())];
   const prepared = recordings.map(prepare);
   const patients = [...new Set(recordings.map((r) => r.patient))].sort();
   let at100: Counts = emptyCounts();
   let at60: Counts = emptyCounts();
+  let at40: Counts = emptyCounts();
+  let at20: Counts = emptyCounts();
+  let goodTotal = 0;
+  let goodOff10 = 0;
   const perRecording: number[] = [];
   let rateTotal = 0;
   let rateWithin3 = 0;
@@ -105,6 +122,8 @@ function main() {
       const counts100 = scoreSounds(result.sounds, recording.segments, 0.1);
       at100 = addCounts(at100, counts100);
       at60 = addCounts(at60, scoreSounds(result.sounds, recording.segments, 0.06));
+      at40 = addCounts(at40, scoreSounds(result.sounds, recording.segments, 0.04));
+      at20 = addCounts(at20, scoreSounds(result.sounds, recording.segments, 0.02));
       perRecording.push(f1(counts100));
       verdicts[result.quality.verdict] = (verdicts[result.quality.verdict] ?? 0) + 1;
       const truth = annotatedHeartRate(recording.segments);
@@ -113,6 +132,10 @@ function main() {
       if (truth !== null) {
         rateTotal++;
         if (within) rateWithin3++;
+        if (result.quality.verdict === 'good') {
+          goodTotal++;
+          if (result.heartRateBpm === null || Math.abs(result.heartRateBpm - truth) > 10) goodOff10++;
+        }
         const inside = rateInsideAnnotation(result, recording.segments);
         if (inside !== null && Math.abs(inside - truth) <= 3) insideWithin3++;
         if (!within) {
@@ -160,10 +183,12 @@ function main() {
   const line = (label: string, c: Counts) =>
     `${label}: F1 ${pct(f1(c))}  sensitivity ${pct(sensitivity(c))}  PPV ${pct(positivePredictiveValue(c))}  (TP ${c.truePositives}, FP ${c.falsePositives}, FN ${c.falseNegatives})`;
   console.log(
-    `CirCor subset: ${recordings.length} recordings, ${patients.length} patients, ${folds}-fold patient-wise cross-validation`,
+    `CirCor (${folder === 'circor' ? 'circor' : 'circor + circor-train'}): ${recordings.length} recordings, ${patients.length} patients, ${folds}-fold patient-wise cross-validation`,
   );
   console.log(line('S1+S2 at 100 ms', at100));
   console.log(line('S1+S2 at  60 ms', at60));
+  console.log(line('S1+S2 at  40 ms', at40));
+  console.log(line('S1+S2 at  20 ms', at20));
   console.log(
     `mean per-recording F1 at 100 ms: ${pct(perRecording.reduce((a, b) => a + b, 0) / perRecording.length)}`,
   );
@@ -172,6 +197,9 @@ function main() {
   );
   console.log(
     `heart rate within 3 bpm of annotation, beats inside the annotated stretch: ${insideWithin3}/${rateTotal} (${pct(insideWithin3 / rateTotal)})`,
+  );
+  console.log(
+    `clips called good whose rate is more than 10 bpm off the annotation: ${goodOff10}/${goodTotal} (${pct(goodOff10 / goodTotal)})`,
   );
   console.log(`verdicts: ${JSON.stringify(verdicts)}`);
   if (verbose) {

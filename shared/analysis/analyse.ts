@@ -14,7 +14,7 @@ import { checkSampleRate, decodeWav, MAX_DURATION_S } from './wav';
 
 const murmurModel = murmurModelJson as MurmurModel;
 
-export const ANALYSIS_VERSION = `1.2.0+model.${(modelJson as HsmmModel).version}+murmur.${murmurModel.version}`;
+export const ANALYSIS_VERSION = `1.3.0+model.${(modelJson as HsmmModel).version}+murmur.${murmurModel.version}`;
 
 /** Below this the segmentation has too little to work with; the verdict says so. */
 const MIN_ANALYSED_S = 2;

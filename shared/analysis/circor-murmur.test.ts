@@ -18,18 +18,18 @@ describeWithOpenData(
       f = figures(crossValidate(loadExamples(), 10));
     });
 
-    test('when every patient is scored by a screen fitted without them, then at least 94 % of murmurs are flagged (measured 97.1 %, 34 of 35)', () => {
+    test('when every patient is scored by a screen fitted without them, then at least 91 % of murmurs are flagged (measured 91.4 %, 32 of 35)', () => {
       expect(f.present).toBe(35);
-      expect(f.sensitivity).toBeGreaterThanOrEqual(0.94);
+      expect(f.sensitivity).toBeGreaterThanOrEqual(0.91);
     });
 
-    test('when patients without a murmur are scored, then at least 62 % are called unlikely (measured 64.7 %)', () => {
+    test('when patients without a murmur are scored, then at least 78 % are called unlikely (measured 78.9 %, 105 of 133)', () => {
       expect(f.absent).toBe(133);
-      expect(f.specificity).toBeGreaterThanOrEqual(0.62);
+      expect(f.specificity).toBeGreaterThanOrEqual(0.78);
     });
 
-    test('when scored as in the 2022 challenge (Present 5, Unknown 3, Absent 1), then the weighted accuracy is at least 76 % (measured 78.5 %)', () => {
-      expect(f.weightedAccuracy).toBeGreaterThanOrEqual(0.76);
+    test('when scored as in the 2022 challenge (Present 5, Unknown 3, Absent 1), then the weighted accuracy is at least 80 % (measured 81.3 %)', () => {
+      expect(f.weightedAccuracy).toBeGreaterThanOrEqual(0.8);
     });
     // the second folder sits beside the first: checking it covers both
   },

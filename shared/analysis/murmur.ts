@@ -8,8 +8,12 @@ import { median } from './variability';
  * Murmur screen: does sound fill the rest intervals (systole S1→S2, diastole S2→S1) the way a murmur does? It is a
  * screen, not a diagnosis: a possible murmur is always shown as "refer to a licensed clinician".
  * Features are our own, computed on the segmentation: level and pitch of the middle of each rest interval against
- * the sounds around it, against the other rest interval and against the clip's quiet floor, as medians over beats,
- * plus how many beats show it and how much that varies. A logistic regression over them is fitted by
+ * the sounds around it (in three bands: whole, above 100 Hz, above 200 Hz), against the other rest interval and
+ * against the clip's quiet floor, as medians over beats; how much of systole carries sound (each third, and the
+ * share of 10 ms blocks over diastole's typical level) and how steadily; how many beats show it and how much that
+ * varies. Level ratios against the clip's own S1/S2 make a quiet and a loud clip compare alike. A visit's screen is
+ * its sites' (possible when any site is): the capture judges a site alone, before the other sites exist. A logistic
+ * regression over the features is fitted by
  * scripts/analysis/fit-murmur.ts and committed in model/murmur-model.json.
  */
 
@@ -20,6 +24,13 @@ const DIASTOLE_TRIM = 0.1;
 const MIN_INTERVAL_S = 0.02;
 /** Split between the low and the high band (the high band carries most of a murmur's blowing sound). */
 const SPLIT_HZ = 100;
+/** Lower edge of the top band, where S1 and S2 have little left and a harsh murmur still has some. */
+const TOP_HZ = 200;
+/** Block length for occupancy: the share of systole's blocks that carry sound. */
+const BLOCK_S = 0.01;
+/** A systolic block is occupied when its high-band level is this many times the median block of diastole. */
+const OCCUPIED_RATIO = 2;
+const STRONGLY_OCCUPIED_RATIO = 4;
 /** A beat counts as having sound through systole when its middle is this many times the level of diastole's. */
 const FILLED_RATIO = 1.5;
 /** Fewer complete beats than this and the screen says it cannot tell. */
@@ -42,6 +53,21 @@ export const MURMUR_FEATURES = [
   'systoleVsDiastoleLowQuartile',
   'systoleHighVsDiastoleHighLowQuartile',
   'systoleEvenness',
+  'systoleTopVsDiastoleTop',
+  'systoleTopVsSoundsTop',
+  'systoleHighVsSoundsHigh',
+  'diastoleHighVsSoundsHigh',
+  'systoleQuietestThirdVsDiastole',
+  'systoleHighQuietestThirdVsDiastoleHigh',
+  'systoleHighMiddleThirdVsDiastoleHigh',
+  'systoleMiddleThirdVsSounds',
+  'systoleHighOccupancy',
+  'systoleHighOccupancyStrong',
+  'systoleHighSteadiness',
+  'systoleHighFilledShare',
+  'systoleTopVsDiastoleTopLowQuartile',
+  'systoleHighVsDiastoleHighSpread',
+  'systoleHighOccupancyLowQuartile',
 ] as const;
 
 export type MurmurFeatureName = (typeof MURMUR_FEATURES)[number];
@@ -71,16 +97,25 @@ interface Span {
   end: number;
 }
 
-const highPassFilters = new Map<number, TransferFunction>();
+const highPassFilters = new Map<string, TransferFunction>();
 
-function highPassFilter(sampleRate: number): TransferFunction {
-  let filter = highPassFilters.get(sampleRate);
+function highPassFilter(cutoffHz: number, sampleRate: number): TransferFunction {
+  const key = `${cutoffHz}/${sampleRate}`;
+  let filter = highPassFilters.get(key);
   if (!filter) {
-    filter = butter(2, SPLIT_HZ, sampleRate, 'highpass');
+    filter = butter(2, cutoffHz, sampleRate, 'highpass');
     if (highPassFilters.size > 8) highPassFilters.clear();
-    highPassFilters.set(sampleRate, filter);
+    highPassFilters.set(key, filter);
   }
   return filter;
+}
+
+/** Mean squares of consecutive blocks of `block` samples inside a span. */
+function blockLevels(signal: Float64Array, { start, end }: Span, block: number): number[] {
+  const levels: number[] = [];
+  for (let from = start; from + block <= end; from += block)
+    levels.push(meanSquare(signal, { start: from, end: from + block }));
+  return levels;
 }
 
 function meanSquare(signal: Float64Array, { start, end }: Span): number {
@@ -124,8 +159,11 @@ export function murmurFeatures(
 ): MurmurFeatures | null {
   // one forward pass: only powers over intervals are used, so the filter's phase does not matter, and the low
   // band is what the high band leaves (keeps the screen within the analysis's speed budget)
-  const { b, a } = highPassFilter(sampleRate);
+  const { b, a } = highPassFilter(SPLIT_HZ, sampleRate);
   const high = lfilter(b, a, signal);
+  const topFilter = highPassFilter(TOP_HZ, sampleRate);
+  const top = lfilter(topFilter.b, topFilter.a, signal);
+  const block = Math.max(1, Math.round(BLOCK_S * sampleRate));
   const low = new Float64Array(signal.length);
   for (let i = 0; i < signal.length; i++) low[i] = signal[i] - high[i];
   const minLength = MIN_INTERVAL_S * sampleRate;
@@ -140,6 +178,8 @@ export function murmurFeatures(
   ) as unknown as Record<MurmurFeatureName, number[]>;
   const systoleVsDiastole: number[] = [];
   const highVsHigh: number[] = [];
+  const topVsTop: number[] = [];
+  const occupancy: number[] = [];
   for (let i = 0; i + 2 < sounds.length; i++) {
     const [s1, s2, next] = [sounds[i], sounds[i + 1], sounds[i + 2]];
     if (s1.type !== 'S1' || s2.type !== 'S2' || next.type !== 'S1') continue;
@@ -170,6 +210,43 @@ export function murmurFeatures(
     per.systoleEvenness.push(logRatio(Math.min(first, second), Math.max(first, second)));
     systoleVsDiastole.push(logRatio(sys, dia));
     highVsHigh.push(logRatio(sysHigh, diaHigh));
+
+    // the same against the sounds' own level in each band, so a quiet or loud clip compares alike
+    const soundsHigh = (meanSquare(high, s1) + meanSquare(high, s2)) / 2;
+    const sysTop = meanSquare(top, systole);
+    const diaTop = meanSquare(top, diastole);
+    per.systoleTopVsDiastoleTop.push(logRatio(sysTop, diaTop));
+    per.systoleTopVsSoundsTop.push(logRatio(sysTop, (meanSquare(top, s1) + meanSquare(top, s2)) / 2));
+    per.systoleHighVsSoundsHigh.push(logRatio(sysHigh, soundsHigh));
+    per.diastoleHighVsSoundsHigh.push(logRatio(diaHigh, soundsHigh));
+    topVsTop.push(logRatio(sysTop, diaTop));
+    // a murmur through systole fills each third of it, not only the tails of S1 and S2
+    const third = (systole.end - systole.start) / 3;
+    const thirds = [0, 1, 2].map((k) => ({
+      start: Math.round(systole.start + k * third),
+      end: Math.round(systole.start + (k + 1) * third),
+    }));
+    const thirdLevels = thirds.map((span) => meanSquare(signal, span));
+    const thirdHighLevels = thirds.map((span) => meanSquare(high, span));
+    per.systoleQuietestThirdVsDiastole.push(logRatio(Math.min(...thirdLevels), dia));
+    per.systoleHighQuietestThirdVsDiastoleHigh.push(logRatio(Math.min(...thirdHighLevels), diaHigh));
+    per.systoleHighMiddleThirdVsDiastoleHigh.push(logRatio(thirdHighLevels[1], diaHigh));
+    per.systoleMiddleThirdVsSounds.push(logRatio(thirdLevels[1], (s1Level + s2Level) / 2));
+    // occupancy: how much of systole carries high-band sound over diastole's typical level, and how steadily
+    const diastoleBlocks = blockLevels(high, diastole, block);
+    const systoleBlocks = blockLevels(high, systole, block);
+    if (diastoleBlocks.length > 0 && systoleBlocks.length > 0) {
+      const typical = median(diastoleBlocks) as number;
+      const share = (ratio: number) =>
+        systoleBlocks.filter((x) => x > ratio * typical).length / systoleBlocks.length;
+      per.systoleHighOccupancy.push(share(OCCUPIED_RATIO));
+      per.systoleHighOccupancyStrong.push(share(STRONGLY_OCCUPIED_RATIO));
+      occupancy.push(share(OCCUPIED_RATIO));
+      // log of geometric over arithmetic mean of the block levels: 0 for a steady sound, below for a fading one
+      const logMean = systoleBlocks.reduce((sum, x) => sum + Math.log(x + tiny), 0) / systoleBlocks.length;
+      const mean = systoleBlocks.reduce((sum, x) => sum + x, 0) / systoleBlocks.length;
+      per.systoleHighSteadiness.push(logMean - Math.log(mean + tiny));
+    }
   }
   const beats = systoleVsDiastole.length;
   if (beats < MIN_SCREEN_BEATS) return null;
@@ -180,10 +257,20 @@ export function murmurFeatures(
   const sorted = [...systoleVsDiastole].sort((a, b) => a - b);
   values.systoleVsDiastoleSpread = quantile(sorted, 0.75) - quantile(sorted, 0.25);
   values.systoleVsDiastoleLowQuartile = quantile(sorted, 0.25);
-  values.systoleHighVsDiastoleHighLowQuartile = quantile(
-    [...highVsHigh].sort((a, b) => a - b),
+  const sortedHigh = [...highVsHigh].sort((a, b) => a - b);
+  values.systoleHighVsDiastoleHighLowQuartile = quantile(sortedHigh, 0.25);
+  values.systoleHighVsDiastoleHighSpread = quantile(sortedHigh, 0.75) - quantile(sortedHigh, 0.25);
+  values.systoleHighFilledShare = highVsHigh.filter((r) => r > filled).length / beats;
+  values.systoleTopVsDiastoleTopLowQuartile = quantile(
+    [...topVsTop].sort((a, b) => a - b),
     0.25,
   );
+  values.systoleHighOccupancyLowQuartile = occupancy.length
+    ? quantile(
+        [...occupancy].sort((a, b) => a - b),
+        0.25,
+      )
+    : 0;
   return { beats, values };
 }
 
