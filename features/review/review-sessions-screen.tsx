@@ -10,7 +10,7 @@ import { ScreenFrame } from '@/ui/screen-frame';
 import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
 import { referToClinician } from '@/shared/cautions';
 import { colors, fonts, radii, space } from '@/ui/theme';
-import { useReviewSessionsQuery, type SessionFilters } from './sessions-api';
+import { useReviewSessionsQuery, type SessionFilters } from './api';
 import { useDebouncedValue } from '@/ui/use-debounced-value';
 import { useLayout } from '@/ui/use-layout';
 import type { QualityVerdict, SessionStatus } from '@/shared/protocol';

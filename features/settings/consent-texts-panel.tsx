@@ -10,7 +10,7 @@ import { formatDate } from '@/ui/format';
 import { Panel } from '@/ui/panel';
 import { ErrorState, LoadingState } from '@/ui/state-views';
 import { colors, radii, space } from '@/ui/theme';
-import { useConsentTextsQuery, usePublishConsentTextMutation } from '@/features/client-records/api';
+import { useConsentTextsQuery, usePublishConsentTextMutation } from './api';
 import {
   publishConsentTextRequestSchema,
   type ConsentText,
