@@ -4,6 +4,7 @@ import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/ui/app-text';
+import { Card } from '@/ui/card';
 import { Button } from '@/ui/button';
 import { FormTextField } from '@/ui/form-text-field';
 import { colors, radii, space } from '@/ui/theme';
@@ -68,7 +69,7 @@ export function NotesForm({
   });
 
   return (
-    <View style={styles.box} testID="notes-form">
+    <Card testID="notes-form">
       <AppText variant="heading" color={colors.ink}>
         Findings and plan
       </AppText>
@@ -162,19 +163,11 @@ export function NotesForm({
           </AppText>
         ) : null}
       </View>
-    </View>
+    </Card>
   );
 }
 
 const styles = StyleSheet.create({
-  box: {
-    backgroundColor: colors.surface,
-    borderWidth: 1,
-    borderColor: colors.line,
-    borderRadius: radii.md,
-    padding: space.lg,
-    gap: space.md,
-  },
   stale: { backgroundColor: colors.dangerSoft, borderRadius: radii.md, padding: space.md, gap: space.sm },
   row: { flexDirection: 'row', gap: space.sm, alignItems: 'center', flexWrap: 'wrap' },
 });
