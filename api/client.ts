@@ -80,6 +80,7 @@ export async function request<S extends z.ZodType>(
       return {
         kind: 'bad-data',
         message: 'The clinic server answered in a shape this app does not understand. Update the app.',
+        temporary: false,
       };
     }
     return { kind: 'ok', data: parsed.data };

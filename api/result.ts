@@ -1,21 +1,14 @@
 import { isAxiosError } from 'axios';
-import { apiErrorSchema } from '@/shared/protocol';
+
+import { httpFailure, type HttpFailure } from '@/shared/http-failure';
+
+export { offlineMessage } from '@/shared/http-failure';
 
 // Every API call answers one of these; `temporary` tells callers (and queues) whether a retry can help.
 export type ApiResult<T> =
-  | { kind: 'ok'; data: T }
-  | { kind: 'unauthorized'; message: string }
-  | { kind: 'forbidden'; message: string }
-  | { kind: 'not-found'; message: string }
-  | { kind: 'rejected'; status: number; message: string }
-  | { kind: 'rate-limited'; message: string; temporary: true }
-  | { kind: 'server'; status: number; message: string; temporary: true }
-  | { kind: 'offline'; message: string; temporary: true }
-  | { kind: 'bad-data'; message: string };
+  { kind: 'ok'; data: T } | HttpFailure | { kind: 'bad-data'; message: string; temporary: false };
 
 export type ApiFailureResult = Exclude<ApiResult<never>, { kind: 'ok' }>;
-
-export const offlineMessage = 'Network unreachable: check the connection to the clinic server and try again.';
 
 /** Thrown inside TanStack Query functions so the query's error state carries the typed result. */
 export class ApiFailure extends Error {
@@ -25,43 +18,19 @@ export class ApiFailure extends Error {
   }
 
   get temporary(): boolean {
-    return 'temporary' in this.result && this.result.temporary;
+    return this.result.temporary;
   }
-}
-
-function serverMessage(body: unknown): string | undefined {
-  const parsed = apiErrorSchema.safeParse(body);
-  return parsed.success ? parsed.data.error.message : undefined;
 }
 
 export function failureFromError(error: unknown): ApiFailureResult {
   if (!isAxiosError(error)) {
-    return { kind: 'bad-data', message: error instanceof Error ? error.message : 'Unexpected error.' };
-  }
-  const response = error.response;
-  if (!response) return { kind: 'offline', message: offlineMessage, temporary: true };
-  const status = response.status;
-  const message = serverMessage(response.data);
-  if (status === 401)
-    return { kind: 'unauthorized', message: message ?? 'Your sign-in has ended. Sign in again.' };
-  if (status === 403) return { kind: 'forbidden', message: message ?? 'Your role does not allow this.' };
-  if (status === 404) return { kind: 'not-found', message: message ?? 'Not found.' };
-  if (status === 429) {
     return {
-      kind: 'rate-limited',
-      message: message ?? 'Too many attempts. Wait a minute, then try again.',
-      temporary: true,
+      kind: 'bad-data',
+      message: error instanceof Error ? error.message : 'Unexpected error.',
+      temporary: false,
     };
   }
-  if (status >= 500) {
-    return {
-      kind: 'server',
-      status,
-      message: message ?? `The clinic server had a problem (${status}). Try again shortly.`,
-      temporary: true,
-    };
-  }
-  return { kind: 'rejected', status, message: message ?? `The request was refused (${status}).` };
+  return httpFailure(error.response?.status, error.response?.data);
 }
 
 export function unwrap<T>(result: ApiResult<T>): T {

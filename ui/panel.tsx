@@ -1,7 +1,8 @@
 import type { ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
-import { colors, radii, space } from './theme';
+import { colors } from './theme';
 import { AppText } from './app-text';
+import { Card } from './card';
 
 /** A titled white card that groups one part of a screen. */
 export function Panel({
@@ -18,7 +19,7 @@ export function Panel({
   tone?: 'plain' | 'danger';
 }) {
   return (
-    <View style={[styles.panel, tone === 'danger' && styles.danger]} testID={testID}>
+    <Card tone={tone} testID={testID}>
       <View style={styles.head}>
         <AppText variant="heading" color={tone === 'danger' ? colors.danger : colors.ink}>
           {title}
@@ -30,19 +31,10 @@ export function Panel({
         ) : null}
       </View>
       {children}
-    </View>
+    </Card>
   );
 }
 
 const styles = StyleSheet.create({
-  panel: {
-    backgroundColor: colors.surface,
-    borderRadius: radii.md,
-    padding: space.lg,
-    gap: space.md,
-    borderWidth: 1,
-    borderColor: colors.line,
-  },
-  danger: { borderColor: colors.danger },
   head: { gap: 2 },
 });

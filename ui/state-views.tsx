@@ -1,3 +1,4 @@
+import type { ReactNode } from 'react';
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
 import { colors, radii, space } from './theme';
 import { AppText } from './app-text';
@@ -49,6 +50,42 @@ export function ErrorState({
       <Button label="Try again" variant="secondary" onPress={onRetry} testID={`${testID}-retry`} />
     </View>
   );
+}
+
+type QueryLike<T> = {
+  isPending: boolean;
+  isError: boolean;
+  error: Error | null;
+  data: T | undefined;
+  refetch: () => unknown;
+};
+
+/**
+ * One query's loading and error states (test ids `${testID}-loading` and `${testID}-error`, with a retry), then
+ * `children` with its data: the same ladder on every screen that loads something.
+ */
+export function QueryView<T>({
+  query,
+  loading,
+  testID,
+  children,
+}: {
+  query: QueryLike<T>;
+  loading: string;
+  testID: string;
+  children: (data: T) => ReactNode;
+}) {
+  if (query.isPending) return <LoadingState label={loading} testID={`${testID}-loading`} />;
+  if (query.isError) {
+    return (
+      <ErrorState
+        message={query.error?.message ?? ''}
+        onRetry={() => void query.refetch()}
+        testID={`${testID}-error`}
+      />
+    );
+  }
+  return <>{children(query.data as T)}</>;
 }
 
 const styles = StyleSheet.create({

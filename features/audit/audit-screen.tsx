@@ -7,7 +7,7 @@ import { formatDateTime } from '@/ui/format';
 import { Pager } from '@/ui/pager';
 import { Panel } from '@/ui/panel';
 import { ScreenFrame } from '@/ui/screen-frame';
-import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
+import { EmptyState, QueryView } from '@/ui/state-views';
 import { colors, space } from '@/ui/theme';
 import { useAuditQuery } from './api';
 import { useTeamQuery } from '@/features/team/api';
@@ -72,40 +72,37 @@ export function AuditScreen() {
     to: filter.to || undefined,
   });
 
-  let body;
-  if (log.isPending) {
-    body = <LoadingState label="Loading the audit log…" testID="audit-loading" />;
-  } else if (log.isError) {
-    body = <ErrorState message={log.error.message} onRetry={() => void log.refetch()} testID="audit-error" />;
-  } else if (log.data.events.length === 0) {
-    body = (
-      <EmptyState
-        title="No events match"
-        detail="Widen the dates or clear the filters."
-        testID="audit-empty"
-      />
-    );
-  } else {
-    body = (
-      <>
-        <DataTable
-          rows={log.data.events}
-          columns={columns}
-          rowKey={(e) => e.id}
-          rowTestID={(e) => `audit-row-${e.id}`}
-          wide={isWide}
-          testID="audit-table"
-        />
-        <Pager
-          page={page}
-          pageSize={pageSize}
-          total={log.data.pageInfo.total}
-          onPage={setPage}
-          testID="audit-pager"
-        />
-      </>
-    );
-  }
+  const body = (
+    <QueryView query={log} loading="Loading the audit log…" testID="audit">
+      {(data) =>
+        data.events.length === 0 ? (
+          <EmptyState
+            title="No events match"
+            detail="Widen the dates or clear the filters."
+            testID="audit-empty"
+          />
+        ) : (
+          <>
+            <DataTable
+              rows={data.events}
+              columns={columns}
+              rowKey={(e) => e.id}
+              rowTestID={(e) => `audit-row-${e.id}`}
+              wide={isWide}
+              testID="audit-table"
+            />
+            <Pager
+              page={page}
+              pageSize={pageSize}
+              total={data.pageInfo.total}
+              onPage={setPage}
+              testID="audit-pager"
+            />
+          </>
+        )
+      }
+    </QueryView>
+  );
 
   const actions = log.data?.actions ?? [];
   return (

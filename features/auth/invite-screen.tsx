@@ -2,14 +2,14 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useLocalSearchParams, useRouter } from 'expo-router';
 import { useEffect, useMemo } from 'react';
 import { useForm } from 'react-hook-form';
-import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
 import { ErrorState, LoadingState } from '@/ui/state-views';
 import { FormTextField } from '@/ui/form-text-field';
-import { colors, radii, space } from '@/ui/theme';
+import { colors } from '@/ui/theme';
 import type { ApiFailure } from '@/api/result';
 import { useAcceptInvitationMutation, useInvitationPreviewQuery } from '@/features/team/api';
+import { PublicCard } from './public-card';
 import { newPasswordSchemaFor, PASSWORD_MIN_LENGTH } from '@/shared/protocol';
 import { acceptInvitationRequestSchema, type AcceptInvitationRequest } from '@/shared/protocol/practice';
 
@@ -38,103 +38,83 @@ export function InviteScreen() {
   }, [invitedEmail, invitedName, form]);
 
   return (
-    <View style={styles.page} testID="invite-screen">
-      <View style={styles.card}>
-        {preview.isPending ? (
-          <LoadingState label="Checking the invitation…" testID="invite-loading" />
-        ) : preview.isError && (preview.error as ApiFailure).temporary ? (
-          <ErrorState
-            message={preview.error.message}
-            onRetry={() => void preview.refetch()}
-            testID="invite-offline"
+    <PublicCard testID="invite-screen">
+      {preview.isPending ? (
+        <LoadingState label="Checking the invitation…" testID="invite-loading" />
+      ) : preview.isError && (preview.error as ApiFailure).temporary ? (
+        <ErrorState
+          message={preview.error.message}
+          onRetry={() => void preview.refetch()}
+          testID="invite-offline"
+        />
+      ) : preview.isError ? (
+        // Used, withdrawn, expired or not valid: say which, and lead to sign-in (the account may exist already).
+        <>
+          <AppText variant="title" color={colors.ink}>
+            This invitation can no longer be used
+          </AppText>
+          <AppText color={colors.text} testID="invite-invalid">
+            {preview.error.message}
+          </AppText>
+          <Button
+            label="Go to sign-in"
+            onPress={() => router.replace('/sign-in')}
+            testID="invite-invalid-sign-in"
           />
-        ) : preview.isError ? (
-          // Used, withdrawn, expired or not valid: say which, and lead to sign-in (the account may exist already).
-          <>
-            <AppText variant="title" color={colors.ink}>
-              This invitation can no longer be used
+        </>
+      ) : accept.isSuccess ? (
+        <>
+          <AppText variant="title" color={colors.ink} testID="invite-done">
+            Your account is ready
+          </AppText>
+          <AppText color={colors.text}>
+            Sign in with {preview.data.email} and the password you just chose.
+          </AppText>
+          <Button
+            label="Go to sign-in"
+            onPress={() => router.replace('/sign-in')}
+            testID="invite-to-sign-in"
+          />
+        </>
+      ) : (
+        <>
+          <AppText variant="title" color={colors.ink}>
+            Join {preview.data.clinicName}
+          </AppText>
+          <AppText color={colors.textMuted}>
+            {preview.data.email} is invited as {preview.data.role}. Choose a password of at least{' '}
+            {PASSWORD_MIN_LENGTH} characters that does not contain your e-mail address: a few unrelated words
+            work well. Common or easily guessed passwords are refused.
+          </AppText>
+          <FormTextField
+            control={form.control}
+            name="email"
+            label="Your e-mail address"
+            testID="invite-accept-email"
+            keyboardType="email-address"
+            autoCapitalize="none"
+          />
+          <FormTextField control={form.control} name="name" label="Your name" testID="invite-accept-name" />
+          <FormTextField
+            control={form.control}
+            name="password"
+            label="Password"
+            testID="invite-accept-password"
+            secureTextEntry
+          />
+          <Button
+            label={accept.isPending ? 'Setting up…' : 'Set password'}
+            disabled={accept.isPending}
+            testID="invite-accept"
+            onPress={() => void form.handleSubmit((v) => accept.mutate(v))()}
+          />
+          {accept.isError ? (
+            <AppText color={colors.danger} testID="invite-accept-error">
+              {accept.error.message}
             </AppText>
-            <AppText color={colors.text} testID="invite-invalid">
-              {preview.error.message}
-            </AppText>
-            <Button
-              label="Go to sign-in"
-              onPress={() => router.replace('/sign-in')}
-              testID="invite-invalid-sign-in"
-            />
-          </>
-        ) : accept.isSuccess ? (
-          <>
-            <AppText variant="title" color={colors.ink} testID="invite-done">
-              Your account is ready
-            </AppText>
-            <AppText color={colors.text}>
-              Sign in with {preview.data.email} and the password you just chose.
-            </AppText>
-            <Button
-              label="Go to sign-in"
-              onPress={() => router.replace('/sign-in')}
-              testID="invite-to-sign-in"
-            />
-          </>
-        ) : (
-          <>
-            <AppText variant="title" color={colors.ink}>
-              Join {preview.data.clinicName}
-            </AppText>
-            <AppText color={colors.textMuted}>
-              {preview.data.email} is invited as {preview.data.role}. Choose a password of at least{' '}
-              {PASSWORD_MIN_LENGTH} characters that does not contain your e-mail address: a few unrelated
-              words work well. Common or easily guessed passwords are refused.
-            </AppText>
-            <FormTextField
-              control={form.control}
-              name="email"
-              label="Your e-mail address"
-              testID="invite-accept-email"
-              keyboardType="email-address"
-              autoCapitalize="none"
-            />
-            <FormTextField control={form.control} name="name" label="Your name" testID="invite-accept-name" />
-            <FormTextField
-              control={form.control}
-              name="password"
-              label="Password"
-              testID="invite-accept-password"
-              secureTextEntry
-            />
-            <Button
-              label={accept.isPending ? 'Setting up…' : 'Set password'}
-              disabled={accept.isPending}
-              testID="invite-accept"
-              onPress={() => void form.handleSubmit((v) => accept.mutate(v))()}
-            />
-            {accept.isError ? (
-              <AppText color={colors.danger} testID="invite-accept-error">
-                {accept.error.message}
-              </AppText>
-            ) : null}
-          </>
-        )}
-      </View>
-    </View>
+          ) : null}
+        </>
+      )}
+    </PublicCard>
   );
 }
-
-const styles = StyleSheet.create({
-  page: {
-    flex: 1,
-    backgroundColor: colors.paper,
-    alignItems: 'center',
-    justifyContent: 'center',
-    padding: space.lg,
-  },
-  card: {
-    width: '100%',
-    maxWidth: 440,
-    backgroundColor: colors.surface,
-    borderRadius: radii.lg,
-    padding: space.xl,
-    gap: space.md,
-  },
-});

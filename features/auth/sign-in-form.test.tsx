@@ -1,6 +1,7 @@
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
 import { TextInput } from 'react-native';
 import type { ApiResult } from '@/api/result';
+import { httpFailure } from '@/shared/http-failure';
 import type { SignInResponse } from '@/shared/protocol';
 import { SignInForm } from './sign-in-form';
 
@@ -11,6 +12,9 @@ function setup(answer: Answer) {
   render(<SignInForm onSubmit={onSubmit} />);
   return onSubmit;
 }
+
+// The server's `{ error: { code, message } }` body, read by the app's one mapping of failed answers.
+const serverSays = (message: string) => ({ error: { code: 'refused', message } });
 
 function fill(email: string, password: string) {
   fireEvent.changeText(screen.getByTestId('sign-in-email'), email);
@@ -65,7 +69,7 @@ describe('sign-in form', () => {
   });
 
   test("when the server answers 401, then the server's message is shown", async () => {
-    setup({ kind: 'unauthorized', message: 'That e-mail and password do not match an account.' });
+    setup(httpFailure(401, serverSays('That e-mail and password do not match an account.')));
     fill('someone@clinic.example', 'wrong');
     expect(await screen.findByTestId('sign-in-error')).toHaveTextContent(
       'That e-mail and password do not match an account.',
@@ -73,11 +77,7 @@ describe('sign-in form', () => {
   });
 
   test("when the server answers 429, then the server's wait message is shown", async () => {
-    setup({
-      kind: 'rate-limited',
-      message: 'Too many sign-in attempts. Try again in 15 minutes.',
-      temporary: true,
-    });
+    setup(httpFailure(429, serverSays('Too many sign-in attempts. Try again in 15 minutes.')));
     fill('someone@clinic.example', 'wrong');
     expect(await screen.findByTestId('sign-in-error')).toHaveTextContent(
       'Too many sign-in attempts. Try again in 15 minutes.',
@@ -85,7 +85,7 @@ describe('sign-in form', () => {
   });
 
   test('when the network is unreachable, then the form says so', async () => {
-    setup({ kind: 'offline', message: 'offline', temporary: true });
+    setup(httpFailure(undefined, undefined));
     fill('someone@clinic.example', 'pw');
     expect(await screen.findByTestId('sign-in-error')).toHaveTextContent(/Network unreachable/);
   });

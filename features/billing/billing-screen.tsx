@@ -9,7 +9,7 @@ import { formatDate, formatTime } from '@/ui/format';
 import { Pager } from '@/ui/pager';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { SearchField } from '@/ui/search-field';
-import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
+import { EmptyState, QueryView } from '@/ui/state-views';
 import { colors, space } from '@/ui/theme';
 import { usePaymentsQuery, useRefundMutation } from './api';
 import { useDebouncedValue } from '@/ui/use-debounced-value';
@@ -151,50 +151,41 @@ export function BillingScreen() {
     q: q || undefined,
   });
 
-  let list;
-  if (payments.isPending) {
-    list = <LoadingState label="Loading payments…" testID="payments-loading" />;
-  } else if (payments.isError) {
-    list = (
-      <ErrorState
-        message={payments.error.message}
-        onRetry={() => void payments.refetch()}
-        testID="payments-error"
-      />
-    );
-  } else if (payments.data.payments.length === 0) {
-    list = (
-      <EmptyState
-        title={status === 'all' && !q ? 'No payments yet' : 'No payment matches'}
-        detail={
-          status === 'all' && !q
-            ? 'Payments you create appear here with their state.'
-            : 'Change the filter or the search.'
-        }
-        testID="payments-empty"
-      />
-    );
-  } else {
-    list = (
-      <>
-        <DataTable
-          rows={payments.data.payments}
-          columns={columns}
-          rowKey={(p) => p.id}
-          rowTestID={(p) => `payment-row-${p.id}`}
-          wide={isWide}
-          testID="payments-table"
-        />
-        <Pager
-          page={page}
-          pageSize={pageSize}
-          total={payments.data.pageInfo.total}
-          onPage={setPage}
-          testID="payments-pager"
-        />
-      </>
-    );
-  }
+  const list = (
+    <QueryView query={payments} loading="Loading payments…" testID="payments">
+      {(data) =>
+        data.payments.length === 0 ? (
+          <EmptyState
+            title={status === 'all' && !q ? 'No payments yet' : 'No payment matches'}
+            detail={
+              status === 'all' && !q
+                ? 'Payments you create appear here with their state.'
+                : 'Change the filter or the search.'
+            }
+            testID="payments-empty"
+          />
+        ) : (
+          <>
+            <DataTable
+              rows={data.payments}
+              columns={columns}
+              rowKey={(p) => p.id}
+              rowTestID={(p) => `payment-row-${p.id}`}
+              wide={isWide}
+              testID="payments-table"
+            />
+            <Pager
+              page={page}
+              pageSize={pageSize}
+              total={data.pageInfo.total}
+              onPage={setPage}
+              testID="payments-pager"
+            />
+          </>
+        )
+      }
+    </QueryView>
+  );
 
   return (
     <ScreenFrame

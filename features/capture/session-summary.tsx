@@ -1,9 +1,10 @@
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
+import { Card } from '@/ui/card';
 import { Badge } from '@/ui/badge';
 import { sites } from '@/shared/sites';
 import { verdictWords } from '@/ui/verdicts';
-import { colors, radii, space } from '@/ui/theme';
+import { colors, space } from '@/ui/theme';
 import type { SiteRecording } from '@/device/local-store/records';
 import { TraceView } from './trace-view';
 
@@ -20,7 +21,7 @@ export function SessionSummary({
       {sites.map((site) => {
         const r = recordings.find((x) => x.site === site.id);
         return (
-          <View key={site.id} style={styles.row} testID={`summary-${site.id}`}>
+          <Card key={site.id} style={styles.row} testID={`summary-${site.id}`}>
             <View style={styles.head}>
               <AppText variant="bodyStrong" color={colors.ink}>
                 {site.label}
@@ -65,7 +66,7 @@ export function SessionSummary({
                 Reason: {r.skipReason}
               </AppText>
             ) : null}
-          </View>
+          </Card>
         );
       })}
     </View>
@@ -74,13 +75,6 @@ export function SessionSummary({
 
 const styles = StyleSheet.create({
   list: { gap: space.sm },
-  row: {
-    padding: space.md,
-    backgroundColor: colors.surface,
-    borderRadius: radii.md,
-    borderWidth: 1,
-    borderColor: colors.line,
-    gap: space.xs,
-  },
+  row: { padding: space.md, gap: space.xs },
   head: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center' },
 });

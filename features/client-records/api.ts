@@ -1,15 +1,12 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api, request } from '@/api/client';
 import { ApiFailure, failureFromError, unwrap } from '@/api/result';
-import { clinicConsentTextKey } from '@/device/consent/clinic-consent-text';
+import { attentionKey } from '@/features/home/api';
 import {
   clientRecordSchema,
   clientTableResponseSchema,
-  consentTextListResponseSchema,
   eraseClientResponseSchema,
-  publishConsentTextResponseSchema,
   type ClientTableRequest,
-  type PublishConsentTextRequest,
   type UpdateClientRequest,
 } from '@/shared/protocol/practice';
 
@@ -55,36 +52,12 @@ export function useEraseClientMutation(id: string) {
           eraseClientResponseSchema,
         ),
       ),
-    onSuccess: () => qc.invalidateQueries({ queryKey: clientRecordsKey }),
-  });
-}
-
-export const consentTextsKey = ['consent-texts'] as const;
-
-export function useConsentTextsQuery() {
-  return useQuery({
-    queryKey: consentTextsKey,
-    staleTime: 5 * 60_000,
-    queryFn: async () =>
-      unwrap(await request({ method: 'GET', url: '/consent-texts' }, consentTextListResponseSchema)).texts,
-  });
-}
-
-/** Publishes a new version of the consent wording; the device's kept copy is refreshed with it. */
-export function usePublishConsentTextMutation() {
-  const qc = useQueryClient();
-  return useMutation({
-    mutationFn: async (input: PublishConsentTextRequest) =>
-      unwrap(
-        await request(
-          { method: 'POST', url: '/consent-texts', data: input },
-          publishConsentTextResponseSchema,
-        ),
-      ).text,
-    onSuccess: async () => {
-      await qc.invalidateQueries({ queryKey: consentTextsKey });
-      await qc.invalidateQueries({ queryKey: clinicConsentTextKey });
-    },
+    // An erased client leaves "past retention" on the admin's overview.
+    onSuccess: () =>
+      Promise.all([
+        qc.invalidateQueries({ queryKey: clientRecordsKey }),
+        qc.invalidateQueries({ queryKey: attentionKey }),
+      ]),
   });
 }
 

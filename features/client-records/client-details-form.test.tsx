@@ -1,5 +1,6 @@
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
 import { ApiFailure } from '@/api/result';
+import { httpFailure } from '@/shared/http-failure';
 import type { ClientRecord } from '@/shared/protocol/practice';
 import { ClientDetailsForm } from './client-details-form';
 
@@ -27,7 +28,11 @@ const record = (version: number, notes: string): ClientRecord => ({
   packages: [],
 });
 const stale = () =>
-  new ApiFailure({ kind: 'rejected', status: 409, message: 'This record was changed by someone else.' });
+  new ApiFailure(
+    httpFailure(409, {
+      error: { code: 'stale_version', message: 'This record was changed by someone else.' },
+    }),
+  );
 
 describe('client details form', () => {
   test('when a save meets a newer version, then the stale message shows, the edit stays, and "save mine" retries on the latest version', async () => {

@@ -6,7 +6,7 @@ import { Cell, DataTable, type Column } from '@/ui/data-table';
 import { formatDate, formatDateTime } from '@/ui/format';
 import { Panel } from '@/ui/panel';
 import { colors, radii, space } from '@/ui/theme';
-import { useConsentTextsQuery } from './api';
+import { useConsentTextsQuery } from '@/features/settings/api';
 import type { ClientRecord } from '@/shared/protocol/practice';
 
 type Visit = ClientRecord['visits'][number];

@@ -8,7 +8,7 @@ import { formatDate } from '@/ui/format';
 import { Pager } from '@/ui/pager';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { SearchField } from '@/ui/search-field';
-import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
+import { EmptyState, QueryView } from '@/ui/state-views';
 import { space } from '@/ui/theme';
 import { useClientTableQuery } from './api';
 import { useDebouncedValue } from '@/ui/use-debounced-value';
@@ -103,64 +103,56 @@ export function ClientTableScreen() {
     setPage(1);
   };
 
-  let body;
-  if (table.isPending) {
-    body = <LoadingState label="Loading clients…" testID="client-table-loading" />;
-  } else if (table.isError) {
-    body = (
-      <ErrorState
-        message={table.error.message}
-        onRetry={() => void table.refetch()}
-        testID="client-table-error"
-      />
-    );
-  } else if (table.data.clients.length === 0) {
-    body =
-      retention === 'due' ? (
-        <EmptyState
-          title="Nothing past retention"
-          detail="No client's records are older than the clinic's retention period (Settings)."
-          testID="client-table-empty"
-        />
-      ) : q ? (
-        <EmptyState
-          title="No match"
-          detail={`No client matches “${q}”. Try part of the name, the e-mail or the phone number.`}
-          testID="client-table-empty"
-        />
-      ) : (
-        <EmptyState
-          title="No clients yet"
-          detail="Clients added on the phones appear here."
-          testID="client-table-empty"
-        />
-      );
-  } else {
-    body = (
-      <>
-        <DataTable
-          rows={table.data.clients}
-          columns={columns}
-          rowKey={(c) => c.id}
-          rowTestID={(c) => `client-record-row-${c.id}`}
-          wide={isWide}
-          testID="client-table"
-          sort={sort}
-          onSort={onSort}
-          onRowPress={(c) =>
-            router.push({ pathname: '/client-records/[clientId]', params: { clientId: c.id } })
-          }
-        />
-        <Pager
-          page={table.data.pageInfo.page}
-          pageSize={pageSize}
-          total={table.data.pageInfo.total}
-          onPage={setPage}
-          testID="client-table-pager"
-        />
-      </>
-    );
-  }
+  const body = (
+    <QueryView query={table} loading="Loading clients…" testID="client-table">
+      {(data) =>
+        data.clients.length === 0 ? (
+          retention === 'due' ? (
+            <EmptyState
+              title="Nothing past retention"
+              detail="No client's records are older than the clinic's retention period (Settings)."
+              testID="client-table-empty"
+            />
+          ) : q ? (
+            <EmptyState
+              title="No match"
+              detail={`No client matches “${q}”. Try part of the name, the e-mail or the phone number.`}
+              testID="client-table-empty"
+            />
+          ) : (
+            <EmptyState
+              title="No clients yet"
+              detail="Clients added on the phones appear here."
+              testID="client-table-empty"
+            />
+          )
+        ) : (
+          <>
+            <DataTable
+              rows={data.clients}
+              columns={columns}
+              rowKey={(c) => c.id}
+              rowTestID={(c) => `client-record-row-${c.id}`}
+              wide={isWide}
+              testID="client-table"
+              sort={sort}
+              onSort={onSort}
+              onRowPress={(c) =>
+                router.push({ pathname: '/client-records/[clientId]', params: { clientId: c.id } })
+              }
+            />
+            <Pager
+              page={data.pageInfo.page}
+              pageSize={pageSize}
+              total={data.pageInfo.total}
+              onPage={setPage}
+              testID="client-table-pager"
+            />
+          </>
+        )
+      }
+    </QueryView>
+  );
 
   return (
     <ScreenFrame

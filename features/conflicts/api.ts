@@ -1,7 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { request } from '@/api/client';
 import { unwrap } from '@/api/result';
-import { reviewSessionsKey } from '@/features/review/sessions-api';
+import { attentionKey } from '@/features/home/api';
+import { reviewRootKey, reviewSessionsKey } from '@/features/review/api';
 import {
   conflictDetailResponseSchema,
   conflictListResponseSchema,
@@ -54,7 +55,8 @@ export function useResolveConflictMutation(id: string) {
       await Promise.all([
         qc.invalidateQueries({ queryKey: conflictsKey }),
         qc.invalidateQueries({ queryKey: reviewSessionsKey }),
-        qc.invalidateQueries({ queryKey: ['review'] }),
+        qc.invalidateQueries({ queryKey: reviewRootKey }),
+        qc.invalidateQueries({ queryKey: attentionKey }),
       ]);
     },
   });

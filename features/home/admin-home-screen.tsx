@@ -5,7 +5,7 @@ import { CautionNote } from '@/ui/caution-note';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
 import { colors, radii, space } from '@/ui/theme';
-import { useTeamQuery } from '@/features/team/users-api';
+import { useTeamQuery } from '@/features/team/api';
 import { useLayout } from '@/ui/use-layout';
 import { roles, type TeamMember } from '@/shared/protocol';
 import { AttentionPanel } from './attention-panel';
@@ -49,16 +49,16 @@ export function AdminHomeScreen() {
     body = (
       <ErrorState message={team.error.message} onRetry={() => void team.refetch()} testID="team-error" />
     );
-  } else if (team.data.length === 0) {
+  } else if (team.data.users.length === 0) {
     body = <EmptyState title="No team members" detail="People you invite appear here." testID="team-empty" />;
   } else {
     body = (
       <>
-        <Overview members={team.data} />
+        <Overview members={team.data.users} />
         <AppText variant="heading" color={colors.ink}>
           Team
         </AppText>
-        <TeamTable members={team.data} wide={isWide} />
+        <TeamTable members={team.data.users} wide={isWide} />
       </>
     );
   }

@@ -2,7 +2,7 @@ import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
 import { colors, radii, space } from '@/ui/theme';
-import { useFollowUpsDueQuery } from './follow-ups-api';
+import { useFollowUpsDueQuery } from './api';
 
 /** Clients whose follow-up date falls within two weeks (or has passed), for the operator's home. */
 export function FollowUpsDue() {

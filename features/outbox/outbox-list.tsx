@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
+import { Card } from '@/ui/card';
 import { Badge, type BadgeTone } from '@/ui/badge';
 import { formatDate, formatTime } from '@/ui/format';
 import { siteInfo } from '@/shared/sites';
@@ -83,7 +84,7 @@ function OutboxGroupCard({ group }: { group: OutboxGroup }) {
   const percent = Math.round(group.progress * 100);
   const queued = new Date(group.queuedAt).toISOString();
   return (
-    <View style={styles.group} testID={`outbox-group-${group.sessionId ?? 'new-client'}`}>
+    <Card style={styles.group} testID={`outbox-group-${group.sessionId ?? 'new-client'}`}>
       <View style={styles.head}>
         <View style={styles.grow}>
           <AppText variant="bodyStrong" color={colors.ink} numberOfLines={1} testID="outbox-group-name">
@@ -124,7 +125,7 @@ function OutboxGroupCard({ group }: { group: OutboxGroup }) {
           {details ? 'Hide details' : 'Details'}
         </AppText>
       </Pressable>
-    </View>
+    </Card>
   );
 }
 
@@ -146,14 +147,7 @@ export function OutboxList({ items }: { items: readonly OutboxRow[] }) {
 
 const styles = StyleSheet.create({
   list: { gap: space.md },
-  group: {
-    padding: space.md,
-    backgroundColor: colors.surface,
-    borderRadius: radii.md,
-    borderWidth: 1,
-    borderColor: colors.line,
-    gap: space.sm,
-  },
+  group: { padding: space.md, gap: space.sm },
   item: { gap: space.xs, paddingTop: space.xs, borderTopWidth: 1, borderTopColor: colors.line },
   details: { gap: 2 },
   head: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', gap: space.sm },

@@ -1,26 +1,75 @@
-import { useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
+import {
+  keepPreviousData,
+  useMutation,
+  useQuery,
+  useQueryClient,
+  type QueryClient,
+} from '@tanstack/react-query';
 import { api, request } from '@/api/client';
 import { ApiFailure, failureFromError, unwrap } from '@/api/result';
-import { reviewSessionsKey } from './sessions-api';
-import type { Site } from '@/shared/protocol';
+import { attentionKey } from '@/features/home/api';
+import { siteSchema, type Site } from '@/shared/protocol';
 import {
   comparisonSchema,
   earlierVisitsSchema,
   reportMailListSchema,
   reportMailResponseSchema,
   reviewNotesSchema,
+  reviewSessionPageSchema,
   reviewSessionDetailSchema,
   sessionReferralSchema,
   staleNotesDetailsSchema,
   traceSchema,
   trendsSchema,
+  type ReviewSessionPage,
+  type ReviewSessionQuery,
   type SaveNotesRequest,
   type SetReferralFlagRequest,
   type StaleNotesDetails,
 } from '@/shared/protocol/review';
 import { z } from 'zod';
 
-export const reviewKey = (sessionId: string) => ['review', sessionId] as const;
+export const reviewSessionsKey = ['review-sessions'] as const;
+
+export type SessionFilters = Omit<ReviewSessionQuery, 'cursor' | 'limit'>;
+
+function params(
+  filters: SessionFilters,
+  cursor: string | null,
+  limit: number,
+): Record<string, string | number | boolean> {
+  const out: Record<string, string | number | boolean> = { limit };
+  for (const [k, v] of Object.entries(filters))
+    if (v !== undefined && v !== null && v !== '') out[k] = v as string | number | boolean;
+  if (cursor) out.cursor = cursor;
+  return out;
+}
+
+export async function fetchReviewSessions(
+  filters: SessionFilters,
+  cursor: string | null,
+  limit = 25,
+): Promise<ReviewSessionPage> {
+  return unwrap(
+    await request(
+      { method: 'GET', url: '/review/sessions', params: params(filters, cursor, limit) },
+      reviewSessionPageSchema,
+    ),
+  );
+}
+
+/** One page of the review table; the previous page stays on screen while the next loads. */
+export function useReviewSessionsQuery(filters: SessionFilters, cursor: string | null, limit = 25) {
+  return useQuery({
+    queryKey: [...reviewSessionsKey, filters, cursor, limit],
+    queryFn: () => fetchReviewSessions(filters, cursor, limit),
+    placeholderData: keepPreviousData,
+  });
+}
+
+/** Everything read about one session (detail, traces, notes, mails) sits under the review root. */
+export const reviewRootKey = ['review'] as const;
+export const reviewKey = (sessionId: string) => [...reviewRootKey, sessionId] as const;
 
 export function useSessionDetailQuery(sessionId: string) {
   return useQuery({
@@ -46,7 +95,7 @@ export function useTraceQuery(sessionId: string | null, site: Site, enabled = tr
 }
 
 export function prefetchTraces(queryClient: QueryClient, sessionId: string): void {
-  for (const site of ['mitral', 'tricuspid', 'aortic', 'pulmonic'] as const) {
+  for (const site of siteSchema.options) {
     void queryClient.prefetchQuery(traceQuery(sessionId, site)).catch(() => undefined);
   }
 }
@@ -198,7 +247,12 @@ export function useRetryMailMutation(sessionId: string) {
           reportMailResponseSchema,
         ),
       ).mail,
-    onSettled: () => void queryClient.invalidateQueries({ queryKey: [...reviewKey(sessionId), 'mails'] }),
+    // A mail that waited for the Retry button is on the admin's overview until it goes.
+    onSettled: () =>
+      Promise.all([
+        queryClient.invalidateQueries({ queryKey: [...reviewKey(sessionId), 'mails'] }),
+        queryClient.invalidateQueries({ queryKey: attentionKey }),
+      ]),
   });
 }
 

@@ -4,6 +4,7 @@ import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/ui/app-text';
+import { Card } from '@/ui/card';
 import { Button } from '@/ui/button';
 import { FormDateField } from '@/ui/form-date-field';
 import { FormTextField } from '@/ui/form-text-field';
@@ -91,7 +92,7 @@ export function NotesForm({
   });
 
   return (
-    <View style={styles.box} testID="notes-form">
+    <Card testID="notes-form">
       <AppText variant="heading" color={colors.ink}>
         Findings and plan
       </AppText>
@@ -185,19 +186,11 @@ export function NotesForm({
           </AppText>
         ) : null}
       </View>
-    </View>
+    </Card>
   );
 }
 
 const styles = StyleSheet.create({
-  box: {
-    backgroundColor: colors.surface,
-    borderWidth: 1,
-    borderColor: colors.line,
-    borderRadius: radii.md,
-    padding: space.lg,
-    gap: space.md,
-  },
   stale: { backgroundColor: colors.dangerSoft, borderRadius: radii.md, padding: space.md, gap: space.sm },
   row: { flexDirection: 'row', gap: space.sm, alignItems: 'center', flexWrap: 'wrap' },
 });

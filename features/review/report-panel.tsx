@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
+import { Card } from '@/ui/card';
 import { Badge } from '@/ui/badge';
 import { Button } from '@/ui/button';
 import { formatDateTime, formatTime } from '@/ui/format';
@@ -34,7 +35,7 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
   const [previewing, setPreviewing] = useState(false);
   const preview = useReportMailPreviewQuery(sessionId, compareWith, previewing);
   return (
-    <View style={styles.box} testID="report-panel">
+    <Card style={styles.box} testID="report-panel">
       <AppText variant="heading" color={colors.ink}>
         Report
       </AppText>
@@ -138,19 +139,12 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
           ) : null}
         </View>
       ))}
-    </View>
+    </Card>
   );
 }
 
 const styles = StyleSheet.create({
-  box: {
-    backgroundColor: colors.surface,
-    borderWidth: 1,
-    borderColor: colors.line,
-    borderRadius: radii.md,
-    padding: space.lg,
-    gap: space.sm,
-  },
+  box: { gap: space.sm },
   row: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
   preview: {
     borderWidth: 1,

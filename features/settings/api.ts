@@ -1,10 +1,14 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { request } from '@/api/client';
 import { unwrap } from '@/api/result';
+import { clinicConsentTextKey } from '@/device/consent/clinic-consent-text';
 import {
   clinicRangesResponseSchema,
   clinicSettingsSchema,
+  consentTextListResponseSchema,
+  publishConsentTextResponseSchema,
   type ClinicSettingsInput,
+  type PublishConsentTextRequest,
   type SetRangeRequest,
 } from '@/shared/protocol/practice';
 
@@ -69,5 +73,34 @@ export function useResetRangeMutation() {
         ),
       ).ranges,
     onSuccess: () => qc.invalidateQueries({ queryKey: rangesKey }),
+  });
+}
+
+export const consentTextsKey = ['consent-texts'] as const;
+
+export function useConsentTextsQuery() {
+  return useQuery({
+    queryKey: consentTextsKey,
+    staleTime: 5 * 60_000,
+    queryFn: async () =>
+      unwrap(await request({ method: 'GET', url: '/consent-texts' }, consentTextListResponseSchema)).texts,
+  });
+}
+
+/** Publishes a new version of the consent wording; the device's kept copy is refreshed with it. */
+export function usePublishConsentTextMutation() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: async (input: PublishConsentTextRequest) =>
+      unwrap(
+        await request(
+          { method: 'POST', url: '/consent-texts', data: input },
+          publishConsentTextResponseSchema,
+        ),
+      ).text,
+    onSuccess: async () => {
+      await qc.invalidateQueries({ queryKey: consentTextsKey });
+      await qc.invalidateQueries({ queryKey: clinicConsentTextKey });
+    },
   });
 }

@@ -8,9 +8,9 @@ import { Button } from '@/ui/button';
 import { FormTextField } from '@/ui/form-text-field';
 import { formatDate } from '@/ui/format';
 import { Panel } from '@/ui/panel';
-import { ErrorState, LoadingState } from '@/ui/state-views';
+import { QueryView } from '@/ui/state-views';
 import { colors, radii, space } from '@/ui/theme';
-import { useConsentTextsQuery, usePublishConsentTextMutation } from '@/features/client-records/api';
+import { useConsentTextsQuery, usePublishConsentTextMutation } from './api';
 import {
   publishConsentTextRequestSchema,
   type ConsentText,
@@ -96,68 +96,62 @@ export function ConsentTextsPanel() {
       detail="What a client reads and signs before any recording. Each session keeps the version its client signed. Publishing a new version asks every client to sign it at their next visit; consent already given stays on record."
       testID="settings-consent"
     >
-      {texts.isPending ? (
-        <LoadingState label="Loading the consent wording…" testID="consent-texts-loading" />
-      ) : texts.isError ? (
-        <ErrorState
-          message={texts.error.message}
-          onRetry={() => void texts.refetch()}
-          testID="consent-texts-error"
-        />
-      ) : (
-        <>
-          {current ? (
-            <View style={styles.card} testID="consent-current">
-              <View style={styles.row}>
-                <Badge label={`In force · version ${current.version}`} tone="good" />
-                <AppText variant="small" color={colors.textMuted}>
-                  published {formatDate(current.publishedAt)}
+      <QueryView query={texts} loading="Loading the consent wording…" testID="consent-texts">
+        {() => (
+          <>
+            {current ? (
+              <View style={styles.card} testID="consent-current">
+                <View style={styles.row}>
+                  <Badge label={`In force · version ${current.version}`} tone="good" />
+                  <AppText variant="small" color={colors.textMuted}>
+                    published {formatDate(current.publishedAt)}
+                  </AppText>
+                </View>
+                <AppText variant="bodyStrong" color={colors.ink}>
+                  {current.title}
                 </AppText>
+                <Paragraphs body={current.body} testID="consent-current-body" />
               </View>
-              <AppText variant="bodyStrong" color={colors.ink}>
-                {current.title}
+            ) : (
+              <AppText variant="small" color={colors.caution} testID="consent-none">
+                No consent wording is published yet; devices show the built-in text until one is.
               </AppText>
-              <Paragraphs body={current.body} testID="consent-current-body" />
-            </View>
-          ) : (
-            <AppText variant="small" color={colors.caution} testID="consent-none">
-              No consent wording is published yet; devices show the built-in text until one is.
-            </AppText>
-          )}
-          {editing ? (
-            <PublishForm current={current} onDone={() => setEditing(false)} />
-          ) : (
-            <View style={styles.row}>
-              <Button
-                label="Write a new version…"
-                variant="secondary"
-                onPress={() => setEditing(true)}
-                testID="consent-publish-open"
-              />
-            </View>
-          )}
-          {earlier.length > 0 ? (
-            <View style={styles.earlier}>
-              <Button
-                label={showEarlier ? 'Hide earlier versions' : `Earlier versions (${earlier.length})`}
-                variant="ghost"
-                onPress={() => setShowEarlier((v) => !v)}
-                testID="consent-earlier-toggle"
-              />
-              {showEarlier
-                ? earlier.map((t) => (
-                    <View key={t.id} style={styles.card} testID={`consent-version-${t.version}`}>
-                      <AppText variant="smallStrong" color={colors.ink}>
-                        Version {t.version} · {t.title} · published {formatDate(t.publishedAt)}
-                      </AppText>
-                      <Paragraphs body={t.body} testID={`consent-version-${t.version}-body`} />
-                    </View>
-                  ))
-                : null}
-            </View>
-          ) : null}
-        </>
-      )}
+            )}
+            {editing ? (
+              <PublishForm current={current} onDone={() => setEditing(false)} />
+            ) : (
+              <View style={styles.row}>
+                <Button
+                  label="Write a new version…"
+                  variant="secondary"
+                  onPress={() => setEditing(true)}
+                  testID="consent-publish-open"
+                />
+              </View>
+            )}
+            {earlier.length > 0 ? (
+              <View style={styles.earlier}>
+                <Button
+                  label={showEarlier ? 'Hide earlier versions' : `Earlier versions (${earlier.length})`}
+                  variant="ghost"
+                  onPress={() => setShowEarlier((v) => !v)}
+                  testID="consent-earlier-toggle"
+                />
+                {showEarlier
+                  ? earlier.map((t) => (
+                      <View key={t.id} style={styles.card} testID={`consent-version-${t.version}`}>
+                        <AppText variant="smallStrong" color={colors.ink}>
+                          Version {t.version} · {t.title} · published {formatDate(t.publishedAt)}
+                        </AppText>
+                        <Paragraphs body={t.body} testID={`consent-version-${t.version}-body`} />
+                      </View>
+                    ))
+                  : null}
+              </View>
+            ) : null}
+          </>
+        )}
+      </QueryView>
     </Panel>
   );
 }

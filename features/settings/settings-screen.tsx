@@ -4,7 +4,7 @@ import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
 import { Panel } from '@/ui/panel';
 import { ScreenFrame } from '@/ui/screen-frame';
-import { ErrorState, LoadingState } from '@/ui/state-views';
+import { QueryView } from '@/ui/state-views';
 import { colors, space } from '@/ui/theme';
 import {
   useRangesQuery,
@@ -74,17 +74,9 @@ export function SettingsScreen() {
       testID="settings-screen"
     >
       <Panel title="Clinic" detail="Shown on every report and e-mail." testID="settings-clinic">
-        {settings.isPending ? (
-          <LoadingState label="Loading the settings…" testID="settings-loading" />
-        ) : settings.isError ? (
-          <ErrorState
-            message={settings.error.message}
-            onRetry={() => void settings.refetch()}
-            testID="settings-error"
-          />
-        ) : (
-          <ClinicForm settings={settings.data} onSave={(s) => save.mutateAsync(s)} />
-        )}
+        <QueryView query={settings} loading="Loading the settings…" testID="settings">
+          {(data) => <ClinicForm settings={data} onSave={(s) => save.mutateAsync(s)} />}
+        </QueryView>
       </Panel>
       <ConsentTextsPanel />
       <Panel
@@ -92,24 +84,18 @@ export function SettingsScreen() {
         detail="Each measurement is shown against these. The defaults carry their sources; a clinic may set its own limits per site. Values outside a range read “refer to a licensed clinician”, never a diagnosis."
         testID="settings-ranges"
       >
-        {ranges.isPending ? (
-          <LoadingState label="Loading the ranges…" testID="ranges-loading" />
-        ) : ranges.isError ? (
-          <ErrorState
-            message={ranges.error.message}
-            onRetry={() => void ranges.refetch()}
-            testID="ranges-error"
-          />
-        ) : (
-          <>
-            <ResetAll />
-            <RangeEditor
-              ranges={ranges.data}
-              onSave={(r, value) => setRange.mutateAsync({ metric: r.metric, site: r.site, range: value })}
-              onReset={(r) => resetRange.mutateAsync({ metric: r.metric, site: r.site })}
-            />
-          </>
-        )}
+        <QueryView query={ranges} loading="Loading the ranges…" testID="ranges">
+          {(data) => (
+            <>
+              <ResetAll />
+              <RangeEditor
+                ranges={data}
+                onSave={(r, value) => setRange.mutateAsync({ metric: r.metric, site: r.site, range: value })}
+                onReset={(r) => resetRange.mutateAsync({ metric: r.metric, site: r.site })}
+              />
+            </>
+          )}
+        </QueryView>
       </Panel>
     </ScreenFrame>
   );

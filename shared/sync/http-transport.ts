@@ -10,6 +10,7 @@ import {
   type PullRequest,
   type PushRequest,
 } from '@/shared/protocol/sync';
+import { httpFailure } from '../http-failure';
 import { TransportError, type ClipUpload, type SyncTransport } from './transport';
 
 export interface HttpTransportOptions {
@@ -24,26 +25,18 @@ export { SYNC_PATHS };
 
 export const DEFAULT_CHUNK_BYTES = 64 * 1024;
 
-function messageOf(data: unknown, fallback: string): string {
-  const error = (data as { error?: { message?: unknown } } | undefined)?.error;
-  return typeof error?.message === 'string' ? error.message : fallback;
-}
-
-function fromStatus(status: number | undefined, message: string): TransportError {
-  if (status === undefined) return new TransportError(message, { temporary: true });
-  if (status === 426) return new TransportError(message, { temporary: false, status, outdated: true });
-  // 401: the app refreshes the token and the next run succeeds; 408/429/5xx pass.
-  const temporary = status === 401 || status === 408 || status === 429 || status >= 500;
-  return new TransportError(message, { temporary, status });
+function fromStatus(status: number | undefined, body: unknown): TransportError {
+  const failure = httpFailure(status, body);
+  return new TransportError(failure.message, {
+    temporary: failure.temporary,
+    status,
+    outdated: failure.kind === 'outdated',
+  });
 }
 
 export function toTransportError(error: unknown): TransportError {
   if (error instanceof TransportError) return error;
-  if (axios.isAxiosError(error)) {
-    const status = error.response?.status;
-    const fallback = status ? `The server answered ${status}.` : 'The clinic server cannot be reached.';
-    return fromStatus(status, messageOf(error.response?.data, fallback));
-  }
+  if (axios.isAxiosError(error)) return fromStatus(error.response?.status, error.response?.data);
   return new TransportError(error instanceof Error ? error.message : String(error), { temporary: true });
 }
 
@@ -115,20 +108,22 @@ export function createHttpTransport(options: HttpTransportOptions): SyncTranspor
           onError: (error) => {
             const detailed = error as tus.DetailedError;
             const status = detailed.originalResponse?.getStatus();
-            const body = detailed.originalResponse?.getBody();
-            let message = status ? `The clip upload failed (${status}).` : 'The clip upload was cut off.';
-            try {
-              if (body) message = messageOf(JSON.parse(body), body.length < 300 ? body : message);
-            } catch {
-              if (body && body.length < 300) message = body.trim();
-            }
-            reject(fromStatus(status || undefined, message));
+            reject(fromStatus(status || undefined, parseBody(detailed.originalResponse?.getBody())));
           },
         });
         task.start();
       });
     },
   };
+}
+
+/** tus hands over the body as text; the server's errors are JSON. */
+function parseBody(text: string | undefined): unknown {
+  try {
+    return text ? JSON.parse(text) : undefined;
+  } catch {
+    return undefined;
+  }
 }
 
 function toUploadInput(bytes: Uint8Array): unknown {

@@ -35,7 +35,7 @@ export type OutboxItemPatch = Partial<Omit<OutboxItem, 'id' | 'kind' | 'createdA
 
 /**
  * What the sync engine needs from a device's local store. The app implements it over expo-sqlite
- * (hooks/local-store); tests and simulated devices use MemorySyncStorage. Every method is one atomic step.
+ * (device/local-store); tests and simulated devices use MemorySyncStorage. Every method is one atomic step.
  */
 export interface SyncStorage {
   /** Items in createdAt order (ties by id). */

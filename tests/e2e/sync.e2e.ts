@@ -178,7 +178,7 @@ describe('offline capture drained to the clinic', () => {
   });
 
   // The device took consent offline against the clinic's published text it fetched after sign-in
-  // (hooks/consent/clinic-consent-text.ts), so the server finds the text the row names.
+  // (device/consent/clinic-consent-text.ts), so the server finds the text the row names.
   test('when the network returns, then the consent row is accepted as well', async () => {
     const { page } = operator;
     await visible(page, 'sync-now').click();

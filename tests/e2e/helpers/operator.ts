@@ -1,5 +1,5 @@
 // Steps of the operator's phone flow shared by the end-to-end tests (sign in, add a client with consent, take or
-// import a site, keep it). Test ids are the app's own (components/operator, components/capture).
+// import a site, keep it). Test ids are the app's own (features/clients, features/capture).
 import fs from 'node:fs';
 import type { Page } from 'playwright-core';
 

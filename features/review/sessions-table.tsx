@@ -1,0 +1,153 @@
+import { Link } from 'expo-router';
+import { Pressable, StyleSheet, View } from 'react-native';
+import { AppText } from '@/ui/app-text';
+import { Badge } from '@/ui/badge';
+import { Card } from '@/ui/card';
+import { DataTable, type Column } from '@/ui/data-table';
+import { formatDateTime } from '@/ui/format';
+import { colors, space } from '@/ui/theme';
+import { referToClinician } from '@/shared/cautions';
+import type { ReviewSessionRow, ReviewSort } from '@/shared/protocol/review';
+import { statusLabels } from './session-labels';
+import { SiteChips } from './site-chips';
+
+type Named = { id: string; name: string };
+
+type Props = {
+  rows: readonly ReviewSessionRow[];
+  wide: boolean;
+  sort: { key: ReviewSort; dir: 'asc' | 'desc' };
+  onSort: (key: ReviewSort) => void;
+  /** Narrow the table to one client or one operator. */
+  onClient: (client: Named) => void;
+  onOperator: (operator: Named) => void;
+};
+
+function columns(onClient: Props['onClient'], onOperator: Props['onOperator']): Column<ReviewSessionRow>[] {
+  return [
+    {
+      key: 'client',
+      title: 'Client',
+      flex: 2,
+      sortKey: 'clientName',
+      render: (s) => (
+        <View style={styles.clientCell}>
+          <Link href={`/sessions/${s.id}`} testID={`open-session-${s.id}`}>
+            <AppText variant="smallStrong" color={colors.accent} numberOfLines={1}>
+              {s.clientName}
+            </AppText>
+          </Link>
+          <Pressable
+            onPress={() => onClient({ id: s.clientId, name: s.clientName })}
+            testID={`only-client-${s.id}`}
+            accessibilityLabel={`Only ${s.clientName}`}
+          >
+            <AppText variant="caption" color={colors.textMuted}>
+              only this client
+            </AppText>
+          </Pressable>
+        </View>
+      ),
+    },
+    {
+      key: 'recorded',
+      title: 'Recorded',
+      flex: 1.4,
+      sortKey: 'startedAt',
+      render: (s) => (
+        <AppText variant="number" color={colors.text}>
+          {formatDateTime(s.startedAt)}
+        </AppText>
+      ),
+    },
+    {
+      key: 'operator',
+      title: 'Operator',
+      flex: 1.3,
+      sortKey: 'operatorName',
+      render: (s) => (
+        <Pressable
+          disabled={!s.operatorId}
+          onPress={() => s.operatorId && onOperator({ id: s.operatorId, name: s.operatorName ?? '' })}
+          accessibilityLabel="Only this operator"
+        >
+          <AppText variant="small" color={colors.text} numberOfLines={1}>
+            {s.operatorName ?? '—'}
+          </AppText>
+        </Pressable>
+      ),
+    },
+    {
+      key: 'sites',
+      title: 'Sites (quality)',
+      flex: 1.6,
+      render: (s) => <SiteChips verdicts={s.sites} testID={`review-sites-${s.id}`} />,
+    },
+    {
+      key: 'status',
+      title: 'Status',
+      flex: 1.2,
+      sortKey: 'status',
+      render: (s) => <Badge label={statusLabels[s.status].label} tone={statusLabels[s.status].tone} />,
+    },
+    {
+      key: 'referral',
+      title: 'Referral',
+      flex: 1.5,
+      render: (s) =>
+        s.flagged ? (
+          <Badge label={`⚠ ${referToClinician}`} tone="danger" testID={`flagged-${s.id}`} />
+        ) : (
+          <AppText variant="small" color={colors.textMuted}>
+            none
+          </AppText>
+        ),
+    },
+  ];
+}
+
+/** The synced sessions: a sortable table on wide screens, one card per session (a link to it) on phones. */
+export function SessionsTable({ rows, wide, sort, onSort, onClient, onOperator }: Props) {
+  if (wide) {
+    return (
+      <DataTable
+        rows={rows}
+        columns={columns(onClient, onOperator)}
+        rowKey={(s) => s.id}
+        wide
+        testID="sessions-table"
+        rowTestID={(s) => `session-row-${s.id}`}
+        sort={sort}
+        onSort={(key) => onSort(key as ReviewSort)}
+      />
+    );
+  }
+  return (
+    <View style={styles.cards} testID="sessions-table">
+      {rows.map((s) => (
+        <Link key={s.id} href={`/sessions/${s.id}`} testID={`session-row-${s.id}`}>
+          <Card style={styles.card}>
+            <AppText variant="bodyStrong" color={colors.ink}>
+              {s.clientName}
+            </AppText>
+            <AppText variant="number" color={colors.textMuted}>
+              {formatDateTime(s.startedAt)} · {s.operatorName ?? '—'}
+            </AppText>
+            <SiteChips verdicts={s.sites} testID={`review-sites-${s.id}`} />
+            <View style={styles.badges}>
+              <Badge label={statusLabels[s.status].label} tone={statusLabels[s.status].tone} />
+              {s.flagged ? <Badge label={`Flagged: ${referToClinician}`} tone="danger" /> : null}
+            </View>
+          </Card>
+        </Link>
+      ))}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  clientCell: { gap: 2 },
+  cards: { gap: space.sm },
+  card: { width: '100%', padding: space.md, gap: space.xs },
+  badges: { flexDirection: 'row', gap: space.xs, flexWrap: 'wrap', alignItems: 'center' },
+});
