@@ -1,5 +1,5 @@
 import type { AuditListResponse } from '@/shared/protocol/practice';
-import { pageAuditEvents, type AuditFilter } from '../../repositories/audit-log-repository';
+import { pageAuditEvents, type AuditFilter } from '../../repositories/audit-repository';
 import { iso } from '../../repositories/sql';
 import type { Caller, UseCaseDeps } from '../context';
 
