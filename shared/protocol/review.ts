@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { qualityVerdictSchema, sessionStatusSchema, siteSchema, siteVerdictSchema } from './clinic';
+import { murmurScreenSchema } from './analysis';
 import { calendarDateSchema } from './dates';
 
 const boolParam = z.enum(['true', 'false']).transform((v) => v === 'true');
@@ -61,14 +62,10 @@ export const measurementSchema = z.object({
 export type Measurement = z.infer<typeof measurementSchema>;
 
 /**
- * The analysis's murmur screen of one site (`analysis.screen`); analyses made before the screen existed have
- * none, and read as null.
+ * The analysis's murmur screen of one site (`analysis.screen`, the analysis schema's own); analyses made before
+ * the screen existed have none, and read as null.
  */
-export const murmurScreenSchema = z.object({
-  murmur: z.enum(['possible', 'unlikely', 'unsure']),
-  score: z.number(),
-  reasons: z.array(z.string()),
-});
+export { murmurScreenSchema };
 export type MurmurScreen = z.infer<typeof murmurScreenSchema>;
 
 export const soundMarkSchema = z.object({ type: z.enum(['S1', 'S2']), startS: z.number(), endS: z.number() });

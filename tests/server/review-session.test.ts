@@ -138,7 +138,7 @@ describe('session view', () => {
     ).toContain('review.recording.play');
   });
 
-  test('when the clip was sealed on the device, then the server opens it with the clinic key for the trace, and a wrong key is a 422', async () => {
+  test('when the clip was sealed on the device, then the server opens it with the clinic key for the trace once and keeps the trace, and a wrong key is a 422 for the audio', async () => {
     const keys = generateClinicKeyPair();
     const plain = burstWav([1, 2], salt + 1);
     const sealedClip = await storeClip(blobStore, clinic.id, sealClip(plain, keys.publicKey));
@@ -157,8 +157,14 @@ describe('session view', () => {
     configureReviewServices({
       openClip: async (_clinicId, sealed) => openClip(sealed, generateClinicKeyPair().privateKey),
     });
-    const wrong = await request(ctx.app)
+    // The trace was kept with the clip on first view: drawing it again does not open the clip.
+    const kept = await request(ctx.app)
       .get(`/api/review/sessions/${session}/sites/mitral/trace`)
+      .set(auth(tokens.practitioner));
+    expect(kept.status).toBe(200);
+    expect(kept.body).toEqual(res.body);
+    const wrong = await request(ctx.app)
+      .get(`/api/review/sessions/${session}/sites/mitral/audio`)
       .set(auth(tokens.practitioner));
     expect(wrong.status).toBe(422);
     expect(wrong.body.error.code).toBe('clip_unopenable');
@@ -170,6 +176,26 @@ describe('session view', () => {
       .set(auth(tokens.practitioner));
     expect(res.status).toBe(404);
     expect(res.body.error.message).toBe('This site has no clip.');
+  });
+
+  test('when a stored analysis does not read as one, then the session still opens and the site says so in words', async () => {
+    const session = await addSession({
+      clinicId: clinic.id,
+      clientId: await addClient(clinic.id, 'Una', 'Readable'),
+      startedAt: new Date('2026-10-11T09:00:00Z'),
+      sites: { mitral: { heartRateBpm: 70 } },
+    });
+    await ctx.sequelize.query(
+      `UPDATE site_recordings SET analysis = '{"heartRateBpm": "fast"}'::jsonb WHERE session_id = :session`,
+      { replacements: { session } },
+    );
+    const res = await request(ctx.app).get(`/api/review/sessions/${session}`).set(auth(tokens.practitioner));
+    expect(res.status).toBe(200);
+    const mitral = reviewSessionDetailSchema.parse(res.body).sites[0];
+    expect(mitral.qualityReasons).toEqual([
+      expect.stringMatching(/analysis kept for this site cannot be read/),
+    ]);
+    expect(mitral.measurements.every((m) => m.status === 'no_value')).toBe(true);
   });
 
   test('when earlier visits and a comparison are asked for, then the change is now minus then and S1 onsets align the traces', async () => {

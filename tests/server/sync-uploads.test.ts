@@ -6,6 +6,7 @@ import { randomUUID } from 'node:crypto';
 import axios from 'axios';
 import { QueryTypes } from 'sequelize';
 import { encodeWav16 } from '@/shared/analysis/wav';
+import { clipAnalysisSchema, storedTraceSchema } from '@/shared/protocol/analysis';
 import { generateClinicKeyPair, hexToBytes, sealClip, sha256Hex } from '@/shared/seal';
 import { clipItem, createHttpTransport } from '@/shared/sync';
 import { CuttingProxy } from './sync-helpers/cutting-proxy';
@@ -98,11 +99,15 @@ test('when the server is killed mid-upload and restarted, then the upload resume
   expect(resumedAt).toBe(3 * 64 * 1024);
   expect((await device.storage.listOutbox()).map((i) => i.state)).toEqual(['sent', 'sent', 'sent', 'sent']);
 
-  const [blob] = await server.ctx.sequelize.query<{ storage_key: string; state: string }>(
-    `SELECT storage_key, state FROM clip_blobs WHERE sha256 = $1 AND clinic_id = $2`,
+  const [blob] = await server.ctx.sequelize.query<{ storage_key: string; state: string; trace: unknown }>(
+    `SELECT storage_key, state, trace FROM clip_blobs WHERE sha256 = $1 AND clinic_id = $2`,
     { bind: [hash, clinic.id], type: QueryTypes.SELECT },
   );
   expect(blob.state).toBe('stored');
+  // The display trace is drawn once, when the clip is processed, and kept with it.
+  const trace = storedTraceSchema.parse(blob.trace);
+  expect(trace.min).toHaveLength(Math.round(trace.durationS * trace.bucketsPerSecond));
+  expect(Math.max(...trace.max.map(Math.abs), ...trace.min.map(Math.abs))).toBe(1);
   const kept = await server.services.blobStore.get(blob.storage_key);
   expect(sha256Hex(new Uint8Array(kept!))).toBe(hash);
   const [site] = await server.ctx.sequelize.query<{
@@ -114,6 +119,7 @@ test('when the server is killed mid-upload and restarted, then the upload resume
   });
   expect(site.clip_state).toBe('stored');
   expect(site.analysis.source).toBe('server');
+  expect(clipAnalysisSchema.safeParse(site.analysis).success).toBe(true);
   await proxy.stop();
 });
 

@@ -1,6 +1,6 @@
 import type { Sequelize } from 'sequelize';
 import { KEEP_UNTIL } from './client-records-repository';
-import { selectRows } from './practice-db';
+import { selectRows } from './sql';
 
 export async function attentionCounts(sequelize: Sequelize, clinicId: string) {
   const [row] = await selectRows<{ conflicts: string; reports: string; retention: string }>(

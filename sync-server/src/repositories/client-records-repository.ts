@@ -1,6 +1,6 @@
 import type { Sequelize, Transaction } from 'sequelize';
 import type { ClientTableQuery } from '@/shared/protocol/practice';
-import { escapeLike, execute, selectRows } from './practice-db';
+import { escapeLike, execute, selectRows } from './sql';
 import { DEFAULT_RETENTION_MONTHS } from './settings-repository';
 
 export type ClientTableRow = {

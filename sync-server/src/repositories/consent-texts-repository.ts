@@ -1,5 +1,5 @@
 import type { Sequelize, Transaction } from 'sequelize';
-import { execute, selectRows } from './practice-db';
+import { execute, selectRows } from './sql';
 
 export type ConsentTextRow = {
   id: string;

@@ -1,5 +1,5 @@
 import type { Sequelize } from 'sequelize';
-import { selectRows } from './practice-db';
+import { selectRows } from './sql';
 
 export const exportSessions = (sequelize: Sequelize, clinicId: string, clientId: string) =>
   selectRows<{

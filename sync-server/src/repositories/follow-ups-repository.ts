@@ -1,5 +1,5 @@
 import type { Sequelize, Transaction } from 'sequelize';
-import { execute, selectRows } from './practice-db';
+import { execute, selectRows } from './sql';
 
 /** Each client's latest follow-up date, when no visit has happened since the visit that set it. */
 export const listDue = (sequelize: Sequelize, clinicId: string, withinDays: number) =>

@@ -1,6 +1,6 @@
 import type { Sequelize, Transaction } from 'sequelize';
 import type { PaymentStatus } from '@/shared/protocol/practice';
-import { escapeLike, execute, selectRows } from './practice-db';
+import { escapeLike, execute, selectRows } from './sql';
 
 export type PaymentRow = {
   id: string;

@@ -1,4 +1,5 @@
-import { QueryTypes, type Sequelize } from 'sequelize';
+import type { Sequelize } from 'sequelize';
+import { selectRows } from './sql';
 import type { ReportMail } from '@/shared/protocol/review';
 
 type Row = {
@@ -44,11 +45,12 @@ export type NewReportMail = {
 };
 
 export async function insertReportMail(sequelize: Sequelize, mail: NewReportMail): Promise<ReportMail> {
-  const rows = await sequelize.query<Row>(
+  const rows = await selectRows<Row>(
+    sequelize,
     `INSERT INTO report_mails (id, clinic_id, session_id, compare_session_id, to_address, subject, body_text, attachment_name, attachment, created_by)
      VALUES (:id, :clinicId, :sessionId, :compareSessionId, :to, :subject, :bodyText, :attachmentName, :attachment, :createdBy)
      RETURNING ${COLUMNS}`,
-    { replacements: { ...mail }, type: QueryTypes.SELECT },
+    { ...mail },
   );
   return toMail(rows[0]);
 }
@@ -80,11 +82,12 @@ export async function claimReportMail(
   clinicId: string,
   mailId: string,
 ): Promise<ClaimedReportMail | null> {
-  const rows = await sequelize.query<ClaimedRow>(
+  const rows = await selectRows<ClaimedRow>(
+    sequelize,
     `UPDATE report_mails SET state = 'sending', attempts = attempts + 1, next_attempt_at = NULL, updated_at = now()
       WHERE clinic_id = :clinicId AND id = :mailId AND state IN ('queued', 'failed')
       ${CLAIM_RETURNING}`,
-    { replacements: { clinicId, mailId }, type: QueryTypes.SELECT },
+    { clinicId, mailId },
   );
   return rows[0] ? toClaimed(rows[0]) : null;
 }
@@ -97,7 +100,8 @@ export async function claimDueReportMails(
   sequelize: Sequelize,
   options: { now: Date; staleBefore: Date; limit: number; clinicId?: string | null },
 ): Promise<ClaimedReportMail[]> {
-  const rows = await sequelize.query<ClaimedRow>(
+  const rows = await selectRows<ClaimedRow>(
+    sequelize,
     `UPDATE report_mails SET state = 'sending', attempts = attempts + 1, next_attempt_at = NULL, updated_at = now()
       WHERE id IN (
         SELECT id FROM report_mails
@@ -105,7 +109,7 @@ export async function claimDueReportMails(
            AND (CAST(:clinicId AS uuid) IS NULL OR clinic_id = :clinicId)
          ORDER BY created_at LIMIT :limit FOR UPDATE SKIP LOCKED)
       ${CLAIM_RETURNING}`,
-    { replacements: { ...options, clinicId: options.clinicId ?? null }, type: QueryTypes.SELECT },
+    { ...options, clinicId: options.clinicId ?? null },
   );
   return rows.map(toClaimed);
 }
@@ -117,7 +121,8 @@ export async function finishReportMail(
   outcome:
     { state: 'sent'; messageId: string } | { state: 'failed'; error: string; nextAttemptAt: Date | null },
 ): Promise<ReportMail> {
-  const rows = await sequelize.query<Row>(
+  const rows = await selectRows<Row>(
+    sequelize,
     `UPDATE report_mails
         SET state = :state, updated_at = now(),
             message_id = CASE WHEN :state = 'sent' THEN :messageId ELSE message_id END,
@@ -127,15 +132,12 @@ export async function finishReportMail(
       WHERE clinic_id = :clinicId AND id = :mailId
       RETURNING ${COLUMNS}`,
     {
-      replacements: {
-        clinicId,
-        mailId,
-        state: outcome.state,
-        messageId: outcome.state === 'sent' ? outcome.messageId : null,
-        error: outcome.state === 'failed' ? outcome.error : null,
-        nextAttemptAt: outcome.state === 'failed' ? outcome.nextAttemptAt : null,
-      },
-      type: QueryTypes.SELECT,
+      clinicId,
+      mailId,
+      state: outcome.state,
+      messageId: outcome.state === 'sent' ? outcome.messageId : null,
+      error: outcome.state === 'failed' ? outcome.error : null,
+      nextAttemptAt: outcome.state === 'failed' ? outcome.nextAttemptAt : null,
     },
   );
   return toMail(rows[0]);
@@ -146,12 +148,10 @@ export async function findReportMail(
   clinicId: string,
   mailId: string,
 ): Promise<ReportMail | null> {
-  const rows = await sequelize.query<Row>(
+  const rows = await selectRows<Row>(
+    sequelize,
     `SELECT ${COLUMNS} FROM report_mails WHERE clinic_id = :clinicId AND id = :mailId`,
-    {
-      replacements: { clinicId, mailId },
-      type: QueryTypes.SELECT,
-    },
+    { clinicId, mailId },
   );
   return rows[0] ? toMail(rows[0]) : null;
 }
@@ -161,9 +161,10 @@ export async function listReportMails(
   clinicId: string,
   sessionId: string,
 ): Promise<ReportMail[]> {
-  const rows = await sequelize.query<Row>(
+  const rows = await selectRows<Row>(
+    sequelize,
     `SELECT ${COLUMNS} FROM report_mails WHERE clinic_id = :clinicId AND session_id = :sessionId ORDER BY created_at DESC`,
-    { replacements: { clinicId, sessionId }, type: QueryTypes.SELECT },
+    { clinicId, sessionId },
   );
   return rows.map(toMail);
 }

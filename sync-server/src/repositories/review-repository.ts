@@ -1,6 +1,15 @@
-import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import type { Sequelize, Transaction } from 'sequelize';
+import type { z } from 'zod';
+import {
+  analysisFailureSchema,
+  analysisSummarySchema,
+  storedAnalysisSchema,
+  type AnalysisSummary,
+  type StoredAnalysis,
+} from '@/shared/protocol/analysis';
 import type { QualityVerdict, SessionStatus, Site } from '@/shared/protocol';
 import type { ReviewSessionRow, ReviewSort } from '@/shared/protocol/review';
+import { escapeLike, execute, selectRows } from './sql';
 
 const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
 const QUALITY_RANK: Record<QualityVerdict, number> = { good: 1, usable: 2, retake: 3 };
@@ -44,8 +53,6 @@ const SORT_EXPR: Record<ReviewSort, { expr: string; cast: string }> = {
   operatorName: { expr: `lower(coalesce(u.name, ''))`, cast: 'text' },
   status: { expr: 's.status', cast: 'text' },
 };
-
-const escapeLike = (text: string) => text.replace(/[\\%_]/g, (c) => `\\${c}`);
 
 /** The clinic's limits as a join; one row for every site when they agree, which spares a join on the site name. */
 function limitsJoin(limits: ReferralLimits, replacements: Record<string, unknown>): string {
@@ -177,13 +184,14 @@ export async function listReviewSessions(
   }
   replacements.limit = options.limit + 1;
   // The total rides along as a window count, so the filter runs once for both.
-  const page = await sequelize.query<{ id: string; sort_value: string; total: string }>(
+  const page = await selectRows<{ id: string; sort_value: string; total: string }>(
+    sequelize,
     `SELECT s.id, (${sort.expr})::text AS sort_value, count(*) OVER () AS total
      ${from}
      WHERE ${pageWhere.join(' AND ')}
      ORDER BY ${sort.expr} ${options.dir}, s.id ${options.dir}
      LIMIT :limit`,
-    { replacements, type: QueryTypes.SELECT },
+    replacements,
   );
   const hasMore = page.length > options.limit;
   // Past the last page no row carries the window count, and the keyset condition would skew it: count apart.
@@ -192,19 +200,18 @@ export async function listReviewSessions(
     const countReplacements = { ...replacements };
     delete countReplacements.afterValue;
     delete countReplacements.afterId;
-    const counted = await sequelize.query<{ n: string }>(
+    const counted = await selectRows<{ n: string }>(
+      sequelize,
       `SELECT count(*) AS n ${from} WHERE ${where.join(' AND ')}`,
-      {
-        replacements: countReplacements,
-        type: QueryTypes.SELECT,
-      },
+      countReplacements,
     );
     total = Number(counted[0]?.n ?? 0);
   }
   const ids = page.slice(0, options.limit).map((r) => r.id);
   const detailReplacements: Record<string, unknown> = { clinicId, ids };
   const details = ids.length
-    ? await sequelize.query<ListRow>(
+    ? await selectRows<ListRow>(
+        sequelize,
         `SELECT s.id, s.client_id, c.first_name || ' ' || c.last_name AS client_name, s.operator_id, u.name AS operator_name,
                 s.status, s.started_at, s.follow_up_date, f.worst_rank, f.flagged, f.sites,
                 EXISTS (SELECT 1 FROM session_referral_flags m WHERE m.clinic_id = s.clinic_id AND m.session_id = s.id) AS flagged_by_hand
@@ -220,7 +227,7 @@ export async function listReviewSessions(
                       WHERE sr.session_id = s.id AND sr.deleted_at IS NULL) x
            ) f ON true
           WHERE s.clinic_id = :clinicId AND s.id IN (:ids)`,
-        { replacements: detailReplacements, type: QueryTypes.SELECT },
+        detailReplacements,
       )
     : [];
   const byId = new Map(details.map((d) => [d.id, d]));
@@ -269,7 +276,7 @@ export type SessionRecord = {
   reviewedAt: Date | null;
 };
 
-export type SiteRecord = {
+export type SiteRecord<A = StoredAnalysis> = {
   id: string;
   site: Site;
   qualityVerdict: QualityVerdict | null;
@@ -277,19 +284,32 @@ export type SiteRecord = {
   clipState: string;
   durationS: number | null;
   skippedReason: string | null;
-  analysis: AnalysisLike | null;
+  /** The analysis of record; null when there is none, or when it cannot be read (then `analysisProblem` says so). */
+  analysis: A | null;
+  /** Why there is no analysis to show although one was stored, in words; null otherwise. */
+  analysisProblem: string | null;
 };
 
-export type AnalysisLike = {
-  durationS?: number;
-  sampleRate?: number;
-  heartRateBpm?: number | null;
-  sounds?: { type: 'S1' | 'S2'; startS: number; endS: number }[];
-  metrics?: Record<string, unknown>;
-  quality?: { verdict?: string; reasons?: { code: string; message: string }[] };
-  /** The murmur screen; absent in analyses made before it existed. */
-  screen?: unknown;
-};
+const UNREADABLE_ANALYSIS =
+  'The analysis kept for this site cannot be read, so its measurements are not shown. The recording itself is kept.';
+
+/** Parses a stored analysis: the result, or why there is none in words (a refused clip, or a row that is not one). */
+function readAnalysis<A>(
+  schema: z.ZodType<A>,
+  value: unknown,
+): { analysis: A | null; analysisProblem: string | null } {
+  if (value === null || value === undefined) return { analysis: null, analysisProblem: null };
+  const failure = analysisFailureSchema.safeParse(value);
+  if (failure.success)
+    return {
+      analysis: null,
+      analysisProblem: `The clip could not be analysed: ${failure.data.error.message}`,
+    };
+  const parsed = schema.safeParse(value);
+  return parsed.success
+    ? { analysis: parsed.data, analysisProblem: null }
+    : { analysis: null, analysisProblem: UNREADABLE_ANALYSIS };
+}
 
 export async function findSessionRecord(
   sequelize: Sequelize,
@@ -297,7 +317,8 @@ export async function findSessionRecord(
   sessionId: string,
   transaction?: Transaction,
 ): Promise<SessionRecord | null> {
-  const rows = await sequelize.query<Record<string, unknown>>(
+  const rows = await selectRows<Record<string, unknown>>(
+    sequelize,
     `SELECT s.id, s.clinic_id, k.name AS clinic_name, s.client_id, c.first_name, c.last_name, c.date_of_birth, c.email,
             o.name AS operator_name, s.status, s.started_at, s.finished_at, s.findings, s.plan, s.follow_up_date, s.version,
             r.name AS reviewed_by_name, s.reviewed_at
@@ -307,7 +328,8 @@ export async function findSessionRecord(
        LEFT JOIN users o ON o.id = s.operator_id
        LEFT JOIN users r ON r.id = s.reviewed_by
       WHERE s.clinic_id = :clinicId AND s.id = :sessionId AND s.deleted_at IS NULL`,
-    { replacements: { clinicId, sessionId }, type: QueryTypes.SELECT, transaction },
+    { clinicId, sessionId },
+    transaction,
   );
   const r = rows[0];
   if (!r) return null;
@@ -333,39 +355,74 @@ export async function findSessionRecord(
   };
 }
 
-/** The sites of sessions, with their analysis of record; `full` false leaves out the per-beat detail. */
-export async function findSiteRecords(
+type SiteRow = {
+  id: string;
+  session_id: string;
+  site: Site;
+  quality_verdict: QualityVerdict | null;
+  clip_sha256: string | null;
+  clip_state: string;
+  duration_s: string | number | null;
+  skipped_reason: string | null;
+  analysis: unknown;
+};
+
+async function siteRows<A>(
   sequelize: Sequelize,
   clinicId: string,
   sessionIds: string[],
-  full = true,
-): Promise<Map<string, SiteRecord[]>> {
-  const out = new Map<string, SiteRecord[]>();
+  analysisColumn: string,
+  schema: z.ZodType<A>,
+): Promise<Map<string, SiteRecord<A>[]>> {
+  const out = new Map<string, SiteRecord<A>[]>();
   if (!sessionIds.length) return out;
-  const analysis = full
-    ? 'sr.analysis'
-    : `CASE WHEN sr.analysis IS NULL THEN NULL ELSE jsonb_set(sr.analysis - 'sounds', '{metrics}', (sr.analysis->'metrics') - 'beats') END`;
-  const rows = await sequelize.query<Record<string, unknown>>(
-    `SELECT sr.id, sr.session_id, sr.site, sr.quality_verdict, sr.clip_sha256, sr.clip_state, sr.duration_s, sr.skipped_reason, ${analysis} AS analysis
+  const rows = await selectRows<SiteRow>(
+    sequelize,
+    `SELECT sr.id, sr.session_id, sr.site, sr.quality_verdict, sr.clip_sha256, sr.clip_state, sr.duration_s, sr.skipped_reason,
+            ${analysisColumn} AS analysis
        FROM site_recordings sr
       WHERE sr.clinic_id = :clinicId AND sr.session_id IN (:sessionIds) AND sr.deleted_at IS NULL`,
-    { replacements: { clinicId, sessionIds }, type: QueryTypes.SELECT },
+    { clinicId, sessionIds },
   );
   for (const r of rows) {
-    const list = out.get(r.session_id as string) ?? [];
+    const list = out.get(r.session_id) ?? [];
     list.push({
-      id: r.id as string,
-      site: r.site as Site,
-      qualityVerdict: (r.quality_verdict as QualityVerdict | null) ?? null,
-      clipSha256: (r.clip_sha256 as string | null) ?? null,
-      clipState: r.clip_state as string,
+      id: r.id,
+      site: r.site,
+      qualityVerdict: r.quality_verdict,
+      clipSha256: r.clip_sha256,
+      clipState: r.clip_state,
       durationS: r.duration_s === null ? null : Number(r.duration_s),
-      skippedReason: (r.skipped_reason as string | null) ?? null,
-      analysis: (r.analysis as AnalysisLike | null) ?? null,
+      skippedReason: r.skipped_reason,
+      ...readAnalysis(schema, r.analysis),
     });
-    out.set(r.session_id as string, list);
+    out.set(r.session_id, list);
   }
   return out;
+}
+
+/** The sites of sessions, with their analysis of record in full. */
+export function findSiteRecords(
+  sequelize: Sequelize,
+  clinicId: string,
+  sessionIds: string[],
+): Promise<Map<string, SiteRecord[]>> {
+  return siteRows(sequelize, clinicId, sessionIds, 'sr.analysis', storedAnalysisSchema);
+}
+
+/** The sites of sessions for lists and trends: the analysis without its sound marks and per-beat detail. */
+export function findSiteSummaries(
+  sequelize: Sequelize,
+  clinicId: string,
+  sessionIds: string[],
+): Promise<Map<string, SiteRecord<AnalysisSummary>[]>> {
+  return siteRows(
+    sequelize,
+    clinicId,
+    sessionIds,
+    `CASE WHEN sr.analysis->'metrics' IS NOT NULL THEN jsonb_set(sr.analysis - 'sounds', '{metrics}', (sr.analysis->'metrics') - 'beats') ELSE sr.analysis END`,
+    analysisSummarySchema,
+  );
 }
 
 export async function listClientSessions(
@@ -373,19 +430,21 @@ export async function listClientSessions(
   clinicId: string,
   clientId: string,
 ): Promise<{ id: string; startedAt: Date; status: SessionStatus }[]> {
-  const rows = await sequelize.query<{ id: string; started_at: string; status: SessionStatus }>(
+  const rows = await selectRows<{ id: string; started_at: string; status: SessionStatus }>(
+    sequelize,
     `SELECT id, started_at, status FROM recording_sessions
       WHERE clinic_id = :clinicId AND client_id = :clientId AND deleted_at IS NULL AND status <> 'cancelled'
       ORDER BY started_at ASC, id ASC`,
-    { replacements: { clinicId, clientId }, type: QueryTypes.SELECT },
+    { clinicId, clientId },
   );
   return rows.map((r) => ({ id: r.id, startedAt: new Date(r.started_at), status: r.status }));
 }
 
 export async function findClient(sequelize: Sequelize, clinicId: string, clientId: string) {
-  const rows = await sequelize.query<{ id: string; first_name: string; last_name: string }>(
+  const rows = await selectRows<{ id: string; first_name: string; last_name: string }>(
+    sequelize,
     `SELECT id, first_name, last_name FROM clients WHERE clinic_id = :clinicId AND id = :clientId AND deleted_at IS NULL`,
-    { replacements: { clinicId, clientId }, type: QueryTypes.SELECT },
+    { clinicId, clientId },
   );
   const r = rows[0];
   return r ? { id: r.id, firstName: r.first_name, lastName: r.last_name } : null;
@@ -400,26 +459,19 @@ export async function updateNotesIfVersion(
   values: { findings: string | null; plan: string | null; followUpDate: string | null; reviewedBy: string },
   transaction: Transaction,
 ): Promise<{ version: number } | null> {
-  const [rows] = await sequelize.query(
+  const rows = await selectRows<{ version: number }>(
+    sequelize,
     `UPDATE recording_sessions
         SET findings = :findings, plan = :plan, follow_up_date = :followUpDate, reviewed_by = :reviewedBy, reviewed_at = now(),
             status = CASE WHEN status = 'completed' THEN 'reviewed' ELSE status END,
             version = version + 1, updated_at = now()
       WHERE clinic_id = :clinicId AND id = :sessionId AND version = :baseVersion AND deleted_at IS NULL
       RETURNING version`,
-    { replacements: { clinicId, sessionId, baseVersion, ...values }, transaction },
+    { clinicId, sessionId, baseVersion, ...values },
+    transaction,
   );
-  const row = (rows as { version: number }[])[0];
+  const row = rows[0];
   return row ? { version: Number(row.version) } : null;
-}
-
-export async function findClipBlob(sequelize: Sequelize, clinicId: string, sha256: string) {
-  const rows = await sequelize.query<{ storage_key: string; content_type: string; state: string }>(
-    `SELECT storage_key, content_type, state FROM clip_blobs WHERE clinic_id = :clinicId AND sha256 = :sha256`,
-    { replacements: { clinicId, sha256 }, type: QueryTypes.SELECT },
-  );
-  const r = rows[0];
-  return r ? { storageKey: r.storage_key, contentType: r.content_type, state: r.state } : null;
 }
 
 export type ReferralFlagRecord = { note: string; flaggedByName: string | null; flaggedAt: Date };
@@ -430,11 +482,13 @@ export async function findReferralFlag(
   sessionId: string,
   transaction?: Transaction,
 ): Promise<ReferralFlagRecord | null> {
-  const rows = await sequelize.query<{ note: string; name: string | null; flagged_at: string }>(
+  const rows = await selectRows<{ note: string; name: string | null; flagged_at: string }>(
+    sequelize,
     `SELECT f.note, u.name, f.flagged_at FROM session_referral_flags f
        LEFT JOIN users u ON u.id = f.flagged_by
       WHERE f.clinic_id = :clinicId AND f.session_id = :sessionId`,
-    { replacements: { clinicId, sessionId }, type: QueryTypes.SELECT, transaction },
+    { clinicId, sessionId },
+    transaction,
   );
   const r = rows[0];
   return r ? { note: r.note, flaggedByName: r.name, flaggedAt: new Date(r.flagged_at) } : null;
@@ -446,12 +500,14 @@ export async function upsertReferralFlag(
   values: { clinicId: string; sessionId: string; note: string; flaggedBy: string },
   transaction: Transaction,
 ): Promise<void> {
-  await sequelize.query(
+  await execute(
+    sequelize,
     `INSERT INTO session_referral_flags (clinic_id, session_id, note, flagged_by, flagged_at)
      VALUES (:clinicId, :sessionId, :note, :flaggedBy, now())
      ON CONFLICT (clinic_id, session_id) DO UPDATE
        SET note = EXCLUDED.note, flagged_by = EXCLUDED.flagged_by, flagged_at = EXCLUDED.flagged_at`,
-    { replacements: values, transaction },
+    values,
+    transaction,
   );
 }
 
@@ -461,8 +517,10 @@ export async function deleteReferralFlag(
   sessionId: string,
   transaction: Transaction,
 ): Promise<void> {
-  await sequelize.query(
+  await execute(
+    sequelize,
     `DELETE FROM session_referral_flags WHERE clinic_id = :clinicId AND session_id = :sessionId`,
-    { replacements: { clinicId, sessionId }, transaction },
+    { clinicId, sessionId },
+    transaction,
   );
 }

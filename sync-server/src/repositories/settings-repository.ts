@@ -1,6 +1,6 @@
 import type { Sequelize, Transaction } from 'sequelize';
 import type { Offer } from '@/shared/protocol/practice';
-import { execute, selectRows } from './practice-db';
+import { execute, selectRows } from './sql';
 
 /** Seven years, the column's default in the schema (common practice, no source; follow local rules). */
 export const DEFAULT_RETENTION_MONTHS = 84;

@@ -1,5 +1,6 @@
 import type { Role } from '@/shared/protocol';
-import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import type { Sequelize, Transaction } from 'sequelize';
+import { execute, selectRows } from './sql';
 
 export interface ConflictRecord {
   id: string;
@@ -53,33 +54,31 @@ export class SyncConflictsRepository {
     private readonly transaction?: Transaction,
   ) {}
 
+  private select<T extends object>(sql: string, replacements: Record<string, unknown>) {
+    return selectRows<T>(this.sequelize, sql, replacements, this.transaction);
+  }
+
   async list(clinicId: string, status: 'open' | 'resolved' | 'all', limit = 200): Promise<ConflictRecord[]> {
-    const filter = status === 'all' ? '' : 'AND c.status = $2';
-    const rows = await this.sequelize.query<Record<string, unknown>>(
-      `${SELECT} WHERE c.clinic_id = $1 ${filter} ORDER BY c.created_at DESC LIMIT ${Number(limit)}`,
-      {
-        bind: status === 'all' ? [clinicId] : [clinicId, status],
-        type: QueryTypes.SELECT,
-        transaction: this.transaction,
-      },
+    const rows = await this.select<Record<string, unknown>>(
+      `${SELECT} WHERE c.clinic_id = :clinicId AND (:status = 'all' OR c.status = :status)
+        ORDER BY c.created_at DESC LIMIT :limit`,
+      { clinicId, status, limit },
     );
     return rows.map(toRecord);
   }
 
   async find(clinicId: string, id: string, forUpdate = false): Promise<ConflictRecord | null> {
     // FOR UPDATE cannot sit on the nullable side of an outer join, hence the plain lock first.
-    if (forUpdate) {
-      await this.sequelize.query(`SELECT 1 FROM sync_conflicts WHERE id = $1 AND clinic_id = $2 FOR UPDATE`, {
-        bind: [id, clinicId],
-        transaction: this.transaction,
+    if (forUpdate)
+      await this.select(`SELECT 1 FROM sync_conflicts WHERE id = :id AND clinic_id = :clinicId FOR UPDATE`, {
+        id,
+        clinicId,
       });
-    }
-    const [raw] = await this.sequelize.query<Record<string, unknown>>(
-      `${SELECT} WHERE c.id = $1 AND c.clinic_id = $2`,
+    const [raw] = await this.select<Record<string, unknown>>(
+      `${SELECT} WHERE c.id = :id AND c.clinic_id = :clinicId`,
       {
-        bind: [id, clinicId],
-        type: QueryTypes.SELECT,
-        transaction: this.transaction,
+        id,
+        clinicId,
       },
     );
     return raw ? toRecord(raw) : null;
@@ -87,28 +86,26 @@ export class SyncConflictsRepository {
 
   async userName(userId: string | null): Promise<string | null> {
     if (!userId) return null;
-    const [row] = await this.sequelize.query<{ name: string }>(`SELECT name FROM users WHERE id = $1`, {
-      bind: [userId],
-      type: QueryTypes.SELECT,
-      transaction: this.transaction,
+    const [row] = await this.select<{ name: string }>(`SELECT name FROM users WHERE id = :userId`, {
+      userId,
     });
     return row?.name ?? null;
   }
 
   async userRole(userId: string | null): Promise<Role | null> {
     if (!userId) return null;
-    const [row] = await this.sequelize.query<{ role: Role }>(`SELECT role FROM users WHERE id = $1`, {
-      bind: [userId],
-      type: QueryTypes.SELECT,
-      transaction: this.transaction,
-    });
+    const [row] = await this.select<{ role: Role }>(`SELECT role FROM users WHERE id = :userId`, { userId });
     return row?.role ?? null;
   }
 
   async markResolved(id: string, resolvedBy: string, resolution: Record<string, unknown>): Promise<void> {
-    await this.sequelize.query(
-      `UPDATE sync_conflicts SET status = 'resolved', resolution = $2::jsonb, resolved_by = $3, resolved_at = now(), updated_at = now() WHERE id = $1`,
-      { bind: [id, JSON.stringify(resolution), resolvedBy], transaction: this.transaction },
+    await execute(
+      this.sequelize,
+      `UPDATE sync_conflicts SET status = 'resolved', resolution = CAST(:resolution AS jsonb), resolved_by = :resolvedBy,
+              resolved_at = now(), updated_at = now()
+        WHERE id = :id`,
+      { id, resolution: JSON.stringify(resolution), resolvedBy },
+      this.transaction,
     );
   }
 }

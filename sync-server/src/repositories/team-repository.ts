@@ -1,6 +1,6 @@
 import type { Sequelize, Transaction } from 'sequelize';
 import type { Role } from '@/shared/protocol';
-import { execute, selectRows } from './practice-db';
+import { execute, selectRows } from './sql';
 
 export type InvitationRow = {
   id: string;

@@ -23,6 +23,8 @@ export interface RouteSpec {
   handler: h.HandlerFactory;
   /** Extra guard before the handler: the sign-in limiter (failures) or the password-reset one (every request). */
   limit?: 'sign-in' | 'password-reset';
+  /** Path parameters named `id`/`…Id` that are not our rows' UUIDs (tus names its uploads itself); see row-ids.ts. */
+  opaqueParams?: readonly string[];
 }
 
 const anyRole: readonly Role[] = ['operator', 'practitioner', 'admin'];
@@ -68,9 +70,27 @@ export const accessTable: readonly RouteSpec[] = [
   { method: 'get', path: '/api/sync/blobs/:sha256', access: anyRole, handler: sync.syncBlobStatus },
   { method: 'post', path: '/api/sync/uploads', access: anyRole, handler: sync.syncUploads },
   // Express answers HEAD (tus's offset check) through the GET route.
-  { method: 'get', path: '/api/sync/uploads/:id', access: anyRole, handler: sync.syncUploads },
-  { method: 'patch', path: '/api/sync/uploads/:id', access: anyRole, handler: sync.syncUploads },
-  { method: 'delete', path: '/api/sync/uploads/:id', access: anyRole, handler: sync.syncUploads },
+  {
+    method: 'get',
+    path: '/api/sync/uploads/:id',
+    access: anyRole,
+    handler: sync.syncUploads,
+    opaqueParams: ['id'],
+  },
+  {
+    method: 'patch',
+    path: '/api/sync/uploads/:id',
+    access: anyRole,
+    handler: sync.syncUploads,
+    opaqueParams: ['id'],
+  },
+  {
+    method: 'delete',
+    path: '/api/sync/uploads/:id',
+    access: anyRole,
+    handler: sync.syncUploads,
+    opaqueParams: ['id'],
+  },
   { method: 'get', path: '/api/clinic/public-key', access: anyRole, handler: sync.clinicPublicKey },
   { method: 'get', path: '/api/admin/conflicts', access: ['admin'], handler: sync.conflictList },
   { method: 'get', path: '/api/admin/conflicts/:id', access: ['admin'], handler: sync.conflictDetail },

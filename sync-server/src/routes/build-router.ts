@@ -3,6 +3,7 @@ import { authenticate, requireRole } from '../middleware/authenticate';
 import { passwordResetLimiters, signInLimiters, type SignInLimitOptions } from '../middleware/rate-limits';
 import type { UseCaseDeps } from '../use-cases/context';
 import { accessTable, type RouteSpec } from './access-table';
+import { checkRowIds } from './row-ids';
 
 const noStore: RequestHandler = (_req, res, next) => {
   res.setHeader('Cache-Control', 'no-store');
@@ -24,6 +25,8 @@ export function registerApiRoutes(
     const chain: RequestHandler[] = [noStore];
     if (route.limit) chain.push(...limits[route.limit]);
     if (route.access !== 'public') chain.push(authenticate(deps.jwtSecret), requireRole(route.access));
+    const rowIds = checkRowIds(route.path, route.opaqueParams);
+    if (rowIds) chain.push(rowIds);
     chain.push(route.handler(deps));
     app[route.method](route.path, ...chain);
   }

@@ -2,12 +2,12 @@ import { callerOf } from '../middleware/authenticate';
 import * as records from '../repositories/client-records-repository';
 import { clientNotFound } from '../use-cases/clients/client-records';
 import { exportClient } from '../use-cases/export/export-client';
-import { idParam } from './clients-admin';
 import type { HandlerFactory } from './handlers';
+import { rowId } from './row-ids';
 
 export const exportZip: HandlerFactory = (deps) => async (req, res) => {
   const caller = callerOf(req);
-  const id = idParam.parse(req.params).id;
+  const id = rowId(req);
   // Checked before the headers go out, so an unknown client is a plain JSON 404 and not a broken zip.
   const client = await records.findClientRow(deps.sequelize, caller.clinicId, id);
   if (!client) throw clientNotFound();

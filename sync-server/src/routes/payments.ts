@@ -5,8 +5,7 @@ import { callerOf } from '../middleware/authenticate';
 import * as payments from '../use-cases/payments/payments';
 import type { HandlerFactory } from './handlers';
 import { linkBase } from './request-origin';
-
-const idParam = z.object({ id: z.uuid({ error: 'Not a valid payment id.' }) });
+import { rowId } from './row-ids';
 
 export const listPayments: HandlerFactory = (deps) => async (req, res) => {
   res.json(await payments.listPayments(deps, callerOf(req), paymentListQuerySchema.parse(req.query)));
@@ -26,7 +25,7 @@ export const createPayment: HandlerFactory = (deps) => async (req, res) => {
 };
 
 export const refundPayment: HandlerFactory = (deps) => async (req, res) => {
-  res.json({ payment: await payments.refundPayment(deps, callerOf(req), idParam.parse(req.params).id) });
+  res.json({ payment: await payments.refundPayment(deps, callerOf(req), rowId(req)) });
 };
 
 // Outside /api, so the JSON parser leaves the exact bytes the signature covers.

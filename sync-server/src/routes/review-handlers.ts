@@ -1,4 +1,3 @@
-import { z } from 'zod';
 import { siteSchema } from '@/shared/protocol';
 import {
   reportQuerySchema,
@@ -34,12 +33,8 @@ import {
   siteTrace,
 } from '../use-cases/review/session-view';
 import type { HandlerFactory } from './handlers';
+import { rowId } from './row-ids';
 
-const id = (value: unknown, what: string) => {
-  const parsed = z.uuid().safeParse(value);
-  if (!parsed.success) throw new AppError('not_found', `There is no such ${what}.`, 404);
-  return parsed.data;
-};
 const site = (value: unknown) => {
   const parsed = siteSchema.safeParse(value);
   if (!parsed.success)
@@ -57,51 +52,37 @@ export const reviewSessions: HandlerFactory = (deps) => async (req, res) => {
 };
 
 export const reviewSession: HandlerFactory = (deps) => async (req, res) => {
-  const body: ReviewSessionDetail = await sessionDetail(
-    deps,
-    callerOf(req),
-    id(req.params.sessionId, 'session'),
-  );
+  const body: ReviewSessionDetail = await sessionDetail(deps, callerOf(req), rowId(req, 'sessionId'));
   res.json(body);
 };
 
 export const reviewTrace: HandlerFactory = (deps) => async (req, res) => {
-  const body: Trace = await siteTrace(
-    deps,
-    callerOf(req),
-    id(req.params.sessionId, 'session'),
-    site(req.params.site),
-  );
+  const body: Trace = await siteTrace(deps, callerOf(req), rowId(req, 'sessionId'), site(req.params.site));
   res.json(body);
 };
 
 export const reviewAudio: HandlerFactory = (deps) => async (req, res) => {
-  const bytes = await siteAudio(
-    deps,
-    callerOf(req),
-    id(req.params.sessionId, 'session'),
-    site(req.params.site),
-  );
+  const bytes = await siteAudio(deps, callerOf(req), rowId(req, 'sessionId'), site(req.params.site));
   res.setHeader('Cache-Control', 'private, no-store');
   res.type('audio/wav').send(Buffer.from(bytes));
 };
 
 export const reviewEarlier: HandlerFactory = (deps) => async (req, res) => {
-  res.json({ visits: await earlierVisits(deps, callerOf(req), id(req.params.sessionId, 'session')) });
+  res.json({ visits: await earlierVisits(deps, callerOf(req), rowId(req, 'sessionId')) });
 };
 
 export const reviewCompare: HandlerFactory = (deps) => async (req, res) => {
   const body: Comparison = await compareSessions(
     deps,
     callerOf(req),
-    id(req.params.sessionId, 'session'),
-    id(req.params.otherId, 'session'),
+    rowId(req, 'sessionId'),
+    rowId(req, 'otherId'),
   );
   res.json(body);
 };
 
 export const reviewTrends: HandlerFactory = (deps) => async (req, res) => {
-  const body: Trends = await clientTrends(deps, callerOf(req), id(req.params.clientId, 'client'));
+  const body: Trends = await clientTrends(deps, callerOf(req), rowId(req, 'clientId'));
   res.json(body);
 };
 
@@ -109,7 +90,7 @@ export const reviewSaveNotes: HandlerFactory = (deps) => async (req, res) => {
   const notes = await saveNotes(
     deps,
     callerOf(req),
-    id(req.params.sessionId, 'session'),
+    rowId(req, 'sessionId'),
     saveNotesRequestSchema.parse(req.body),
   );
   res.json({ notes });
@@ -119,7 +100,7 @@ export const reviewSetReferralFlag: HandlerFactory = (deps) => async (req, res) 
   const referral = await setReferralFlag(
     deps,
     callerOf(req),
-    id(req.params.sessionId, 'session'),
+    rowId(req, 'sessionId'),
     setReferralFlagRequestSchema.parse(req.body),
   );
   res.json({ referral });
@@ -128,12 +109,7 @@ export const reviewSetReferralFlag: HandlerFactory = (deps) => async (req, res) 
 export const reviewReportMailPreview: HandlerFactory = (deps) => async (req, res) => {
   const { compareWith } = reportQuerySchema.parse(req.query);
   res.json({
-    preview: await previewReportMail(
-      deps,
-      callerOf(req),
-      id(req.params.sessionId, 'session'),
-      compareWith ?? null,
-    ),
+    preview: await previewReportMail(deps, callerOf(req), rowId(req, 'sessionId'), compareWith ?? null),
   });
 };
 
@@ -142,7 +118,7 @@ export const reviewReportPdf: HandlerFactory = (deps) => async (req, res) => {
   const { pdf, fileName } = await renderReport(
     deps,
     callerOf(req),
-    id(req.params.sessionId, 'session'),
+    rowId(req, 'sessionId'),
     compareWith ?? null,
   );
   res.setHeader('Content-Disposition', `attachment; filename="${fileName}"`);
@@ -154,18 +130,18 @@ export const reviewSendReport: HandlerFactory = (deps) => async (req, res) => {
   const mail = await sendReport(
     deps,
     callerOf(req),
-    id(req.params.sessionId, 'session'),
+    rowId(req, 'sessionId'),
     sendReportRequestSchema.parse(req.body ?? {}),
   );
   res.status(mail.state === 'sent' ? 201 : 202).json({ mail });
 };
 
 export const reviewReportMails: HandlerFactory = (deps) => async (req, res) => {
-  res.json({ mails: await reportMails(deps, callerOf(req), id(req.params.sessionId, 'session')) });
+  res.json({ mails: await reportMails(deps, callerOf(req), rowId(req, 'sessionId')) });
 };
 
 export const reviewRetryMail: HandlerFactory = (deps) => async (req, res) => {
-  res.json({ mail: await retryReportMail(deps, callerOf(req), id(req.params.mailId, 'report e-mail')) });
+  res.json({ mail: await retryReportMail(deps, callerOf(req), rowId(req, 'mailId')) });
 };
 
 export const mailboxList: HandlerFactory = () => async (req, res) => {

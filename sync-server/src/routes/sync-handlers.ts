@@ -1,5 +1,4 @@
 import type { Request } from 'express';
-import { z } from 'zod';
 import {
   OUTDATED_CLIENT_MESSAGE,
   SYNC_PROTOCOL_HEADER,
@@ -23,6 +22,7 @@ import { getConflict, listConflicts, resolveConflict } from '../use-cases/sync/c
 import { pullChanges } from '../use-cases/sync/pull';
 import { pushChanges } from '../use-cases/sync/push';
 import type { HandlerFactory } from './handlers';
+import { rowId } from './row-ids';
 
 /** Devices say which protocol they speak (header, or protocolVersion in the body); others get 426. */
 function requireProtocol(req: Request): void {
@@ -83,8 +83,6 @@ export const clinicPublicKey: HandlerFactory = (deps) => async (req, res) => {
   res.json(body);
 };
 
-const idParam = z.object({ id: z.uuid({ error: 'A conflict id is a UUID.' }) });
-
 export const conflictList: HandlerFactory = (deps) => async (req, res) => {
   const { status } = conflictListQuerySchema.parse(req.query);
   const body: ConflictListResponse = {
@@ -94,12 +92,12 @@ export const conflictList: HandlerFactory = (deps) => async (req, res) => {
 };
 
 export const conflictDetail: HandlerFactory = (deps) => async (req, res) => {
-  const { id } = idParam.parse(req.params);
+  const id = rowId(req);
   res.json({ conflict: await getConflict(deps.sequelize, callerOf(req), id) });
 };
 
 export const conflictResolve: HandlerFactory = (deps) => async (req, res) => {
-  const { id } = idParam.parse(req.params);
+  const id = rowId(req);
   res.json(
     await resolveConflict(deps.sequelize, callerOf(req), id, resolveConflictRequestSchema.parse(req.body)),
   );

@@ -8,8 +8,8 @@ import { callerOf } from '../middleware/authenticate';
 import * as team from '../use-cases/team/team';
 import type { HandlerFactory } from './handlers';
 import { ipOf, linkBase } from './request-origin';
+import { rowId } from './row-ids';
 
-const idParam = z.object({ id: z.uuid({ error: 'Not a valid id.' }) });
 const tokenParam = z.object({ token: z.string().min(10).max(600) });
 
 export const listTeam: HandlerFactory = (deps) => async (req, res) => {
@@ -23,7 +23,7 @@ export const invite: HandlerFactory = (deps) => async (req, res) => {
 };
 
 export const revokeInvitation: HandlerFactory = (deps) => async (req, res) => {
-  await team.withdrawInvitation(deps, callerOf(req), idParam.parse(req.params).id);
+  await team.withdrawInvitation(deps, callerOf(req), rowId(req));
   res.status(204).end();
 };
 
@@ -32,7 +32,7 @@ export const updateUser: HandlerFactory = (deps) => async (req, res) => {
     user: await team.changeTeamUser(
       deps,
       callerOf(req),
-      idParam.parse(req.params).id,
+      rowId(req),
       updateTeamUserRequestSchema.parse(req.body),
     ),
   });

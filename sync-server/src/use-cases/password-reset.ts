@@ -4,7 +4,7 @@ import { z } from 'zod';
 import type { PasswordResetPreview } from '@/shared/protocol';
 import { AppError } from '../errors';
 import { recordAuditEvent } from '../repositories/audit-repository';
-import { execute, selectRows } from '../repositories/practice-db';
+import { execute, selectRows } from '../repositories/sql';
 import { findUserByEmailForSignIn, normaliseEmail } from '../repositories/users-repository';
 import { assertAcceptablePassword } from '../services/password-policy';
 import { hashPassword } from '../services/passwords';

@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { QualityVerdict, SessionStatus, Site } from '@/shared/protocol';
 import { encodeWav16 } from '@/shared/analysis/wav';
+import type { StoredAnalysis } from '@/shared/protocol/analysis';
 import { Client, ClipBlob, RecordingSession, SiteRecording } from '@/sync-server/src/models';
 import type { BlobStore } from '@/sync-server/src/services/blob-store';
 
@@ -28,13 +29,13 @@ export type SiteSpec = {
   screen?: { murmur: 'possible' | 'unlikely' | 'unsure'; score: number; reasons: string[] };
 };
 
-/** An analysis of record in the shape shared/analysis writes (AnalysisResult), with only what a test needs. */
-export function analysisOf(spec: SiteSpec) {
+/** An analysis of record in the shape the server stores (the analysis schema), with only what a test needs. */
+export function analysisOf(spec: SiteSpec): StoredAnalysis {
   return {
     sampleRate: 4000,
     durationS: 4,
     heartRateBpm: spec.heartRateBpm ?? null,
-    sounds: spec.sounds ?? [],
+    sounds: (spec.sounds ?? []).map((s) => ({ ...s, peakAmplitude: 1 })),
     metrics: {
       heartRateBpm: spec.heartRateBpm ?? null,
       sdnnMs: 30,

@@ -1,6 +1,6 @@
 import type { AuditListResponse } from '@/shared/protocol/practice';
-import { pageAuditEvents, type AuditFilter } from '../../repositories/audit-log-repository';
-import { iso } from '../../repositories/practice-db';
+import { pageAuditEvents, type AuditFilter } from '../../repositories/audit-repository';
+import { iso } from '../../repositories/sql';
 import type { Caller, UseCaseDeps } from '../context';
 
 /** Read-only by design: the API has no route that changes or removes an audit row, and the table refuses it too. */

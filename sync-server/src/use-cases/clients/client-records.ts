@@ -10,7 +10,7 @@ import type {
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as repo from '../../repositories/client-records-repository';
-import { iso } from '../../repositories/practice-db';
+import { iso } from '../../repositories/sql';
 import type { Caller, UseCaseDeps } from '../context';
 import { requireFieldWrites } from '../field-access';
 

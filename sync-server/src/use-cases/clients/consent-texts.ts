@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type { ConsentText, PublishConsentTextRequest } from '@/shared/protocol/practice';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as repo from '../../repositories/consent-texts-repository';
-import { iso } from '../../repositories/practice-db';
+import { iso } from '../../repositories/sql';
 import type { Caller, UseCaseDeps } from '../context';
 
 export async function listConsentTexts(deps: UseCaseDeps, caller: Caller): Promise<ConsentText[]> {

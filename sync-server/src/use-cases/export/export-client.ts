@@ -5,7 +5,7 @@ import { isSealed, openClip } from '@/shared/seal';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as records from '../../repositories/client-records-repository';
 import * as repo from '../../repositories/export-repository';
-import { iso } from '../../repositories/practice-db';
+import { iso } from '../../repositories/sql';
 import { syncServicesFor } from '../../services/sync-services';
 import { renderReportPdf } from '../../services/report-pdf';
 import { clientNotFound } from '../clients/client-records';

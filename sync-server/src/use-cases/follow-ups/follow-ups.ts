@@ -2,7 +2,7 @@ import type { FollowUpDue, ReminderRunResponse } from '@/shared/protocol/practic
 import { runFollowUpReminders } from '../../jobs/follow-up-reminders';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as repo from '../../repositories/follow-ups-repository';
-import { iso } from '../../repositories/practice-db';
+import { iso } from '../../repositories/sql';
 import { practiceServices } from '../../services/practice-services';
 import type { Caller, UseCaseDeps } from '../context';
 

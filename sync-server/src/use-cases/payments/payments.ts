@@ -9,7 +9,7 @@ import type {
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import { findClientRow } from '../../repositories/client-records-repository';
-import { iso } from '../../repositories/practice-db';
+import { iso } from '../../repositories/sql';
 import * as repo from '../../repositories/payments-repository';
 import { practiceServices } from '../../services/practice-services';
 import type { Caller, UseCaseDeps } from '../context';

@@ -1,4 +1,4 @@
-import { evaluateSite, murmurScreenOf, readingOf, siteReferralReasons } from './measurements';
+import { evaluateSite, readingOf, siteReferralReasons } from './measurements';
 
 describe('readingOf', () => {
   // The 1996 ESC/NASPE Task Force standard takes short-term variability over 5-minute records (from memory);
@@ -55,8 +55,6 @@ describe('siteReferralReasons', () => {
     for (const murmur of ['unsure', 'unlikely'] as const)
       expect(siteReferralReasons(metrics, inRange, { murmur, score: 0.3, reasons: [] })).toEqual([]);
     expect(siteReferralReasons(metrics, inRange, null)).toEqual([]);
-    expect(murmurScreenOf({})).toBeNull();
-    expect(murmurScreenOf({ screen: { murmur: 'maybe' } })).toBeNull();
   });
 
   test('when the rate is above the range, then the reason names it with its value', () => {

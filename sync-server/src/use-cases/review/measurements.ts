@@ -1,13 +1,16 @@
 import { referToClinician } from '@/shared/cautions';
 import type { Site } from '@/shared/protocol';
-import {
-  murmurScreenSchema,
-  type Measurement,
-  type MeasurementStatus,
-  type MurmurScreen,
-} from '@/shared/protocol/review';
+import type { AnalysisSummary } from '@/shared/protocol/analysis';
+import type { Measurement, MeasurementStatus, MurmurScreen } from '@/shared/protocol/review';
 
-export type MeasurementDef = { key: string; label: string; unit: string };
+/** The metrics of a stored analysis; partial, since a measure may be missing from what is shown. */
+export type SiteMetrics = Partial<AnalysisSummary['metrics']>;
+/** The metrics that are a single number (or none). */
+export type MetricKey = {
+  [K in keyof SiteMetrics]-?: NonNullable<SiteMetrics[K]> extends number ? K : never;
+}[keyof SiteMetrics];
+
+export type MeasurementDef = { key: MetricKey; label: string; unit: string };
 export type Range = { low: number | null; high: number | null; source: string };
 export type RangeLookup = (key: string, site: Site) => Range | null;
 
@@ -85,15 +88,13 @@ export function readingOf(status: MeasurementStatus, key = ''): string {
   }
 }
 
-export type MetricsLike = Record<string, unknown> & { irregularRhythm?: unknown };
-
-export function metricValue(metrics: MetricsLike | null | undefined, key: string): number | null {
+export function metricValue(metrics: SiteMetrics | null | undefined, key: MetricKey): number | null {
   const v = metrics?.[key];
   return typeof v === 'number' && Number.isFinite(v) ? v : null;
 }
 
 export function evaluateSite(
-  metrics: MetricsLike | null | undefined,
+  metrics: SiteMetrics | null | undefined,
   site: Site,
   ranges: RangeLookup,
 ): Measurement[] {
@@ -103,12 +104,6 @@ export function evaluateSite(
     const status = statusOf(value, range);
     return { ...def, value, range, status, reading: readingOf(status, def.key) };
   });
-}
-
-/** The analysis's murmur screen when it has one and it reads as one; an older analysis has none. */
-export function murmurScreenOf(analysis: { screen?: unknown } | null | undefined): MurmurScreen | null {
-  const parsed = murmurScreenSchema.safeParse(analysis?.screen);
-  return parsed.success ? parsed.data : null;
 }
 
 const formatted = (value: number | null, unit: string) =>
@@ -121,7 +116,7 @@ const formatted = (value: number | null, unit: string) =>
  * clinic's ranges mark "refer" outside its range. Empty when the site does not flag.
  */
 export function siteReferralReasons(
-  metrics: MetricsLike | null | undefined,
+  metrics: SiteMetrics | null | undefined,
   measurements: Measurement[],
   screen: MurmurScreen | null,
 ): string[] {

@@ -18,10 +18,11 @@ import { findSessionRecord } from '../../repositories/review-repository';
 import { findSettings } from '../../repositories/settings-repository';
 import { MailSendError, type MailService } from '../../services/mail';
 import { renderReportPdf, type ReportInput, type ReportSite } from '../../services/report-pdf';
+import { traceLine } from '../clip-trace';
 import type { Caller, UseCaseDeps } from '../context';
 import { clinicTimeZone } from '../settings/settings';
 import { referralKeys } from './measurements';
-import { clipBytes, compareSessions, loadSession, reviewSitesOf, traceFromWav } from './session-view';
+import { clipTrace, compareSessions, loadSession, reviewSitesOf } from './session-view';
 import { reviewServices } from './services';
 
 const SITE_LABEL: Record<Site, string> = {
@@ -70,9 +71,7 @@ export async function buildReportInput(
     let trace: ReportSite['trace'] = null;
     if (view.hasAudio) {
       try {
-        // One value per point: the larger excursion of each bucket, keeping its sign.
-        const t = traceFromWav(await clipBytes(deps, caller, record), REPORT_POINTS_PER_SECOND);
-        trace = { durationS: t.durationS, values: t.max.map((hi, i) => (hi >= -t.min[i] ? hi : t.min[i])) };
+        trace = traceLine(await clipTrace(deps, caller, record), REPORT_POINTS_PER_SECOND);
       } catch {
         trace = null;
       }

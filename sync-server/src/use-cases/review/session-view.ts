@@ -8,28 +8,29 @@ import type {
   Trace,
   Trends,
 } from '@/shared/protocol/review';
+import type { StoredTrace } from '@/shared/protocol/analysis';
 import { decodeWav } from '@/shared/analysis/wav';
-import { bandPass, toWorkingRate } from '@/shared/analysis/preprocess';
 import { isSealed } from '@/shared/seal';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
+import { findClipBlob, saveClipTrace } from '../../repositories/clip-blobs-repository';
 import {
   findClient,
-  findClipBlob,
   findReferralFlag,
   findSessionRecord,
   findSiteRecords,
+  findSiteSummaries,
   listClientSessions,
   type ReferralFlagRecord,
   type SessionRecord,
   type SiteRecord,
 } from '../../repositories/review-repository';
+import { traceOfClip } from '../clip-trace';
 import type { Caller, UseCaseDeps } from '../context';
 import {
   evaluateSite,
   measurementDefs,
   metricValue,
-  murmurScreenOf,
   siteReferralReasons,
   statusOf,
   type RangeLookup,
@@ -38,7 +39,6 @@ import { rangesForClinic } from './ranges';
 import { reviewServices } from './services';
 
 export const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
-const TRACE_BUCKETS_PER_SECOND = 250;
 
 export const sessionNotFound = () =>
   new AppError('not_found', 'There is no such session in this clinic.', 404);
@@ -55,30 +55,35 @@ export async function loadSession(
 
 export function reviewSite(site: Site, record: SiteRecord | undefined, ranges: RangeLookup): ReviewSite {
   const analysis = record?.analysis ?? null;
-  const metrics = (analysis?.metrics ?? null) as Record<string, unknown> | null;
+  const metrics = analysis?.metrics ?? null;
   const measurements = evaluateSite(metrics, site, ranges);
-  const murmurScreen = murmurScreenOf(analysis);
+  const murmurScreen = analysis?.screen ?? null;
   const referralReasons = analysis ? siteReferralReasons(metrics, measurements, murmurScreen) : [];
   return {
     site,
     recordingId: record?.id ?? null,
     qualityVerdict: record?.qualityVerdict ?? null,
-    qualityReasons: (analysis?.quality?.reasons ?? []).map((r) => r.message),
+    qualityReasons: analysis
+      ? analysis.quality.reasons.map((r) => r.message)
+      : record?.analysisProblem
+        ? [record.analysisProblem]
+        : [],
     clipState: record?.clipState ?? 'none',
     hasAudio: Boolean(record?.clipSha256) && record?.clipState === 'stored',
     durationS: analysis?.durationS ?? record?.durationS ?? null,
     skippedReason: record?.skippedReason ?? null,
-    heartRateBpm:
-      metricValue(metrics, 'heartRateBpm') ??
-      (typeof analysis?.heartRateBpm === 'number' ? analysis.heartRateBpm : null),
+    heartRateBpm: metricValue(metrics, 'heartRateBpm') ?? analysis?.heartRateBpm ?? null,
     irregularRhythm: metrics?.irregularRhythm === true,
-    sounds: (analysis?.sounds ?? []).map((s) => ({ type: s.type, startS: s.startS, endS: s.endS })),
+    sounds: soundMarks(record),
     measurements,
     murmurScreen,
     referral: referralReasons.length > 0,
     referralReasons,
   };
 }
+
+const soundMarks = (record: SiteRecord | undefined) =>
+  (record?.analysis?.sounds ?? []).map((s) => ({ type: s.type, startS: s.startS, endS: s.endS }));
 
 const SITE_NAMES: Record<Site, string> = {
   mitral: 'Mitral',
@@ -175,10 +180,14 @@ export async function clipBytes(
 ): Promise<Uint8Array> {
   if (!record?.clipSha256) throw new AppError('no_clip', 'This site has no clip.', 404);
   const blob = await findClipBlob(deps.sequelize, caller.clinicId, record.clipSha256);
-  if (!blob || blob.state !== 'stored')
+  if (!blob?.storageKey || blob.state !== 'stored')
     throw new AppError('clip_not_stored', 'The clip for this site has not reached the server yet.', 409);
+  return openStoredClip(caller, blob.storageKey);
+}
+
+async function openStoredClip(caller: Caller, storageKey: string): Promise<Uint8Array> {
   const services = reviewServices();
-  const bytes = await services.blobStore.get(blob.storageKey);
+  const bytes = await services.blobStore.get(storageKey);
   if (!bytes)
     throw new AppError('clip_missing', 'The clip is recorded but its file is missing on the server.', 410);
   if (!isSealed(bytes)) return bytes;
@@ -193,6 +202,36 @@ export async function clipBytes(
       422,
     );
   }
+}
+
+/**
+ * The clip's display trace, kept when the clip was processed. A clip processed before traces were kept is opened
+ * and drawn once here, and its trace kept for every later view.
+ */
+export async function clipTrace(
+  deps: UseCaseDeps,
+  caller: Caller,
+  record: SiteRecord | undefined,
+): Promise<StoredTrace> {
+  if (!record?.clipSha256) throw new AppError('no_clip', 'This site has no clip.', 404);
+  const blob = await findClipBlob(deps.sequelize, caller.clinicId, record.clipSha256);
+  if (!blob?.storageKey || blob.state !== 'stored')
+    throw new AppError('clip_not_stored', 'The clip for this site has not reached the server yet.', 409);
+  if (blob.trace) return blob.trace;
+  const bytes = await openStoredClip(caller, blob.storageKey);
+  let trace: StoredTrace;
+  try {
+    const wav = decodeWav(bytes);
+    trace = traceOfClip(wav.samples, wav.sampleRate);
+  } catch (error) {
+    throw new AppError(
+      'clip_unreadable',
+      `The clip could not be read: ${error instanceof Error ? error.message : String(error)}`,
+      422,
+    );
+  }
+  await saveClipTrace(deps.sequelize, caller.clinicId, record.clipSha256, trace);
+  return trace;
 }
 
 async function siteRecord(
@@ -226,36 +265,6 @@ export async function siteAudio(
   return bytes;
 }
 
-/** Min and max of the band-passed clip per display bucket, scaled to -1..1. */
-export function traceFromWav(
-  bytes: Uint8Array,
-  bucketsPerSecond = TRACE_BUCKETS_PER_SECOND,
-): { durationS: number; min: number[]; max: number[] } {
-  const wav = decodeWav(bytes);
-  const working = toWorkingRate(wav.samples, wav.sampleRate);
-  const signal = bandPass(working.signal, working.sampleRate);
-  const durationS = wav.samples.length / wav.sampleRate;
-  const buckets = Math.max(1, Math.round(durationS * bucketsPerSecond));
-  const per = signal.length / buckets;
-  const min = new Array<number>(buckets).fill(0);
-  const max = new Array<number>(buckets).fill(0);
-  let peak = 1e-9;
-  for (let b = 0; b < buckets; b++) {
-    let lo = Infinity;
-    let hi = -Infinity;
-    const end = Math.min(signal.length, Math.floor((b + 1) * per));
-    for (let i = Math.floor(b * per); i < end; i++) {
-      if (signal[i] < lo) lo = signal[i];
-      if (signal[i] > hi) hi = signal[i];
-    }
-    min[b] = Number.isFinite(lo) ? lo : 0;
-    max[b] = Number.isFinite(hi) ? hi : 0;
-    peak = Math.max(peak, Math.abs(min[b]), Math.abs(max[b]));
-  }
-  const round = (v: number) => Math.round((v / peak) * 1000) / 1000;
-  return { durationS, min: min.map(round), max: max.map(round) };
-}
-
 export async function siteTrace(
   deps: UseCaseDeps,
   caller: Caller,
@@ -263,17 +272,7 @@ export async function siteTrace(
   site: Site,
 ): Promise<Trace> {
   const record = await siteRecord(deps, caller, sessionId, site);
-  const bytes = await clipBytes(deps, caller, record);
-  let trace: ReturnType<typeof traceFromWav>;
-  try {
-    trace = traceFromWav(bytes);
-  } catch (error) {
-    throw new AppError(
-      'clip_unreadable',
-      `The clip could not be read: ${error instanceof Error ? error.message : String(error)}`,
-      422,
-    );
-  }
+  const trace = await clipTrace(deps, caller, record);
   await recordAuditEvent({
     clinicId: caller.clinicId,
     userId: caller.userId,
@@ -283,14 +282,7 @@ export async function siteTrace(
     ip: caller.ip,
     details: { sessionId, site },
   });
-  return {
-    site,
-    durationS: trace.durationS,
-    bucketsPerSecond: TRACE_BUCKETS_PER_SECOND,
-    min: trace.min,
-    max: trace.max,
-    sounds: (record?.analysis?.sounds ?? []).map((s) => ({ type: s.type, startS: s.startS, endS: s.endS })),
-  };
+  return { site, ...trace, sounds: soundMarks(record) };
 }
 
 export async function earlierVisits(
@@ -302,11 +294,10 @@ export async function earlierVisits(
   const visits = (await listClientSessions(deps.sequelize, caller.clinicId, session.clientId)).filter(
     (v) => v.id !== sessionId && v.startedAt < session.startedAt,
   );
-  const records = await findSiteRecords(
+  const records = await findSiteSummaries(
     deps.sequelize,
     caller.clinicId,
     visits.map((v) => v.id),
-    false,
   );
   const rank = { good: 1, usable: 2, retake: 3 } as const;
   return visits.reverse().map((v) => {
@@ -368,11 +359,10 @@ export async function clientTrends(deps: UseCaseDeps, caller: Caller, clientId: 
   const client = await findClient(deps.sequelize, caller.clinicId, clientId);
   if (!client) throw new AppError('not_found', 'There is no such client in this clinic.', 404);
   const visits = await listClientSessions(deps.sequelize, caller.clinicId, clientId);
-  const records = await findSiteRecords(
+  const records = await findSiteSummaries(
     deps.sequelize,
     caller.clinicId,
     visits.map((v) => v.id),
-    false,
   );
   const ranges = await rangesForClinic(deps.sequelize, caller.clinicId);
   const series = SITES.flatMap((site) =>

@@ -1,38 +1,35 @@
+import { analysePcm } from '@/shared/analysis/analyse';
 import { AnalysisError } from '@/shared/analysis/errors';
 import { decodeWav } from '@/shared/analysis/wav';
+import type { ClipAnalysis, StoredTrace } from '@/shared/protocol/analysis';
+import { traceOfClip } from '../clip-trace';
 
-type AnalyseWav = (bytes: Uint8Array) => unknown;
-
-let analyser: AnalyseWav | null | undefined;
-
-// The full pipeline's entry point lands in shared/analysis/index.ts; until it does, the server records what the
-// decoder alone can tell (format and length), so a clip is never lost for want of an analysis.
-function loadAnalyser(): AnalyseWav | null {
-  if (analyser !== undefined) return analyser;
-  try {
-    const mod = require('../../../../shared/analysis') as { analyseWav?: AnalyseWav };
-    analyser = typeof mod.analyseWav === 'function' ? mod.analyseWav : null;
-  } catch {
-    analyser = null;
-  }
-  return analyser;
+export interface ClipReading {
+  /** The analysis of record, or the reason the analysis refused the clip. */
+  analysis: ClipAnalysis;
+  /** The display trace kept beside the clip; null when the clip is not a WAV the decoder reads. */
+  trace: StoredTrace | null;
 }
 
-export function analyseClip(wav: Uint8Array): unknown {
+const refused = (error: AnalysisError): ClipAnalysis => ({
+  source: 'server',
+  error: { code: error.code, message: error.message },
+});
+
+/** The server's analysis of an opened clip and its display trace, from one decoding of the WAV. */
+export function analyseClip(wav: Uint8Array): ClipReading {
+  let decoded: ReturnType<typeof decodeWav>;
   try {
-    const analyse = loadAnalyser();
-    if (analyse) return { source: 'server', ...(analyse(wav) as object) };
-    const decoded = decodeWav(wav);
-    return {
-      source: 'server',
-      decodedOnly: true,
-      sampleRate: decoded.sampleRate,
-      channels: decoded.channels,
-      durationS: decoded.samples.length / decoded.sampleRate,
-    };
+    decoded = decodeWav(wav);
   } catch (error) {
-    if (error instanceof AnalysisError)
-      return { source: 'server', error: { code: error.code, message: error.message } };
+    if (error instanceof AnalysisError) return { analysis: refused(error), trace: null };
+    throw error;
+  }
+  const trace = traceOfClip(decoded.samples, decoded.sampleRate);
+  try {
+    return { analysis: { source: 'server', ...analysePcm(decoded.samples, decoded.sampleRate) }, trace };
+  } catch (error) {
+    if (error instanceof AnalysisError) return { analysis: refused(error), trace };
     throw error;
   }
 }

@@ -1,6 +1,7 @@
 import type { Sequelize } from 'sequelize';
 import type { BlobStatusResponse } from '@/shared/protocol/sync';
 import { AppError } from '../../errors';
+import { saveClipTrace } from '../../repositories/clip-blobs-repository';
 import { SyncRepository } from '../../repositories/sync-repository';
 import type { BlobStore } from '../../services/blob-store';
 import type { ClinicKeyStore } from '../../services/clinic-keys';
@@ -27,9 +28,10 @@ export async function blobStatus(
 
 /**
  * An upload's bytes are all in `stagedFile`: check its hash, open it with the clinic's key and re-run the analysis
- * (in the clip worker, off the request thread), then keep the sealed bytes and attach the result of record to
- * every site recording that names this clip. A refused clip (wrong hash, not sealed, sealed for another clinic,
- * unreadable) keeps no bytes: it throws an AppError before anything reaches the blob store.
+ * (in the clip worker, off the request thread), then keep the sealed bytes, attach the result of record to every
+ * site recording that names this clip and keep its display trace with the clip. A refused clip (wrong hash, not
+ * sealed, sealed for another clinic, unreadable) keeps no bytes: it throws an AppError before anything reaches the
+ * blob store.
  */
 export async function receiveClip(
   deps: ClipDeps,
@@ -69,6 +71,8 @@ export async function receiveClip(
       failure,
     });
     await repo.attachClipToRecordings(clinicId, opened.sha256, state, analysis);
+    if (stored && opened.state === 'opened' && opened.trace)
+      await saveClipTrace(deps.sequelize, clinicId, opened.sha256, opened.trace, transaction);
   });
   if (failure)
     throw new AppError(

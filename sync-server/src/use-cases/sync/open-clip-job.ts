@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import { openClip, SealError } from '@/shared/seal';
+import type { ClipAnalysis, StoredTrace } from '@/shared/protocol/analysis';
 import { analyseClip } from './analyse-clip';
 
 export interface OpenClipJob {
@@ -13,7 +14,7 @@ export interface OpenClipJob {
 export type OpenClipResult =
   | { state: 'hash_mismatch'; sha256: string; sizeBytes: number }
   | { state: 'unreadable'; sha256: string; sizeBytes: number; failure: string }
-  | { state: 'opened'; sha256: string; sizeBytes: number; analysis: unknown };
+  | { state: 'opened'; sha256: string; sizeBytes: number; analysis: ClipAnalysis; trace: StoredTrace | null };
 
 /** Reads the file piece by piece into one buffer, hashing as it goes. */
 async function readHashed(file: string): Promise<{ bytes: Uint8Array; sha256: string }> {
@@ -34,7 +35,8 @@ async function readHashed(file: string): Promise<{ bytes: Uint8Array; sha256: st
 }
 
 /**
- * Checks a staged upload against its hash, opens the seal and runs the server's analysis (the one of record).
+ * Checks a staged upload against its hash, opens the seal and runs the server's analysis (the one of record) and
+ * draws its display trace.
  * Runs in the clip worker thread: opening and analysing a long clip takes seconds of CPU.
  */
 export async function openStagedClip(job: OpenClipJob): Promise<OpenClipResult> {
@@ -48,5 +50,5 @@ export async function openStagedClip(job: OpenClipJob): Promise<OpenClipResult> 
     if (!(error instanceof SealError)) throw error;
     return { state: 'unreadable', sha256, sizeBytes, failure: error.message };
   }
-  return { state: 'opened', sha256, sizeBytes, analysis: analyseClip(plain) };
+  return { state: 'opened', sha256, sizeBytes, ...analyseClip(plain) };
 }

@@ -12,7 +12,7 @@ import type {
 } from '@/shared/protocol/practice';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
-import { iso } from '../../repositories/practice-db';
+import { iso } from '../../repositories/sql';
 import * as repo from '../../repositories/team-repository';
 import { createUser, normaliseEmail } from '../../repositories/users-repository';
 import { assertAcceptablePassword } from '../../services/password-policy';
