@@ -119,9 +119,9 @@ function refusalOf(m: Mutation, code: string, constraint?: string, detail?: stri
 }
 
 type Change = ReturnType<typeof checkChange>;
-type Checked = { m: Mutation; change: Change } | { m: Mutation; rejection: MutationResult };
+export type Checked = { m: Mutation; change: Change } | { m: Mutation; rejection: MutationResult };
 
-function checkMutation(m: Mutation, role: Role): Checked {
+export function checkMutation(m: Mutation, role: Role): Checked {
   try {
     return { m, change: checkChange(m, role) };
   } catch (error) {
