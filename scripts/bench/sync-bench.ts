@@ -1,136 +1,193 @@
-// Sync push benchmark: a four-site session (client, session, four site recordings: six mutations in one push)
-// from 1, 8 and 32 concurrent simulated devices over loopback HTTP, beside the raw insert rate of the same
-// PostgreSQL in the same run. Targets: p95 <= 50 ms at 32 devices; sessions/s >= 25 % of raw session inserts/s.
+// Sync push benchmark: a finished four-site session as the phone pushes it (client, consent, session, four site
+// recordings: seven mutations in one push) from 1, 8 and 32 concurrent simulated devices over loopback HTTP,
+// beside the raw PostgreSQL writes of the same seven rows at the same concurrency, in the same run. Targets at
+// every concurrency: sessions/s >= 50 % of raw, and p95 <= 2x the raw p95. Then the same 32-device push through
+// HAProxy (scripts/bootstrap/balancer.mjs) in front of 1 and 3 server processes, beside the same push sent to one
+// such process directly: on a machine of two cores this measures the cost of the extra hop, not a speed-up.
+//
 // The devices run in a process of their own (this file with --load), as they would on their own phones, so the
-// server's process spends its time on the server's work.
-import { spawn } from 'node:child_process';
+// server's process spends its time on the server's work. BENCH_SPANS=1 adds where a push's time goes on the
+// server (database round trips, waits for a pooled connection, the rest), from timing spans around each query.
+import { spawn, type ChildProcess } from 'node:child_process';
+import { AsyncLocalStorage } from 'node:async_hooks';
 import { randomUUID } from 'node:crypto';
 import http from 'node:http';
+import net from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import pino from 'pino';
 import axios from 'axios';
-import { QueryTypes } from 'sequelize';
-import { SYNC_PROTOCOL_VERSION, type Mutation } from '@/shared/protocol/sync';
+import { QueryTypes, type Sequelize } from 'sequelize';
 import { createApp } from '@/sync-server/src/app';
 import { createSequelize } from '@/sync-server/src/db/database';
 import { runMigrations } from '@/sync-server/src/db/migrator';
 import { Clinic, initModels } from '@/sync-server/src/models';
 import { createUser } from '@/sync-server/src/repositories/users-repository';
 import { hashPassword } from '@/sync-server/src/services/passwords';
+import {
+  figures,
+  rawSessions,
+  runLoad,
+  type Figures,
+  type LoadJob,
+  type LoadResult,
+} from './sync-push-workload';
 
-const SITES = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
 const ROUNDS_PER_DEVICE = Number(process.env.BENCH_ROUNDS ?? 10);
+const JWT_SECRET = randomUUID();
+const root = path.resolve(__dirname, '../..');
 
-function sessionPush(deviceId: string) {
-  const clientId = randomUUID();
-  const sessionId = randomUUID();
-  const m = (entity: Mutation['entity'], id: string, change: Record<string, unknown>): Mutation => ({
-    mutationId: randomUUID(),
-    entity,
-    id,
-    baseVersion: 0,
-    change,
-  });
-  return {
-    protocolVersion: SYNC_PROTOCOL_VERSION,
-    deviceId,
-    mutations: [
-      m('clients', clientId, {
-        firstName: 'Bench',
-        lastName: 'Client',
-        dateOfBirth: null,
-        email: null,
-        phone: null,
-        notes: null,
-      }),
-      m('recording_sessions', sessionId, {
-        clientId,
-        status: 'completed',
-        startedAt: '2026-11-30T09:00:00.000Z',
-        finishedAt: '2026-11-30T09:12:00.000Z',
-        findings: null,
-        plan: null,
-        followUpDate: null,
-      }),
-      ...SITES.map((site) =>
-        m('site_recordings', randomUUID(), {
-          sessionId,
-          site,
-          qualityVerdict: 'good',
-          clipSha256: null,
-          durationS: 15,
-          recordedAt: '2026-11-30T09:03:00.000Z',
-          skippedReason: null,
-          keepAnywayNote: null,
-        }),
-      ),
-    ],
-  };
-}
-
-const pct = (sorted: number[], p: number) =>
-  sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
-
-type LoadJob = {
-  url: string;
-  token: string;
-  devices: number;
-  rounds: number;
-  kind: 'push' | 'health' | 'pull';
-};
-type LoadResult = { latencies: number[]; seconds: number; notApplied: number };
-
-/** The simulated devices: `devices` at once, each sending `rounds` requests one after another. */
-async function runLoad(job: LoadJob): Promise<LoadResult> {
-  const agent = new http.Agent({ keepAlive: true, maxSockets: 64 });
-  const client = axios.create({
-    baseURL: job.url,
-    httpAgent: agent,
-    headers: { authorization: `Bearer ${job.token}` },
-  });
-  const latencies: number[] = [];
-  let notApplied = 0;
-  const start = performance.now();
-  await Promise.all(
-    Array.from({ length: job.devices }, async () => {
-      const deviceId = randomUUID();
-      for (let i = 0; i < job.rounds; i++) {
-        const t0 = performance.now();
-        if (job.kind === 'push') {
-          const res = await client.post('/api/sync/push', sessionPush(deviceId));
-          if (res.data.results.some((r: { status: string }) => r.status !== 'applied')) notApplied += 1;
-        } else if (job.kind === 'health') {
-          await client.get('/api/health');
-        } else {
-          await client.post('/api/sync/pull', {
-            protocolVersion: SYNC_PROTOCOL_VERSION,
-            deviceId,
-            checkpoint: '9223372036854775806',
-            limit: 1,
-          });
-        }
-        latencies.push(performance.now() - t0);
-      }
-    }),
-  );
-  agent.destroy();
-  return { latencies, seconds: (performance.now() - start) / 1000, notApplied };
-}
-
-/** Runs the devices in a child process (this script again, with --load) and reads its one line of JSON. */
-function loadFromOtherProcess(job: LoadJob): Promise<LoadResult> {
+/** Runs this script again in a child process with `args`; resolves with its stdout once it exits. */
+function runChild(args: string[]): Promise<string> {
   return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [...process.execArgv, __filename, '--load', JSON.stringify(job)], {
+    const child = spawn(process.execPath, [...process.execArgv, __filename, ...args], {
       stdio: ['ignore', 'pipe', 'inherit'],
     });
     let out = '';
     child.stdout.on('data', (c: Buffer) => (out += c.toString()));
     child.on('error', reject);
-    child.on('exit', (code) =>
-      code === 0 ? resolve(JSON.parse(out) as LoadResult) : reject(new Error(`load process exited ${code}`)),
-    );
+    child.on('exit', (code) => (code === 0 ? resolve(out) : reject(new Error(`${args[0]} exited ${code}`))));
   });
 }
+
+const loadFromOtherProcess = async (job: LoadJob): Promise<LoadResult> =>
+  JSON.parse(await runChild(['--load', JSON.stringify(job)])) as LoadResult;
+
+/** A server process of its own (this file with --serve): the app as `npm start` runs it, named `name`. */
+function startInstance(databaseUrl: string, name: string): Promise<{ port: number; child: ChildProcess }> {
+  return new Promise((resolve, reject) => {
+    const child = spawn(process.execPath, [...process.execArgv, __filename, '--serve', name], {
+      stdio: ['ignore', 'pipe', 'inherit'],
+      env: { ...process.env, DATABASE_URL: databaseUrl, BENCH_JWT_SECRET: JWT_SECRET },
+    });
+    child.stdout.once('data', (c: Buffer) => resolve({ port: Number(c.toString().trim()), child }));
+    child.on('error', reject);
+    child.on('exit', (code) => code !== 0 && code !== null && reject(new Error(`instance exited ${code}`)));
+  });
+}
+
+async function serve(name: string): Promise<void> {
+  const sequelize = createSequelize(process.env.DATABASE_URL!, { poolMax: 20 });
+  const app = createApp({
+    sequelize,
+    jwtSecret: process.env.BENCH_JWT_SECRET!,
+    logger: pino({ level: 'silent' }),
+    instanceName: name,
+    trustProxy: 'loopback',
+  });
+  const server = http.createServer(app);
+  server.listen(0, '127.0.0.1', () => process.stdout.write(`${(server.address() as AddressInfo).port}\n`));
+  process.on('SIGTERM', () => {
+    server.closeAllConnections();
+    server.close(() => sequelize.close().finally(() => process.exit(0)));
+  });
+}
+
+function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = net.createServer();
+    probe.once('error', reject);
+    probe.listen(0, '127.0.0.1', () => {
+      const { port } = probe.address() as AddressInfo;
+      probe.close(() => resolve(port));
+    });
+  });
+}
+
+async function waitForPort(port: number): Promise<void> {
+  for (let i = 0; i < 100; i++) {
+    try {
+      const res = await axios.get(`http://127.0.0.1:${port}/api/health/live`, { timeout: 1000 });
+      if (res.status === 200) return;
+    } catch {
+      // not up yet
+    }
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  throw new Error(`nothing answers on port ${port}`);
+}
+
+/**
+ * Timing spans on the server: each request's time from arrival to the end of its answer, and inside it every
+ * query (by kind) and every wait for a pooled connection. What is left is Node's own work plus the wait for a
+ * core on this shared machine.
+ */
+class Spans {
+  private readonly current = new AsyncLocalStorage<Record<string, number>>();
+  private readonly requests: Record<string, number>[] = [];
+
+  instrument(sequelize: Sequelize): void {
+    const query = sequelize.query.bind(sequelize) as (...a: unknown[]) => Promise<unknown>;
+    (sequelize as unknown as { query: typeof query }).query = async (...args: unknown[]) => {
+      const span = this.current.getStore();
+      const t0 = performance.now();
+      const poolWaitBefore = span?.['pool wait'] ?? 0;
+      try {
+        return await query(...args);
+      } finally {
+        if (span) {
+          // A query outside a transaction takes its connection itself: that wait is counted as pool wait.
+          const waited = (span['pool wait'] ?? 0) - poolWaitBefore;
+          const kind = `db ${Spans.kind(String(args[0]))}`;
+          span[kind] = (span[kind] ?? 0) + performance.now() - t0 - waited;
+          span.trips = (span.trips ?? 0) + 1;
+        }
+      }
+    };
+    const manager = (sequelize as unknown as { connectionManager: { getConnection: typeof query } })
+      .connectionManager;
+    const getConnection = manager.getConnection.bind(manager);
+    manager.getConnection = async (...args: unknown[]) => {
+      const t0 = performance.now();
+      try {
+        return await getConnection(...args);
+      } finally {
+        const span = this.current.getStore();
+        if (span) span['pool wait'] = (span['pool wait'] ?? 0) + performance.now() - t0;
+      }
+    };
+  }
+
+  private static kind(sql: string): string {
+    if (/sign_in_sessions/.test(sql)) return 'sign-in check';
+    if (/^(START TRANSACTION|BEGIN|SET )/i.test(sql)) return 'begin';
+    if (/^COMMIT/i.test(sql)) return 'commit';
+    if (/^ROLLBACK|SAVEPOINT/i.test(sql)) return 'rollback/savepoint';
+    return 'push statements';
+  }
+
+  handler(app: http.RequestListener): http.RequestListener {
+    return (req, res) => {
+      const span: Record<string, number> = {};
+      const t0 = performance.now();
+      res.on('finish', () => {
+        span.total = performance.now() - t0;
+        if (req.url === '/api/sync/push') this.requests.push(span);
+      });
+      this.current.run(span, () => app(req, res));
+    };
+  }
+
+  /** Mean ms per push of each part since the last call. */
+  report(): string {
+    const n = this.requests.length;
+    const sums: Record<string, number> = {};
+    for (const span of this.requests.splice(0))
+      for (const [key, value] of Object.entries(span)) sums[key] = (sums[key] ?? 0) + value;
+    const db = Object.entries(sums).filter(([k]) => k.startsWith('db '));
+    const accounted = db.reduce((s, [, v]) => s + v, 0) + (sums['pool wait'] ?? 0);
+    const parts = [
+      ...db.map(([k, v]) => `${k.slice(3)} ${(v / n).toFixed(1)}`),
+      `pool wait ${((sums['pool wait'] ?? 0) / n).toFixed(1)}`,
+      `node + CPU wait ${((sums.total - accounted) / n).toFixed(1)}`,
+    ];
+    return `  server time per push ${(sums.total / n).toFixed(1)} ms (${((sums.trips ?? 0) / n).toFixed(1)} round trips): ${parts.join(', ')}`;
+  }
+}
+
+const ms = (v: number) => v.toFixed(1).padStart(6);
+const pctText = (v: number) => `${(v * 100).toFixed(0)} %`;
 
 async function main(): Promise<void> {
   const databaseUrl = process.env.DATABASE_URL;
@@ -139,114 +196,159 @@ async function main(): Promise<void> {
   await runMigrations(databaseUrl);
   const sequelize = createSequelize(databaseUrl, { poolMax: 20 });
   initModels(sequelize);
-  const jwtSecret = randomUUID();
-  const app = createApp({ sequelize, jwtSecret, logger: pino({ level: 'silent' }) });
-  const server = http.createServer(app);
+  const spans = process.env.BENCH_SPANS ? new Spans() : undefined;
+  spans?.instrument(sequelize);
+  const app = createApp({ sequelize, jwtSecret: JWT_SECRET, logger: pino({ level: 'silent' }) });
+  const server = http.createServer(spans ? spans.handler(app) : app);
   await new Promise<void>((r) => server.listen(0, '127.0.0.1', r));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 
   const clinic = await Clinic.create({ id: randomUUID(), name: `Bench ${randomUUID().slice(0, 6)}` });
   const email = `bench.${randomUUID().slice(0, 8)}@bench.fourpoint.test`;
+  const operatorId = randomUUID();
   await createUser(clinic.id, {
-    id: randomUUID(),
+    id: operatorId,
     email,
     name: 'Bench Operator',
     role: 'operator',
     passwordHash: await hashPassword('bench password 1'),
   });
+  const consentTextId = randomUUID();
+  await sequelize.query(
+    `INSERT INTO consent_texts (id, clinic_id, version, title, body, is_current)
+     VALUES (:id, :clinicId, 1, 'Consent', 'The bench client agrees.', true)`,
+    { replacements: { id: consentTextId, clinicId: clinic.id } },
+  );
   const token = (await axios.post(`${url}/api/auth/sign-in`, { email, password: 'bench password 1' })).data
     .accessToken as string;
+  const ids = { clinicId: clinic.id, consentTextId, operatorId };
 
-  // Raw rate: the same six rows per session as plain INSERTs, one transaction per session, same concurrency.
-  async function rawSessions(concurrency: number, perWorker: number): Promise<number> {
-    const start = performance.now();
-    await Promise.all(
-      Array.from({ length: concurrency }, async () => {
-        for (let i = 0; i < perWorker; i++) {
-          await sequelize.transaction(async (transaction) => {
-            const clientId = randomUUID();
-            const sessionId = randomUUID();
-            await sequelize.query(
-              `INSERT INTO clients (id, clinic_id, first_name, last_name) VALUES ($1, $2, 'Raw', 'Client')`,
-              { bind: [clientId, clinic.id], transaction },
-            );
-            await sequelize.query(
-              `INSERT INTO recording_sessions (id, clinic_id, client_id, status, started_at) VALUES ($1, $2, $3, 'completed', now())`,
-              {
-                bind: [sessionId, clinic.id, clientId],
-                transaction,
-              },
-            );
-            for (const site of SITES) {
-              await sequelize.query(
-                `INSERT INTO site_recordings (id, clinic_id, session_id, site) VALUES ($1, $2, $3, $4)`,
-                {
-                  bind: [randomUUID(), clinic.id, sessionId, site],
-                  transaction,
-                },
-              );
-            }
-          });
-        }
-      }),
-    );
-    return (concurrency * perWorker) / ((performance.now() - start) / 1000);
-  }
-
-  const job = (devices: number, kind: LoadJob['kind']): LoadJob => ({
-    url,
+  const job = (target: string, devices: number, kind: LoadJob['kind']): LoadJob => ({
+    url: target,
     token,
+    consentTextId,
     devices,
     rounds: ROUNDS_PER_DEVICE,
     kind,
   });
-
-  async function pushes(devices: number): Promise<{ p50: number; p95: number; rate: number }> {
-    const result = await loadFromOtherProcess(job(devices, 'push'));
+  async function pushes(target: string, devices: number): Promise<Figures & { instances: string }> {
+    const result = await loadFromOtherProcess(job(target, devices, 'push'));
     if (result.notApplied > 0) throw new Error(`${result.notApplied} bench pushes were not applied`);
-    const latencies = [...result.latencies].sort((a, b) => a - b);
-    return {
-      p50: pct(latencies, 50),
-      p95: pct(latencies, 95),
-      rate: result.latencies.length / result.seconds,
-    };
+    const spread = Object.entries(result.instances)
+      .map(([name, n]) => `${name} ${n}`)
+      .join(', ');
+    return { ...figures(result.latencies, result.seconds), instances: spread };
   }
 
-  // The floor under any push: the same loopback HTTP stack doing almost nothing.
-  async function floor(devices: number, kind: 'health' | 'pull'): Promise<number> {
-    const result = await loadFromOtherProcess(job(devices, kind));
-    return result.latencies.length / result.seconds;
-  }
-
-  await pushes(4); // warm-up: JIT, pool, prepared paths
+  await pushes(url, 4); // warm-up: JIT, pool, prepared paths
+  await rawSessions(sequelize, ids, 4, ROUNDS_PER_DEVICE);
+  spans?.report();
   console.log(
-    `sync push of a four-site session (6 mutations), ${ROUNDS_PER_DEVICE} sessions per device, loopback`,
+    `sync push of a finished four-site session (7 mutations: client, consent, session, 4 sites), ` +
+      `${ROUNDS_PER_DEVICE} sessions per device, loopback, ${os.cpus().length} cores`,
   );
-  console.log('devices | p50 ms | p95 ms | sessions/s | raw sessions/s | ratio');
-  let verdict = '';
+  console.log(
+    'devices | push p50 | push p95 | sessions/s | raw p50 | raw p95 | raw sessions/s | rate vs raw | p95 vs raw',
+  );
+  const verdicts: string[] = [];
+  let direct32: Figures | undefined;
   for (const devices of [1, 8, 32]) {
-    const result = await pushes(devices);
-    const raw = await rawSessions(devices, ROUNDS_PER_DEVICE);
-    const ratio = result.rate / raw;
+    const push = await pushes(url, devices);
+    const spanLine = spans?.report();
+    const raw = await rawSessions(sequelize, ids, devices, ROUNDS_PER_DEVICE);
+    const rate = push.rate / raw.rate;
+    const p95 = push.p95 / raw.p95;
     console.log(
-      `${String(devices).padStart(7)} | ${result.p50.toFixed(1).padStart(6)} | ${result.p95.toFixed(1).padStart(6)} | ${result.rate.toFixed(1).padStart(10)} | ${raw.toFixed(1).padStart(14)} | ${(ratio * 100).toFixed(0)} %`,
+      `${String(devices).padStart(7)} | ${ms(push.p50)}   | ${ms(push.p95)}   | ${push.rate.toFixed(1).padStart(10)} | ${ms(raw.p50)}  | ${ms(raw.p95)}  | ${raw.rate.toFixed(1).padStart(14)} | ${pctText(rate).padStart(11)} | ${p95.toFixed(2).padStart(9)}x`,
     );
-    if (devices === 32) {
-      verdict = `target at 32 devices: p95 ${result.p95.toFixed(1)} ms (<= 50: ${result.p95 <= 50 ? 'met' : 'NOT met'}), ${(ratio * 100).toFixed(0)} % of raw (>= 25 %: ${ratio >= 0.25 ? 'met' : 'NOT met'})`;
-    }
+    if (spanLine) console.log(spanLine);
+    if (devices === 32) direct32 = push;
+    const met = rate >= 0.5 && p95 <= 2;
+    verdicts.push(`${devices}: ${met ? 'met' : 'NOT met'}`);
   }
-  const health = await floor(32, 'health');
-  const pull = await floor(32, 'pull');
+  console.log(`targets (sessions/s >= 50 % of raw, p95 <= 2x raw p95) at ${verdicts.join('; ')}`);
+
+  const health = await loadFromOtherProcess(job(url, 32, 'health'));
+  const pull = await loadFromOtherProcess(job(url, 32, 'pull'));
   console.log(
-    `HTTP floor at 32 devices (devices in their own process): GET /api/health ${health.toFixed(1)} req/s, empty authenticated pull ${pull.toFixed(1)} req/s`,
+    `HTTP floor at 32 devices: GET /api/health ${figures(health.latencies, health.seconds).rate.toFixed(1)} req/s, ` +
+      `empty authenticated pull ${figures(pull.latencies, pull.seconds).rate.toFixed(1)} req/s`,
   );
+
+  await throughBalancer(databaseUrl, (target) => pushes(target, 32), direct32!);
+
   const [{ count }] = await sequelize.query<{ count: string }>(
-    `SELECT count(*) FROM applied_mutations WHERE clinic_id = $1`,
-    { bind: [clinic.id], type: QueryTypes.SELECT },
+    `SELECT count(*) FROM applied_mutations WHERE clinic_id = :clinicId`,
+    { replacements: { clinicId: clinic.id }, type: QueryTypes.SELECT },
   );
-  console.log(`${verdict}; ${count} mutations recorded`);
+  console.log(`${count} mutations recorded`);
   server.close();
   await sequelize.close();
+}
+
+/**
+ * The 32-device push through HAProxy in front of 1 and 3 server processes, beside the same push sent straight to
+ * one such process. All of them share this machine's cores with PostgreSQL and the devices, so more instances
+ * cannot add capacity here; what the figures show is what the balancer's hop adds to each push.
+ */
+async function throughBalancer(
+  databaseUrl: string,
+  push32: (target: string) => Promise<Figures & { instances: string }>,
+  inProcess: Figures,
+): Promise<void> {
+  const balancerScript = path.join(root, 'scripts/bootstrap/balancer.mjs');
+  const haproxy = spawn(process.execPath, [balancerScript, '--find']);
+  const found = await new Promise<boolean>((r) => haproxy.on('exit', (code) => r(code === 0)));
+  if (!found) {
+    console.log('load balancer: HAProxy is not installed (sudo apt-get install -y haproxy); skipped');
+    return;
+  }
+  console.log(
+    `through the load balancer, 32 devices (the cost of the extra hop on ${os.cpus().length} shared cores, not a speed-up):`,
+  );
+  console.log('path                         |    p50 |    p95 | sessions/s | requests per instance');
+  const row = (label: string, f: Figures, spread = '') =>
+    console.log(
+      `${label.padEnd(28)} | ${ms(f.p50)} | ${ms(f.p95)} | ${f.rate.toFixed(1).padStart(10)} | ${spread}`,
+    );
+  row('in the bench process', inProcess);
+
+  const instances = await Promise.all([1, 2, 3].map((i) => startInstance(databaseUrl, `i${i}`)));
+  try {
+    for (const { port } of instances) await waitForPort(port);
+    const direct = await push32(`http://127.0.0.1:${instances[0].port}`);
+    row('one instance, no balancer', direct, direct.instances);
+    for (const count of [1, 3]) {
+      const publicPort = await freePort();
+      const dir = path.join(root, '.data', `bench-balancer-${count}`);
+      const backends = instances.slice(0, count).map((s, i) => `i${i + 1}:${s.port}`);
+      const balancer = spawn(process.execPath, [balancerScript, dir, String(publicPort), ...backends], {
+        stdio: ['ignore', 'ignore', 'inherit'],
+      });
+      try {
+        await waitForPort(publicPort);
+        // Every instance must have passed its readiness check, or the first requests all land on one.
+        await new Promise((r) => setTimeout(r, 1500));
+        const result = await push32(`http://127.0.0.1:${publicPort}`).catch((error: Error) => error);
+        if (result instanceof Error) {
+          // HAProxy checks readiness every second with a one-second timeout and one miss takes an instance out
+          // (balancer.mjs); on a starved machine the check itself can miss, and the devices then get 503s.
+          console.log(`HAProxy, ${count} instance(s): not measured, ${result.message.split('\n')[0]}`);
+          continue;
+        }
+        row(`HAProxy, ${count} instance${count > 1 ? 's' : ''}`, result, result.instances);
+        console.log(
+          `  extra hop: p50 ${(result.p50 - direct.p50).toFixed(1)} ms, p95 ${(result.p95 - direct.p95).toFixed(1)} ms, ` +
+            `sessions/s ${pctText(result.rate / direct.rate)} of one instance without the balancer`,
+        );
+      } finally {
+        balancer.kill('SIGTERM');
+        await new Promise((r) => balancer.once('exit', r));
+      }
+    }
+  } finally {
+    for (const { child } of instances) child.kill('SIGTERM');
+  }
 }
 
 if (process.argv[2] === '--load') {
@@ -256,6 +358,11 @@ if (process.argv[2] === '--load') {
       console.error(error);
       process.exit(1);
     });
+} else if (process.argv[2] === '--serve') {
+  serve(process.argv[3]).catch((error) => {
+    console.error(error);
+    process.exit(1);
+  });
 } else {
   main().catch((error) => {
     console.error(error);

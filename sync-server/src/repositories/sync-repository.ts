@@ -1,4 +1,4 @@
-import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import type { Sequelize, Transaction } from 'sequelize';
 import {
   serverOwnedFields,
   syncEntities,
@@ -6,6 +6,7 @@ import {
   type RowData,
   type SyncEntity,
 } from '@/shared/protocol/sync';
+import { execute, selectRows } from './practice-db';
 
 // Two-integer advisory lock class shared with the change-sequence trigger (see the sync-pull-guard migration).
 const SYNC_LOCK_CLASS = 7301;
@@ -72,23 +73,64 @@ function toStored(entity: SyncEntity, raw: Raw, fields = pulledFields[entity]): 
   };
 }
 
+/** One mutation of a batch written by `applyBatchAtOnce`: checked already, with the result it records. */
+export interface BatchMutation {
+  mutationId: string;
+  entity: SyncEntity;
+  id: string;
+  /** 0 creates the row (with every device field); otherwise the version the change was made on. */
+  baseVersion: number;
+  fields: RowData;
+  /** A time deletes the row; undefined leaves it as it is. */
+  deletedAt: string | null | undefined;
+  result: Raw;
+}
+
+// Parents before children, so a reader of the statement sees the order a device sends them in.
+const entityOrder: readonly SyncEntity[] = ['clients', 'consents', 'recording_sessions', 'site_recordings'];
+
+/** Fields the server fills when a device creates a row: who did it, and the state of the clip it names. */
+const serverValuesOnCreate: Record<SyncEntity, Record<string, string>> = {
+  clients: {},
+  consents: { recorded_by: ':userId' },
+  recording_sessions: { operator_id: ':userId' },
+  site_recordings: {
+    clip_state: `CASE WHEN r.clip_sha256 IS NULL THEN 'none' WHEN cb.state IN ('stored', 'failed') THEN cb.state ELSE 'pending' END`,
+    analysis: `CASE WHEN cb.state = 'stored' THEN cb.analysis END`,
+  },
+};
+
+// Codes under which the database refuses a batch as a whole: its last step found a mutation unwritten (22P02,
+// see applyBatchAtOnce), a data or integrity rule (classes 22 and 23), or a deadlock or serialization failure.
+const refusedWhole = (code: string | undefined) =>
+  code !== undefined &&
+  (code.startsWith('22') || code.startsWith('23') || code === '40001' || code === '40P01');
+
+export const pgErrorOf = (error: unknown): { code?: string; constraint?: string; detail?: string } =>
+  (error as { parent?: { code?: string; constraint?: string; detail?: string } })?.parent ?? {};
+
 export class SyncRepository {
   constructor(
     private readonly sequelize: Sequelize,
     private readonly transaction?: Transaction,
   ) {}
 
-  private select<T extends object = Raw>(sql: string, bind: unknown[]): Promise<T[]> {
-    return this.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT, transaction: this.transaction });
+  private select<T extends object = Raw>(
+    sql: string,
+    replacements: Record<string, unknown> = {},
+  ): Promise<T[]> {
+    return selectRows<T>(this.sequelize, sql, replacements, this.transaction);
   }
 
-  private async run(sql: string, bind: unknown[]): Promise<void> {
-    await this.sequelize.query(sql, { bind, transaction: this.transaction });
+  private run(sql: string, replacements: Record<string, unknown> = {}): Promise<number> {
+    return execute(this.sequelize, sql, replacements, this.transaction);
   }
 
   /** Writers hold this (shared) until commit; see the migration for why. */
   async lockClinicForWrite(clinicId: string): Promise<void> {
-    await this.select(`SELECT pg_advisory_xact_lock_shared(${SYNC_LOCK_CLASS}, hashtext($1))`, [clinicId]);
+    await this.select(`SELECT pg_advisory_xact_lock_shared(${SYNC_LOCK_CLASS}, hashtext(:clinicId))`, {
+      clinicId,
+    });
   }
 
   /**
@@ -96,19 +138,71 @@ export class SyncRepository {
    * committed or rolled back, so a pull can safely move past it. Needs its own short transaction.
    */
   async safeHighWater(clinicId: string): Promise<string> {
-    await this.select(`SELECT pg_advisory_xact_lock(${SYNC_LOCK_CLASS}, hashtext($1))`, [clinicId]);
+    await this.select(`SELECT pg_advisory_xact_lock(${SYNC_LOCK_CLASS}, hashtext(:clinicId))`, { clinicId });
     // A sequence is read outside MVCC, and this second statement runs after the lock was granted.
     const [row] = await this.select<{ high: string }>(
       `SELECT (CASE WHEN is_called THEN last_value ELSE last_value - 1 END)::text AS high FROM sync_change_seq`,
-      [],
     );
     return row.high;
   }
 
+  /**
+   * A whole batch in one statement, committed on its own: every create and edit with its version check and
+   * parent check, the server's fields, and the record of each mutation. All or nothing: when any mutation would
+   * write nothing (a replay, a stale version, a missing parent, a row of another clinic) or the database refuses
+   * one, nothing is written and the answer is false; the caller then applies the batch one mutation at a time,
+   * which tells each outcome apart. The caller guarantees each row appears once and no mutation deletes a parent
+   * another one names, so deciding them all on one snapshot equals deciding them in order.
+   */
+  async applyBatchAtOnce(
+    caller: { clinicId: string; userId: string; deviceId: string },
+    mutations: BatchMutation[],
+  ): Promise<boolean> {
+    const batch = mutations.map((m) => ({
+      mutation_id: m.mutationId,
+      entity: m.entity,
+      id: m.id,
+      base_version: m.baseVersion,
+      fields: Object.fromEntries(Object.entries(m.fields).map(([name, value]) => [snake(name), value])),
+      has_deleted_at: m.deletedAt !== undefined,
+      deleted_at: m.deletedAt ?? null,
+      result: m.result,
+    }));
+    const steps: string[] = [];
+    for (const entity of entityOrder) {
+      const kinds = new Set(mutations.filter((m) => m.entity === entity).map((m) => m.baseVersion === 0));
+      if (kinds.has(true)) steps.push(`create_${entity} AS (${createStep(entity)})`);
+      if (kinds.has(false)) steps.push(`edit_${entity} AS (${editStep(entity)})`);
+    }
+    const written = steps.map((s) => `SELECT id FROM ${s.slice(0, s.indexOf(' '))}`).join(' UNION ALL ');
+    try {
+      // Plain SQL has no RAISE: when fewer mutations were recorded than sent, the last step casts a sentence to
+      // an integer, which fails the statement and so undoes every write of it.
+      await this.select(
+        `WITH batch AS (
+           SELECT * FROM jsonb_to_recordset(:batch::jsonb) AS b(mutation_id uuid, entity text, id uuid,
+             base_version integer, fields jsonb, has_deleted_at boolean, deleted_at timestamptz, result jsonb)),
+         ${steps.join(',\n')},
+         recorded AS (
+           INSERT INTO applied_mutations (mutation_id, clinic_id, user_id, device_id, entity, row_id, result, applied_at)
+           SELECT b.mutation_id, :clinicId, :userId, :deviceId, b.entity, b.id, b.result, now()
+           FROM batch b JOIN (${written}) w ON w.id = b.id RETURNING 1)
+         SELECT CASE WHEN count(*) = :count THEN count(*)
+           ELSE ('batch not written whole, mutations written ' || count(*))::integer END AS written
+         FROM recorded`,
+        { ...caller, batch: JSON.stringify(batch), count: batch.length },
+      );
+      return true;
+    } catch (error) {
+      if (refusedWhole(pgErrorOf(error).code)) return false;
+      throw error;
+    }
+  }
+
   async findAppliedMutation(mutationId: string): Promise<{ clinicId: string; result: Raw } | null> {
     const [row] = await this.select<{ clinic_id: string; result: Raw }>(
-      `SELECT clinic_id, result FROM applied_mutations WHERE mutation_id = $1`,
-      [mutationId],
+      `SELECT clinic_id, result FROM applied_mutations WHERE mutation_id = :mutationId`,
+      { mutationId },
     );
     return row ? { clinicId: row.clinic_id, result: row.result } : null;
   }
@@ -116,148 +210,55 @@ export class SyncRepository {
   async recordMutation(args: MutationRecord): Promise<void> {
     await this.run(
       `INSERT INTO applied_mutations (mutation_id, clinic_id, user_id, device_id, entity, row_id, result, applied_at)
-       VALUES ($1, $2, $3, $4, $5, $6, $7::jsonb, now())`,
-      [
-        args.mutationId,
-        args.clinicId,
-        args.userId,
-        args.deviceId,
-        args.entity,
-        args.rowId,
-        JSON.stringify(args.result),
-      ],
+       VALUES (:mutationId, :clinicId, :userId, :deviceId, :entity, :rowId, :result::jsonb, now())`,
+      { ...args, result: JSON.stringify(args.result) },
     );
-  }
-
-  /** Savepoints let one mutation of a batch fail alone inside the batch's transaction. */
-  async savepoint(name: string): Promise<void> {
-    await this.run(`SAVEPOINT ${name}`, []);
-  }
-
-  async releaseSavepoint(name: string): Promise<void> {
-    await this.run(`RELEASE SAVEPOINT ${name}`, []);
-  }
-
-  async rollbackToSavepoint(name: string): Promise<void> {
-    await this.run(`ROLLBACK TO SAVEPOINT ${name}`, []);
   }
 
   /**
-   * The usual create in one statement: inserts the row only when its id is free and every parent is a live row
-   * of the clinic, and records the mutation with it. False means nothing was written (the caller then finds out
-   * why the slow way); a unique or check violation still raises.
+   * Runs `work` under a savepoint, so one mutation of a batch can fail alone inside the batch's transaction.
+   * A database refusal rolls back to the savepoint and comes back as its code; anything else is thrown.
    */
-  async insertRowRecorded(
-    entity: SyncEntity,
-    clinicId: string,
-    id: string,
-    fields: RowData,
-    deletedAt: string | null,
-    parents: Record<string, string>,
-    mutation: MutationRecord,
-  ): Promise<boolean> {
-    const names = Object.keys(fields);
-    const columns = ['id', 'clinic_id', 'version', 'deleted_at', ...names.map(snake)];
-    const bind: unknown[] = [id, clinicId, 1, deletedAt, ...names.map((n) => encode(fields[n]))];
-    const values = columns.map((_c, i) => `$${i + 1}`);
-    const guard = this.parentGuard(fields, parents, clinicId, bind);
-    const record = this.recordValues(mutation, bind);
-    const rows = await this.select(
-      `WITH written AS (
-         INSERT INTO ${entity} (${columns.join(', ')}) SELECT ${values.join(', ')} ${guard ? `WHERE ${guard}` : ''}
-         ON CONFLICT (id) DO NOTHING RETURNING id)
-       INSERT INTO applied_mutations (mutation_id, clinic_id, user_id, device_id, entity, row_id, result, applied_at)
-       SELECT ${record} FROM written RETURNING mutation_id`,
-      bind,
-    );
-    return rows.length === 1;
-  }
-
-  /**
-   * The usual edit in one statement: the version check, the change, the version bump and the mutation record.
-   * False means the row is missing, of another clinic, at another version, or a parent is missing.
-   */
-  async updateRowRecorded(
-    entity: SyncEntity,
-    clinicId: string,
-    id: string,
-    fields: RowData,
-    deletedAt: string | undefined,
-    baseVersion: number,
-    parents: Record<string, string>,
-    mutation: MutationRecord,
-  ): Promise<boolean> {
-    const names = Object.keys(fields);
-    const bind: unknown[] = [id, clinicId, baseVersion];
-    const sets = ['version = version + 1', 'updated_at = now()'];
-    for (const n of names) {
-      bind.push(encode(fields[n]));
-      sets.push(`${snake(n)} = $${bind.length}`);
+  async isolated<T>(
+    name: string,
+    work: () => Promise<T>,
+  ): Promise<{ value: T } | { refused: { code: string; constraint?: string; detail?: string } }> {
+    await this.run(`SAVEPOINT ${name}`);
+    try {
+      const value = await work();
+      await this.run(`RELEASE SAVEPOINT ${name}`);
+      return { value };
+    } catch (error) {
+      const refusal = pgErrorOf(error);
+      // Not the mutation's fault (deadlock, serialization) or not the database's: the batch starts again.
+      if (!refusal.code || refusal.code === '40001' || refusal.code === '40P01') throw error;
+      await this.run(`ROLLBACK TO SAVEPOINT ${name}`);
+      return { refused: { ...refusal, code: refusal.code } };
     }
-    if (deletedAt !== undefined) {
-      bind.push(deletedAt);
-      sets.push(`deleted_at = $${bind.length}`);
-    }
-    const guard = this.parentGuard(fields, parents, clinicId, bind);
-    const record = this.recordValues(mutation, bind);
-    const rows = await this.select(
-      `WITH written AS (
-         UPDATE ${entity} SET ${sets.join(', ')}
-         WHERE id = $1 AND clinic_id = $2 AND version = $3 ${guard ? `AND ${guard}` : ''} RETURNING id)
-       INSERT INTO applied_mutations (mutation_id, clinic_id, user_id, device_id, entity, row_id, result, applied_at)
-       SELECT ${record} FROM written RETURNING mutation_id`,
-      bind,
-    );
-    return rows.length === 1;
-  }
-
-  private parentGuard(
-    fields: RowData,
-    parents: Record<string, string>,
-    clinicId: string,
-    bind: unknown[],
-  ): string {
-    const checks: string[] = [];
-    for (const [field, table] of Object.entries(parents)) {
-      const parentId = fields[field];
-      if (typeof parentId !== 'string') continue;
-      bind.push(parentId);
-      const idParam = `$${bind.length}`;
-      bind.push(clinicId);
-      const live = table === 'consent_texts' ? '' : 'AND p.deleted_at IS NULL';
-      checks.push(
-        `EXISTS (SELECT 1 FROM ${table} p WHERE p.id = ${idParam} AND p.clinic_id = $${bind.length} ${live})`,
-      );
-    }
-    return checks.join(' AND ');
-  }
-
-  private recordValues(m: MutationRecord, bind: unknown[]): string {
-    const start = bind.length;
-    bind.push(m.mutationId, m.clinicId, m.userId, m.deviceId, m.entity, m.rowId, JSON.stringify(m.result));
-    const p = (i: number) => `$${start + i}`;
-    return `${p(1)}::uuid, ${p(2)}::uuid, ${p(3)}::uuid, ${p(4)}::uuid, ${p(5)}, ${p(6)}::uuid, ${p(7)}::jsonb, now()`;
   }
 
   async lockRow(entity: SyncEntity, id: string): Promise<StoredRow | null> {
-    const [raw] = await this.select(`SELECT * FROM ${entity} WHERE id = $1 FOR UPDATE`, [id]);
+    const [raw] = await this.select(`SELECT * FROM ${entity} WHERE id = :id FOR UPDATE`, { id });
     return raw ? toStored(entity, raw) : null;
   }
 
   async findRow(entity: SyncEntity, clinicId: string, id: string): Promise<StoredRow | null> {
-    const [raw] = await this.select(`SELECT * FROM ${entity} WHERE id = $1 AND clinic_id = $2`, [
+    const [raw] = await this.select(`SELECT * FROM ${entity} WHERE id = :id AND clinic_id = :clinicId`, {
       id,
       clinicId,
-    ]);
+    });
     return raw ? toStored(entity, raw) : null;
   }
 
   async parentExists(table: string, clinicId: string, id: string): Promise<boolean> {
     const live = table === 'consent_texts' ? '' : 'AND deleted_at IS NULL';
-    const rows = await this.select(`SELECT 1 FROM ${table} WHERE id = $1 AND clinic_id = $2 ${live}`, [
-      id,
-      clinicId,
-    ]);
+    const rows = await this.select(
+      `SELECT 1 FROM ${table} WHERE id = :id AND clinic_id = :clinicId ${live}`,
+      {
+        id,
+        clinicId,
+      },
+    );
     return rows.length > 0;
   }
 
@@ -269,11 +270,11 @@ export class SyncRepository {
     deletedAt: string | null,
   ): Promise<void> {
     const names = Object.keys(fields);
-    const columns = ['id', 'clinic_id', 'version', 'deleted_at', ...names.map(snake)];
-    const values = [id, clinicId, 1, deletedAt, ...names.map((n) => encode(fields[n]))];
-    const placeholders = columns.map((_c, i) => `$${i + 1}`);
+    const values: Record<string, unknown> = { id, clinicId, deletedAt };
+    names.forEach((n, i) => (values[`f${i}`] = encode(fields[n])));
     await this.run(
-      `INSERT INTO ${entity} (${columns.join(', ')}) VALUES (${placeholders.join(', ')})`,
+      `INSERT INTO ${entity} (id, clinic_id, version, deleted_at${names.map((n) => `, ${snake(n)}`).join('')})
+       VALUES (:id, :clinicId, 1, :deletedAt${names.map((_n, i) => `, :f${i}`).join('')})`,
       values,
     );
   }
@@ -287,13 +288,14 @@ export class SyncRepository {
     newVersion: number,
   ): Promise<void> {
     const names = Object.keys(fields);
-    const sets = ['version = $2', 'updated_at = now()', ...names.map((n, i) => `${snake(n)} = $${i + 3}`)];
-    const values: unknown[] = [id, newVersion, ...names.map((n) => encode(fields[n]))];
-    if (deletedAt !== undefined) {
-      values.push(deletedAt);
-      sets.push(`deleted_at = $${values.length}`);
-    }
-    await this.run(`UPDATE ${entity} SET ${sets.join(', ')} WHERE id = $1`, values);
+    const values: Record<string, unknown> = { id, newVersion, deletedAt };
+    const sets = ['version = :newVersion', 'updated_at = now()'];
+    names.forEach((n, i) => {
+      values[`f${i}`] = encode(fields[n]);
+      sets.push(`${snake(n)} = :f${i}`);
+    });
+    if (deletedAt !== undefined) sets.push('deleted_at = :deletedAt');
+    await this.run(`UPDATE ${entity} SET ${sets.join(', ')} WHERE id = :id`, values);
   }
 
   async insertConflict(args: {
@@ -309,26 +311,20 @@ export class SyncRepository {
   }): Promise<void> {
     await this.run(
       `INSERT INTO sync_conflicts (id, clinic_id, entity, row_id, mutation_id, device_id, user_id, server_version, client_version, status, created_at, updated_at)
-       VALUES ($1, $2, $3, $4, $5, $6, $7, $8::jsonb, $9::jsonb, 'open', now(), now())`,
-      [
-        args.id,
-        args.clinicId,
-        args.entity,
-        args.rowId,
-        args.mutationId,
-        args.deviceId,
-        args.userId,
-        JSON.stringify(args.serverVersion),
-        JSON.stringify(args.clientVersion),
-      ],
+       VALUES (:id, :clinicId, :entity, :rowId, :mutationId, :deviceId, :userId, :serverVersion::jsonb, :clientVersion::jsonb, 'open', now(), now())`,
+      {
+        ...args,
+        serverVersion: JSON.stringify(args.serverVersion),
+        clientVersion: JSON.stringify(args.clientVersion),
+      },
     );
   }
 
   async lastWriterOf(rowId: string): Promise<{ deviceId: string | null; userId: string | null } | null> {
     const [row] = await this.select<{ device_id: string | null; user_id: string | null }>(
-      `SELECT device_id, user_id FROM applied_mutations WHERE row_id = $1 AND result->>'status' = 'applied'
+      `SELECT device_id, user_id FROM applied_mutations WHERE row_id = :rowId AND result->>'status' = 'applied'
        ORDER BY applied_at DESC LIMIT 1`,
-      [rowId],
+      { rowId },
     );
     return row ? { deviceId: row.device_id, userId: row.user_id } : null;
   }
@@ -343,11 +339,12 @@ export class SyncRepository {
     const parts = syncEntities.map(
       (e) =>
         `(SELECT '${e}' AS entity, to_jsonb(t) AS raw, t.change_seq FROM ${e} t
-          WHERE t.clinic_id = $1 AND t.change_seq > $2 AND t.change_seq <= $3 ORDER BY t.change_seq LIMIT $4)`,
+          WHERE t.clinic_id = :clinicId AND t.change_seq > :after AND t.change_seq <= :upTo
+          ORDER BY t.change_seq LIMIT :limit)`,
     );
     const rows = await this.select<{ entity: SyncEntity; raw: Raw }>(
-      `${parts.join(' UNION ALL ')} ORDER BY change_seq LIMIT $4`,
-      [clinicId, after, upTo, limit],
+      `${parts.join(' UNION ALL ')} ORDER BY change_seq LIMIT :limit`,
+      { clinicId, after, upTo, limit },
     );
     return rows.map((r) => ({ entity: r.entity, ...toStored(r.entity, r.raw) }));
   }
@@ -355,8 +352,8 @@ export class SyncRepository {
   /** The kept size of a stored clip, or null when this clinic has no stored clip with this hash. */
   async storedClipSize(clinicId: string, sha256: string): Promise<number | null> {
     const [row] = await this.select<{ size_bytes: string }>(
-      `SELECT size_bytes FROM clip_blobs WHERE sha256 = $1 AND clinic_id = $2 AND state = 'stored'`,
-      [sha256, clinicId],
+      `SELECT size_bytes FROM clip_blobs WHERE sha256 = :sha256 AND clinic_id = :clinicId AND state = 'stored'`,
+      { sha256, clinicId },
     );
     return row ? Number(row.size_bytes) : null;
   }
@@ -366,8 +363,8 @@ export class SyncRepository {
     sha256: string,
   ): Promise<{ state: string; failure: string | null; analysis: unknown } | null> {
     const [row] = await this.select<{ state: string; failure: string | null; analysis: unknown }>(
-      `SELECT state, failure, analysis FROM clip_blobs WHERE sha256 = $1 AND clinic_id = $2`,
-      [sha256, clinicId],
+      `SELECT state, failure, analysis FROM clip_blobs WHERE sha256 = :sha256 AND clinic_id = :clinicId`,
+      { sha256, clinicId },
     );
     return row ?? null;
   }
@@ -384,48 +381,85 @@ export class SyncRepository {
   }): Promise<void> {
     await this.run(
       `INSERT INTO clip_blobs (sha256, clinic_id, size_bytes, content_type, storage_key, state, analysis, failure, created_at, updated_at)
-       VALUES ($1, $2, $3, 'application/x-fourpoint-sealed', $4, $5, $6::jsonb, $7, now(), now())
+       VALUES (:sha256, :clinicId, :sizeBytes, 'application/x-fourpoint-sealed', :storageKey, :state, :analysis::jsonb, :failure, now(), now())
        ON CONFLICT (sha256) DO UPDATE SET state = EXCLUDED.state, analysis = EXCLUDED.analysis, failure = EXCLUDED.failure,
          storage_key = EXCLUDED.storage_key, updated_at = now()
        WHERE clip_blobs.clinic_id = EXCLUDED.clinic_id`,
-      [
-        args.sha256,
-        args.clinicId,
-        args.sizeBytes,
-        args.storageKey,
-        args.state,
-        JSON.stringify(args.analysis ?? null),
-        args.failure,
-      ],
+      { ...args, analysis: JSON.stringify(args.analysis ?? null) },
     );
   }
 
   /** Server-derived fields: the change number moves (devices pull it) but the version does not. */
-  async attachClipToRecordings(
+  attachClipToRecordings(
     clinicId: string,
     sha256: string,
     clipState: 'stored' | 'failed',
     analysis: unknown,
   ): Promise<number> {
-    const [, affected] = (await this.sequelize.query(
-      `UPDATE site_recordings SET clip_state = $3, analysis = $4::jsonb WHERE clinic_id = $1 AND clip_sha256 = $2`,
-      {
-        bind: [clinicId, sha256, clipState, JSON.stringify(analysis ?? null)],
-        transaction: this.transaction,
-      },
-    )) as [unknown, number];
-    return affected ?? 0;
+    return this.run(
+      `UPDATE site_recordings SET clip_state = :clipState, analysis = :analysis::jsonb
+       WHERE clinic_id = :clinicId AND clip_sha256 = :sha256`,
+      { clinicId, sha256, clipState, analysis: JSON.stringify(analysis ?? null) },
+    );
   }
 
   async setServerFields(entity: SyncEntity, id: string, fields: RowData): Promise<void> {
     const names = Object.keys(fields);
     if (names.length === 0) return;
-    const sets = names.map((n, i) => `${snake(n)} = $${i + 2}`);
-    await this.run(`UPDATE ${entity} SET ${sets.join(', ')} WHERE id = $1`, [
-      id,
-      ...names.map((n) => encode(fields[n])),
-    ]);
+    const values: Record<string, unknown> = { id };
+    names.forEach((n, i) => (values[`f${i}`] = encode(fields[n])));
+    await this.run(
+      `UPDATE ${entity} SET ${names.map((n, i) => `${snake(n)} = :f${i}`).join(', ')} WHERE id = :id`,
+      values,
+    );
   }
+}
+
+/**
+ * A parent named by field `column` of the row being written (`value` is the SQL for its id) must be a live row
+ * of the clinic, or be created earlier in the same batch (the caller has checked the order) and not as deleted.
+ */
+function parentCheck(table: string, value: string): string {
+  const live = table === 'consent_texts' ? '' : 'AND p.deleted_at IS NULL';
+  return `(EXISTS (SELECT 1 FROM ${table} p WHERE p.id = ${value} AND p.clinic_id = :clinicId ${live})
+    OR EXISTS (SELECT 1 FROM batch n WHERE n.entity = '${table}' AND n.base_version = 0 AND n.id = ${value}
+      AND n.deleted_at IS NULL))`;
+}
+
+/** Inserts the batch's new rows of `entity`; a taken id writes nothing (ON CONFLICT), which the count catches. */
+function createStep(entity: SyncEntity): string {
+  const device = deviceFields[entity].map(snake);
+  const server = serverValuesOnCreate[entity];
+  const checks = Object.entries(parentsOf[entity]).map(([field, table]) =>
+    parentCheck(table, `r.${snake(field)}`),
+  );
+  const clip =
+    entity === 'site_recordings'
+      ? 'LEFT JOIN clip_blobs cb ON cb.sha256 = r.clip_sha256 AND cb.clinic_id = :clinicId'
+      : '';
+  return `INSERT INTO ${entity} (id, clinic_id, version, deleted_at, ${[...device, ...Object.keys(server)].join(', ')})
+    SELECT b.id, :clinicId, 1, b.deleted_at, ${[...device.map((c) => `r.${c}`), ...Object.values(server)].join(', ')}
+    FROM batch b CROSS JOIN LATERAL jsonb_populate_record(NULL::${entity}, b.fields) r ${clip}
+    WHERE b.entity = '${entity}' AND b.base_version = 0 ${checks.map((c) => `AND ${c}`).join(' ')}
+    ON CONFLICT (id) DO NOTHING RETURNING id`;
+}
+
+/** Applies the batch's edits of `entity` to rows of the clinic still at the version each edit was made on. */
+function editStep(entity: SyncEntity): string {
+  const device = deviceFields[entity].map(snake);
+  const checks = Object.entries(parentsOf[entity]).map(([field, table]) => {
+    const column = snake(field);
+    return `(b.fields->>'${column}' IS NULL OR ${parentCheck(table, `(b.fields->>'${column}')::uuid`)})`;
+  });
+  // The row itself (t) is the base of the new values, so fields the edit leaves out keep their values.
+  return `UPDATE ${entity} t
+    SET (${device.join(', ')}) = (SELECT ${device.map((c) => `r.${c}`).join(', ')} FROM jsonb_populate_record(t, b.fields) r),
+      version = t.version + 1, updated_at = now(),
+      deleted_at = CASE WHEN b.has_deleted_at THEN b.deleted_at ELSE t.deleted_at END
+    FROM batch b
+    WHERE b.entity = '${entity}' AND b.base_version > 0 AND t.id = b.id AND t.clinic_id = :clinicId
+      AND t.version = b.base_version ${checks.map((c) => `AND ${c}`).join(' ')}
+    RETURNING t.id`;
 }
 
 function encode(value: unknown): unknown {

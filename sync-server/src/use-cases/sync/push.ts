@@ -14,7 +14,13 @@ import {
   type RowData,
   type SyncEntity,
 } from '@/shared/protocol/sync';
-import { SyncRepository, parentsOf, type StoredRow } from '../../repositories/sync-repository';
+import {
+  SyncRepository,
+  parentsOf,
+  pgErrorOf,
+  type BatchMutation,
+  type StoredRow,
+} from '../../repositories/sync-repository';
 import type { Caller } from '../context';
 
 class Rejection extends Error {
@@ -90,13 +96,6 @@ function replayOf(mutationId: string, recorded: Record<string, unknown>): Mutati
   };
 }
 
-const PG_RETRY = new Set(['40001', '40P01']);
-
-function pgCode(error: unknown): { code?: string; constraint?: string; detail?: string } {
-  const e = error as { parent?: { code?: string; constraint?: string; detail?: string } };
-  return e?.parent ?? {};
-}
-
 const serverError = (m: Mutation) =>
   rejected(m, 'server_error', 'The server could not apply this change just now; it will be sent again.');
 
@@ -119,38 +118,115 @@ function refusalOf(m: Mutation, code: string, constraint?: string, detail?: stri
   return serverError(m);
 }
 
-type Checked =
-  { m: Mutation; change: ReturnType<typeof checkChange> } | { m: Mutation; rejection: MutationResult };
+type Change = ReturnType<typeof checkChange>;
+export type Checked = { m: Mutation; change: Change } | { m: Mutation; rejection: MutationResult };
+
+export function checkMutation(m: Mutation, role: Role): Checked {
+  try {
+    return { m, change: checkChange(m, role) };
+  } catch (error) {
+    if (error instanceof Rejection) return { m, rejection: rejected(m, error.code, error.message) };
+    throw error;
+  }
+}
 
 /**
- * Applies a batch in one transaction, in order. The quick pass runs every mutation straight; if the database
- * refuses one, the whole pass is undone and a careful pass runs each mutation under its own savepoint, so one bad
- * mutation fails alone and the others still apply. Either way each applied mutation's id is recorded in the same
- * transaction as its change, so a replay answers "already applied".
+ * Applies a batch. The usual batch (new rows and edits on the versions the server has) goes in one statement
+ * that writes all of it or nothing; any other batch, or one that statement declines, is applied one mutation at
+ * a time, which finds out each mutation's outcome. Either way each applied mutation's id is recorded with its
+ * change, so a replay answers "already applied".
  */
 export async function pushChanges(
   sequelize: Sequelize,
   caller: Caller,
   request: PushRequest,
 ): Promise<PushResponse> {
-  const checked: Checked[] = request.mutations.map((m) => {
+  const checked = request.mutations.map((m) => checkMutation(m, caller.role));
+  const batch = batchForOneStatement(checked);
+  if (batch) {
     try {
-      return { m, change: checkChange(m, caller.role) };
+      const repo = new SyncRepository(sequelize);
+      if (await repo.applyBatchAtOnce({ ...caller, deviceId: request.deviceId }, batch))
+        return { results: batch.map((b) => b.result as unknown as MutationResult) };
     } catch (error) {
-      if (error instanceof Rejection) return { m, rejection: rejected(m, error.code, error.message) };
+      // A database that cannot be reached now: the device sends the batch again.
+      if (!pgErrorOf(error).code) return { results: checked.map((c) => serverError(c.m)) };
       throw error;
     }
-  });
+  }
+  return applyOneByOne(sequelize, caller, request.deviceId, checked);
+}
+
+/**
+ * The batch as one statement's input, or null when deciding it on one snapshot could differ from deciding it in
+ * order: a mutation refused by the checks, a row changed twice, a new row missing fields (its refusal names
+ * them), a clip named by an edit (its state is looked up on the slow path), a parent created after its child or
+ * deleted by the same batch.
+ */
+export function batchForOneStatement(checked: Checked[]): BatchMutation[] | null {
+  const position = new Map<string, number>();
+  for (const [index, c] of checked.entries()) {
+    if ('rejection' in c || position.has(c.m.id)) return null;
+    position.set(c.m.id, index);
+  }
+  const batch: BatchMutation[] = [];
+  for (const [index, c] of checked.entries()) {
+    if ('rejection' in c) return null;
+    const { m, change } = c;
+    if (m.baseVersion === 0 && !syncFieldSchemas[m.entity].safeParse(change.fields).success) return null;
+    if (m.baseVersion !== 0 && m.entity === 'site_recordings' && 'clipSha256' in change.fields) return null;
+    for (const field of Object.keys(parentsOf[m.entity])) {
+      const parentId = change.fields[field];
+      const at = typeof parentId === 'string' ? position.get(parentId) : undefined;
+      if (at === undefined) continue;
+      const parent = checked[at] as { m: Mutation; change: Change };
+      if (parent.change.deletedAt !== undefined) return null;
+      if (parent.m.baseVersion === 0 && at > index) return null;
+    }
+    const newVersion = m.baseVersion + 1;
+    batch.push({
+      mutationId: m.mutationId,
+      entity: m.entity,
+      id: m.id,
+      baseVersion: m.baseVersion,
+      fields: change.fields,
+      deletedAt: m.baseVersion === 0 ? (change.deletedAt ?? null) : change.deletedAt,
+      result: { mutationId: m.mutationId, status: 'applied', newVersion },
+    });
+  }
+  return batch;
+}
+
+const RETRYABLE = new Set(['40001', '40P01']);
+
+/**
+ * One transaction, in order. The quick pass runs every mutation straight; if the database refuses one, the whole
+ * pass is undone and a careful pass runs each mutation under its own savepoint, so one bad mutation fails alone
+ * and the others still apply.
+ */
+async function applyOneByOne(
+  sequelize: Sequelize,
+  caller: Caller,
+  deviceId: string,
+  checked: Checked[],
+): Promise<PushResponse> {
   let careful = false;
   for (let attempt = 1; ; attempt++) {
     try {
-      return await sequelize.transaction((transaction) =>
-        applyBatch(new SyncRepository(sequelize, transaction), caller, request.deviceId, checked, careful),
-      );
+      return await sequelize.transaction(async (transaction) => {
+        const repo = new SyncRepository(sequelize, transaction);
+        const results: MutationResult[] = [];
+        for (const [index, c] of checked.entries()) {
+          if ('rejection' in c) results.push(c.rejection);
+          else if (careful) results.push(await applyIsolated(repo, caller, deviceId, c.m, c.change, index));
+          else results.push(await applyOrReject(repo, caller, deviceId, c.m, c.change));
+        }
+        return { results };
+      });
     } catch (error) {
-      const { code } = pgCode(error);
+      const { code } = pgErrorOf(error);
       if (code && attempt < 4) {
-        if (!PG_RETRY.has(code)) careful = true;
+        if (!RETRYABLE.has(code)) careful = true;
         continue;
       }
       return { results: checked.map((c) => ('rejection' in c ? c.rejection : serverError(c.m))) };
@@ -158,35 +234,17 @@ export async function pushChanges(
   }
 }
 
-async function applyBatch(
-  repo: SyncRepository,
-  caller: Caller,
-  deviceId: string,
-  checked: Checked[],
-  careful: boolean,
-): Promise<PushResponse> {
-  // No clinic lock here: the change-number trigger takes it (shared) at every row write, which is what pulls need.
-  // No look-up of recorded mutations either: a replay writes nothing on the quick path (its row exists, or is at
-  // a later version), so it reaches the slow path, which finds the record and answers "already applied".
-  const results: MutationResult[] = [];
-  for (const [index, c] of checked.entries()) {
-    if ('rejection' in c) results.push(c.rejection);
-    else if (careful)
-      results.push(await applyIsolated(repo, caller, deviceId, c.m, c.change, `mutation_${index}`));
-    else results.push(await applyOrReject(repo, caller, deviceId, c.m, c.change));
-  }
-  return { results };
-}
-
 async function applyOrReject(
   repo: SyncRepository,
   caller: Caller,
   deviceId: string,
   m: Mutation,
-  change: ReturnType<typeof checkChange>,
+  change: Change,
 ): Promise<MutationResult> {
   try {
-    return await applyOne(repo, caller, deviceId, m, change);
+    const result = await applyMutation(repo, caller, m, change, deviceId);
+    if (result.status !== 'already_applied') await repo.recordMutation(record(caller, deviceId, m, result));
+    return result;
   } catch (error) {
     // Rejections are decided before anything of this mutation is written, so the transaction stays usable.
     if (error instanceof Rejection) return rejected(m, error.code, error.message);
@@ -199,91 +257,40 @@ async function applyIsolated(
   caller: Caller,
   deviceId: string,
   m: Mutation,
-  change: ReturnType<typeof checkChange>,
-  savepoint: string,
+  change: Change,
+  index: number,
 ): Promise<MutationResult> {
-  await repo.savepoint(savepoint);
-  try {
-    const result = await applyOrReject(repo, caller, deviceId, m, change);
-    await repo.releaseSavepoint(savepoint);
-    return result;
-  } catch (error) {
-    const { code, constraint, detail } = pgCode(error);
-    // Not the mutation's fault (deadlock, serialization) or not the database's: the batch starts again.
-    if (!code || PG_RETRY.has(code)) throw error;
-    await repo.rollbackToSavepoint(savepoint);
-    // The mutation id is recorded already (a delivery that committed meanwhile, or another clinic's id).
-    if (code === '23505' && constraint === 'applied_mutations_pkey') {
-      const recorded = await repo.findAppliedMutation(m.mutationId);
-      if (recorded?.clinicId === caller.clinicId) return replayOf(m.mutationId, recorded.result);
-      if (recorded) return rejected(m, 'forbidden', 'This change id belongs to another clinic.');
-    }
-    return refusalOf(m, code, constraint, detail);
+  const outcome = await repo.isolated(`mutation_${index}`, () =>
+    applyOrReject(repo, caller, deviceId, m, change),
+  );
+  if ('value' in outcome) return outcome.value;
+  const { code, constraint, detail } = outcome.refused;
+  // The mutation id is recorded already (a delivery that committed meanwhile, or another clinic's id).
+  if (code === '23505' && constraint === 'applied_mutations_pkey') {
+    const recorded = await repo.findAppliedMutation(m.mutationId);
+    if (recorded?.clinicId === caller.clinicId) return replayOf(m.mutationId, recorded.result);
+    if (recorded) return rejected(m, 'forbidden', 'This change id belongs to another clinic.');
   }
+  return refusalOf(m, code, constraint, detail);
 }
 
-/**
- * The usual create and edit go in one statement each (write, version check and mutation record together); only
- * when that writes nothing does the mutation take the slow path, which finds out why.
- */
-async function applyOne(
-  repo: SyncRepository,
-  caller: Caller,
-  deviceId: string,
-  m: Mutation,
-  change: ReturnType<typeof checkChange>,
-): Promise<MutationResult> {
-  const { fields, deletedAt } = change;
-  const record = (result: MutationResult) => ({
-    mutationId: m.mutationId,
-    clinicId: caller.clinicId,
-    userId: caller.userId,
-    deviceId,
-    entity: m.entity,
-    rowId: m.id,
-    result: result as unknown as Record<string, unknown>,
-  });
-  if (m.baseVersion === 0) {
-    if (syncFieldSchemas[m.entity].safeParse(fields).success) {
-      const result: MutationResult = { mutationId: m.mutationId, status: 'applied', newVersion: 1 };
-      const written = await repo.insertRowRecorded(
-        m.entity,
-        caller.clinicId,
-        m.id,
-        { ...fields, ...(await serverFieldsOnCreate(repo, caller, m, fields)) },
-        deletedAt ?? null,
-        parentsOf[m.entity],
-        record(result),
-      );
-      if (written) return result;
-    }
-  } else if (!(m.entity === 'site_recordings' && 'clipSha256' in fields)) {
-    const result: MutationResult = {
-      mutationId: m.mutationId,
-      status: 'applied',
-      newVersion: m.baseVersion + 1,
-    };
-    const written = await repo.updateRowRecorded(
-      m.entity,
-      caller.clinicId,
-      m.id,
-      fields,
-      deletedAt,
-      m.baseVersion,
-      parentsOf[m.entity],
-      record(result),
-    );
-    if (written) return result;
-  }
-  return applySlowly(repo, caller, deviceId, m, change);
-}
+const record = (caller: Caller, deviceId: string, m: Mutation, result: MutationResult) => ({
+  mutationId: m.mutationId,
+  clinicId: caller.clinicId,
+  userId: caller.userId,
+  deviceId,
+  entity: m.entity,
+  rowId: m.id,
+  result: result as unknown as Record<string, unknown>,
+});
 
-async function applySlowly(
+/** One mutation, decided on its row as it is now (locked): a replay, a create, a stale edit or an edit. */
+async function applyMutation(
   repo: SyncRepository,
   caller: Caller,
-  deviceId: string,
   m: Mutation,
-  { fields, deletedAt }: ReturnType<typeof checkChange>,
+  change: Change,
+  deviceId: string,
 ): Promise<MutationResult> {
   const row = await repo.lockRow(m.entity, m.id);
   // Read after the row lock: a delivery of the same mutation that held it has committed by now.
@@ -295,79 +302,81 @@ async function applySlowly(
   }
   if (row && row.clinicId !== caller.clinicId)
     throw new Rejection('forbidden', 'This row belongs to another clinic.');
+  if (!row) return createRow(repo, caller, m, change);
+  if (row.version !== m.baseVersion) return recordConflict(repo, caller, m, change, row, deviceId);
+  return editRow(repo, caller, m, change, row);
+}
 
-  let result: MutationResult;
-  if (!row) {
-    if (m.baseVersion !== 0) {
-      throw new Rejection(
-        'unknown_row',
-        `There is no ${m.entity} row ${m.id} on the server to change (version ${m.baseVersion}).`,
-      );
-    }
-    const full = syncFieldSchemas[m.entity].safeParse(fields);
-    if (!full.success) {
-      const missing = full.error.issues.map((i) => i.path.join('.')).join(', ');
-      throw new Rejection(
-        'invalid_change',
-        `A new ${m.entity} row needs every field; missing or invalid: ${missing}.`,
-      );
-    }
-    await checkParents(repo, caller.clinicId, m, fields);
-    await repo.insertRow(
-      m.entity,
-      caller.clinicId,
-      m.id,
-      { ...fields, ...(await serverFieldsOnCreate(repo, caller, m, fields)) },
-      deletedAt ?? null,
+async function createRow(
+  repo: SyncRepository,
+  caller: Caller,
+  m: Mutation,
+  { fields, deletedAt }: Change,
+): Promise<MutationResult> {
+  if (m.baseVersion !== 0) {
+    throw new Rejection(
+      'unknown_row',
+      `There is no ${m.entity} row ${m.id} on the server to change (version ${m.baseVersion}).`,
     );
-    result = { mutationId: m.mutationId, status: 'applied', newVersion: 1 };
-  } else if (row.version !== m.baseVersion) {
-    const conflictId = randomUUID();
-    await repo.insertConflict({
-      id: conflictId,
-      clinicId: caller.clinicId,
-      entity: m.entity,
-      rowId: m.id,
-      mutationId: m.mutationId,
-      deviceId,
-      userId: caller.userId,
-      serverVersion: { ...snapshot(row), lastWriter: await repo.lastWriterOf(m.id) },
-      clientVersion: {
-        version: m.baseVersion,
-        deletedAt: deletedAt ?? row.deletedAt,
-        data: { ...row.data, ...fields },
-        change: m.change,
-      },
-    });
-    result = { mutationId: m.mutationId, status: 'conflict', conflictId, serverVersion: row.version };
-  } else {
-    await checkParents(repo, caller.clinicId, m, fields);
-    const newVersion = row.version + 1;
-    await repo.updateRow(m.entity, m.id, fields, deletedAt, newVersion);
-    if (
-      m.entity === 'site_recordings' &&
-      'clipSha256' in fields &&
-      fields.clipSha256 !== row.data.clipSha256
-    ) {
-      await repo.setServerFields(
-        m.entity,
-        m.id,
-        await clipFields(repo, caller.clinicId, fields.clipSha256 as string | null),
-      );
-    }
-    result = { mutationId: m.mutationId, status: 'applied', newVersion };
   }
+  const full = syncFieldSchemas[m.entity].safeParse(fields);
+  if (!full.success) {
+    const missing = full.error.issues.map((i) => i.path.join('.')).join(', ');
+    throw new Rejection(
+      'invalid_change',
+      `A new ${m.entity} row needs every field; missing or invalid: ${missing}.`,
+    );
+  }
+  await checkParents(repo, caller.clinicId, m, fields);
+  const serverFields = await serverFieldsOnCreate(repo, caller, m, fields);
+  await repo.insertRow(m.entity, caller.clinicId, m.id, { ...fields, ...serverFields }, deletedAt ?? null);
+  return { mutationId: m.mutationId, status: 'applied', newVersion: 1 };
+}
 
-  await repo.recordMutation({
-    mutationId: m.mutationId,
+/** A stale edit never overwrites: both versions are kept, field by field, for an admin to settle. */
+async function recordConflict(
+  repo: SyncRepository,
+  caller: Caller,
+  m: Mutation,
+  { fields, deletedAt }: Change,
+  row: StoredRow,
+  deviceId: string,
+): Promise<MutationResult> {
+  const conflictId = randomUUID();
+  await repo.insertConflict({
+    id: conflictId,
     clinicId: caller.clinicId,
-    userId: caller.userId,
-    deviceId,
     entity: m.entity,
     rowId: m.id,
-    result: result as unknown as Record<string, unknown>,
+    mutationId: m.mutationId,
+    deviceId,
+    userId: caller.userId,
+    serverVersion: { ...snapshot(row), lastWriter: await repo.lastWriterOf(m.id) },
+    clientVersion: {
+      version: m.baseVersion,
+      deletedAt: deletedAt ?? row.deletedAt,
+      data: { ...row.data, ...fields },
+      change: m.change,
+    },
   });
-  return result;
+  return { mutationId: m.mutationId, status: 'conflict', conflictId, serverVersion: row.version };
+}
+
+async function editRow(
+  repo: SyncRepository,
+  caller: Caller,
+  m: Mutation,
+  { fields, deletedAt }: Change,
+  row: StoredRow,
+): Promise<MutationResult> {
+  await checkParents(repo, caller.clinicId, m, fields);
+  const newVersion = row.version + 1;
+  await repo.updateRow(m.entity, m.id, fields, deletedAt, newVersion);
+  if (m.entity === 'site_recordings' && 'clipSha256' in fields && fields.clipSha256 !== row.data.clipSha256) {
+    const clip = await clipFields(repo, caller.clinicId, fields.clipSha256 as string | null);
+    await repo.setServerFields(m.entity, m.id, clip);
+  }
+  return { mutationId: m.mutationId, status: 'applied', newVersion };
 }
 
 function snapshot(row: StoredRow): Record<string, unknown> {
