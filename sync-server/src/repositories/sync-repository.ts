@@ -6,7 +6,7 @@ import {
   type RowData,
   type SyncEntity,
 } from '@/shared/protocol/sync';
-import { execute, selectRows } from './practice-db';
+import { execute, selectRows } from './sql';
 
 // Two-integer advisory lock class shared with the change-sequence trigger (see the sync-pull-guard migration).
 const SYNC_LOCK_CLASS = 7301;
