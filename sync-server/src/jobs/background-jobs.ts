@@ -1,8 +1,7 @@
 // The server's recurring work, as jobs on the shared queue (job-queue.ts): each runs once across all instances.
 import type { Sequelize } from 'sequelize';
-import { practiceServices } from '../services/practice-services';
+import { services } from '../composition-root';
 import { purgeErased } from '../use-cases/clients/erase-client';
-import { reviewServices } from '../use-cases/review/services';
 import { runFollowUpReminders, STALE_MS as REMINDER_STALE_MS } from './follow-up-reminders';
 import type { JobDefinition } from './job-queue';
 import { runReportMailRetries, SENDING_STALE_MS } from './report-mail-retries';
@@ -16,13 +15,13 @@ export function backgroundJobs(sequelize: Sequelize, jwtSecret: string): JobDefi
       intervalMs: 10 * MINUTE,
       // A reminder claimed by a run that died is claimed again after REMINDER_STALE_MS; the lease matches it.
       leaseMs: REMINDER_STALE_MS,
-      run: () => runFollowUpReminders(sequelize, practiceServices().mail),
+      run: () => runFollowUpReminders(sequelize, services().mail),
     },
     {
       name: 'report-mail-retries',
       intervalMs: MINUTE,
       leaseMs: SENDING_STALE_MS,
-      run: () => runReportMailRetries(sequelize, reviewServices().mail),
+      run: () => runReportMailRetries(sequelize, services().mail),
     },
     {
       name: 'erasure-purge',

@@ -35,7 +35,7 @@ import {
   type RangeLookup,
 } from './measurements';
 import { rangesForClinic } from './ranges';
-import { reviewServices } from './services';
+import { services } from '../../composition-root';
 
 export const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
 const TRACE_BUCKETS_PER_SECOND = 250;
@@ -177,15 +177,15 @@ export async function clipBytes(
   const blob = await findClipBlob(deps.sequelize, caller.clinicId, record.clipSha256);
   if (!blob || blob.state !== 'stored')
     throw new AppError('clip_not_stored', 'The clip for this site has not reached the server yet.', 409);
-  const services = reviewServices();
-  const bytes = await services.blobStore.get(blob.storageKey);
+  const { blobStore, openClip } = services();
+  const bytes = await blobStore.get(blob.storageKey);
   if (!bytes)
     throw new AppError('clip_missing', 'The clip is recorded but its file is missing on the server.', 410);
   if (!isSealed(bytes)) return bytes;
-  if (!services.openClip)
+  if (!openClip)
     throw new AppError('clip_sealed', 'The clip is sealed and this server has no key to open it.', 409);
   try {
-    return await services.openClip(caller.clinicId, bytes);
+    return await openClip(caller.clinicId, bytes);
   } catch {
     throw new AppError(
       'clip_unopenable',
