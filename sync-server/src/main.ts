@@ -1,36 +1,14 @@
-import pino, { type Logger } from 'pino';
+import pino from 'pino';
 import { createApp } from './app';
-import { composeServices, replaceServices, syncServicesFor } from './composition-root';
+import { composeServices, replaceServices, startBackgroundWork } from './composition-root';
 import { MissingSecretError } from './config/secrets';
 import { ConfigError, loadConfig, type Config } from './config/settings';
 import { createSequelize } from './db/database';
-import { backgroundJobs } from './jobs/background-jobs';
-import { startJobQueue } from './jobs/job-queue';
 import { markStopping } from './lifecycle';
 
 function fail(message: string): never {
   console.error(message);
   process.exit(1);
-}
-
-/**
- * Follow-up reminders, report e-mail retries and the purge of erased clients run as jobs on the queue shared by
- * every instance (jobs/job-queue.ts). Staged uploads are processed at start-up by every instance: the server may
- * have died between an upload's last byte and its processing (a per-upload lock keeps that to one instance).
- */
-function startBackgroundWork(sequelize: ReturnType<typeof createSequelize>, config: Config, logger: Logger) {
-  const queue = startJobQueue(sequelize, backgroundJobs(sequelize, config.secrets.jwtSecret), {
-    instance: config.FOURPOINT_INSTANCE,
-    pollMs: config.JOB_POLL_MS,
-    onError: (job, error) => logger.warn({ err: error, job }, 'background job failed; it is retried later'),
-  });
-  syncServicesFor(sequelize)
-    .uploads.processStaged()
-    .then(
-      (counts) => logger.info(counts, 'staged uploads processed at start-up'),
-      (error) => logger.warn({ err: error }, 'staged uploads could not be processed at start-up'),
-    );
-  return queue;
 }
 
 function readConfig(): Config {
@@ -63,7 +41,13 @@ function main(): void {
     // TRUST_PROXY=loopback when a balancer on this machine forwards the client's address (npm start sets it).
     trustProxy: config.TRUST_PROXY ?? false,
   });
-  const jobs = startBackgroundWork(sequelize, config, logger);
+  // Reminders, report-mail retries, the erasure purge and staged uploads: jobs on pg-boss, once across instances.
+  const jobs = startBackgroundWork(sequelize, config, (job, error) =>
+    logger.warn({ err: error, job }, 'background job failed; it is retried later'),
+  ).catch((error: unknown) => {
+    logger.error({ err: error }, 'the job queue could not start; background work waits for a restart');
+    return null;
+  });
   const server = app.listen(port, host);
 
   server.on('listening', () => {
@@ -92,7 +76,7 @@ function main(): void {
     const requestsDone = new Promise<void>((resolve) => server.close(() => resolve()));
     server.closeIdleConnections();
     setTimeout(() => server.closeAllConnections(), config.SHUTDOWN_GRACE_MS).unref();
-    Promise.all([requestsDone, jobs.stop()])
+    Promise.all([requestsDone, jobs.then((queue) => queue?.stop(config.SHUTDOWN_GRACE_MS))])
       .then(() => sequelize.close())
       .finally(() => process.exit(0));
   };
