@@ -71,7 +71,7 @@ export async function startJobQueue(
       expireInSeconds: job.expireInSeconds,
     };
     // Idempotent across instances starting at once; the update keeps an existing queue's settings current.
-    await boss.createQueue(job.name, queue);
+    await createQueueRetryingDeadlocks(boss, job.name, queue);
     await boss.updateQueue(job.name, queue);
     await boss.work(job.name, { pollingIntervalSeconds: Math.max(0.5, options.pollMs / 1000) }, async () => {
       try {
@@ -89,6 +89,20 @@ export async function startJobQueue(
     // Resolves once the runs in progress have finished (or the time is up: pg-boss then fails them for a retry).
     stop: (timeoutMs = 30_000) => boss.stop({ graceful: true, wait: true, timeout: timeoutMs }),
   };
+}
+
+/**
+ * pg-boss makes a queue's partition in one statement; instances starting together can deadlock there (PostgreSQL
+ * 40P01 aborts one of them). The queue is then being made by the other: try again.
+ */
+async function createQueueRetryingDeadlocks(boss: PgBoss, name: string, queue: PgBoss.Queue) {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await boss.createQueue(name, queue);
+    } catch (error) {
+      if ((error as { code?: string }).code !== '40P01' || attempt >= 5) throw error;
+    }
+  }
 }
 
 /**
