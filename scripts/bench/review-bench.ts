@@ -17,7 +17,7 @@ import { Clinic, initModels } from '@/sync-server/src/models';
 import { createUser } from '@/sync-server/src/repositories/users-repository';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
 import { hashPassword } from '@/sync-server/src/services/passwords';
-import { configureReviewServices } from '@/sync-server/src/use-cases/review/services';
+import { replaceServices } from '@/sync-server/src/composition-root';
 import { seedDemo } from '@/sync-server/seeders/demo';
 import { analyseDemoClip } from '@/sync-server/seeders/analyse-demo-clip';
 
@@ -184,7 +184,7 @@ async function firstTrace(sequelize: Sequelize, databaseUrl: string): Promise<bo
   const blobStore = new LocalDiskBlobStore(blobDir);
   const password = randomUUID();
   await seedDemo({ sequelize, blobStore, password, analyse: analyseDemoClip, log: () => undefined });
-  configureReviewServices({ blobStore });
+  replaceServices({ blobStore });
   const app = createApp({
     sequelize,
     jwtSecret: randomUUID(),

@@ -8,7 +8,8 @@ import path from 'node:path';
 import { GetObjectCommand, ListObjectsV2Command } from '@aws-sdk/client-s3';
 import { startS3Fake } from '@/sync-server/fakes/s3-fake';
 import { LocalDiskBlobStore, type BlobStore } from '@/sync-server/src/services/blob-store';
-import { blobStoreFromEnv } from '@/sync-server/src/services/blob-store-config';
+import { blobStoreFrom } from '@/sync-server/src/composition-root';
+import { loadConfig, type Env } from '@/sync-server/src/config/settings';
 import { S3BlobStore } from '@/sync-server/src/services/blob-store-s3';
 
 const workDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-blob-store-'));
@@ -125,22 +126,23 @@ describe('S3 blob store specifics', () => {
 });
 
 describe('blob store configuration', () => {
+  // Read as the server reads it: the configuration module, then the composition root.
+  const blobStoreFromEnv = (env: Env) => blobStoreFrom(loadConfig(env));
+
   test('when BLOB_STORE is unset, then clips stay on local disk', () => {
-    expect(blobStoreFromEnv({}, path.join(workDir, 'default'))).toBeInstanceOf(LocalDiskBlobStore);
+    expect(blobStoreFromEnv({ BLOB_DIR: path.join(workDir, 'default') })).toBeInstanceOf(LocalDiskBlobStore);
   });
 
   test('when BLOB_STORE=s3 with an endpoint and bucket, then the S3 store writes to that bucket', async () => {
-    const store = blobStoreFromEnv(
-      {
-        BLOB_STORE: 's3',
-        S3_ENDPOINT: fake.endpoint,
-        S3_BUCKET: bucket,
-        S3_PREFIX: `configured-${randomUUID().slice(0, 8)}/`,
-        S3_ACCESS_KEY_ID: fake.credentials.accessKeyId,
-        S3_SECRET_ACCESS_KEY: fake.credentials.secretAccessKey,
-      },
-      path.join(workDir, 'unused'),
-    );
+    const store = blobStoreFromEnv({
+      BLOB_STORE: 's3',
+      S3_ENDPOINT: fake.endpoint,
+      S3_BUCKET: bucket,
+      S3_PREFIX: `configured-${randomUUID().slice(0, 8)}/`,
+      S3_ACCESS_KEY_ID: fake.credentials.accessKeyId,
+      S3_SECRET_ACCESS_KEY: fake.credentials.secretAccessKey,
+      BLOB_DIR: path.join(workDir, 'unused'),
+    });
     expect(store).toBeInstanceOf(S3BlobStore);
     const bytes = uniqueBytes();
     const { storageKey } = await store.put(bytes);
@@ -149,10 +151,10 @@ describe('blob store configuration', () => {
   });
 
   test('when the S3 configuration is incomplete or unknown, then start-up says what is missing', () => {
-    expect(() => blobStoreFromEnv({ BLOB_STORE: 's3' }, workDir)).toThrow('needs S3_BUCKET');
-    expect(() =>
-      blobStoreFromEnv({ BLOB_STORE: 's3', S3_BUCKET: 'b', S3_ACCESS_KEY_ID: 'k' }, workDir),
-    ).toThrow('Set both S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY');
-    expect(() => blobStoreFromEnv({ BLOB_STORE: 'ftp' }, workDir)).toThrow('must be "local" or "s3"');
+    expect(() => blobStoreFromEnv({ BLOB_STORE: 's3' })).toThrow('needs S3_BUCKET');
+    expect(() => blobStoreFromEnv({ BLOB_STORE: 's3', S3_BUCKET: 'b', S3_ACCESS_KEY_ID: 'k' })).toThrow(
+      'Set both S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY',
+    );
+    expect(() => blobStoreFromEnv({ BLOB_STORE: 'ftp' })).toThrow('must be "local" or "s3"');
   });
 });

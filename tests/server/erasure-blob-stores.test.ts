@@ -11,7 +11,7 @@ import { QueryTypes } from 'sequelize';
 import { startS3Fake } from '@/sync-server/fakes/s3-fake';
 import { LocalDiskBlobStore, type BlobStore } from '@/sync-server/src/services/blob-store';
 import { S3BlobStore } from '@/sync-server/src/services/blob-store-s3';
-import { provideSyncServices } from '@/sync-server/src/services/sync-services';
+import { provideSyncServices } from '@/sync-server/src/composition-root';
 import { purgeErased } from '@/sync-server/src/use-cases/clients/erase-client';
 import { makeClinic, makeTestContext, tokensFor, type TestContext } from './helpers/test-app';
 import { insertClient, insertSession } from './helpers/practice-rows';

@@ -1,69 +1,84 @@
-// The job queue shared by server instances (sync-server/src/jobs/job-queue.ts): three queues on three connections
-// stand for three instances. A due job runs once across them; a failing one is retried later with a growing wait
-// and, once it has failed three times in a row, is counted on the admin's overview.
+// The job queue shared by server instances (sync-server/src/jobs/job-queue.ts, on pg-boss): three queues with
+// their own connections stand for three instances. A run they all ask for runs once across them; a failing one
+// is retried after a growing wait and, once it has failed three times in a row, is counted on the admin's
+// overview until a run succeeds; stopping waits for the run in progress.
 import { randomUUID } from 'node:crypto';
 import request from 'supertest';
-import { QueryTypes, type Sequelize } from 'sequelize';
-import { createSequelize } from '@/sync-server/src/db/database';
-import { FAILING_AFTER, startJobQueue, type JobDefinition } from '@/sync-server/src/jobs/job-queue';
+import { QueryTypes } from 'sequelize';
+import {
+  FAILING_AFTER,
+  RETRY_DELAY_SECONDS,
+  startJobQueue,
+  type JobDefinition,
+  type JobQueue,
+} from '@/sync-server/src/jobs/job-queue';
 import { databaseUrl, makeClinic, makeTestContext, tokensFor, type TestContext } from './helpers/test-app';
 
-const HOUR = 60 * 60 * 1000;
+jest.setTimeout(120_000);
 let ctx: TestContext;
-const connections: Sequelize[] = [];
-const names: string[] = [];
+const started: JobQueue[] = [];
 
 beforeAll(() => {
   ctx = makeTestContext();
-  for (let i = 0; i < 3; i++) connections.push(createSequelize(databaseUrl(), { poolMax: 2 }));
 });
 afterAll(async () => {
-  await ctx.sequelize.query('DELETE FROM scheduled_jobs WHERE name = ANY(ARRAY[:names]::text[])', {
-    replacements: { names },
-  });
-  await Promise.all(connections.map((c) => c.close()));
+  await Promise.all(started.map((queue) => queue.stop()));
   await ctx.close();
 });
 
-const jobName = (label: string) => {
-  const name = `test-${label}-${randomUUID()}`;
-  names.push(name);
-  return name;
+const start = async (job: JobDefinition) => {
+  // The cron schedule stays off: these tests ask for each run themselves.
+  const queue = await startJobQueue(databaseUrl(), [job], { pollMs: 500, schedule: false });
+  started.push(queue);
+  return queue;
+};
+const stop = async (queue: JobQueue) => {
+  started.splice(started.indexOf(queue), 1);
+  await queue.stop();
 };
 
-const row = async (name: string) =>
-  (
-    await ctx.sequelize.query<{ failures: number; runs: string; last_error: string | null; wait_ms: number }>(
-      `SELECT failures, runs, last_error,
-              (extract(epoch FROM next_run_at - now()) * 1000)::float8 AS wait_ms
-         FROM scheduled_jobs WHERE name = :name`,
-      { type: QueryTypes.SELECT, replacements: { name } },
-    )
-  )[0];
-
-test('when three instances poll a due job at the same moment, then it runs once', async () => {
-  let runs = 0;
-  const job: JobDefinition = {
-    name: jobName('once'),
-    intervalMs: HOUR,
-    leaseMs: HOUR,
-    run: async () => {
-      runs += 1;
-      // Long enough for the other instances' polls to meet the claimed row.
-      await new Promise((resolve) => setTimeout(resolve, 200));
-    },
-  };
-  const queues = connections.map((c, i) => startJobQueue(c, [job], { instance: `i${i + 1}`, pollMs: HOUR }));
-  await Promise.all(queues.map((q) => q.runDue()));
-  await Promise.all(queues.map((q) => q.stop()));
-  expect(runs).toBe(1);
-  const after = await row(job.name);
-  expect(Number(after.runs)).toBe(1);
-  // The next run is an interval away, not now.
-  expect(after.wait_ms).toBeGreaterThan(HOUR - 60_000);
+const jobDefinition = (label: string, run: () => Promise<unknown>): JobDefinition => ({
+  name: `test-${label}-${randomUUID()}`,
+  cron: '0 0 1 1 *',
+  expireInSeconds: 60,
+  run,
 });
 
-test('when a job keeps failing, then each retry waits longer and after three failures the admin sees it', async () => {
+type JobRow = { id: string; state: string; retry_count: number; wait_ms: number; output: string | null };
+const jobsOf = (name: string) =>
+  ctx.sequelize.query<JobRow>(
+    `SELECT id, state::text, retry_count, output::text,
+            (extract(epoch FROM start_after - now()) * 1000)::float8 AS wait_ms
+       FROM pgboss.job WHERE name = :name ORDER BY created_on`,
+    { type: QueryTypes.SELECT, replacements: { name } },
+  );
+
+/** Waits (bounded by the test's timeout) until the job's runs satisfy `done`. */
+async function until(name: string, done: (rows: JobRow[]) => boolean): Promise<JobRow[]> {
+  for (;;) {
+    const rows = await jobsOf(name);
+    if (done(rows)) return rows;
+    await new Promise((resolve) => setTimeout(resolve, 100));
+  }
+}
+
+test('when three instances ask for the same run at the same moment, then it runs once', async () => {
+  let runs = 0;
+  const job = jobDefinition('once', async () => {
+    runs += 1;
+    // Long enough for the other instances' workers to poll while it runs.
+    await new Promise((resolve) => setTimeout(resolve, 1500));
+  });
+  const queues = await Promise.all([start(job), start(job), start(job)]);
+  const asked = await Promise.all(queues.map((queue) => queue.runSoon(job.name)));
+  expect(asked.filter((id) => id !== null)).toHaveLength(1);
+  await until(job.name, (rows) => rows.length > 0 && rows.every((row) => row.state === 'completed'));
+  await Promise.all(queues.map(stop));
+  expect(runs).toBe(1);
+  expect(await jobsOf(job.name)).toHaveLength(1);
+});
+
+test('when a job keeps failing, then each retry waits longer and after three failures the admin sees it until a run succeeds', async () => {
   const clinic = await makeClinic('Jobs');
   const tokens = await tokensFor(ctx.app, clinic);
   const failing = async () =>
@@ -75,46 +90,55 @@ test('when a job keeps failing, then each retry waits longer and after three fai
     ).body.failingBackgroundTasks as number;
   const before = await failing();
 
-  const job: JobDefinition = {
-    name: jobName('failing'),
-    intervalMs: HOUR,
-    leaseMs: HOUR,
-    run: async () => {
-      throw new Error('the mail relay did not answer');
-    },
-  };
-  const queue = startJobQueue(connections[0], [job], { instance: 'i1', pollMs: HOUR });
-  // A new job is due at once: the queue's first poll runs it (and this waits for that poll).
-  await queue.runDue();
-  const waits: number[] = [(await row(job.name)).wait_ms];
-  for (let i = 1; i < FAILING_AFTER; i++) {
+  const job = jobDefinition('failing', async () => {
+    throw new Error('the mail relay did not answer');
+  });
+  const queue = await start(job);
+  const id = await queue.runSoon(job.name);
+  const waits: number[] = [];
+  for (let attempt = 1; attempt < FAILING_AFTER; attempt++) {
+    const [row] = await until(job.name, ([r]) => r?.state === 'retry' && r.retry_count === attempt - 1);
+    waits.push(row.wait_ms);
     // Due now, as if the wait had passed.
-    await ctx.sequelize.query('UPDATE scheduled_jobs SET next_run_at = now() WHERE name = :name', {
-      replacements: { name: job.name },
+    await ctx.sequelize.query('UPDATE pgboss.job SET start_after = now() WHERE id = :id', {
+      replacements: { id },
     });
-    await queue.runDue();
-    waits.push((await row(job.name)).wait_ms);
+    await until(job.name, ([r]) => r?.retry_count === attempt);
   }
-  await queue.stop();
-  const after = await row(job.name);
-  expect(after.failures).toBe(FAILING_AFTER);
-  expect(after.last_error).toBe('the mail relay did not answer');
-  // About 1, 2 and 4 minutes.
-  expect(waits[0]).toBeGreaterThan(50_000);
-  expect(waits[1]).toBeGreaterThan(waits[0] * 1.8);
-  expect(waits[2]).toBeGreaterThan(waits[1] * 1.8);
+  const [last] = await until(job.name, ([r]) => r?.state === 'failed');
+  expect(last.retry_count).toBe(FAILING_AFTER - 1);
+  expect(last.output).toContain('the mail relay did not answer');
+  // pg-boss's backoff: the n-th retry waits 2^(n-1) to 2^n times the delay (random in between), so each wait is
+  // longer than the one before (a few seconds allowed for the time this test took to read it).
+  const delayMs = RETRY_DELAY_SECONDS * 1000;
+  expect(waits[0]).toBeGreaterThan(delayMs - 5_000);
+  expect(waits[0]).toBeLessThanOrEqual(2 * delayMs);
+  expect(waits[1]).toBeGreaterThan(2 * delayMs - 5_000);
+  expect(waits[1]).toBeLessThanOrEqual(4 * delayMs);
   expect(await failing()).toBe(before + 1);
+  await stop(queue);
 
-  // One success clears it.
-  const recovered = startJobQueue(connections[1], [{ ...job, run: async () => undefined }], {
-    instance: 'i2',
-    pollMs: HOUR,
-  });
-  await ctx.sequelize.query('UPDATE scheduled_jobs SET next_run_at = now() WHERE name = :name', {
-    replacements: { name: job.name },
-  });
-  await recovered.runDue();
-  await recovered.stop();
-  expect((await row(job.name)).failures).toBe(0);
+  // Another instance's successful run clears it.
+  const recovered = await start({ ...job, run: async () => undefined });
+  const next = await recovered.boss.send(job.name, {});
+  await until(job.name, (rows) => rows.some((row) => row.id === next && row.state === 'completed'));
   expect(await failing()).toBe(before);
+});
+
+test('when an instance stops while a run is in progress, then the stop waits for it to finish', async () => {
+  let finished = false;
+  let begun!: () => void;
+  const running = new Promise<void>((resolve) => (begun = resolve));
+  const job = jobDefinition('graceful', async () => {
+    begun();
+    await new Promise((resolve) => setTimeout(resolve, 1000));
+    finished = true;
+  });
+  const queue = await start(job);
+  await queue.runSoon(job.name);
+  await running;
+  await stop(queue);
+  expect(finished).toBe(true);
+  const [row] = await jobsOf(job.name);
+  expect(row.state).toBe('completed');
 });

@@ -6,7 +6,7 @@ import request from 'supertest';
 import type { Role } from '@/shared/protocol';
 import { mailboxListSchema, mailboxMessageDetailSchema } from '@/shared/protocol/review';
 import { CLINIC_HEADER, createSmtpMailService } from '@/sync-server/src/services/mail';
-import { configureReviewServices } from '@/sync-server/src/use-cases/review/services';
+import { replaceServices } from '@/sync-server/src/composition-root';
 import { startPracticeFakes, type PracticeFakes } from './helpers/practice-fakes';
 import { addClient, addSession } from './helpers/review-fixtures';
 import { makeClinic, makeTestContext, tokensFor, type TestClinic } from './helpers/test-app';
@@ -140,7 +140,7 @@ describe('the mailbox is off unless mail goes to the local fake', () => {
   const relay = (host: string, port: number) =>
     createSmtpMailService({ host, port, from: 'r@fourpoint.test' });
   afterEach(() =>
-    configureReviewServices({ mail: relay('127.0.0.1', fakes.mail.smtpPort), mailboxUrl: mailboxUrl() }),
+    replaceServices({ mail: relay('127.0.0.1', fakes.mail.smtpPort), mailboxUrl: mailboxUrl() }),
   );
 
   const expectOff = async () => {
@@ -155,17 +155,17 @@ describe('the mailbox is off unless mail goes to the local fake', () => {
   };
 
   test('when no mailbox address is configured, then it says there is no local mailbox', async () => {
-    configureReviewServices({ mailboxUrl: null });
+    replaceServices({ mailboxUrl: null });
     await expectOff();
   });
 
   test('when mail goes to a real relay while the fake’s port is still configured, then the view is off', async () => {
-    configureReviewServices({ mail: relay('smtp.relay.example.com', 587), mailboxUrl: mailboxUrl() });
+    replaceServices({ mail: relay('smtp.relay.example.com', 587), mailboxUrl: mailboxUrl() });
     await expectOff();
   });
 
   test('when mail goes to another SMTP server on this host, then the view is off', async () => {
-    configureReviewServices({ mail: relay('127.0.0.1', fakes.mail.smtpPort + 1), mailboxUrl: mailboxUrl() });
+    replaceServices({ mail: relay('127.0.0.1', fakes.mail.smtpPort + 1), mailboxUrl: mailboxUrl() });
     await expectOff();
   });
 });

@@ -8,8 +8,7 @@ import { clientCautionParagraphs } from '@/shared/cautions';
 import { sealClip } from '@/shared/seal';
 import { runFollowUpReminders } from '@/sync-server/src/jobs/follow-up-reminders';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
-import { practiceServices } from '@/sync-server/src/services/practice-services';
-import { provideSyncServices } from '@/sync-server/src/services/sync-services';
+import { provideSyncServices, services } from '@/sync-server/src/composition-root';
 import { purgeErased } from '@/sync-server/src/use-cases/clients/erase-client';
 import { startPracticeFakes, messagesTo, type PracticeFakes } from './helpers/practice-fakes';
 import { insertClient, insertSession, isoDay } from './helpers/practice-rows';
@@ -104,7 +103,7 @@ describe('follow-up reminders', () => {
     const [{ email }] = await q<{ email: string }>(`SELECT email FROM clients WHERE id = :clientId`, {
       clientId,
     });
-    const mail = practiceServices().mail;
+    const mail = services().mail;
     const first = await runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id });
     const second = await runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id });
     expect(first.sent).toBeGreaterThanOrEqual(1);
@@ -121,7 +120,7 @@ describe('follow-up reminders', () => {
     const [{ email }] = await q<{ email: string }>(`SELECT email FROM clients WHERE id = :clientId`, {
       clientId,
     });
-    const mail = practiceServices().mail;
+    const mail = services().mail;
     await Promise.all([
       runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id }),
       runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id }),
@@ -136,21 +135,21 @@ describe('follow-up reminders', () => {
       clientId,
     });
     fakes.mail.deferNext(1);
-    const first = await runFollowUpReminders(ctx.sequelize, practiceServices().mail, { clinicId: clinic.id });
+    const first = await runFollowUpReminders(ctx.sequelize, services().mail, { clinicId: clinic.id });
     expect(first.failed).toBe(1);
     const [row] = await q<{ status: string }>(
       `SELECT status FROM follow_up_reminders WHERE client_id = :clientId`,
       { clientId },
     );
     expect(row.status).toBe('pending');
-    await runFollowUpReminders(ctx.sequelize, practiceServices().mail, { clinicId: clinic.id });
+    await runFollowUpReminders(ctx.sequelize, services().mail, { clinicId: clinic.id });
     expect(messagesTo(fakes.mail, email)).toHaveLength(1);
   });
 
   test('when a follow-up is further off than the notice period, then no reminder is made yet, but the operator sees it as due soon', async () => {
     const clientId = await insertClient(ctx.sequelize, clinic.id);
     await insertSession(ctx.sequelize, clinic.id, clientId, { followUpDate: isoDay(10) });
-    await runFollowUpReminders(ctx.sequelize, practiceServices().mail, { clinicId: clinic.id });
+    await runFollowUpReminders(ctx.sequelize, services().mail, { clinicId: clinic.id });
     expect(
       await q(`SELECT 1 FROM follow_up_reminders WHERE client_id = :clientId`, { clientId }),
     ).toHaveLength(0);

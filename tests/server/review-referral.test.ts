@@ -11,7 +11,7 @@ import { DEMO_USERS, seedDemo } from '@/sync-server/seeders/demo';
 import { demoPassword } from '@/sync-server/src/config/secrets';
 import { AuditEvent } from '@/sync-server/src/models';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
-import { configureReviewServices } from '@/sync-server/src/use-cases/review/services';
+import { replaceServices } from '@/sync-server/src/composition-root';
 import { addClient, addSession } from './helpers/review-fixtures';
 import { makeClinic, makeTestContext, tokensFor, type TestClinic } from './helpers/test-app';
 
@@ -26,7 +26,7 @@ let tokens: Record<Role, string>;
 jest.setTimeout(180_000);
 
 beforeAll(async () => {
-  configureReviewServices({ blobStore });
+  replaceServices({ blobStore });
   await seedDemo({ sequelize: ctx.sequelize, blobStore, password: demoPassword(), analyse: analyseDemoClip });
   const practitioner = DEMO_USERS.find((u) => u.role === 'practitioner')!;
   const signedIn = await request(ctx.app)

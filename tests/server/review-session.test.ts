@@ -17,7 +17,7 @@ import { runReportMailRetries, SENDING_STALE_MS } from '@/sync-server/src/jobs/r
 import { AuditEvent } from '@/sync-server/src/models';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
 import { createSmtpMailService } from '@/sync-server/src/services/mail';
-import { configureReviewServices } from '@/sync-server/src/use-cases/review/services';
+import { replaceServices } from '@/sync-server/src/composition-root';
 import { startSmtpFake, type SmtpFake } from '@/sync-server/fakes/smtp-fake';
 import { addClient, addSession, burstWav, storeClip } from './helpers/review-fixtures';
 import { makeClinic, makeTestContext, tokensFor, type TestClinic } from './helpers/test-app';
@@ -39,7 +39,7 @@ const auth = (token: string) => ({ authorization: `Bearer ${token}` });
 
 beforeAll(async () => {
   fake = await startSmtpFake();
-  configureReviewServices({
+  replaceServices({
     blobStore,
     mail: createSmtpMailService({
       host: '127.0.0.1',
@@ -148,13 +148,13 @@ describe('session view', () => {
       startedAt: new Date('2026-10-10T09:00:00Z'),
       sites: { mitral: { heartRateBpm: 70, clip: sealedClip } },
     });
-    configureReviewServices({ openClip: async (_clinicId, sealed) => openClip(sealed, keys.privateKey) });
+    replaceServices({ openClip: async (_clinicId, sealed) => openClip(sealed, keys.privateKey) });
     const res = await request(ctx.app)
       .get(`/api/review/sessions/${session}/sites/mitral/trace`)
       .set(auth(tokens.practitioner));
     expect(res.status).toBe(200);
     expect(traceSchema.parse(res.body).durationS).toBeCloseTo(4, 3);
-    configureReviewServices({
+    replaceServices({
       openClip: async (_clinicId, sealed) => openClip(sealed, generateClinicKeyPair().privateKey),
     });
     // The trace was kept with the clip on first view: drawing it again does not open the clip.
@@ -459,7 +459,7 @@ describe('report by e-mail', () => {
   });
 
   test('when the relay is down, then the send fails with a clear message and the message waits for a retry', async () => {
-    configureReviewServices({
+    replaceServices({
       mail: createSmtpMailService({
         host: '127.0.0.1',
         port: 1,
@@ -473,7 +473,7 @@ describe('report by e-mail', () => {
       .send({});
     expect(res.body.mail.state).toBe('failed');
     expect(res.body.mail.lastError).toMatch(/could not be reached/);
-    configureReviewServices({
+    replaceServices({
       mail: createSmtpMailService({ host: '127.0.0.1', port: fake.smtpPort, from: 'reports@fourpoint.test' }),
     });
     const retry = await request(ctx.app)

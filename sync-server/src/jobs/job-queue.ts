@@ -1,159 +1,132 @@
-// Recurring background work shared by every server instance on one database: each job runs once per due time
-// across all instances, is retried with a growing wait when it fails, and is counted for the admin when it keeps
-// failing. pg-boss (the well-known queue for this) is not among the project's packages, so this is the small part
-// of it the server needs, on one table (scheduled_jobs):
+// Background work shared by every server instance on one database, on pg-boss (its own schema `pgboss`):
 //
-// - Once across instances: an instance runs a job only after claiming its row in one committed statement
-//   (`FOR UPDATE SKIP LOCKED`, so instances never wait on each other) that also moves `next_run_at` past the
-//   present and sets a lease (`locked_until`). Another instance polling at the same moment finds it taken.
-// - At least once: a claim whose instance died (no success or failure recorded) is taken again when its lease
-//   ends. Each job body is itself safe to run twice (reminders and report mails claim their rows; the purge
-//   deletes what is due), so an overrun lease costs a repeat, never a double e-mail.
-// - Retry with backoff: a failure schedules the next try after 1, 2, 4... minutes (capped at the job's interval),
-//   keeps the error, and counts consecutive failures; a success resets the count.
-// - Graceful stop: `stop()` stops claiming and waits for the runs in progress.
+// - Once across instances: each job has a queue with the `stately` policy (at most one run waiting and one
+//   running), pg-boss's cron sends one run per matching minute however many instances keep the schedule, and a
+//   worker takes a run with `FOR UPDATE SKIP LOCKED`, so two instances never run the same one.
+// - At least once: a run whose instance died stays active until its expiry (`expireInSeconds`), then pg-boss fails
+//   it and it is retried. Each job body is itself safe to run twice (reminders and report mails claim their rows;
+//   the purge deletes what is due; staged uploads are processed under a lock), so a repeat never doubles an e-mail.
+// - Retry with backoff: a failed run is retried FAILING_AFTER - 1 times after a growing, jittered wait (pg-boss's
+//   retryBackoff: the n-th retry waits 2^(n-1) to 2^n times RETRY_DELAY_SECONDS). A run that fails every time ends `failed`, and a queue whose latest
+//   finished run failed is counted on the admin's overview ("automatic task is not working") until one succeeds.
+// - Graceful stop: `stop()` stops fetching and waits for the runs in progress.
+import PgBoss from 'pg-boss';
 import type { Sequelize } from 'sequelize';
 import { QueryTypes } from 'sequelize';
 
 export interface JobDefinition {
   name: string;
-  /** Time between two successful runs. */
-  intervalMs: number;
-  /** How long a claim lasts before another instance may take the job again (longer than one run can take). */
-  leaseMs: number;
+  /** When it runs: a cron line (pg-boss checks it each minute). */
+  cron: string;
+  /** How long one run may take before it counts as failed (and is retried): longer than a run can take. */
+  expireInSeconds: number;
   run(): Promise<unknown>;
 }
 
-/** Consecutive failures from which a job is shown to the admin as not working. */
+/** Runs in a row (the first and its retries) after which a job is shown to the admin as not working. */
 export const FAILING_AFTER = 3;
-const FIRST_RETRY_MS = 60 * 1000;
+/** The first retry waits this long to twice as long; each next one twice as long again. */
+export const RETRY_DELAY_SECONDS = 60;
+/** pg-boss's schema; the attention query reads its tables. */
+const SCHEMA = 'pgboss';
 
 export interface JobQueue {
-  /** Claims and runs whatever is due now (the poll loop calls this; tests may too). */
-  runDue(): Promise<string[]>;
-  stop(): Promise<void>;
+  boss: PgBoss;
+  /**
+   * Asks for a run now. Instances asking in the same minute get one run between them (the same slot as a cron
+   * run), and at most one run waits per job.
+   */
+  runSoon(name: string): Promise<string | null>;
+  /** Stops fetching and waits for the runs in progress (up to `timeoutMs`). */
+  stop(timeoutMs?: number): Promise<void>;
 }
 
-export function startJobQueue(
-  sequelize: Sequelize,
+export async function startJobQueue(
+  databaseUrl: string,
   jobs: readonly JobDefinition[],
-  options: { instance: string; pollMs?: number; onError?: (job: string, error: unknown) => void },
-): JobQueue {
-  const byName = new Map(jobs.map((job) => [job.name, job]));
-  const running = new Set<Promise<unknown>>();
-  let stopped = false;
-
-  const registered = sequelize.query(
-    // A new job is due at once; an existing row keeps its schedule and history.
-    `INSERT INTO scheduled_jobs (name) SELECT unnest(ARRAY[:names]::text[]) ON CONFLICT (name) DO NOTHING`,
-    { replacements: { names: jobs.map((job) => job.name) } },
-  );
-
-  const claimOne = async (): Promise<JobDefinition | null> => {
-    const rows = await sequelize.query<{ name: string }>(
-      `UPDATE scheduled_jobs j
-          SET locked_by = :instance,
-              locked_until = now() + (:leases::jsonb ->> j.name)::int * interval '1 millisecond',
-              last_started_at = now(),
-              runs = runs + 1
-        WHERE j.name = (
-          SELECT name FROM scheduled_jobs
-           WHERE name = ANY(ARRAY[:names]::text[]) AND next_run_at <= now()
-             AND (locked_until IS NULL OR locked_until < now())
-           ORDER BY next_run_at
-           LIMIT 1
-           FOR UPDATE SKIP LOCKED)
-      RETURNING j.name`,
-      {
-        type: QueryTypes.SELECT,
-        replacements: {
-          instance: options.instance,
-          names: jobs.map((job) => job.name),
-          leases: JSON.stringify(Object.fromEntries(jobs.map((job) => [job.name, job.leaseMs]))),
-        },
-      },
-    );
-    return rows[0] ? byName.get(rows[0].name)! : null;
-  };
-
-  const runClaimed = async (job: JobDefinition) => {
-    try {
-      await job.run();
-      await sequelize.query(
-        `UPDATE scheduled_jobs SET failures = 0, last_error = NULL, last_succeeded_at = now(),
-            locked_by = NULL, locked_until = NULL,
-            next_run_at = now() + :intervalMs * interval '1 millisecond'
-          WHERE name = :name`,
-        { replacements: { name: job.name, intervalMs: job.intervalMs } },
-      );
-    } catch (error) {
-      options.onError?.(job.name, error);
-      const message = error instanceof Error ? error.message : String(error);
-      // `failures` on the right is the count before this one: the waits are 1, 2, 4... minutes, capped.
-      await sequelize.query(
-        `UPDATE scheduled_jobs SET failures = failures + 1, last_error = :message,
-            locked_by = NULL, locked_until = NULL,
-            next_run_at = now()
-              + LEAST(:intervalMs, :firstRetryMs * power(2, failures)) * interval '1 millisecond'
-          WHERE name = :name`,
-        {
-          replacements: {
-            name: job.name,
-            message: message.slice(0, 2000),
-            intervalMs: job.intervalMs,
-            firstRetryMs: FIRST_RETRY_MS,
-          },
-        },
-      );
-    }
-  };
-
-  const pollOnce = async (): Promise<string[]> => {
-    await registered;
-    const ran: string[] = [];
-    for (;;) {
-      if (stopped) return ran;
-      const job = await claimOne();
-      if (!job) return ran;
-      const run = runClaimed(job);
-      running.add(run);
-      await run.finally(() => running.delete(run));
-      ran.push(job.name);
-    }
-  };
-
-  // One poll at a time per instance: a poll asked for while another runs starts when it ends.
-  let polling: Promise<unknown> = Promise.resolve();
-  let queuedPolls = 0;
-  const runDue = (): Promise<string[]> => {
-    queuedPolls += 1;
-    const next = polling.then(pollOnce).finally(() => (queuedPolls -= 1));
-    polling = next.catch((error: unknown) => options.onError?.('job-queue', error));
-    return next;
-  };
-  void runDue().catch(() => undefined);
-  // The timer skips a beat while a poll is still going (a long job), rather than queueing polls behind it.
-  const timer = setInterval(() => {
-    if (queuedPolls === 0) void runDue().catch(() => undefined);
-  }, options.pollMs ?? 30_000);
-  timer.unref();
-
+  options: {
+    pollMs: number;
+    onError?: (job: string, error: unknown) => void;
+    /** Keep each job's cron schedule (false in tests that send runs themselves). */
+    schedule?: boolean;
+  },
+): Promise<JobQueue> {
+  const boss = new PgBoss({
+    connectionString: databaseUrl,
+    schema: SCHEMA,
+    application_name: 'fourpoint-jobs',
+    // A few connections: the queue's own statements are short, and the job bodies use the server's pool.
+    max: 4,
+    schedule: options.schedule ?? true,
+  });
+  boss.on('error', (error) => options.onError?.('job-queue', error));
+  await boss.start();
+  for (const job of jobs) {
+    const queue: PgBoss.Queue = {
+      name: job.name,
+      policy: 'stately',
+      retryLimit: FAILING_AFTER - 1,
+      retryDelay: RETRY_DELAY_SECONDS,
+      retryBackoff: true,
+      expireInSeconds: job.expireInSeconds,
+    };
+    // Idempotent across instances starting at once; the update keeps an existing queue's settings current.
+    await createQueueRetryingDeadlocks(boss, job.name, queue);
+    await boss.updateQueue(job.name, queue);
+    await boss.work(job.name, { pollingIntervalSeconds: Math.max(0.5, options.pollMs / 1000) }, async () => {
+      try {
+        await job.run();
+      } catch (error) {
+        options.onError?.(job.name, error);
+        throw error;
+      }
+    });
+    if (options.schedule ?? true) await boss.schedule(job.name, job.cron);
+  }
   return {
-    runDue,
-    async stop() {
-      stopped = true;
-      clearInterval(timer);
-      await polling;
-      await Promise.allSettled([...running]);
-    },
+    boss,
+    runSoon: (name) => boss.send(name, {}, { singletonKey: 'run-soon', singletonSeconds: 60 }),
+    // Resolves once the runs in progress have finished (or the time is up: pg-boss then fails them for a retry).
+    stop: (timeoutMs = 30_000) => boss.stop({ graceful: true, wait: true, timeout: timeoutMs }),
   };
 }
 
-/** Jobs that have failed FAILING_AFTER times in a row (for the admin's overview; no clinic data). */
+/**
+ * pg-boss makes a queue's partition in one statement; instances starting together can deadlock there (PostgreSQL
+ * 40P01 aborts one of them). The queue is then being made by the other: try again.
+ */
+async function createQueueRetryingDeadlocks(boss: PgBoss, name: string, queue: PgBoss.Queue) {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await boss.createQueue(name, queue);
+    } catch (error) {
+      if ((error as { code?: string }).code !== '40P01' || attempt >= 5) throw error;
+    }
+  }
+}
+
+/**
+ * Jobs whose latest finished run failed after all its retries (for the admin's overview; no clinic data). Zero
+ * before pg-boss has ever started on this database.
+ */
 export async function failingJobCount(sequelize: Sequelize): Promise<number> {
-  const [row] = await sequelize.query<{ n: string }>(
-    'SELECT count(*) AS n FROM scheduled_jobs WHERE failures >= :failingAfter',
-    { type: QueryTypes.SELECT, replacements: { failingAfter: FAILING_AFTER } },
+  const [installed] = await sequelize.query<{ present: boolean }>(
+    `SELECT to_regclass('${SCHEMA}.job') IS NOT NULL AND to_regclass('${SCHEMA}.archive') IS NOT NULL AS present`,
+    { type: QueryTypes.SELECT },
   );
-  return Number(row?.n ?? 0);
+  if (!installed?.present) return 0;
+  const [row] = await sequelize.query<{ n: number }>(
+    `SELECT count(*)::int AS n FROM (
+       SELECT DISTINCT ON (name) name, state FROM (
+         SELECT name, state::text, completed_on FROM ${SCHEMA}.job WHERE state IN ('completed', 'failed')
+         UNION ALL
+         SELECT name, state::text, completed_on FROM ${SCHEMA}.archive WHERE state IN ('completed', 'failed')
+       ) finished
+       WHERE name NOT LIKE '\\_\\_pgboss%'
+       ORDER BY name, completed_on DESC
+     ) latest
+     WHERE state = 'failed'`,
+    { type: QueryTypes.SELECT },
+  );
+  return row?.n ?? 0;
 }

@@ -1,8 +1,8 @@
 import type { Request } from 'express';
-import { practiceServices } from '../services/practice-services';
+import { services } from '../composition-root';
 
 /** The origin links in e-mails point at: configured, or the one the admin's browser used. */
 export const linkBase = (req: Request): string =>
-  practiceServices().publicBaseUrl ?? `${req.protocol}://${req.get('host')}`;
+  services().publicBaseUrl ?? `${req.protocol}://${req.get('host')}`;
 
 export const ipOf = (req: Request): string | null => req.ip ?? null;

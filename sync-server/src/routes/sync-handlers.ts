@@ -16,7 +16,7 @@ import {
 import { bytesToHex } from '@/shared/seal';
 import { AppError } from '../errors';
 import { callerOf } from '../middleware/authenticate';
-import { syncServicesFor } from '../services/sync-services';
+import { syncServicesFor } from '../composition-root';
 import { blobStatus } from '../use-cases/sync/clips';
 import { getConflict, listConflicts, resolveConflict } from '../use-cases/sync/conflicts';
 import { pullChanges } from '../use-cases/sync/pull';

@@ -1,5 +1,5 @@
 import nodemailer, { type Transporter } from 'nodemailer';
-import { smtpCredentials } from '../config/secrets';
+import type { Config } from '../config/settings';
 
 export type MailAttachment = { filename: string; content: Buffer; contentType: string };
 
@@ -133,14 +133,14 @@ export function createSmtpMailService(options: SmtpOptions): MailService {
   };
 }
 
-/** SMTP settings from the environment; defaults reach the local fake that `npm start` runs. */
-export function mailServiceFromEnv(env: NodeJS.ProcessEnv = process.env): MailService {
-  const credentials = smtpCredentials(env);
+/** SMTP settings from the configuration; defaults reach the local fake that `npm start` runs. */
+export function mailServiceFrom(config: Config): MailService {
+  const credentials = config.smtpCredentials;
   return createSmtpMailService({
-    host: env.SMTP_HOST ?? '127.0.0.1',
-    port: Number(env.SMTP_PORT ?? 2525),
-    from: env.MAIL_FROM ?? 'Fourpoint reports <reports@fourpoint.test>',
-    secure: env.SMTP_SECURE === '1',
+    host: config.SMTP_HOST,
+    port: config.SMTP_PORT,
+    from: config.MAIL_FROM,
+    secure: config.SMTP_SECURE === true,
     user: credentials?.user,
     password: credentials?.password,
   });

@@ -1,5 +1,5 @@
 import Stripe from 'stripe';
-import { readSecrets } from '../config/secrets';
+import { loadConfig, type Config, type Env } from '../config/settings';
 import { AppError } from '../errors';
 
 /** What the rest of the server learns from a provider's webhook, in our own words. */
@@ -189,18 +189,17 @@ export function createStripePaymentsService(options: PaymentsOptions): PaymentsS
   };
 }
 
-/** Settings from the environment; with PAYMENTS_FAKE_PORT and no live key, the SDK talks to the local fake. */
-export function paymentsServiceFromEnv(
-  env: NodeJS.ProcessEnv = process.env,
-): PaymentsService & { usesFake: boolean } {
-  const { secretKey, webhookSecret } = readSecrets(env).payments;
-  const usesFake = !env.PAYMENTS_API_HOST && !secretKey.startsWith('sk_live_');
+/** Settings from the configuration; with no provider host and no live key, the SDK talks to the local fake. */
+export function paymentsServiceFrom(config: Config): PaymentsService & { usesFake: boolean } {
+  const { secretKey, webhookSecret } = config.secrets.payments;
+  const usesFake = !config.PAYMENTS_API_HOST && !secretKey.startsWith('sk_live_');
   const service = createStripePaymentsService({
     secretKey,
     webhookSecret,
-    api: usesFake
-      ? { host: '127.0.0.1', port: Number(env.PAYMENTS_FAKE_PORT ?? 12111), protocol: 'http' }
-      : undefined,
+    api: usesFake ? { host: '127.0.0.1', port: config.PAYMENTS_FAKE_PORT, protocol: 'http' } : undefined,
   });
   return Object.assign(service, { usesFake });
 }
+
+/** The same, from an environment object of its own (tests/server/repository-secrets.test.ts). */
+export const paymentsServiceFromEnv = (env: Env) => paymentsServiceFrom(loadConfig(env));

@@ -2,7 +2,7 @@ import fs from 'node:fs/promises';
 import path from 'node:path';
 import type http from 'node:http';
 import { FileStore } from '@tus/file-store';
-import { Server } from '@tus/server';
+import { Server, type DataStore } from '@tus/server';
 import type { Request } from 'express';
 import { SYNC_PATHS } from '@/shared/protocol/sync';
 import { AppError } from '../errors';
@@ -53,22 +53,53 @@ function checkUploadId(uploadId: string, clinicId: string): void {
 }
 
 /**
+ * Where uploads in progress live, shared by every instance: a folder (the local default) or object storage
+ * (tus-s3-staging.ts). Processing needs a complete upload's bytes as a local file.
+ */
+export interface UploadStaging {
+  datastore: DataStore;
+  /** A complete upload's bytes as a local file; `release` removes that copy (never the upload itself). */
+  localCopy(uploadId: string): Promise<{ file: string; release(): Promise<void> }>;
+  /** Removes an upload's bytes and its bookkeeping (kept in the blob store, or refused). */
+  remove(uploadId: string): Promise<void>;
+  /** The ids of uploads in progress or complete (the staged-uploads job looks for complete ones). */
+  list(): Promise<string[]>;
+}
+
+/** Uploads in progress in one folder every instance shares (each upload's bytes beside its .json sidecar). */
+export function folderStaging(directory: string): UploadStaging {
+  return {
+    datastore: new FileStore({ directory }),
+    localCopy: async (uploadId) => ({ file: path.join(directory, uploadId), release: async () => undefined }),
+    async remove(uploadId) {
+      const file = path.join(directory, uploadId);
+      await fs.rm(file, { force: true });
+      await fs.rm(`${file}.json`, { force: true });
+    },
+    list: async () =>
+      (await fs.readdir(directory).catch(() => [] as string[]))
+        .filter((name) => name.endsWith('.json'))
+        .map((name) => name.slice(0, -'.json'.length)),
+  };
+}
+
+/**
  * Resumable clip uploads (tus 1.0). Uploads are named `<clinicId>.<sha256>.<random>`, so a request for another
  * clinic's upload is refused before tus touches it. The routes in front have already checked the caller's role.
  */
 export function createClipUploads(
-  directory: string,
+  staging: UploadStaging,
   hooks: TusHooks,
   options: {
     /**
-     * Locks shared by every process using `directory` (several instances behind a balancer). Without it, tus's
+     * Locks shared by every process using `staging` (several instances behind a balancer). Without it, tus's
      * in-memory locker and this process's own bookkeeping keep one process's requests apart, which is enough
-     * only when one process serves the folder.
+     * only when one process serves the uploads.
      */
     locker?: PgUploadLocker;
   } = {},
 ): ClipUploads {
-  const datastore = new FileStore({ directory });
+  const { datastore } = staging;
   const { locker } = options;
   // A clip is processed under this lock, so an upload whose last PATCH reached one instance while its HEAD reached
   // another is processed once; the second finds the staged file gone and answers from the blob store.
@@ -90,7 +121,6 @@ export function createClipUploads(
   const settleOnce = async (uploadId: string): Promise<StagedOutcome> => {
     const [, clinicId, sha256] = UPLOAD_ID.exec(uploadId) ?? [];
     if (!clinicId) return { kind: 'absent' };
-    const file = path.join(directory, uploadId);
     let upload;
     try {
       upload = await datastore.getUpload(uploadId);
@@ -99,17 +129,19 @@ export function createClipUploads(
     }
     if (upload.size === undefined || upload.offset !== upload.size) return { kind: 'incomplete' };
     let outcome: StagedOutcome;
+    const copy = await staging.localCopy(uploadId);
     try {
-      await hooks.onComplete(clinicId, sha256, file);
+      await hooks.onComplete(clinicId, sha256, copy.file);
       outcome = { kind: 'stored' };
     } catch (error) {
       // Anything but a refusal (the database or the blob store down) keeps the staged bytes for a retry.
       if (!(error instanceof AppError)) throw error;
       outcome = { kind: 'refused', error };
+    } finally {
+      await copy.release();
     }
-    // Kept in the blob store, or refused: either way the staged bytes and their .json sidecar go.
-    await fs.rm(file, { force: true });
-    await fs.rm(`${file}.json`, { force: true });
+    // Kept in the blob store, or refused: either way the staged bytes and their bookkeeping go.
+    await staging.remove(uploadId);
     return outcome;
   };
 
@@ -171,11 +203,9 @@ export function createClipUploads(
     },
     async processStaged() {
       const counts = { stored: 0, refused: 0, failed: 0 };
-      const entries = await fs.readdir(directory).catch(() => [] as string[]);
-      for (const name of entries) {
-        if (!name.endsWith('.json')) continue;
+      for (const uploadId of await staging.list()) {
         try {
-          const outcome = await settle(name.slice(0, -'.json'.length));
+          const outcome = await settle(uploadId);
           if (outcome.kind === 'stored') counts.stored++;
           if (outcome.kind === 'refused') counts.refused++;
         } catch {

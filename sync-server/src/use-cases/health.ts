@@ -3,7 +3,7 @@ import type { HealthResponse, ReadinessResponse } from '@/shared/protocol';
 import { isStopping } from '../lifecycle';
 import { databaseAnswers } from '../repositories/health-repository';
 import { blobKeyFor } from '../services/blob-store';
-import { syncServicesFor } from '../services/sync-services';
+import { syncServicesFor } from '../composition-root';
 
 export async function checkHealth(sequelize: Sequelize): Promise<HealthResponse> {
   return (await databaseAnswers(sequelize)) ? { ok: true, db: 'up' } : { ok: false, db: 'down' };

@@ -8,7 +8,7 @@ import { execute, selectRows } from '../repositories/sql';
 import { findUserByEmailForSignIn, normaliseEmail } from '../repositories/users-repository';
 import { assertAcceptablePassword } from '../services/password-policy';
 import { hashPassword } from '../services/passwords';
-import { practiceServices } from '../services/practice-services';
+import { services } from '../composition-root';
 import type { UseCaseDeps } from './context';
 
 /** Short-lived: the link only has to last until the person reads the e-mail (OWASP ASVS 4.0.3 V2.3.1, V2.5.x). */
@@ -119,7 +119,7 @@ export async function requestPasswordReset(
     });
     const payload = Buffer.from(JSON.stringify({ r: id, e: expiresAt.getTime() })).toString('base64url');
     const token = `${payload}${tokenSeparator}${signature(payload, user.email, user.passwordHash, deps.jwtSecret).toString('base64url')}`;
-    void practiceServices()
+    void services()
       .mail.send({
         clinicId: user.clinicId,
         to: user.email,

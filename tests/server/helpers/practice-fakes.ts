@@ -11,8 +11,7 @@ import { startSmtpFake, type SmtpFake } from '@/sync-server/fakes/smtp-fake';
 import { readSecrets } from '@/sync-server/src/config/secrets';
 import { createSmtpMailService } from '@/sync-server/src/services/mail';
 import { createStripePaymentsService } from '@/sync-server/src/services/payments';
-import { setPracticeServices } from '@/sync-server/src/services/practice-services';
-import { configureReviewServices } from '@/sync-server/src/use-cases/review/services';
+import { replaceServices } from '@/sync-server/src/composition-root';
 
 export type PracticeFakes = {
   mail: SmtpFake;
@@ -36,7 +35,7 @@ export async function startPracticeFakes(app: Express): Promise<PracticeFakes> {
     from: 'Fourpoint tests <tests@fourpoint.test>',
   });
   const blobDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-practice-blobs-'));
-  setPracticeServices({
+  replaceServices({
     mail: mailService,
     payments: createStripePaymentsService({
       secretKey,
@@ -45,9 +44,9 @@ export async function startPracticeFakes(app: Express): Promise<PracticeFakes> {
     }),
     publicBaseUrl: baseUrl,
     registerWebhook: true,
+    // The admin's Mailbox view reads this fake's listing.
+    mailboxUrl: `http://127.0.0.1:${mail.httpPort}`,
   });
-  // Report mails go through the review services: the same fake, whose mailbox the admin's Mailbox view reads.
-  configureReviewServices({ mail: mailService, mailboxUrl: `http://127.0.0.1:${mail.httpPort}` });
   return {
     mail,
     payments,

@@ -13,7 +13,7 @@ import {
   type SyncEngineOptions,
 } from '@/shared/sync';
 import { LocalDiskBlobStore, type BlobStore } from '@/sync-server/src/services/blob-store';
-import { provideSyncServices, type SyncServices } from '@/sync-server/src/services/sync-services';
+import { provideSyncServices, type SyncServices } from '@/sync-server/src/composition-root';
 import { makeClinic, makeTestContext, signIn, type TestClinic, type TestContext } from '../helpers/test-app';
 
 export interface SyncTestServer {

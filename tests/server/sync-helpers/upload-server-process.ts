@@ -10,7 +10,7 @@ import pino from 'pino';
 import { createApp } from '@/sync-server/src/app';
 import { createSequelize } from '@/sync-server/src/db/database';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
-import { provideSyncServices } from '@/sync-server/src/services/sync-services';
+import { provideSyncServices } from '@/sync-server/src/composition-root';
 
 async function main() {
   const env = process.env;

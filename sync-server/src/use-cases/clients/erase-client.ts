@@ -4,7 +4,7 @@ import { syncEntities } from '@/shared/protocol/sync';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as repo from '../../repositories/erasure-repository';
-import { syncServicesFor } from '../../services/sync-services';
+import { syncServicesFor } from '../../composition-root';
 import type { Caller, UseCaseDeps } from '../context';
 import { requireFieldWrites } from '../field-access';
 import { clientNotFound } from './client-records';

@@ -6,7 +6,7 @@ import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as records from '../../repositories/client-records-repository';
 import * as repo from '../../repositories/export-repository';
 import { iso } from '../../repositories/sql';
-import { syncServicesFor } from '../../services/sync-services';
+import { syncServicesFor } from '../../composition-root';
 import { renderReportPdf } from '../../services/report-pdf';
 import { clientNotFound } from '../clients/client-records';
 import { buildReportInput } from '../review/report';

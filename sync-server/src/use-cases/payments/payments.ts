@@ -11,7 +11,7 @@ import { recordAuditEvent } from '../../repositories/audit-repository';
 import { findClientRow } from '../../repositories/client-records-repository';
 import { iso } from '../../repositories/sql';
 import * as repo from '../../repositories/payments-repository';
-import { practiceServices } from '../../services/practice-services';
+import { services } from '../../composition-root';
 import type { Caller, UseCaseDeps } from '../context';
 import { getSettings } from '../settings/settings';
 
@@ -67,7 +67,7 @@ export async function createPayment(
   const offer = settings.offers.find((o) => o.id === input.offerId);
   if (!offer)
     throw new AppError('unknown_offer', 'This clinic does not offer that; pick one from the list.', 400);
-  const services = practiceServices();
+  const practice = services();
   const id = randomUUID();
   await deps.sequelize.transaction(async (transaction) => {
     await repo.insertPayment(
@@ -98,8 +98,8 @@ export async function createPayment(
       transaction,
     );
   });
-  if (services.registerWebhook) await services.payments.registerWebhook(`${base}${WEBHOOK_PATH}`);
-  const checkout = await services.payments.createCheckout({
+  if (practice.registerWebhook) await practice.payments.registerWebhook(`${base}${WEBHOOK_PATH}`);
+  const checkout = await practice.payments.createCheckout({
     amountCents: offer.amountCents,
     currency: settings.currency,
     description: `${offer.label} at ${settings.name}`,
@@ -113,7 +113,7 @@ export async function createPayment(
   let emailed = false;
   if ((input.sendEmail ?? true) && client.email) {
     try {
-      await services.mail.send({
+      await practice.mail.send({
         clinicId: caller.clinicId,
         to: client.email,
         subject: `Payment for your ${offer.label.toLowerCase()} at ${settings.name}`,
@@ -143,7 +143,7 @@ export async function handlePaymentWebhook(
   rawBody: Buffer,
   signature: string | undefined,
 ): Promise<WebhookOutcome> {
-  const event = practiceServices().payments.parseWebhook(rawBody, signature);
+  const event = services().payments.parseWebhook(rawBody, signature);
   return deps.sequelize.transaction(async (transaction) => {
     const fresh = await repo.claimEvent(deps.sequelize, event.eventId, event.kind, transaction);
     if (!fresh) return { received: true, duplicate: true, applied: 'none' };
@@ -225,7 +225,7 @@ export async function refundPayment(deps: UseCaseDeps, caller: Caller, paymentId
     ip: caller.ip,
   });
   // The provider confirms with a webhook; the status changes when it arrives.
-  await practiceServices().payments.refund(payment.payment_intent_id, `refund-${payment.id}`);
+  await services().payments.refund(payment.payment_intent_id, `refund-${payment.id}`);
   return toPayment((await repo.findPayment(deps.sequelize, caller.clinicId, paymentId))!);
 }
 

@@ -6,10 +6,9 @@ import {
   type MailboxMessageDetail,
 } from '@/shared/protocol/review';
 import { AppError } from '../../errors';
-import { CLINIC_HEADER, type MailService } from '../../services/mail';
-import { practiceServices } from '../../services/practice-services';
+import { CLINIC_HEADER } from '../../services/mail';
+import { services } from '../../composition-root';
 import type { Caller } from '../context';
-import { reviewServices } from './services';
 
 // The admin's Mailbox is a view of the local SMTP fake, which keeps every clinic's mail in one list. It shows a
 // message only when the message carries the caller's clinic in CLINIC_HEADER (set by the mail service on every
@@ -46,19 +45,19 @@ async function fetchFake(url: string): Promise<Response> {
 }
 
 /**
- * The fake's address, only when every mail service the server sends through delivers to that very fake (same
+ * The fake's address, only when the mail service the server sends through delivers to that very fake (same
  * loopback host, the SMTP port the fake says is its own). A real relay anywhere turns the view off, whatever
  * MAIL_FAKE_HTTP_PORT says.
  */
 async function localMailbox(): Promise<string> {
-  const base = reviewServices().mailboxUrl;
+  const base = services().mailboxUrl;
   if (!base) throw noMailbox();
-  const relays: MailService['relay'][] = [reviewServices().mail.relay, practiceServices().mail.relay];
-  if (relays.some((relay) => !LOOPBACK.has(relay.host))) throw noMailbox();
+  const { relay } = services().mail;
+  if (!LOOPBACK.has(relay.host)) throw noMailbox();
   const identity = fakeIdentitySchema.safeParse(
     await (await fetchFake(`${base}/api/identity`)).json().catch(() => null),
   );
-  if (!identity.success || relays.some((relay) => relay.port !== identity.data.smtpPort)) throw noMailbox();
+  if (!identity.success || relay.port !== identity.data.smtpPort) throw noMailbox();
   return base;
 }
 

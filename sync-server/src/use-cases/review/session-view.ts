@@ -36,7 +36,7 @@ import {
   type RangeLookup,
 } from './measurements';
 import { rangesForClinic } from './ranges';
-import { reviewServices } from './services';
+import { services } from '../../composition-root';
 
 export const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
 
@@ -186,15 +186,15 @@ export async function clipBytes(
 }
 
 async function openStoredClip(caller: Caller, storageKey: string): Promise<Uint8Array> {
-  const services = reviewServices();
-  const bytes = await services.blobStore.get(storageKey);
+  const { blobStore, openClip } = services();
+  const bytes = await blobStore.get(storageKey);
   if (!bytes)
     throw new AppError('clip_missing', 'The clip is recorded but its file is missing on the server.', 410);
   if (!isSealed(bytes)) return bytes;
-  if (!services.openClip)
+  if (!openClip)
     throw new AppError('clip_sealed', 'The clip is sealed and this server has no key to open it.', 409);
   try {
-    return await services.openClip(caller.clinicId, bytes);
+    return await openClip(caller.clinicId, bytes);
   } catch {
     throw new AppError(
       'clip_unopenable',

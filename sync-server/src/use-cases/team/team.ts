@@ -17,7 +17,7 @@ import * as repo from '../../repositories/team-repository';
 import { createUser, normaliseEmail } from '../../repositories/users-repository';
 import { assertAcceptablePassword } from '../../services/password-policy';
 import { hashPassword } from '../../services/passwords';
-import { practiceServices } from '../../services/practice-services';
+import { services } from '../../composition-root';
 import { signIn, type IssuedTokens } from '../auth';
 import type { Caller, UseCaseDeps } from '../context';
 
@@ -174,7 +174,7 @@ export async function inviteUser(
   )}`;
   let emailed = true;
   try {
-    await practiceServices().mail.send({
+    await services().mail.send({
       clinicId: caller.clinicId,
       to: email,
       subject: `You are invited to ${row.clinic_name} on Fourpoint`,
