@@ -93,3 +93,14 @@ test('when settings cannot work, then one line names each and says what it must 
   expect(attempt({ BLOB_STORE: 'ftp' })).toBe('BLOB_STORE must be "local" or "s3", not "ftp".');
   expect(attempt({ BLOB_STORE: 's3' })).toContain('needs S3_BUCKET');
 });
+
+test("DEVELOPERS.md's Settings table is the one the configuration module prints", () => {
+  const doc = fs.readFileSync(path.resolve(__dirname, '../../DEVELOPERS.md'), 'utf8');
+  const section = doc.split(/^## /m).find((part) => part.startsWith('Settings')) ?? '';
+  const documented = section
+    .split('\n')
+    .filter((line) => line.startsWith('|'))
+    .join('\n');
+  // When this fails: paste the output of `npm run config:doc` into DEVELOPERS.md.
+  expect(documented).toBe(settingsTable());
+});
