@@ -5,6 +5,7 @@ import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
 import { Button } from '@/ui/button';
 import { CautionNote } from '@/ui/caution-note';
+import { ClippedText } from '@/ui/clipped-text';
 import { formatDate, formatTime } from '@/ui/format';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
@@ -13,6 +14,7 @@ import { colors, fonts, radii, space } from '@/ui/theme';
 import { useReviewSessionsQuery, type SessionFilters } from './sessions-api';
 import { useDebouncedValue } from '@/ui/use-debounced-value';
 import { useLayout } from '@/ui/use-layout';
+import { verdictWords } from '@/ui/verdicts';
 import type { QualityVerdict, SessionStatus } from '@/shared/protocol';
 import type { ReviewSessionRow, ReviewSort } from '@/shared/protocol/review';
 import { statusLabels } from './session-labels';
@@ -199,7 +201,7 @@ export function ReviewSessionsScreen({ testID = 'review-sessions' }: { testID?: 
             {(['good', 'usable', 'retake'] as const).map((v) => (
               <Chip
                 key={v}
-                label={`Worst quality: ${v}`}
+                label={`Worst recording: ${verdictWords[v].label}`}
                 on={quality === v}
                 onPress={() => setQuality(quality === v ? undefined : v)}
                 testID={`filter-quality-${v}`}
@@ -297,9 +299,7 @@ export function ReviewSessionsScreen({ testID = 'review-sessions' }: { testID?: 
             {rows.map((s) => (
               <Link key={s.id} href={`/sessions/${s.id}`} testID={`session-row-${s.id}`} style={styles.card}>
                 <View style={styles.cardInner}>
-                  <AppText variant="bodyStrong" color={colors.ink}>
-                    {s.clientName}
-                  </AppText>
+                  <ClippedText text={s.clientName} lines={2} variant="bodyStrong" color={colors.ink} />
                   <AppText variant="number" color={colors.textMuted}>
                     {formatDate(s.startedAt)} {formatTime(s.startedAt)} · {s.operatorName ?? '—'}
                   </AppText>
@@ -368,11 +368,11 @@ function Row({
   const status = statusLabels[s.status];
   return (
     <View style={[styles.row, striped && styles.striped]} testID={`session-row-${s.id}`}>
-      <View style={[styles.cell, { flex: 2 }]}>
-        <Link href={`/sessions/${s.id}`} testID={`open-session-${s.id}`}>
-          <AppText variant="smallStrong" color={colors.accent} numberOfLines={1}>
-            {s.clientName}
-          </AppText>
+      <View style={[styles.cell, { flex: 2 }]} testID={`session-client-cell-${s.id}`}>
+        <Link href={`/sessions/${s.id}`} asChild>
+          <Pressable testID={`open-session-${s.id}`} style={styles.nameLink}>
+            <ClippedText text={s.clientName} variant="smallStrong" color={colors.accent} />
+          </Pressable>
         </Link>
         <Pressable
           onPress={() => onClient({ id: s.clientId, name: s.clientName })}
@@ -384,26 +384,25 @@ function Row({
           </AppText>
         </Pressable>
       </View>
-      <AppText variant="number" color={colors.text} style={{ flex: 1.4 }}>
+      <AppText variant="number" color={colors.text} style={[styles.cell, { flex: 1.4 }]}>
         {formatDate(s.startedAt)} {formatTime(s.startedAt)}
       </AppText>
       <Pressable
-        style={{ flex: 1.3 }}
+        style={[styles.cell, { flex: 1.3 }]}
         disabled={!s.operatorId}
         onPress={() => s.operatorId && onOperator({ id: s.operatorId, name: s.operatorName ?? '' })}
         accessibilityLabel="Only this operator"
+        testID={`only-operator-${s.id}`}
       >
-        <AppText variant="small" color={colors.text} numberOfLines={1}>
-          {s.operatorName ?? '—'}
-        </AppText>
+        <ClippedText text={s.operatorName ?? '—'} />
       </Pressable>
-      <View style={{ flex: 1.6 }}>
+      <View style={[styles.cell, { flex: 1.6 }]}>
         <SiteChips verdicts={s.sites} testID={`review-sites-${s.id}`} />
       </View>
-      <View style={{ flex: 1.2 }}>
+      <View style={[styles.cell, { flex: 1.2 }]}>
         <Badge label={status.label} tone={status.tone} />
       </View>
-      <View style={{ flex: 1.5 }}>
+      <View style={[styles.cell, { flex: 1.5 }]}>
         {s.flagged ? (
           <Badge label={`⚠ ${referToClinician}`} tone="danger" testID={`flagged-${s.id}`} />
         ) : (
@@ -459,7 +458,9 @@ const styles = StyleSheet.create({
   },
   head: { backgroundColor: colors.surfaceMuted },
   striped: { backgroundColor: '#FBF9F4' },
-  cell: { gap: 2 },
+  // A cell never grows past its share of the row, so a long name cannot cover (or take the clicks of) the next.
+  cell: { gap: 2, minWidth: 0, overflow: 'hidden' },
+  nameLink: { alignSelf: 'flex-start', maxWidth: '100%' },
   cards: { gap: space.sm },
   card: {
     backgroundColor: colors.surface,
