@@ -4,6 +4,7 @@ import { formatDate } from '@/ui/format';
 import { sites } from '@/shared/sites';
 import { colors, radii, space } from '@/ui/theme';
 import type { Comparison } from '@/shared/protocol/review';
+import { changeWords } from './change-words';
 import { formatValue } from './measurements-table';
 
 /** Each measurement then and now at every site, with the change. */
@@ -36,15 +37,19 @@ export function ComparisonTable({ comparison }: { comparison: Comparison }) {
             </AppText>
             {sites.map((s) => {
               const r = comparison.rows.find((x) => x.key === key && x.site === s.id);
+              const change = changeWords(r?.then ?? null, r?.now ?? null, any.unit);
               return (
                 <View key={s.id} style={styles.cell} testID={`compare-${s.id}-${key}`}>
                   <AppText variant="number" color={colors.text}>
-                    {formatValue(r?.then ?? null)} → {formatValue(r?.now ?? null)}
+                    {formatValue(r?.then ?? null)} then, {formatValue(r?.now ?? null)} now
                   </AppText>
-                  <AppText variant="caption" color={colors.textMuted}>
-                    {r?.change === null || r?.change === undefined
-                      ? 'no change to show'
-                      : `change ${r.change > 0 ? '+' : ''}${formatValue(r.change)}`}
+                  <AppText
+                    variant="caption"
+                    color={colors.textMuted}
+                    testID={`compare-${s.id}-${key}-change`}
+                  >
+                    {change.arrow ? `${change.arrow} ` : ''}
+                    {change.words}
                   </AppText>
                 </View>
               );

@@ -12,6 +12,7 @@ import {
   useRetryMailMutation,
   useSendReportMutation,
 } from './api';
+import { openReportPreview } from './open-report';
 
 type Props = {
   sessionId: string;
@@ -33,6 +34,7 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
   // The e-mail is read before it goes: the first press shows it, "Send now" sends it.
   const [previewing, setPreviewing] = useState(false);
   const preview = useReportMailPreviewQuery(sessionId, compareWith, previewing);
+  const [confirmed, setConfirmed] = useState<string | null>(null);
   return (
     <View style={styles.box} testID="report-panel">
       <AppText variant="heading" color={colors.ink}>
@@ -62,9 +64,17 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
           variant={previewing ? 'secondary' : 'primary'}
           testID="report-preview"
           disabled={!clientEmail || !canSend || previewing}
-          onPress={() => setPreviewing(true)}
+          onPress={() => {
+            setConfirmed(null);
+            setPreviewing(true);
+          }}
         />
       </View>
+      {confirmed ? (
+        <AppText variant="smallStrong" color={colors.pulse} testID="report-send-confirmed">
+          ✓ The report is on its way to {confirmed}. Its delivery shows below.
+        </AppText>
+      ) : null}
       {previewing ? (
         <View style={styles.preview} testID="report-mail-preview">
           {preview.isPending ? (
@@ -83,9 +93,21 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
               <AppText variant="small" color={colors.text} testID="report-mail-preview-body">
                 {preview.data.bodyText}
               </AppText>
-              <AppText variant="caption" color={colors.textMuted}>
-                Attached: {preview.data.attachmentName} (the same report as Download PDF)
-              </AppText>
+              <View style={styles.attachment}>
+                <AppText variant="caption" color={colors.textMuted} style={styles.flex}>
+                  Attached: {preview.data.attachmentName} (the same report as Download PDF)
+                </AppText>
+                <Button
+                  label="Read the PDF"
+                  variant="ghost"
+                  testID="report-preview-pdf"
+                  onPress={() =>
+                    void openReportPreview(sessionId, compareWith).catch((e: Error) =>
+                      setDownloadError(e.message),
+                    )
+                  }
+                />
+              </View>
             </>
           )}
           <View style={styles.row}>
@@ -94,7 +116,17 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
               testID="report-send"
               disabled={!preview.isSuccess}
               busy={send.isPending}
-              onPress={() => send.mutate({ compareWith }, { onSuccess: () => setPreviewing(false) })}
+              onPress={() =>
+                send.mutate(
+                  { compareWith },
+                  {
+                    onSuccess: (mail) => {
+                      setPreviewing(false);
+                      setConfirmed(mail.to);
+                    },
+                  },
+                )
+              }
             />
             <Button
               label="Cancel"
@@ -113,6 +145,11 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
       {send.isError ? (
         <AppText variant="small" color={colors.danger} testID="report-send-error">
           {send.error.message}
+        </AppText>
+      ) : null}
+      {(mails.data ?? []).length ? (
+        <AppText variant="smallStrong" color={colors.ink} testID="report-mail-history">
+          Sent to the client
         </AppText>
       ) : null}
       {(mails.data ?? []).map((m) => (
@@ -161,4 +198,5 @@ const styles = StyleSheet.create({
   },
   mail: { flexDirection: 'row', gap: space.sm, alignItems: 'center' },
   flex: { flex: 1 },
+  attachment: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
 });
