@@ -4,7 +4,7 @@
 // side. The long-named client is pushed through the real sync as the demo operator's phone would.
 import { randomUUID } from 'node:crypto';
 import type { Page } from 'playwright-core';
-import { browserForThisFile, newPage, PHONE, screenshot, WIDE } from '@/tests/support/browser';
+import { baseUrl, browserForThisFile, newPage, PHONE, screenshot, WIDE } from '@/tests/support/browser';
 import { clientWithConsentAtTheClinic, push, tokenFor } from './helpers/api';
 import { operatorEmail, practitionerEmail, signIn, uniqueLetters, visible } from './helpers/operator';
 
@@ -34,10 +34,31 @@ beforeAll(async () => {
       finishedAt: new Date().toISOString(),
       findings: null,
       plan: null,
-      followUpDate: followUp,
+      followUpDate: null,
     },
   });
-  expect(session.status).toBe('applied');
+  if (session.status !== 'applied') throw new Error(`The session was not stored: ${JSON.stringify(session)}`);
+  // The follow-up is the practitioner's to set, through the notes as the session view saves them.
+  const headers = {
+    'content-type': 'application/json',
+    authorization: `Bearer ${await tokenFor(practitionerEmail)}`,
+  };
+  const detail = (await (
+    await fetch(`${baseUrl()}/api/review/sessions/${sessionId}`, { headers })
+  ).json()) as {
+    notes: { version: number };
+  };
+  const saved = await fetch(`${baseUrl()}/api/review/sessions/${sessionId}/notes`, {
+    method: 'PUT',
+    headers,
+    body: JSON.stringify({
+      findings: null,
+      plan: null,
+      followUpDate: followUp,
+      baseVersion: detail.notes.version,
+    }),
+  });
+  expect(saved.status).toBe(200);
 });
 
 async function box(page: Page, testId: string) {
