@@ -24,12 +24,14 @@ export function TrendsScreen() {
   const router = useRouter();
   const back = backTarget(from, String(clientId), 'client');
   const backButton = (
-    <Button
-      label={back.label}
-      variant="ghost"
-      onPress={() => router.navigate(back.href)}
-      testID="trends-back"
-    />
+    <View style={styles.back}>
+      <Button
+        label={back.label}
+        variant="ghost"
+        onPress={() => router.navigate(back.href)}
+        testID="trends-back"
+      />
+    </View>
   );
   if (trends.isPending) return <LoadingState label="Loading trends…" testID="trends-loading" />;
   if (trends.isError)
@@ -102,6 +104,7 @@ export function TrendsScreen() {
 }
 
 const styles = StyleSheet.create({
+  back: { alignItems: 'flex-start', marginTop: space.xs },
   tabs: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
   chip: {
     borderWidth: 1,

@@ -141,7 +141,7 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     await visits.last().click();
     await visible(page, 'comparison-table').waitFor();
     const row = await visible(page, 'compare-mitral-heartRateBpm').textContent();
-    expect(row).toMatch(/\d then, \d+ now/);
+    expect(row).toMatch(/[\d.]+ then, [\d.]+ now/);
     await visible(page, 'site-mitral-then-trace').waitFor();
     await screenshot(page, 'review-compare-beside');
     await visible(page, 'compare-mode-over').click();
