@@ -7,7 +7,7 @@ import { fileURLToPath } from 'node:url';
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const dist = path.join(root, 'dist');
 const marker = path.join(dist, 'index.html');
-const inputDirs = ['app', 'components', 'hooks', 'constants', 'shared', 'assets', 'public', 'scripts/metro'];
+const inputDirs = ['app', 'features', 'ui', 'device', 'api', 'shared', 'assets', 'public', 'scripts/metro'];
 const inputFiles = [
   'app.json',
   'metro.config.js',

@@ -1,8 +1,13 @@
 import { RoleGuard } from '@/features/auth/role-guard';
 import { RoleTabs, type TabSpec } from './role-tabs';
-import { SessionsIcon } from '@/ui/icons';
+import { FollowUpsIcon } from '@/features/review/follow-ups-icon';
+import { ClientsIcon, SessionsIcon } from '@/ui/icons';
 
-const tabs: readonly TabSpec[] = [{ name: 'sessions', title: 'Sessions', Icon: SessionsIcon }];
+const tabs: readonly TabSpec[] = [
+  { name: 'sessions', title: 'Sessions', Icon: SessionsIcon },
+  { name: 'review-clients/index', title: 'Clients', Icon: ClientsIcon },
+  { name: 'follow-ups', title: 'Follow-ups', Icon: FollowUpsIcon },
+];
 
 export function PractitionerLayout() {
   return (

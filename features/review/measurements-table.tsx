@@ -13,8 +13,13 @@ export function formatValue(v: number | null, unit = ''): string {
 }
 
 export function rangeLabel(m: Measurement): string {
-  if (!m.range) return 'no range set';
-  const { low, high } = m.range;
+  return rangeWords(m.range);
+}
+
+/** "60–100", or "≥ 6" / "≤ 40" for a range open at one end. */
+export function rangeWords(range: { low: number | null; high: number | null } | null): string {
+  if (!range) return 'no range set';
+  const { low, high } = range;
   if (low !== null && high !== null) return `${formatValue(low)}–${formatValue(high)}`;
   if (low !== null) return `≥ ${formatValue(low)}`;
   if (high !== null) return `≤ ${formatValue(high)}`;

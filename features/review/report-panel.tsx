@@ -13,6 +13,7 @@ import {
   useRetryMailMutation,
   useSendReportMutation,
 } from './api';
+import { openReportPreview } from './open-report';
 
 type Props = {
   sessionId: string;
@@ -34,6 +35,7 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
   // The e-mail is read before it goes: the first press shows it, "Send now" sends it.
   const [previewing, setPreviewing] = useState(false);
   const preview = useReportMailPreviewQuery(sessionId, compareWith, previewing);
+  const [confirmed, setConfirmed] = useState<string | null>(null);
   return (
     <Card style={styles.box} testID="report-panel">
       <AppText variant="heading" color={colors.ink}>
@@ -63,9 +65,17 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
           variant={previewing ? 'secondary' : 'primary'}
           testID="report-preview"
           disabled={!clientEmail || !canSend || previewing}
-          onPress={() => setPreviewing(true)}
+          onPress={() => {
+            setConfirmed(null);
+            setPreviewing(true);
+          }}
         />
       </View>
+      {confirmed ? (
+        <AppText variant="smallStrong" color={colors.pulse} testID="report-send-confirmed">
+          ✓ The report is on its way to {confirmed}. Its delivery shows below.
+        </AppText>
+      ) : null}
       {previewing ? (
         <View style={styles.preview} testID="report-mail-preview">
           {preview.isPending ? (
@@ -84,9 +94,21 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
               <AppText variant="small" color={colors.text} testID="report-mail-preview-body">
                 {preview.data.bodyText}
               </AppText>
-              <AppText variant="caption" color={colors.textMuted}>
-                Attached: {preview.data.attachmentName} (the same report as Download PDF)
-              </AppText>
+              <View style={styles.attachment}>
+                <AppText variant="caption" color={colors.textMuted} style={styles.flex}>
+                  Attached: {preview.data.attachmentName} (the same report as Download PDF)
+                </AppText>
+                <Button
+                  label="Read the PDF"
+                  variant="ghost"
+                  testID="report-preview-pdf"
+                  onPress={() =>
+                    void openReportPreview(sessionId, compareWith).catch((e: Error) =>
+                      setDownloadError(e.message),
+                    )
+                  }
+                />
+              </View>
             </>
           )}
           <View style={styles.row}>
@@ -95,7 +117,17 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
               testID="report-send"
               disabled={!preview.isSuccess}
               busy={send.isPending}
-              onPress={() => send.mutate({ compareWith }, { onSuccess: () => setPreviewing(false) })}
+              onPress={() =>
+                send.mutate(
+                  { compareWith },
+                  {
+                    onSuccess: (mail) => {
+                      setPreviewing(false);
+                      setConfirmed(mail.to);
+                    },
+                  },
+                )
+              }
             />
             <Button
               label="Cancel"
@@ -114,6 +146,11 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
       {send.isError ? (
         <AppText variant="small" color={colors.danger} testID="report-send-error">
           {send.error.message}
+        </AppText>
+      ) : null}
+      {(mails.data ?? []).length ? (
+        <AppText variant="smallStrong" color={colors.ink} testID="report-mail-history">
+          Sent to the client
         </AppText>
       ) : null}
       {(mails.data ?? []).map((m) => (
@@ -155,4 +192,5 @@ const styles = StyleSheet.create({
   },
   mail: { flexDirection: 'row', gap: space.sm, alignItems: 'center' },
   flex: { flex: 1 },
+  attachment: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
 });

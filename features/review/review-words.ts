@@ -1,4 +1,5 @@
 import type { BadgeTone } from '@/ui/badge';
+import { verdictWords } from '@/ui/verdicts';
 import { referToClinician } from '@/shared/cautions';
 import type { QualityVerdict } from '@/shared/protocol';
 import type { Measurement, MurmurScreen, ReviewSite } from '@/shared/protocol/review';
@@ -6,11 +7,11 @@ import type { Measurement, MurmurScreen, ReviewSite } from '@/shared/protocol/re
 // The words each result reads in wherever it appears on the practitioner's screens, with a colour that only
 // repeats what the words say.
 
-export const qualityWords: Record<QualityVerdict, { label: string; tone: BadgeTone }> = {
-  good: { label: 'Good recording', tone: 'good' },
-  usable: { label: 'Usable recording', tone: 'caution' },
-  retake: { label: 'Retake advised', tone: 'danger' },
-};
+/** The recording's quality in the product's one verdict vocabulary (ui/verdicts.ts), named as the recording's. */
+export function recordingWords(verdict: QualityVerdict): { label: string; tone: BadgeTone } {
+  const words = verdictWords[verdict];
+  return { label: `Recording: ${words.label}`, tone: words.tone };
+}
 
 export function murmurWords(screen: MurmurScreen | null): { label: string; tone: BadgeTone } {
   if (!screen) return { label: 'Murmur screen not run', tone: 'neutral' };

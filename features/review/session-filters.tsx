@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Pressable, StyleSheet, TextInput, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
+import { verdictWords } from '@/ui/verdicts';
 import { DateField } from '@/ui/date-field';
 import { Button } from '@/ui/button';
 import { colors, fonts, radii, space } from '@/ui/theme';
@@ -135,7 +136,7 @@ export function SessionFiltersBar({ state, wide }: { state: SessionFilterState; 
             {(['good', 'usable', 'retake'] as const).map((v) => (
               <Chip
                 key={v}
-                label={`Worst quality: ${v}`}
+                label={`Worst recording: ${verdictWords[v].label}`}
                 on={quality === v}
                 onPress={() => setQuality(quality === v ? undefined : v)}
                 testID={`filter-quality-${v}`}

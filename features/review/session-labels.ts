@@ -1,5 +1,6 @@
 import type { BadgeTone } from '@/ui/badge';
-import type { QualityVerdict, SessionStatus, SiteVerdict } from '@/shared/protocol';
+import { verdictWords } from '@/ui/verdicts';
+import type { SessionStatus, SiteVerdict } from '@/shared/protocol';
 
 export const statusLabels: Record<SessionStatus, { label: string; tone: BadgeTone }> = {
   in_progress: { label: 'In progress', tone: 'neutral' },
@@ -8,11 +9,9 @@ export const statusLabels: Record<SessionStatus, { label: string; tone: BadgeTon
   cancelled: { label: 'Cancelled', tone: 'neutral' },
 };
 
-// Quality of the recording only; never a finding about the client.
-const verdictTones: Record<QualityVerdict, BadgeTone> = { good: 'good', usable: 'caution', retake: 'danger' };
-
 export function siteVerdictLook(v: SiteVerdict): { label: string; tone: BadgeTone } {
-  if (v.skipped) return { label: 'skipped', tone: 'neutral' };
-  if (!v.verdict) return { label: 'not recorded', tone: 'neutral' };
-  return { label: v.verdict, tone: verdictTones[v.verdict] };
+  // Quality of the recording only (ui/verdicts.ts); never a finding about the client.
+  if (v.skipped) return { label: 'Skipped', tone: 'neutral' };
+  if (!v.verdict) return { label: 'Not recorded', tone: 'neutral' };
+  return verdictWords[v.verdict];
 }

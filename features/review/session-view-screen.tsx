@@ -64,6 +64,8 @@ export function SessionViewScreen() {
   const fileName = `fourpoint-report-${clientName.toLowerCase().replace(/[^a-z0-9]+/g, '-')}-${date}.pdf`;
   const sources = sourceNumbers(s.sites.flatMap((site) => site.measurements));
   const canEdit = auth.user?.role === 'practitioner';
+  // Two visits side by side need a whole row per site; otherwise the sites sit two to a row on a wide screen.
+  const twoColumns = isWide && !(compareWith && mode === 'beside');
 
   return (
     <ScreenFrame
@@ -114,15 +116,34 @@ export function SessionViewScreen() {
             ))}
           </>
         ) : null}
-        <Link href={`/clients/${s.client.id}/trends`} style={styles.link} testID="open-trends">
-          <AppText variant="smallStrong" color={colors.accent}>
-            Trends across visits →
-          </AppText>
-        </Link>
+        <View style={styles.links}>
+          <Link
+            href={{
+              pathname: '/review-clients/[clientId]',
+              params: { clientId: s.client.id, from: `session:${sessionId}` },
+            }}
+            testID="open-client"
+          >
+            <AppText variant="smallStrong" color={colors.accent}>
+              All visits of this client →
+            </AppText>
+          </Link>
+          <Link
+            href={{
+              pathname: '/review-clients/[clientId]/trends',
+              params: { clientId: s.client.id, from: `session:${sessionId}` },
+            }}
+            testID="open-trends"
+          >
+            <AppText variant="smallStrong" color={colors.accent}>
+              Trends across visits →
+            </AppText>
+          </Link>
+        </View>
       </View>
-      <View style={[styles.grid, isWide && styles.gridWide]} testID="site-grid">
+      <View style={[styles.grid, twoColumns && styles.gridWide]} testID="site-grid">
         {s.sites.map((site) => (
-          <View key={site.site} style={isWide ? styles.cellWide : styles.cell}>
+          <View key={site.site} style={twoColumns ? styles.cellWide : styles.cell}>
             <SiteCard
               sessionId={sessionId}
               site={site}
@@ -177,7 +198,7 @@ const styles = StyleSheet.create({
     backgroundColor: colors.surface,
   },
   chipOn: { backgroundColor: colors.ink, borderColor: colors.ink },
-  link: { marginLeft: 'auto' },
+  links: { marginLeft: 'auto', flexDirection: 'row', gap: space.md, flexWrap: 'wrap' },
   grid: { gap: space.md },
   gridWide: { flexDirection: 'row', flexWrap: 'wrap' },
   cell: { width: '100%' },

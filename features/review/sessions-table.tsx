@@ -3,6 +3,7 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
 import { Card } from '@/ui/card';
+import { ClippedText } from '@/ui/clipped-text';
 import { DataTable, type Column } from '@/ui/data-table';
 import { formatDateTime } from '@/ui/format';
 import { colors, space } from '@/ui/theme';
@@ -31,11 +32,11 @@ function columns(onClient: Props['onClient'], onOperator: Props['onOperator']): 
       flex: 2,
       sortKey: 'clientName',
       render: (s) => (
-        <View style={styles.clientCell}>
-          <Link href={`/sessions/${s.id}`} testID={`open-session-${s.id}`}>
-            <AppText variant="smallStrong" color={colors.accent} numberOfLines={1}>
-              {s.clientName}
-            </AppText>
+        <View style={styles.clientCell} testID={`session-client-cell-${s.id}`}>
+          <Link href={`/sessions/${s.id}`} asChild>
+            <Pressable testID={`open-session-${s.id}`} style={styles.nameLink}>
+              <ClippedText text={s.clientName} variant="smallStrong" color={colors.accent} />
+            </Pressable>
           </Link>
           <Pressable
             onPress={() => onClient({ id: s.clientId, name: s.clientName })}
@@ -70,10 +71,9 @@ function columns(onClient: Props['onClient'], onOperator: Props['onOperator']): 
           disabled={!s.operatorId}
           onPress={() => s.operatorId && onOperator({ id: s.operatorId, name: s.operatorName ?? '' })}
           accessibilityLabel="Only this operator"
+          testID={`only-operator-${s.id}`}
         >
-          <AppText variant="small" color={colors.text} numberOfLines={1}>
-            {s.operatorName ?? '—'}
-          </AppText>
+          <ClippedText text={s.operatorName ?? '—'} />
         </Pressable>
       ),
     },
@@ -127,9 +127,7 @@ export function SessionsTable({ rows, wide, sort, onSort, onClient, onOperator }
       {rows.map((s) => (
         <Link key={s.id} href={`/sessions/${s.id}`} testID={`session-row-${s.id}`}>
           <Card style={styles.card}>
-            <AppText variant="bodyStrong" color={colors.ink}>
-              {s.clientName}
-            </AppText>
+            <ClippedText text={s.clientName} lines={2} variant="bodyStrong" color={colors.ink} />
             <AppText variant="number" color={colors.textMuted}>
               {formatDateTime(s.startedAt)} · {s.operatorName ?? '—'}
             </AppText>
@@ -146,7 +144,9 @@ export function SessionsTable({ rows, wide, sort, onSort, onClient, onOperator }
 }
 
 const styles = StyleSheet.create({
-  clientCell: { gap: 2 },
+  // A cell never grows past its share of the row, so a long name cannot cover (or take the clicks of) the next.
+  clientCell: { gap: 2, minWidth: 0, overflow: 'hidden' },
+  nameLink: { alignSelf: 'flex-start', maxWidth: '100%' },
   cards: { gap: space.sm },
   card: { width: '100%', padding: space.md, gap: space.xs },
   badges: { flexDirection: 'row', gap: space.xs, flexWrap: 'wrap', alignItems: 'center' },

@@ -5,13 +5,14 @@ import { Badge } from '@/ui/badge';
 import { Button } from '@/ui/button';
 import { LoadingState } from '@/ui/state-views';
 import { colors, radii, space } from '@/ui/theme';
+import { useLayout } from '@/ui/use-layout';
 import { referToClinician } from '@/shared/cautions';
 import { siteInfo } from '@/shared/sites';
 import { fetchClipUrl, useTraceQuery } from './api';
 import type { ReviewSite } from '@/shared/protocol/review';
 import type { Playback } from './clip-playback';
 import { MeasurementsTable } from './measurements-table';
-import { qualityWords } from './review-words';
+import { recordingWords } from './review-words';
 import { clampWindow, panWindow, zoomWindow, type TimeWindow } from './time-window';
 import { TraceGestures } from './trace-gestures';
 import { TraceView } from './trace-view';
@@ -63,6 +64,10 @@ function RecordedSiteCard({ sessionId, site, playback, compare, sources }: Props
     }
   }, [playing, playback.positionS, window, duration]);
   const tid = `site-${site.site}`;
+  // "Beside" puts the two visits next to each other where there is room; on a phone the earlier one goes under.
+  const { isWide } = useLayout();
+  const beside = compare?.mode === 'beside' && Boolean(then.data);
+  const besideWide = beside && isWide;
 
   return (
     <View style={styles.card} testID={tid}>
@@ -70,12 +75,7 @@ function RecordedSiteCard({ sessionId, site, playback, compare, sources }: Props
         <AppText variant="heading" color={colors.ink}>
           {info.label}
         </AppText>
-        {site.qualityVerdict ? (
-          <Badge
-            label={qualityWords[site.qualityVerdict].label}
-            tone={qualityWords[site.qualityVerdict].tone}
-          />
-        ) : null}
+        {site.qualityVerdict ? <Badge {...recordingWords(site.qualityVerdict)} /> : null}
         {site.heartRateBpm !== null ? (
           <AppText variant="number" color={colors.text}>
             {Math.round(site.heartRateBpm)} bpm
@@ -97,38 +97,54 @@ function RecordedSiteCard({ sessionId, site, playback, compare, sources }: Props
         </AppText>
       ) : (
         <>
-          <TraceGestures window={window} duration={duration} onChange={setWindow} testID={`${tid}-gestures`}>
-            <TraceView
-              trace={trace.data}
-              window={window}
-              cursorS={playing ? playback.positionS : null}
-              overlay={
-                compare?.mode === 'over' && then.data ? { trace: then.data, shiftS: compare.shiftS } : null
-              }
-              testID={`${tid}-trace`}
-            />
-          </TraceGestures>
-          {compare?.mode === 'beside' && then.data ? (
-            <View testID={`${tid}-then`}>
-              <AppText variant="caption" color={colors.textMuted}>
-                {compare.label} (aligned on S1)
-              </AppText>
-              <TraceView
-                trace={{
-                  ...then.data,
-                  sounds: then.data.sounds.map((s) => ({
-                    ...s,
-                    startS: s.startS + compare.shiftS,
-                    endS: s.endS + compare.shiftS,
-                  })),
-                }}
+          <View style={besideWide && styles.besideRow} testID={`${tid}-traces`}>
+            <View style={besideWide && styles.besideCell} testID={`${tid}-now`}>
+              {beside ? (
+                <AppText variant="caption" color={colors.textMuted}>
+                  This visit
+                </AppText>
+              ) : null}
+              <TraceGestures
                 window={window}
-                height={90}
-                testID={`${tid}-then-trace`}
-                overlay={null}
-              />
+                duration={duration}
+                onChange={setWindow}
+                testID={`${tid}-gestures`}
+              >
+                <TraceView
+                  trace={trace.data}
+                  window={window}
+                  cursorS={playing ? playback.positionS : null}
+                  overlay={
+                    compare?.mode === 'over' && then.data
+                      ? { trace: then.data, shiftS: compare.shiftS }
+                      : null
+                  }
+                  testID={`${tid}-trace`}
+                />
+              </TraceGestures>
             </View>
-          ) : null}
+            {beside && compare && then.data ? (
+              <View style={besideWide && styles.besideCell} testID={`${tid}-then`}>
+                <AppText variant="caption" color={colors.textMuted}>
+                  {compare.label} (aligned on S1)
+                </AppText>
+                <TraceView
+                  trace={{
+                    ...then.data,
+                    sounds: then.data.sounds.map((s) => ({
+                      ...s,
+                      startS: s.startS + compare.shiftS,
+                      endS: s.endS + compare.shiftS,
+                    })),
+                  }}
+                  window={window}
+                  height={besideWide ? 150 : 90}
+                  testID={`${tid}-then-trace`}
+                  overlay={null}
+                />
+              </View>
+            ) : null}
+          </View>
           {compare?.mode === 'over' ? (
             <AppText variant="caption" color={colors.textMuted}>
               Blue: {compare.label}, aligned on S1
@@ -179,5 +195,7 @@ const styles = StyleSheet.create({
     gap: space.sm,
   },
   head: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
+  besideRow: { flexDirection: 'row', gap: space.md },
+  besideCell: { flex: 1, minWidth: 0 },
   controls: { flexDirection: 'row', alignItems: 'center', gap: space.xs, flexWrap: 'wrap' },
 });

@@ -3,6 +3,7 @@ import { AppText } from '@/ui/app-text';
 import { sites } from '@/shared/sites';
 import { colors, radii, space } from '@/ui/theme';
 import type { SiteVerdict } from '@/shared/protocol';
+import { verdictWords } from '@/ui/verdicts';
 import { siteVerdictLook } from './session-labels';
 
 const toneColors = {
@@ -19,7 +20,7 @@ export function SiteChips({ verdicts, testID }: { verdicts: SiteVerdict[]; testI
     <View style={styles.row} testID={testID}>
       {sites.map((site) => {
         const v = verdicts.find((x) => x.site === site.id);
-        const look = v ? siteVerdictLook(v) : { label: 'not recorded', tone: 'neutral' as const };
+        const look = v ? siteVerdictLook(v) : { label: 'Not recorded', tone: 'neutral' as const };
         const c = toneColors[look.tone];
         return (
           <View
@@ -46,10 +47,8 @@ const styles = StyleSheet.create({
 });
 
 const legend = [
-  { label: 'good', tone: 'good' },
-  { label: 'usable', tone: 'caution' },
-  { label: 'retake', tone: 'danger' },
-  { label: 'not recorded or skipped', tone: 'neutral' },
+  ...Object.values(verdictWords),
+  { label: 'Not recorded or skipped', tone: 'neutral' },
 ] as const;
 
 /** Explains the chips: letters are sites, colours are recording quality (not findings). */

@@ -5,7 +5,7 @@ import { referToClinician } from '@/shared/cautions';
 import { siteInfo } from '@/shared/sites';
 import { colors, radii, space } from '@/ui/theme';
 import type { ReviewSite } from '@/shared/protocol/review';
-import { murmurWords, outOfRangeWords, qualityWords } from './review-words';
+import { murmurWords, outOfRangeWords, recordingWords } from './review-words';
 
 /** One line per site before anything else: rate, recording quality, murmur screen, measures out of range. */
 export function SiteSummaryStrip({ sites }: { sites: ReviewSite[] }) {
@@ -25,7 +25,7 @@ export function SiteSummaryStrip({ sites }: { sites: ReviewSite[] }) {
               </AppText>
             </View>
           );
-        const quality = site.qualityVerdict ? qualityWords[site.qualityVerdict] : null;
+        const quality = site.qualityVerdict ? recordingWords(site.qualityVerdict) : null;
         const murmur = murmurWords(site.murmurScreen);
         const out = outOfRangeWords(site);
         return (

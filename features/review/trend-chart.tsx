@@ -3,13 +3,17 @@ import { View, type LayoutChangeEvent } from 'react-native';
 import Svg, { Circle, Line, Path, Rect, Text as SvgText } from 'react-native-svg';
 import { colors, fonts } from '@/ui/theme';
 import type { TrendSeries } from '@/shared/protocol/review';
+import { formatDate } from '@/ui/format';
 import { formatValue } from './measurements-table';
+import { axisLabelAnchor, axisLabelIndices } from './trend-axis';
+
+const dateFontSize = 9;
 
 /** One measurement at one site across visits; the shaded band is the clinic's reference range. */
 export function TrendChart({ series, testID }: { series: TrendSeries; testID: string }) {
   const [width, setWidth] = useState(0);
   const height = 120;
-  const pad = { l: 40, r: 10, t: 8, b: 20 };
+  const pad = { l: 40, r: 12, t: 8, b: 20 };
   const values = series.points.map((p) => p.value).filter((v): v is number => v !== null);
   const bounds = [...values, series.range?.low ?? NaN, series.range?.high ?? NaN].filter((v) =>
     Number.isFinite(v),
@@ -36,6 +40,16 @@ export function TrendChart({ series, testID }: { series: TrendSeries; testID: st
     if (p.value === null) return;
     d += `${d ? 'L' : 'M'}${x(i).toFixed(1)},${y(p.value).toFixed(1)}`;
   });
+  // Whole dates, as many as fit without touching; a monospace digit is about 0.6 of the font size wide.
+  const dates = series.points.map((p) => formatDate(p.startedAt));
+  const dateWidth = Math.max(0, ...dates.map((d) => d.length)) * dateFontSize * 0.62;
+  const dated =
+    width > 0
+      ? axisLabelIndices(
+          series.points.map((_, i) => x(i)),
+          dateWidth,
+        )
+      : [];
   const band =
     series.range && (series.range.low !== null || series.range.high !== null) ? series.range : null;
   return (
@@ -89,17 +103,18 @@ export function TrendChart({ series, testID }: { series: TrendSeries; testID: st
               />
             ),
           )}
-          {series.points.map((p, i) => (
+          {dated.map((i) => (
             <SvgText
-              key={`d-${p.sessionId}`}
+              key={`d-${series.points[i].sessionId}`}
               x={x(i)}
               y={height - 6}
-              fontSize={9}
-              textAnchor="middle"
+              fontSize={dateFontSize}
+              textAnchor={axisLabelAnchor(i, n)}
               fill={colors.textMuted}
               fontFamily={fonts.mono}
+              testID={`${testID}-date`}
             >
-              {p.startedAt.slice(5, 10)}
+              {formatDate(series.points[i].startedAt)}
             </SvgText>
           ))}
         </Svg>

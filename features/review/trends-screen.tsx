@@ -1,40 +1,57 @@
-import { useLocalSearchParams } from 'expo-router';
+import { useLocalSearchParams, useRouter } from 'expo-router';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
+import { Button } from '@/ui/button';
 import { CautionNote } from '@/ui/caution-note';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { ErrorState, LoadingState } from '@/ui/state-views';
-import { referToClinician } from '@/shared/cautions';
 import { sites } from '@/shared/sites';
 import { colors, radii, space } from '@/ui/theme';
 import { useTrendsQuery } from './api';
 import { useLayout } from '@/ui/use-layout';
 import type { Site } from '@/shared/protocol';
-import { formatValue } from './measurements-table';
+import { backTarget } from './back-target';
+import { formatValue, rangeWords } from './measurements-table';
+import { MurmurByVisit } from './murmur-by-visit';
 import { TrendChart } from './trend-chart';
 
 export function TrendsScreen() {
-  const { clientId } = useLocalSearchParams<{ clientId: string }>();
+  const { clientId, from } = useLocalSearchParams<{ clientId: string; from?: string }>();
   const trends = useTrendsQuery(clientId);
   const [site, setSite] = useState<Site>('mitral');
   const { isWide } = useLayout();
+  const router = useRouter();
+  const back = backTarget(from, String(clientId), 'client');
+  const backButton = (
+    <View style={styles.back}>
+      <Button
+        label={back.label}
+        variant="ghost"
+        onPress={() => router.navigate(back.href)}
+        testID="trends-back"
+      />
+    </View>
+  );
   if (trends.isPending) return <LoadingState label="Loading trends…" testID="trends-loading" />;
   if (trends.isError)
     return (
-      <ErrorState
-        message={trends.error.message}
-        onRetry={() => void trends.refetch()}
-        testID="trends-error"
-      />
+      <ScreenFrame title="Trends" testID="trends-screen" header={backButton}>
+        <ErrorState
+          message={trends.error.message}
+          onRetry={() => void trends.refetch()}
+          testID="trends-error"
+        />
+      </ScreenFrame>
     );
-  const { client, series } = trends.data;
+  const { client, series, murmurScreens } = trends.data;
   const shown = series.filter((s) => s.site === site && s.points.some((p) => p.value !== null));
   return (
     <ScreenFrame
       title={`Trends: ${client.firstName} ${client.lastName}`}
       subtitle="Each measurement across visits; the green band is the clinic's range."
       testID="trends-screen"
+      header={backButton}
     >
       <CautionNote compact />
       <View style={styles.tabs}>
@@ -52,6 +69,7 @@ export function TrendsScreen() {
           </Pressable>
         ))}
       </View>
+      <MurmurByVisit screens={murmurScreens.filter((m) => m.site === site)} />
       <View style={[styles.grid, isWide && styles.gridWide]}>
         {shown.map((s) => {
           const outCount = s.points.filter((p) => p.status === 'above' || p.status === 'below').length;
@@ -67,15 +85,14 @@ export function TrendsScreen() {
                 {s.unit ? ` (${s.unit})` : ''}
               </AppText>
               <TrendChart series={s} testID={`trend-chart-${s.site}-${s.key}`} />
-              <AppText variant="caption" color={colors.textMuted}>
-                Latest {formatValue(last?.value ?? null, s.unit)} · range{' '}
-                {s.range
-                  ? `${formatValue(s.range.low)}–${formatValue(s.range.high)} (${s.range.source})`
-                  : 'not set'}
+              <AppText variant="caption" color={colors.textMuted} testID={`trend-range-${s.site}-${s.key}`}>
+                Latest {formatValue(last?.value ?? null, s.unit)} · clinic's range {rangeWords(s.range)}
+                {s.range ? ` (${s.range.source})` : ''}
               </AppText>
               {outCount ? (
-                <AppText variant="caption" color={colors.danger}>
-                  ⚠ {outCount} visit{outCount === 1 ? '' : 's'} outside range: {referToClinician}
+                <AppText variant="caption" color={colors.caution}>
+                  ⚠ {outCount} visit{outCount === 1 ? '' : 's'} outside the clinic&apos;s range: open the
+                  visit for its reading
                 </AppText>
               ) : null}
             </View>
@@ -87,6 +104,7 @@ export function TrendsScreen() {
 }
 
 const styles = StyleSheet.create({
+  back: { alignItems: 'flex-start', marginTop: space.xs },
   tabs: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
   chip: {
     borderWidth: 1,

@@ -207,9 +207,19 @@ export const trendSeriesSchema = z.object({
     }),
   ),
 });
+/** One visit's murmur screen at one site; null where that visit's analysis had no screen. */
+export const trendMurmurSchema = z.object({
+  sessionId: z.uuid(),
+  startedAt: z.string(),
+  site: siteSchema,
+  screen: murmurScreenSchema.nullable(),
+});
+export type TrendMurmur = z.infer<typeof trendMurmurSchema>;
 export const trendsSchema = z.object({
   client: z.object({ id: z.uuid(), firstName: z.string(), lastName: z.string() }),
   series: z.array(trendSeriesSchema),
+  /** Every visit's murmur screen per site, oldest visit first (a recorded site only). */
+  murmurScreens: z.array(trendMurmurSchema),
 });
 export type TrendSeries = z.infer<typeof trendSeriesSchema>;
 export type Trends = z.infer<typeof trendsSchema>;

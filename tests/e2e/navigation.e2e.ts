@@ -25,7 +25,11 @@ const destinations = [
   {
     role: 'practitioner',
     home: '/sessions',
-    sections: [{ tab: 'sessions', screen: 'practitioner-home' }],
+    sections: [
+      { tab: 'sessions', screen: 'practitioner-home' },
+      { tab: 'review-clients/index', screen: 'practitioner-clients' },
+      { tab: 'follow-ups', screen: 'follow-ups-screen' },
+    ],
   },
   {
     role: 'admin',

@@ -59,7 +59,15 @@ beforeAll(async () => {
     clinicId: clinic.id,
     clientId,
     startedAt: new Date('2026-09-01T09:00:00Z'),
-    sites: { mitral: { heartRateBpm: 64, clip, sounds }, aortic: { heartRateBpm: 66 } },
+    sites: {
+      mitral: {
+        heartRateBpm: 64,
+        clip,
+        sounds,
+        screen: { murmur: 'unlikely', score: 0.1, reasons: ['Quiet between the sounds'] },
+      },
+      aortic: { heartRateBpm: 66 },
+    },
   });
   latest = await addSession({
     clinicId: clinic.id,
@@ -232,6 +240,22 @@ describe('session view', () => {
       [108, 'above'],
     ]);
     expect(rate.range).toMatchObject({ low: 60, high: 100 });
+  });
+
+  test('when trends are asked for, then each visit brings its murmur screen per recorded site, and none where its analysis had none', async () => {
+    const res = await request(ctx.app)
+      .get(`/api/review/clients/${clientId}/trends`)
+      .set(auth(tokens.practitioner));
+    const { murmurScreens } = trendsSchema.parse(res.body);
+    const mitral = murmurScreens.filter((m) => m.site === 'mitral');
+    expect(mitral.map((m) => [m.sessionId, m.screen?.murmur ?? null])).toEqual([
+      [earlier, 'unlikely'],
+      [latest, null],
+    ]);
+    expect(murmurScreens.filter((m) => m.sessionId === earlier).map((m) => m.site)).toEqual([
+      'mitral',
+      'aortic',
+    ]);
   });
 });
 

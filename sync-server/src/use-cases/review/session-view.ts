@@ -389,6 +389,17 @@ export async function clientTrends(deps: UseCaseDeps, caller: Caller, clientId: 
       };
     }),
   );
+  const murmurScreens = visits.flatMap((v) =>
+    (records.get(v.id) ?? [])
+      .filter((r) => r.analysis !== null)
+      .sort((a, b) => SITES.indexOf(a.site) - SITES.indexOf(b.site))
+      .map((r) => ({
+        sessionId: v.id,
+        startedAt: v.startedAt.toISOString(),
+        site: r.site,
+        screen: r.analysis?.screen ?? null,
+      })),
+  );
   await recordAuditEvent({
     clinicId: caller.clinicId,
     userId: caller.userId,
@@ -397,5 +408,5 @@ export async function clientTrends(deps: UseCaseDeps, caller: Caller, clientId: 
     entityId: clientId,
     ip: caller.ip,
   });
-  return { client, series };
+  return { client, series, murmurScreens };
 }

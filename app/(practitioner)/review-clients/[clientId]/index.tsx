@@ -1,0 +1,1 @@
+export { PractitionerClientScreen as default } from '@/features/review/practitioner-client-screen';

@@ -1,0 +1,1 @@
+export { PractitionerClientsScreen as default } from '@/features/review/practitioner-clients-screen';
