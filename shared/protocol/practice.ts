@@ -182,6 +182,15 @@ export const eraseClientRequestSchema = z.object({
 });
 export const eraseClientResponseSchema = z.object({
   erasureId: z.uuid(),
+  /** The name as it was, for the admin's confirmation; the server no longer has it. */
+  clientName: z.string(),
+  /** What was erased, counted the way a practice counts it. */
+  erased: z.object({
+    visits: z.number(),
+    recordings: z.number(),
+    consents: z.number(),
+    reportEmails: z.number(),
+  }),
   rowsTombstoned: z.number(),
   blobsDeleted: z.number(),
 });
@@ -282,6 +291,8 @@ export const auditQuerySchema = pageQuerySchema.extend({
   userId: z.uuid().optional(),
   entity: z.string().trim().max(80).optional(),
   entityId: z.string().trim().max(80).optional(),
+  /** Part of the name of the client the events concern. */
+  client: z.string().trim().max(120).optional(),
   from: calendarDateSchema.optional(),
   to: calendarDateSchema.optional(),
 });
@@ -296,6 +307,13 @@ export const auditEventSchema = z.object({
   entityId: z.string().nullable(),
   ip: z.string().nullable(),
   details: z.record(z.string(), z.unknown()).nullable(),
+  /** The client the event concerns (directly, or through a visit, recording, consent or payment). */
+  clientId: z.string().nullable(),
+  /** Null when there is no client or the client was erased (the log never keeps an erased name). */
+  clientName: z.string().nullable(),
+  clientErased: z.boolean(),
+  /** The team member or invitee a team or sign-in event is about. */
+  subjectName: z.string().nullable(),
 });
 export type AuditEventRow = z.infer<typeof auditEventSchema>;
 export const auditListResponseSchema = z.object({
