@@ -5,6 +5,7 @@ import { Badge } from '@/ui/badge';
 import { CautionNote } from '@/ui/caution-note';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { ErrorState, LoadingState } from '@/ui/state-views';
+import { conflictStatusWords } from '@/ui/status-words';
 import { colors, radii, space } from '@/ui/theme';
 import { useConflictQuery, useResolveConflictMutation } from './api';
 import { useLayout } from '@/ui/use-layout';
@@ -91,11 +92,7 @@ export function ConflictDetailScreen() {
               ← All conflicts
             </AppText>
           </Link>
-          <Badge
-            label={c.status === 'open' ? 'To settle' : 'Settled'}
-            tone={c.status === 'open' ? 'caution' : 'good'}
-            testID="conflict-status"
-          />
+          <Badge {...conflictStatusWords[c.status]} testID="conflict-status" />
         </View>
       }
     >

@@ -5,6 +5,7 @@ import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
+import { conflictStatusWords } from '@/ui/status-words';
 import { colors, radii, space } from '@/ui/theme';
 import { useConflictListQuery, type ConflictStatusFilter } from './api';
 import { useLayout } from '@/ui/use-layout';
@@ -47,10 +48,7 @@ function ConflictRow({ c, wide, onOpen }: { c: ConflictSummary; wide: boolean; o
         <AppText variant="number" color={colors.text}>
           {whenText(c.createdAt)}
         </AppText>
-        <Badge
-          label={c.status === 'open' ? 'To settle' : 'Settled'}
-          tone={c.status === 'open' ? 'caution' : 'good'}
-        />
+        <Badge {...conflictStatusWords[c.status]} />
       </View>
     </Pressable>
   );

@@ -1,5 +1,6 @@
 import { Pressable, StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
+import { usePointerWords } from '@/ui/use-pointer-words';
 import { colors, radii, space } from '@/ui/theme';
 import { fieldLabel, valueText } from './conflict-words';
 
@@ -32,6 +33,7 @@ function Option({
   onPress: () => void;
   disabled: boolean;
 }) {
+  const pointer = usePointerWords();
   return (
     <Pressable
       testID={`pick-${field}-${side}`}
@@ -49,7 +51,7 @@ function Option({
       <AppText variant="caption" color={chosen ? colors.pulse : colors.textMuted}>
         {chosen
           ? `✓ KEEPING ${sideWords[side].toUpperCase()}`
-          : `${sideWords[side].toUpperCase()} · TAP TO KEEP`}
+          : `${sideWords[side].toUpperCase()} · ${pointer.Verb.toUpperCase()} TO KEEP`}
       </AppText>
       <AppText variant="small" color={colors.text} testID={`pick-${field}-${side}-value`}>
         {valueText(field, value)}

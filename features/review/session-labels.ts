@@ -1,12 +1,9 @@
 import type { BadgeTone } from '@/ui/badge';
-import type { QualityVerdict, SessionStatus, SiteVerdict } from '@/shared/protocol';
+import type { QualityVerdict, SiteVerdict } from '@/shared/protocol';
+import { visitStatusWords } from '@/ui/status-words';
 
-export const statusLabels: Record<SessionStatus, { label: string; tone: BadgeTone }> = {
-  in_progress: { label: 'In progress', tone: 'neutral' },
-  completed: { label: 'Ready for review', tone: 'caution' },
-  reviewed: { label: 'Reviewed', tone: 'good' },
-  cancelled: { label: 'Cancelled', tone: 'neutral' },
-};
+/** The visit's state in the words every role reads (ui/status-words.ts). */
+export const statusLabels = visitStatusWords;
 
 // Quality of the recording only; never a finding about the client.
 const verdictTones: Record<QualityVerdict, BadgeTone> = { good: 'good', usable: 'caution', retake: 'danger' };

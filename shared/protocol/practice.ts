@@ -39,6 +39,7 @@ export const teamUserSchema = z.object({
 });
 export type TeamUser = z.infer<typeof teamUserSchema>;
 export const invitationStatusSchema = z.enum(['pending', 'accepted', 'expired', 'revoked']);
+export type InvitationStatus = z.infer<typeof invitationStatusSchema>;
 export const invitationSchema = z.object({
   id: z.uuid(),
   email: z.string(),
