@@ -71,7 +71,7 @@ export function ConflictsScreen() {
     body = (
       <EmptyState
         title={status === 'open' ? 'No open conflicts' : 'No conflicts'}
-        detail="When two devices change the same row from the same version, it waits here for you."
+        detail="When two phones change the same record while offline, the later change waits here for you to settle."
         testID="conflicts-empty"
       />
     );
@@ -105,7 +105,7 @@ export function ConflictsScreen() {
   return (
     <ScreenFrame
       title="Conflicts"
-      subtitle="Changes from devices that met a newer version on the server"
+      subtitle="Changes made offline that met a newer change at the clinic"
       testID="conflicts-screen"
       header={
         <View style={styles.filters} accessibilityRole="radiogroup">

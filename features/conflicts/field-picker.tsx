@@ -15,7 +15,8 @@ type Props = {
   disabled?: boolean;
 };
 
-const sideWords: Record<Side, string> = { server: 'Server', client: 'Device' };
+// The glossary's words: the clinic's record (what the server holds) and the change (what a phone sent offline).
+const sideWords: Record<Side, string> = { server: 'the record', client: 'the change' };
 
 // The words carry the choice; the colour only repeats it.
 function Option({
@@ -39,7 +40,7 @@ function Option({
       testID={`pick-${field}-${side}`}
       accessibilityRole="radio"
       accessibilityState={{ checked: chosen, disabled }}
-      accessibilityLabel={`${fieldLabel(field)}: use the ${sideWords[side].toLowerCase()}'s value, ${valueText(field, value)}`}
+      accessibilityLabel={`${fieldLabel(field)}: keep ${sideWords[side]}, ${valueText(field, value)}`}
       disabled={disabled}
       onPress={onPress}
       style={({ pressed }) => [
@@ -77,7 +78,7 @@ export function FieldPicker({ fields, picks, onPick, wide, disabled = false }: P
                 color={pick ? colors.textMuted : colors.caution}
                 testID={`pick-${field}-state`}
               >
-                {pick ? `${sideWords[pick]} value kept` : 'Not chosen yet'}
+                {pick ? `Keeping ${sideWords[pick]}` : 'Not chosen yet'}
               </AppText>
             </View>
             <View style={[styles.options, wide && styles.optionsWide]} accessibilityRole="radiogroup">
