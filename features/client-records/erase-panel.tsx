@@ -114,7 +114,7 @@ export function ErasePanel({ fullName, onErase, onDone }: Props) {
 /** What the erasure did, shown in place of the record that is gone. */
 export function ErasureResult({ result, onBack }: { result: EraseClientResponse; onBack: () => void }) {
   return (
-    <Panel title={`Erased ${result.clientName}`} testID="erase-result">
+    <Panel title="What was erased" testID="erase-result">
       <AppText color={colors.text} testID="erase-result-counts">
         {`Erased ${result.clientName}: ${erasedCountsWords(result.erased)}.`}
       </AppText>
