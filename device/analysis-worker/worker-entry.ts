@@ -1,5 +1,7 @@
 // Bundled on its own by scripts/build-worker.mjs (Metro cannot bundle workers) into dist/workers/analysis.js.
 import { analysePcm, traceForDisplay } from '@/shared/analysis';
+import { AnalysisError } from '@/shared/analysis/errors';
+import { importRefusalWords } from '../recorder/import-words';
 import type { AnalyseRequest, AnalyseResponse } from './messages';
 
 type WorkerScope = {
@@ -26,7 +28,10 @@ scope.onmessage = (event) => {
     scope.postMessage({
       id,
       ok: false,
-      message: error instanceof Error ? error.message : 'The analysis failed on this clip.',
+      message:
+        error instanceof AnalysisError
+          ? `This take could not be measured: ${importRefusalWords[error.code]} Record it again.`
+          : 'The analysis failed on this take. Record it again.',
     });
   }
 };

@@ -1,6 +1,7 @@
 import * as DocumentPicker from 'expo-document-picker';
 import { decodeWav } from '@/shared/analysis/wav';
 import { AnalysisError } from '@/shared/analysis/errors';
+import { importRefusalWords } from './import-words';
 import { decodeWithBrowser, type Pcm } from './recorder';
 
 export class ImportError extends Error {
@@ -25,8 +26,8 @@ export async function decodeImport(bytes: Uint8Array, name: string): Promise<Pcm
       const wav = decodeWav(bytes);
       return { samples: wav.samples, sampleRate: wav.sampleRate };
     } catch (error) {
-      const reason = error instanceof AnalysisError ? error.message : 'the file is damaged';
-      throw new ImportError(`“${name}” could not be read as WAV: ${reason} Choose another file.`);
+      const reason = error instanceof AnalysisError ? importRefusalWords[error.code] : 'the file is damaged.';
+      throw new ImportError(`“${name}” could not be read: ${reason} Choose another file.`);
     }
   }
   try {

@@ -29,9 +29,9 @@ describe('AuditFilters', () => {
   test('when Enter is pressed in a field, then the trimmed filters are applied', async () => {
     const onApply = jest.fn();
     render(<AuditFilters onApply={onApply} />);
-    fireEvent.changeText(screen.getByTestId('audit-filter-entity'), ' session ');
-    fireEvent(screen.getByTestId('audit-filter-entity'), 'submitEditing');
+    fireEvent.changeText(screen.getByTestId('audit-filter-client'), ' Wren Halloway ');
+    fireEvent(screen.getByTestId('audit-filter-client'), 'submitEditing');
     await waitFor(() => expect(onApply).toHaveBeenCalledTimes(1));
-    expect(onApply.mock.calls[0][0]).toEqual({ entity: 'session', entityId: '', from: '', to: '' });
+    expect(onApply.mock.calls[0][0]).toEqual({ client: 'Wren Halloway', from: '', to: '' });
   });
 });

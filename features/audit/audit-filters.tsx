@@ -15,17 +15,16 @@ const day = z
   });
 
 export const auditFilterSchema = z
-  .object({ entity: z.string().trim().max(80), entityId: z.string().trim().max(80), from: day, to: day })
+  .object({ client: z.string().trim().max(120), from: day, to: day })
   .refine((f) => !f.from || !f.to || f.from <= f.to, {
     error: 'The end date is before the start date.',
     path: ['to'],
   });
 export type AuditFilterValues = z.infer<typeof auditFilterSchema>;
-export const emptyAuditFilter: AuditFilterValues = { entity: '', entityId: '', from: '', to: '' };
+export const emptyAuditFilter: AuditFilterValues = { client: '', from: '', to: '' };
 
 const fields: { name: keyof AuditFilterValues; label: string; hint: string }[] = [
-  { name: 'entity', label: 'Entity', hint: 'client, session, user…' },
-  { name: 'entityId', label: 'Entity id', hint: 'exact id' },
+  { name: 'client', label: 'Client', hint: 'Part of a name' },
   { name: 'from', label: 'From', hint: 'YYYY-MM-DD' },
   { name: 'to', label: 'To', hint: 'YYYY-MM-DD' },
 ];
@@ -46,7 +45,7 @@ export function AuditFilters({ onApply }: { onApply: (values: AuditFilterValues)
             label={f.label}
             testID={`audit-filter-${f.name}`}
             placeholder={f.hint}
-            autoCapitalize="none"
+            autoCapitalize={f.name === 'client' ? 'words' : 'none'}
             onSubmitEditing={() => void apply()}
           />
         </View>

@@ -2,61 +2,24 @@ import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { ChoiceChips } from '@/ui/choice-chips';
-import { Cell, DataTable, type Column } from '@/ui/data-table';
-import { formatDateTime } from '@/ui/format';
 import { Pager } from '@/ui/pager';
 import { Panel } from '@/ui/panel';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { EmptyState, QueryView } from '@/ui/state-views';
 import { colors, space } from '@/ui/theme';
-import { useAuditQuery } from './api';
+import { useSettingsQuery } from '@/features/settings/api';
 import { useTeamQuery } from '@/features/team/api';
-import { useLayout } from '@/ui/use-layout';
-import type { AuditEventRow } from '@/shared/protocol/practice';
+import { useAuditQuery } from './api';
+import { AuditEventItem } from './audit-event-item';
 import { AuditFilters, emptyAuditFilter, type AuditFilterValues } from './audit-filters';
+import { auditKinds } from './audit-words';
 
 const pageSize = 50;
 
-function detailsText(details: AuditEventRow['details']): string {
-  if (!details) return '';
-  return Object.entries(details)
-    .map(([k, v]) => `${k}: ${typeof v === 'object' ? JSON.stringify(v) : String(v)}`)
-    .join(' · ');
-}
-
-const columns: readonly Column<AuditEventRow>[] = [
-  {
-    key: 'when',
-    title: 'When',
-    render: (e) => <Cell>{formatDateTime(e.occurredAt)}</Cell>,
-  },
-  {
-    key: 'who',
-    title: 'Who',
-    render: (e) => <Cell strong>{e.userName ?? (e.userId ? 'removed user' : 'system')}</Cell>,
-  },
-  { key: 'action', title: 'Action', render: (e) => <Cell mono>{e.action}</Cell> },
-  {
-    key: 'entity',
-    title: 'Entity',
-    flex: 1.3,
-    render: (e) => (
-      <Cell muted>{e.entity ? `${e.entity}${e.entityId ? ` ${e.entityId.slice(0, 13)}` : ''}` : '—'}</Cell>
-    ),
-  },
-  { key: 'ip', title: 'From', flex: 0.8, render: (e) => <Cell mono>{e.ip ?? '—'}</Cell> },
-  {
-    key: 'details',
-    title: 'Details',
-    flex: 1.6,
-    render: (e) => <Cell muted>{detailsText(e.details) || '—'}</Cell>,
-  },
-];
-
 /** Who read or changed what, when and from where. Read-only: nothing here edits an event. */
 export function AuditScreen() {
-  const { isWide } = useLayout();
   const team = useTeamQuery();
+  const settings = useSettingsQuery();
   const [filter, setFilter] = useState<AuditFilterValues>(emptyAuditFilter);
   const [action, setAction] = useState('all');
   const [userId, setUserId] = useState('all');
@@ -66,8 +29,7 @@ export function AuditScreen() {
     pageSize,
     action: action === 'all' ? undefined : action,
     userId: userId === 'all' ? undefined : userId,
-    entity: filter.entity || undefined,
-    entityId: filter.entityId || undefined,
+    client: filter.client || undefined,
     from: filter.from || undefined,
     to: filter.to || undefined,
   });
@@ -83,14 +45,11 @@ export function AuditScreen() {
           />
         ) : (
           <>
-            <DataTable
-              rows={data.events}
-              columns={columns}
-              rowKey={(e) => e.id}
-              rowTestID={(e) => `audit-row-${e.id}`}
-              wide={isWide}
-              testID="audit-table"
-            />
+            <View testID="audit-table">
+              {data.events.map((e) => (
+                <AuditEventItem key={e.id} event={e} currency={settings.data?.currency ?? null} />
+              ))}
+            </View>
             <Pager
               page={page}
               pageSize={pageSize}
@@ -104,27 +63,26 @@ export function AuditScreen() {
     </QueryView>
   );
 
-  const actions = log.data?.actions ?? [];
   return (
     <ScreenFrame
       title="Audit log"
-      subtitle="Every sign-in, read of recordings or findings, change and export. Events cannot be changed."
+      subtitle="Who signed in, opened, changed or sent what, and when. Nothing here can be changed or removed."
       testID="audit-screen"
     >
       <Panel title="Filter">
         <View style={styles.group}>
           <AppText variant="smallStrong" color={colors.ink}>
-            Action
+            Kind
           </AppText>
           <ChoiceChips
-            label="Action"
+            label="Kind"
             testID="audit-action"
             value={action}
             onChange={(a) => {
               setAction(a);
               setPage(1);
             }}
-            choices={[{ value: 'all', label: 'All' }, ...actions.map((a) => ({ value: a, label: a }))]}
+            choices={[{ value: 'all', label: 'Everything' }, ...auditKinds]}
           />
         </View>
         <View style={styles.group}>

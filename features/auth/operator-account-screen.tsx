@@ -1,7 +1,7 @@
 import { StyleSheet, View } from 'react-native';
 import { roleLabels } from '@/features/nav/role-labels';
 import { AppText } from '@/ui/app-text';
-import { CautionNote } from '@/ui/caution-note';
+import { CautionLine } from '@/ui/caution-line';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { sites } from '@/shared/sites';
 import { colors, radii, space } from '@/ui/theme';
@@ -48,7 +48,7 @@ export function OperatorAccountScreen() {
           </View>
         ))}
       </View>
-      <CautionNote compact />
+      <CautionLine />
     </ScreenFrame>
   );
 }

@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
-import { Badge, type BadgeTone } from '@/ui/badge';
+import { Badge } from '@/ui/badge';
 import { Button } from '@/ui/button';
 import { ChoiceChips } from '@/ui/choice-chips';
 import { Cell, DataTable, type Column } from '@/ui/data-table';
@@ -10,6 +10,7 @@ import { Pager } from '@/ui/pager';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { SearchField } from '@/ui/search-field';
 import { EmptyState, QueryView } from '@/ui/state-views';
+import { paymentStatusWords } from '@/ui/status-words';
 import { colors, space } from '@/ui/theme';
 import { usePaymentsQuery, useRefundMutation } from './api';
 import { useDebouncedValue } from '@/ui/use-debounced-value';
@@ -19,21 +20,14 @@ import { formatMoney } from './money';
 import { NewPaymentForm } from './new-payment-form';
 
 const pageSize = 20;
-const statusTone: Record<PaymentStatus, BadgeTone> = {
-  paid: 'good',
-  pending: 'neutral',
-  failed: 'danger',
-  refunded: 'caution',
-  expired: 'neutral',
-};
 type StatusFilter = PaymentStatus | 'all';
 const filters: { value: StatusFilter; label: string }[] = [
   { value: 'all', label: 'All' },
-  { value: 'pending', label: 'Pending' },
-  { value: 'paid', label: 'Paid' },
-  { value: 'failed', label: 'Failed' },
-  { value: 'refunded', label: 'Refunded' },
-  { value: 'expired', label: 'Expired' },
+  ...(['pending', 'paid', 'failed', 'refunded'] as const).map((value) => ({
+    value,
+    label: paymentStatusWords[value].label,
+  })),
+  { value: 'expired', label: paymentStatusWords.expired.label },
 ];
 
 function RefundAction({ payment }: { payment: Payment }) {
@@ -115,7 +109,7 @@ const columns: readonly Column<Payment>[] = [
     title: 'State',
     render: (p) => (
       <View style={styles.status}>
-        <Badge label={p.status} tone={statusTone[p.status]} testID={`payment-status-${p.id}`} />
+        <Badge {...paymentStatusWords[p.status]} testID={`payment-status-${p.id}`} />
         {p.status === 'failed' && p.failureReason ? (
           <AppText variant="caption" color={colors.danger} numberOfLines={2}>
             {p.failureReason}

@@ -40,7 +40,7 @@ test('when the imported clip is shorter than the minimum, then the take is refus
 
 test('when the import cannot be read, then its message is shown and the operator can try again', async () => {
   picked.mockRejectedValue(
-    new ImportError('“x.wav” could not be read as WAV: The file is empty. Choose another file.'),
+    new ImportError('“x.wav” could not be read: it holds no sound. Choose another file.'),
   );
   const { result } = renderHook(() => useTake('aortic', 15));
   await act(() => result.current.importFile());

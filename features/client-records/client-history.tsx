@@ -5,6 +5,7 @@ import { Badge } from '@/ui/badge';
 import { Cell, DataTable, type Column } from '@/ui/data-table';
 import { formatDate, formatDateTime } from '@/ui/format';
 import { Panel } from '@/ui/panel';
+import { packageStatusWords, visitStatusLook } from '@/ui/status-words';
 import { colors, radii, space } from '@/ui/theme';
 import { useConsentTextsQuery } from '@/features/settings/api';
 import type { ClientRecord } from '@/shared/protocol/practice';
@@ -18,7 +19,7 @@ const visitColumns: readonly Column<Visit>[] = [
     title: 'When',
     render: (v) => <Cell strong>{formatDateTime(v.startedAt)}</Cell>,
   },
-  { key: 'status', title: 'Status', render: (v) => <Badge label={v.status.replace(/_/g, ' ')} /> },
+  { key: 'status', title: 'Status', render: (v) => <Badge {...visitStatusLook(v.status)} /> },
   { key: 'operator', title: 'Recorded by', render: (v) => <Cell>{v.operatorName ?? '—'}</Cell> },
   { key: 'sites', title: 'Sites', flex: 0.6, render: (v) => <Cell mono>{v.sitesRecorded} / 4</Cell> },
   {
@@ -139,7 +140,7 @@ export function PackageList({ packages }: { packages: ClientRecord['packages'] }
             <AppText variant="number" color={colors.ink}>
               {p.visitsLeft} left
             </AppText>
-            <Badge label={p.status} tone={p.status === 'active' ? 'good' : 'danger'} />
+            <Badge {...packageStatusWords[p.status]} />
           </View>
         ))
       )}

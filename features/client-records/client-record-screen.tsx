@@ -73,7 +73,7 @@ export function ClientRecordScreen() {
   if (erased) {
     return (
       <ScreenFrame title="Client erased" testID="client-record-screen">
-        <ErasureResult fullName={erased.name} result={erased.result} onBack={back} />
+        <ErasureResult result={erased.result} onBack={back} />
       </ScreenFrame>
     );
   }

@@ -6,6 +6,8 @@ import { ErasePanel, ErasureResult } from './erase-panel';
 const fullName = 'Oriel Fairweather';
 const erased: EraseClientResponse = {
   erasureId: '0f6c2a9e-4b1d-4e7a-9c3f-2d8b1a7e6c55',
+  clientName: fullName,
+  erased: { visits: 6, recordings: 24, consents: 1, reportEmails: 3 },
   rowsTombstoned: 9,
   blobsDeleted: 4,
 };
@@ -70,10 +72,23 @@ describe('erase confirmation', () => {
     expect(onErase).not.toHaveBeenCalled();
   });
 
-  test('when the erasure is done, then the result gives the counts', () => {
-    render(<ErasureResult fullName={fullName} result={erased} onBack={jest.fn()} />);
+  test('when the erasure is done, then the result counts visits, recordings, consents and report e-mails in words', () => {
+    render(<ErasureResult result={erased} onBack={jest.fn()} />);
     expect(screen.getByTestId('erase-result-counts')).toHaveTextContent(
-      '9 rows removed and 4 clip files deleted.',
+      'Erased Oriel Fairweather: 6 visits, 24 recordings, 1 signed consent and 3 report e-mails.',
+    );
+    expect(screen.queryByText(/row|clip file|[0-9a-f]{8}/)).toBeNull();
+  });
+
+  test('when a client had no visits, then the result says only the record went', () => {
+    render(
+      <ErasureResult
+        result={{ ...erased, erased: { visits: 0, recordings: 0, consents: 0, reportEmails: 0 } }}
+        onBack={jest.fn()}
+      />,
+    );
+    expect(screen.getByTestId('erase-result-counts')).toHaveTextContent(
+      'Erased Oriel Fairweather: the record only (no visits yet).',
     );
   });
 });

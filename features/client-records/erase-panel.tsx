@@ -7,6 +7,7 @@ import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
 import { Panel } from '@/ui/panel';
 import { FormTextField } from '@/ui/form-text-field';
+import { erasedCountsWords } from '@/ui/result-words';
 import { colors, space } from '@/ui/theme';
 import type { EraseClientResponse } from '@/shared/protocol/practice';
 
@@ -111,25 +112,15 @@ export function ErasePanel({ fullName, onErase, onDone }: Props) {
 }
 
 /** What the erasure did, shown in place of the record that is gone. */
-export function ErasureResult({
-  fullName,
-  result,
-  onBack,
-}: {
-  fullName: string;
-  result: EraseClientResponse;
-  onBack: () => void;
-}) {
+export function ErasureResult({ result, onBack }: { result: EraseClientResponse; onBack: () => void }) {
   return (
-    <Panel title={`${fullName} was erased`} testID="erase-result">
+    <Panel title="What was erased" testID="erase-result">
       <AppText color={colors.text} testID="erase-result-counts">
-        {result.rowsTombstoned} {result.rowsTombstoned === 1 ? 'row' : 'rows'} removed and{' '}
-        {result.blobsDeleted} {result.blobsDeleted === 1 ? 'clip file' : 'clip files'} deleted.
+        {`Erased ${result.clientName}: ${erasedCountsWords(result.erased)}.`}
       </AppText>
       <AppText variant="small" color={colors.textMuted}>
-        Devices drop the client at their next sync; the removed rows are purged for good after the grace
-        period. The audit log records erasure {result.erasureId.slice(0, 8)}, by whom and when, without the
-        erased data.
+        Phones and tablets drop the client the next time they connect. The audit log keeps that you erased a
+        client, and when, but not who they were.
       </AppText>
       <View style={styles.start}>
         <Button label="Back to clients" variant="secondary" onPress={onBack} testID="erase-result-back" />

@@ -2,9 +2,10 @@ import { Link, useLocalSearchParams } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
-import { CautionNote } from '@/ui/caution-note';
+import { CautionLine } from '@/ui/caution-line';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { ErrorState, LoadingState } from '@/ui/state-views';
+import { conflictStatusWords } from '@/ui/status-words';
 import { colors, radii, space } from '@/ui/theme';
 import { useConflictQuery, useResolveConflictMutation } from './api';
 import { useLayout } from '@/ui/use-layout';
@@ -91,11 +92,7 @@ export function ConflictDetailScreen() {
               ← All conflicts
             </AppText>
           </Link>
-          <Badge
-            label={c.status === 'open' ? 'To settle' : 'Settled'}
-            tone={c.status === 'open' ? 'caution' : 'good'}
-            testID="conflict-status"
-          />
+          <Badge {...conflictStatusWords[c.status]} testID="conflict-status" />
         </View>
       }
     >
@@ -108,7 +105,7 @@ export function ConflictDetailScreen() {
         <>
           <AppText variant="small" color={colors.text} testID="conflict-differing">
             {c.differingFields.length
-              ? `Differs in: ${c.differingFields.map(fieldLabel).join(', ')}. Nothing was overwritten: both versions are kept until you choose.`
+              ? `Differs in: ${c.differingFields.map(fieldLabel).join(', ')}. Nothing was overwritten: the record and the change are both kept until you choose.`
               : 'Nothing differs any more; settling keeps the clinic’s record as it is.'}
           </AppText>
           <VersionsSideBySide conflict={c} wide={isWide} />
@@ -121,7 +118,7 @@ export function ConflictDetailScreen() {
           />
         </>
       )}
-      {c.entity === 'site_recordings' || c.entity === 'recording_sessions' ? <CautionNote compact /> : null}
+      {c.entity === 'site_recordings' || c.entity === 'recording_sessions' ? <CautionLine /> : null}
     </ScreenFrame>
   );
 }

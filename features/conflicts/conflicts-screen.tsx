@@ -5,6 +5,7 @@ import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
+import { conflictStatusWords } from '@/ui/status-words';
 import { colors, radii, space } from '@/ui/theme';
 import { useConflictListQuery, type ConflictStatusFilter } from './api';
 import { useLayout } from '@/ui/use-layout';
@@ -47,10 +48,7 @@ function ConflictRow({ c, wide, onOpen }: { c: ConflictSummary; wide: boolean; o
         <AppText variant="number" color={colors.text}>
           {whenText(c.createdAt)}
         </AppText>
-        <Badge
-          label={c.status === 'open' ? 'To settle' : 'Settled'}
-          tone={c.status === 'open' ? 'caution' : 'good'}
-        />
+        <Badge {...conflictStatusWords[c.status]} />
       </View>
     </Pressable>
   );
@@ -73,7 +71,7 @@ export function ConflictsScreen() {
     body = (
       <EmptyState
         title={status === 'open' ? 'No open conflicts' : 'No conflicts'}
-        detail="When two devices change the same row from the same version, it waits here for you."
+        detail="When two phones change the same record while offline, the later change waits here for you to settle."
         testID="conflicts-empty"
       />
     );
@@ -107,7 +105,7 @@ export function ConflictsScreen() {
   return (
     <ScreenFrame
       title="Conflicts"
-      subtitle="Changes from devices that met a newer version on the server"
+      subtitle="Changes made offline that met a newer change at the clinic"
       testID="conflicts-screen"
       header={
         <View style={styles.filters} accessibilityRole="radiogroup">

@@ -1,5 +1,6 @@
 import { Pressable, StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
+import { usePointerWords } from '@/ui/use-pointer-words';
 import { colors, radii, space } from '@/ui/theme';
 import { fieldLabel, valueText } from './conflict-words';
 
@@ -14,7 +15,8 @@ type Props = {
   disabled?: boolean;
 };
 
-const sideWords: Record<Side, string> = { server: 'Server', client: 'Device' };
+// The glossary's words: the clinic's record (what the server holds) and the change (what a phone sent offline).
+const sideWords: Record<Side, string> = { server: 'the record', client: 'the change' };
 
 // The words carry the choice; the colour only repeats it.
 function Option({
@@ -32,12 +34,13 @@ function Option({
   onPress: () => void;
   disabled: boolean;
 }) {
+  const pointer = usePointerWords();
   return (
     <Pressable
       testID={`pick-${field}-${side}`}
       accessibilityRole="radio"
       accessibilityState={{ checked: chosen, disabled }}
-      accessibilityLabel={`${fieldLabel(field)}: use the ${sideWords[side].toLowerCase()}'s value, ${valueText(field, value)}`}
+      accessibilityLabel={`${fieldLabel(field)}: keep ${sideWords[side]}, ${valueText(field, value)}`}
       disabled={disabled}
       onPress={onPress}
       style={({ pressed }) => [
@@ -49,7 +52,7 @@ function Option({
       <AppText variant="caption" color={chosen ? colors.pulse : colors.textMuted}>
         {chosen
           ? `✓ KEEPING ${sideWords[side].toUpperCase()}`
-          : `${sideWords[side].toUpperCase()} · TAP TO KEEP`}
+          : `${sideWords[side].toUpperCase()} · ${pointer.Verb.toUpperCase()} TO KEEP`}
       </AppText>
       <AppText variant="small" color={colors.text} testID={`pick-${field}-${side}-value`}>
         {valueText(field, value)}
@@ -75,7 +78,7 @@ export function FieldPicker({ fields, picks, onPick, wide, disabled = false }: P
                 color={pick ? colors.textMuted : colors.caution}
                 testID={`pick-${field}-state`}
               >
-                {pick ? `${sideWords[pick]} value kept` : 'Not chosen yet'}
+                {pick ? `Keeping ${sideWords[pick]}` : 'Not chosen yet'}
               </AppText>
             </View>
             <View style={[styles.options, wide && styles.optionsWide]} accessibilityRole="radiogroup">

@@ -32,13 +32,13 @@ describe('conflict field-by-field picker', () => {
     setup();
     fireEvent.press(screen.getByTestId('resolve-keep-fields'));
     fireEvent.press(screen.getByTestId('pick-email-client'));
-    expect(screen.getByTestId('pick-email-state')).toHaveTextContent('Device value kept');
-    expect(screen.getByTestId('pick-email-client')).toHaveTextContent(/KEEPING DEVICE/);
+    expect(screen.getByTestId('pick-email-state')).toHaveTextContent('Keeping the change');
+    expect(screen.getByTestId('pick-email-client')).toHaveTextContent(/KEEPING THE CHANGE/);
     expect(screen.getByTestId('pick-email-client')).toBeChecked();
     expect(screen.getByTestId('pick-email-server')).not.toBeChecked();
 
     fireEvent.press(screen.getByTestId('pick-email-server'));
-    expect(screen.getByTestId('pick-email-state')).toHaveTextContent('Server value kept');
+    expect(screen.getByTestId('pick-email-state')).toHaveTextContent('Keeping the record');
     expect(screen.getByTestId('pick-email-client')).not.toBeChecked();
   });
 
@@ -81,14 +81,14 @@ describe('conflict field-by-field picker', () => {
 
   test('when nothing is chosen, then submit asks for a choice; keeping one version sends no field list', () => {
     const onSubmit = setup();
-    fireEvent.changeText(screen.getByTestId('resolve-note'), 'Device was right.');
+    fireEvent.changeText(screen.getByTestId('resolve-note'), 'The phone was right.');
     fireEvent.press(screen.getByTestId('resolve-submit'));
-    expect(screen.getByTestId('resolve-keep-error')).toHaveTextContent(/Choose how to resolve/);
+    expect(screen.getByTestId('resolve-keep-error')).toHaveTextContent(/Choose how to settle it/);
     expect(onSubmit).not.toHaveBeenCalled();
 
     fireEvent.press(screen.getByTestId('resolve-keep-client'));
     expect(screen.queryByTestId('field-picker')).toBeNull();
     fireEvent.press(screen.getByTestId('resolve-submit'));
-    expect(onSubmit).toHaveBeenCalledWith({ keep: 'client', note: 'Device was right.' });
+    expect(onSubmit).toHaveBeenCalledWith({ keep: 'client', note: 'The phone was right.' });
   });
 });

@@ -13,13 +13,13 @@ type Keep = ResolveConflictRequest['keep'];
 const keepChoices: readonly { keep: Keep; title: string; detail: string }[] = [
   {
     keep: 'server',
-    title: "Keep the server's version",
-    detail: 'The device’s change is dropped; every device settles on the server’s values.',
+    title: 'Keep the clinic’s record',
+    detail: 'The change made offline is dropped; every phone gets the clinic’s record.',
   },
   {
     keep: 'client',
-    title: "Keep the device's version",
-    detail: 'The device’s values replace the server’s for every differing field.',
+    title: 'Keep the change',
+    detail: 'The change replaces the clinic’s record in every field that differs.',
   },
   { keep: 'fields', title: 'Pick field by field', detail: 'Choose a side for each differing field.' },
 ];
@@ -42,7 +42,8 @@ export function ResolveForm({ differing, onSubmit, wide, busy = false, serverErr
 
   const submit = () => {
     const next: typeof errors = {};
-    if (!keep) next.keep = 'Choose how to resolve: keep one version, or pick field by field.';
+    if (!keep)
+      next.keep = 'Choose how to settle it: keep the record, keep the change, or pick field by field.';
     if (keep === 'fields') {
       const missing = differing.filter((d) => !picks[d.field]).map((d) => fieldLabel(d.field));
       if (missing.length) next.fields = `Pick a side for: ${missing.join(', ')}.`;

@@ -1,7 +1,7 @@
 import { StyleSheet, View } from 'react-native';
 import { roleLabels } from '@/features/nav/role-labels';
 import { AppText } from '@/ui/app-text';
-import { CautionNote } from '@/ui/caution-note';
+import { CautionLine } from '@/ui/caution-line';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
 import { colors, radii, space } from '@/ui/theme';
@@ -71,7 +71,7 @@ export function AdminHomeScreen() {
     >
       <AttentionPanel />
       {body}
-      <CautionNote compact />
+      <CautionLine />
     </ScreenFrame>
   );
 }

@@ -23,8 +23,8 @@ export function AttentionPanel() {
     {
       key: 'conflicts',
       count: openConflicts,
-      label: openConflicts === 1 ? 'sync conflict to settle' : 'sync conflicts to settle',
-      detail: 'Two devices changed the same record; nothing was overwritten until you choose.',
+      label: openConflicts === 1 ? 'conflict to settle' : 'conflicts to settle',
+      detail: 'Two phones changed the same record while offline; nothing was overwritten until you choose.',
       action: { label: 'Open conflicts', href: '/conflicts' },
     },
     {

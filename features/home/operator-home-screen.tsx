@@ -3,7 +3,7 @@ import { useState } from 'react';
 import { StyleSheet, TextInput, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
-import { CautionNote } from '@/ui/caution-note';
+import { CautionLine } from '@/ui/caution-line';
 import { SearchIcon } from '@/ui/icons';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
@@ -101,7 +101,7 @@ export function OperatorHomeScreen() {
       header={searchBox}
     >
       {body}
-      <CautionNote compact />
+      <CautionLine />
     </ScreenFrame>
   );
 }

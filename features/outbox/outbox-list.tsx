@@ -56,8 +56,8 @@ function OutboxItemLine({ item, details }: { item: OutboxRow; details: boolean }
       ) : null}
       {item.state === 'conflict' ? (
         <AppText variant="small" color={colors.text}>
-          The clinic has a newer version; an admin will choose which to keep. Nothing was overwritten, and
-          nothing is needed from you.
+          The clinic has a newer change to the same record; an admin will choose which to keep. Nothing was
+          overwritten, and nothing is needed from you.
         </AppText>
       ) : null}
       {details ? (

@@ -1,13 +1,10 @@
 import type { BadgeTone } from '@/ui/badge';
 import { verdictWords } from '@/ui/verdicts';
-import type { SessionStatus, SiteVerdict } from '@/shared/protocol';
+import type { SiteVerdict } from '@/shared/protocol';
+import { visitStatusWords } from '@/ui/status-words';
 
-export const statusLabels: Record<SessionStatus, { label: string; tone: BadgeTone }> = {
-  in_progress: { label: 'In progress', tone: 'neutral' },
-  completed: { label: 'Ready for review', tone: 'caution' },
-  reviewed: { label: 'Reviewed', tone: 'good' },
-  cancelled: { label: 'Cancelled', tone: 'neutral' },
-};
+/** The visit's state in the words every role reads (ui/status-words.ts). */
+export const statusLabels = visitStatusWords;
 
 export function siteVerdictLook(v: SiteVerdict): { label: string; tone: BadgeTone } {
   // Quality of the recording only (ui/verdicts.ts); never a finding about the client.

@@ -9,6 +9,7 @@ import { FormTextField } from '@/ui/form-text-field';
 import { formatDate } from '@/ui/format';
 import { Panel } from '@/ui/panel';
 import { QueryView } from '@/ui/state-views';
+import { ConfirmStep } from '@/ui/confirm-step';
 import { colors, radii, space } from '@/ui/theme';
 import { useConsentTextsQuery, usePublishConsentTextMutation } from './api';
 import {
@@ -35,14 +36,22 @@ function Paragraphs({ body, testID }: { body: string; testID: string }) {
 
 function PublishForm({ current, onDone }: { current: ConsentText | undefined; onDone: () => void }) {
   const publish = usePublishConsentTextMutation();
+  const [pending, setPending] = useState<PublishConsentTextRequest | null>(null);
   const { control, handleSubmit } = useForm<PublishConsentTextRequest>({
     resolver: zodResolver(publishConsentTextRequestSchema),
     defaultValues: { title: current?.title ?? '', body: current?.body ?? '' },
   });
-  const submit = handleSubmit(async (values) => {
-    await publish.mutateAsync(values);
-    onDone();
-  });
+  // Publishing asks every client to sign again, so the form only checks the wording; the next step publishes.
+  const review = handleSubmit((values) => setPending(values));
+  const confirm = async () => {
+    if (!pending) return;
+    try {
+      await publish.mutateAsync(pending);
+      onDone();
+    } catch {
+      // The error is shown below the question; the wording stays in the form.
+    }
+  };
   return (
     <View style={styles.form} testID="consent-publish-form">
       <AppText variant="small" color={colors.textMuted}>
@@ -59,25 +68,36 @@ function PublishForm({ current, onDone }: { current: ConsentText | undefined; on
         textAlignVertical="top"
         testID="consent-publish-body"
       />
-      {publish.isError ? (
-        <AppText
-          variant="small"
-          color={colors.danger}
-          accessibilityRole="alert"
-          testID="consent-publish-error"
-        >
-          {publish.error.message} Nothing was published; the text above is kept.
-        </AppText>
-      ) : null}
-      <View style={styles.row}>
-        <Button
-          label="Publish as the new version"
+      {pending ? (
+        <ConfirmStep
+          question="Publish this wording?"
+          confirmLabel="Yes, publish"
+          cancelLabel="Keep editing"
           busy={publish.isPending}
-          onPress={() => void submit()}
-          testID="consent-publish-submit"
-        />
-        <Button label="Cancel" variant="ghost" onPress={onDone} testID="consent-publish-cancel" />
-      </View>
+          error={
+            publish.isError ? `${publish.error.message} Nothing was published; the text above is kept.` : null
+          }
+          onConfirm={() => void confirm()}
+          onCancel={() => {
+            publish.reset();
+            setPending(null);
+          }}
+          testID="consent-publish-confirm"
+        >
+          {`Every client signs it at their next visit, before anything is recorded${
+            current ? `; the wording of version ${current.version} stops being offered` : ''
+          }. Consent already given stays on record with the wording it was given for. A published wording cannot be taken back, only replaced by a newer one.`}
+        </ConfirmStep>
+      ) : (
+        <View style={styles.row}>
+          <Button
+            label="Publish as the new version…"
+            onPress={() => void review()}
+            testID="consent-publish-submit"
+          />
+          <Button label="Cancel" variant="ghost" onPress={onDone} testID="consent-publish-cancel" />
+        </View>
+      )}
     </View>
   );
 }

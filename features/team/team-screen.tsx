@@ -8,6 +8,7 @@ import { ScreenFrame } from '@/ui/screen-frame';
 import { ErrorState, LoadingState } from '@/ui/state-views';
 import { FormTextField } from '@/ui/form-text-field';
 import { formatDateTime } from '@/ui/format';
+import { invitationStatusWords } from '@/ui/status-words';
 import { colors, radii, space } from '@/ui/theme';
 import {
   useInviteMutation,
@@ -156,10 +157,7 @@ export function TeamScreen() {
                     {i.email} · expires {formatDateTime(i.expiresAt)}
                   </AppText>
                 </View>
-                <Badge
-                  label={i.status}
-                  tone={i.status === 'accepted' ? 'good' : i.status === 'pending' ? 'neutral' : 'caution'}
-                />
+                <Badge {...invitationStatusWords[i.status]} />
                 {i.status === 'pending' ? (
                   <Button
                     label="Withdraw"

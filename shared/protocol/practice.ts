@@ -40,6 +40,7 @@ export const teamUserSchema = z.object({
 });
 export type TeamUser = z.infer<typeof teamUserSchema>;
 export const invitationStatusSchema = z.enum(['pending', 'accepted', 'expired', 'revoked']);
+export type InvitationStatus = z.infer<typeof invitationStatusSchema>;
 export const invitationSchema = z.object({
   id: z.uuid(),
   email: z.string(),
@@ -183,6 +184,15 @@ export const eraseClientRequestSchema = z.object({
 });
 export const eraseClientResponseSchema = z.object({
   erasureId: z.uuid(),
+  /** The name as it was, for the admin's confirmation; the server no longer has it. */
+  clientName: z.string(),
+  /** What was erased, counted the way a practice counts it. */
+  erased: z.object({
+    visits: z.number(),
+    recordings: z.number(),
+    consents: z.number(),
+    reportEmails: z.number(),
+  }),
   rowsTombstoned: z.number(),
   blobsDeleted: z.number(),
 });
@@ -283,6 +293,8 @@ export const auditQuerySchema = pageQuerySchema.extend({
   userId: z.uuid().optional(),
   entity: z.string().trim().max(80).optional(),
   entityId: z.string().trim().max(80).optional(),
+  /** Part of the name of the client the events concern. */
+  client: z.string().trim().max(120).optional(),
   from: calendarDateSchema.optional(),
   to: calendarDateSchema.optional(),
 });
@@ -297,6 +309,13 @@ export const auditEventSchema = z.object({
   entityId: z.string().nullable(),
   ip: z.string().nullable(),
   details: z.record(z.string(), z.unknown()).nullable(),
+  /** The client the event concerns (directly, or through a visit, recording, consent or payment). */
+  clientId: z.string().nullable(),
+  /** Null when there is no client or the client was erased (the log never keeps an erased name). */
+  clientName: z.string().nullable(),
+  clientErased: z.boolean(),
+  /** The team member or invitee a team or sign-in event is about. */
+  subjectName: z.string().nullable(),
 });
 export type AuditEventRow = z.infer<typeof auditEventSchema>;
 export const auditListResponseSchema = z.object({

@@ -31,6 +31,15 @@ test('when the admin publishes new consent wording, then it is the version in fo
     `I agree that the clinic records the sounds of my heart at four places on my chest.\n\n${marker}`,
   );
   await visible(admin.page, 'consent-publish-submit').click();
+  // Publishing makes every client sign again: it asks first and says so; "Keep editing" publishes nothing.
+  const confirm = visible(admin.page, 'consent-publish-confirm');
+  expect(await confirm.innerText()).toContain('Every client signs it at their next visit');
+  await screenshot(admin.page, 'settings-consent-publish-confirm-wide');
+  await visible(admin.page, 'consent-publish-confirm-no').click();
+  await confirm.waitFor({ state: 'detached' });
+  expect(await visible(admin.page, 'consent-current').innerText()).toContain(`version ${before}`);
+  await visible(admin.page, 'consent-publish-submit').click();
+  await visible(admin.page, 'consent-publish-confirm-yes').click();
   await visible(admin.page, 'consent-publish-form').waitFor({ state: 'detached' });
   await admin.page.waitForFunction(
     (version) =>

@@ -60,7 +60,12 @@ describe.each(sizes)('at $name size', ({ name, viewport, nav }) => {
         expect(
           await page.locator(`[data-testid^="${row}"]`).filter({ visible: true }).count(),
         ).toBeGreaterThan(0);
-        await visible(page, 'caution-note').waitFor();
+        // The full caution where results are listed (the practitioner's visits), one line elsewhere.
+        await page
+          .locator('[data-testid="caution-note"], [data-testid="caution-line"]')
+          .filter({ visible: true })
+          .first()
+          .waitFor();
         await visible(page, nav).waitFor();
         expect(await visible(page, 'signed-in-name').textContent()).not.toBe('');
         await screenshot(page, `${role}-${name}`);

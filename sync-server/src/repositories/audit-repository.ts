@@ -1,6 +1,6 @@
 import type { Sequelize, Transaction } from 'sequelize';
 import { AuditEvent } from '../models';
-import { execute, selectRows } from './sql';
+import { escapeLike, execute, selectRows } from './sql';
 
 // The audit log (`audit_events`): append-only, enforced by a trigger. Writing takes no connection argument, since
 // every use case and middleware records events: it writes on the connection the models were set up with.
@@ -38,10 +38,53 @@ export type AuditFilter = {
   userId?: string;
   entity?: string;
   entityId?: string;
+  /** Part of the client's name the event concerns (any order of first and last name). */
+  client?: string;
   from?: string;
   to?: string;
   page: number;
   pageSize: number;
+};
+
+/**
+ * The client an event concerns, whatever it names: the client itself, one of their visits or recordings, or a
+ * payment. Every lookup stays inside the event's clinic. An erased client keeps their id but no name.
+ */
+const concerns = `LEFT JOIN LATERAL (
+    SELECT CASE
+      WHEN a.entity IN ('client', 'clients') THEN a.entity_id
+      WHEN a.entity = 'recording_sessions' THEN
+        (SELECT s.client_id::text FROM recording_sessions s WHERE s.clinic_id = a.clinic_id AND s.id::text = a.entity_id)
+      WHEN a.entity = 'site_recordings' THEN
+        (SELECT s.client_id::text FROM site_recordings r JOIN recording_sessions s ON s.id = r.session_id
+         WHERE r.clinic_id = a.clinic_id AND r.id::text = a.entity_id)
+      WHEN a.entity = 'consents' THEN
+        (SELECT c.client_id::text FROM consents c WHERE c.clinic_id = a.clinic_id AND c.id::text = a.entity_id)
+      WHEN a.entity = 'payment' THEN coalesce(a.details->>'clientId',
+        (SELECT p.client_id::text FROM payments p WHERE p.clinic_id = a.clinic_id AND p.id::text = a.entity_id))
+    END AS client_id
+  ) about ON true
+  LEFT JOIN clients c ON c.clinic_id = a.clinic_id AND c.id::text = about.client_id
+  LEFT JOIN users u ON u.id = a.user_id AND u.clinic_id = a.clinic_id
+  LEFT JOIN users subject ON a.entity = 'user' AND subject.clinic_id = a.clinic_id AND subject.id::text = a.entity_id
+  LEFT JOIN invitations inv ON a.entity = 'invitation' AND inv.clinic_id = a.clinic_id AND inv.id::text = a.entity_id`;
+
+const clientName = `CASE WHEN c.deleted_at IS NULL THEN c.first_name || ' ' || c.last_name END`;
+
+export type AuditEventDbRow = {
+  id: string;
+  occurred_at: Date;
+  user_id: string | null;
+  user_name: string | null;
+  action: string;
+  entity: string | null;
+  entity_id: string | null;
+  ip: string | null;
+  details: Record<string, unknown> | null;
+  client_id: string | null;
+  client_name: string | null;
+  client_erased: boolean;
+  subject_name: string | null;
 };
 
 export async function pageAuditEvents(sequelize: Sequelize, clinicId: string, f: AuditFilter) {
@@ -50,41 +93,37 @@ export async function pageAuditEvents(sequelize: Sequelize, clinicId: string, f:
     AND (:userId::uuid IS NULL OR a.user_id = :userId)
     AND (:entity::text IS NULL OR a.entity = :entity)
     AND (:entityId::text IS NULL OR a.entity_id = :entityId)
+    AND (:client::text IS NULL OR (c.deleted_at IS NULL AND (c.first_name || ' ' || c.last_name ILIKE :client
+      OR c.last_name || ' ' || c.first_name ILIKE :client)))
     AND (:from::date IS NULL OR a.occurred_at >= CAST(:from AS date))
     AND (:to::date IS NULL OR a.occurred_at < CAST(:to AS date) + 1)`;
   const r = {
     clinicId,
     action: f.action ?? null,
-    actionPrefix: f.action ? `${f.action.replace(/[\\%_]/g, (c) => `\\${c}`)}.%` : null,
+    actionPrefix: f.action ? `${escapeLike(f.action)}.%` : null,
     userId: f.userId ?? null,
     entity: f.entity ?? null,
     entityId: f.entityId ?? null,
+    client: f.client ? `%${escapeLike(f.client.trim().replace(/\s+/g, ' '))}%` : null,
     from: f.from ?? null,
     to: f.to ?? null,
     limit: f.pageSize,
     offset: (f.page - 1) * f.pageSize,
   };
   const [rows, counts, actions] = await Promise.all([
-    selectRows<{
-      id: string;
-      occurred_at: Date;
-      user_id: string | null;
-      user_name: string | null;
-      action: string;
-      entity: string | null;
-      entity_id: string | null;
-      ip: string | null;
-      details: Record<string, unknown> | null;
-    }>(
+    selectRows<AuditEventDbRow>(
       sequelize,
-      `SELECT a.id, a.occurred_at, a.user_id, u.name AS user_name, a.action, a.entity, a.entity_id, a.ip, a.details
-       FROM audit_events a LEFT JOIN users u ON u.id = a.user_id
+      `SELECT a.id, a.occurred_at, a.user_id, u.name AS user_name, a.action, a.entity, a.entity_id, a.ip, a.details,
+         about.client_id, ${clientName} AS client_name,
+         (about.client_id IS NOT NULL AND (c.id IS NULL OR c.deleted_at IS NOT NULL)) AS client_erased,
+         coalesce(subject.name, inv.name, inv.email) AS subject_name
+       FROM audit_events a ${concerns}
        WHERE ${where} ORDER BY a.occurred_at DESC, a.id DESC LIMIT :limit OFFSET :offset`,
       r,
     ),
     selectRows<{ total: string }>(
       sequelize,
-      `SELECT count(*) AS total FROM audit_events a WHERE ${where}`,
+      `SELECT count(*) AS total FROM audit_events a ${concerns} WHERE ${where}`,
       r,
     ),
     selectRows<{ action: string }>(

@@ -1,4 +1,5 @@
 import type { Sequelize, Transaction } from 'sequelize';
+import type { EraseClientResponse } from '@/shared/protocol/practice';
 import { execute, selectRows } from './sql';
 
 const ERASED = 'erased';
@@ -33,6 +34,34 @@ export const clipHashesOfClient = async (
       transaction,
     )
   ).map((r) => r.sha256);
+
+type ErasedCounts = EraseClientResponse['erased'];
+
+/** What the client has that a person would count, before the erasure: visits, recordings with sound, consents, report e-mails. */
+export async function countClientRecords(
+  sequelize: Sequelize,
+  clinicId: string,
+  clientId: string,
+  transaction: Transaction,
+): Promise<ErasedCounts> {
+  const sessions = `SELECT id FROM recording_sessions WHERE clinic_id = :clinicId AND client_id = :clientId AND deleted_at IS NULL`;
+  const [row] = await selectRows<Record<keyof ErasedCounts, string>>(
+    sequelize,
+    `SELECT (${sessions.replace('SELECT id', 'SELECT count(*)')}) AS "visits",
+       (SELECT count(*) FROM site_recordings WHERE clinic_id = :clinicId AND deleted_at IS NULL AND clip_sha256 IS NOT NULL
+          AND session_id IN (${sessions})) AS "recordings",
+       (SELECT count(*) FROM consents WHERE clinic_id = :clinicId AND client_id = :clientId AND deleted_at IS NULL) AS "consents",
+       (SELECT count(*) FROM report_mails WHERE clinic_id = :clinicId AND session_id IN (${sessions})) AS "reportEmails"`,
+    { clinicId, clientId },
+    transaction,
+  );
+  return {
+    visits: Number(row.visits),
+    recordings: Number(row.recordings),
+    consents: Number(row.consents),
+    reportEmails: Number(row.reportEmails),
+  };
+}
 
 /**
  * Tombstones every row of the client the way a synced delete does (deleted_at set, version bumped; the
@@ -76,6 +105,13 @@ export async function tombstoneClient(
     `UPDATE clients SET deleted_at = now(), first_name = :erased, last_name = :erased, date_of_birth = NULL, email = NULL, phone = NULL,
        notes = NULL, version = version + 1, updated_at = now()
      WHERE clinic_id = :clinicId AND id = :clientId`,
+    r,
+    transaction,
+  );
+  // A report e-mail keeps the client's address and the report PDF: it goes now, not at the purge.
+  await execute(
+    sequelize,
+    `DELETE FROM report_mails WHERE clinic_id = :clinicId AND session_id IN (${sessions})`,
     r,
     transaction,
   );

@@ -34,6 +34,7 @@ export async function eraseClient(
       );
     }
     const hashes = await repo.clipHashesOfClient(deps.sequelize, caller.clinicId, clientId, transaction);
+    const erased = await repo.countClientRecords(deps.sequelize, caller.clinicId, clientId, transaction);
     const rowsTombstoned = await repo.tombstoneClient(deps.sequelize, caller.clinicId, clientId, transaction);
     const blobs = await repo.deleteUnreferencedBlobs(deps.sequelize, caller.clinicId, hashes, transaction);
     await repo.insertErasure(
@@ -62,14 +63,14 @@ export async function eraseClient(
         entity: 'client',
         entityId: clientId,
         ip: caller.ip,
-        details: { erasureId, rowsTombstoned, blobsDeleted: blobs.length },
+        details: { erasureId, ...erased, rowsTombstoned, blobsDeleted: blobs.length },
       },
       transaction,
     );
-    return { rowsTombstoned };
+    return { rowsTombstoned, erased, clientName: `${client.first_name} ${client.last_name}` };
   });
   const blobsDeleted = await deleteQueuedBlobs(deps, { erasureId });
-  return { erasureId, rowsTombstoned: outcome.rowsTombstoned, blobsDeleted };
+  return { erasureId, ...outcome, blobsDeleted };
 }
 
 /**
