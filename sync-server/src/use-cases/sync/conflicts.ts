@@ -149,7 +149,12 @@ export async function resolveConflict(
       throw new AppError('already_resolved', 'This conflict was already resolved.', 409);
     const entity = record.entity as SyncEntity;
     const current = await rows.lockRow(entity, record.rowId);
-    if (!current) throw new AppError('row_gone', 'The row in conflict is no longer on the server.', 409);
+    if (!current)
+      throw new AppError(
+        'row_gone',
+        'The record in this conflict is no longer at the clinic (it may have been erased).',
+        409,
+      );
     const { client, differing } = sides(record, current);
 
     let picks: Record<string, 'server' | 'client'>;

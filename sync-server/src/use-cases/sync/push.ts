@@ -100,7 +100,7 @@ const serverError = (m: Mutation) =>
   rejected(m, 'server_error', 'The server could not apply this change just now; it will be sent again.');
 
 /** What a database refusal of one mutation means to the device. */
-function refusalOf(m: Mutation, code: string, constraint?: string, detail?: string): MutationResult {
+function refusalOf(m: Mutation, code: string, constraint?: string): MutationResult {
   if (code === '23505' && constraint === 'site_recordings_one_per_site') {
     return rejected(
       m,
@@ -109,11 +109,23 @@ function refusalOf(m: Mutation, code: string, constraint?: string, detail?: stri
     );
   }
   if (code === '23505')
-    return rejected(m, 'invalid_change', `A row with this id already exists (${detail ?? constraint}).`);
+    return rejected(
+      m,
+      'invalid_change',
+      'The clinic already holds a record under this one’s identity, so this change was not applied. Ask the clinic’s admin if something is missing.',
+    );
   if (code === '23503')
-    return rejected(m, 'missing_parent', 'A row this change points at is not on the server.');
+    return rejected(
+      m,
+      'missing_parent',
+      'This change belongs to a client or visit the clinic does not have (not sent yet, or erased).',
+    );
   if (code === '23514' || code === '22P02' || code === '22007' || code === '22008') {
-    return rejected(m, 'invalid_change', `The server cannot store this change (${constraint ?? code}).`);
+    return rejected(
+      m,
+      'invalid_change',
+      'The clinic could not store this change: one of its values is not allowed.',
+    );
   }
   return serverError(m);
 }
@@ -264,14 +276,19 @@ async function applyIsolated(
     applyOrReject(repo, caller, deviceId, m, change),
   );
   if ('value' in outcome) return outcome.value;
-  const { code, constraint, detail } = outcome.refused;
+  const { code, constraint } = outcome.refused;
   // The mutation id is recorded already (a delivery that committed meanwhile, or another clinic's id).
   if (code === '23505' && constraint === 'applied_mutations_pkey') {
     const recorded = await repo.findAppliedMutation(m.mutationId);
     if (recorded?.clinicId === caller.clinicId) return replayOf(m.mutationId, recorded.result);
-    if (recorded) return rejected(m, 'forbidden', 'This change id belongs to another clinic.');
+    if (recorded)
+      return rejected(
+        m,
+        'forbidden',
+        'This change was already used by another clinic, so it was not applied here.',
+      );
   }
-  return refusalOf(m, code, constraint, detail);
+  return refusalOf(m, code, constraint);
 }
 
 const record = (caller: Caller, deviceId: string, m: Mutation, result: MutationResult) => ({
@@ -297,7 +314,10 @@ async function applyMutation(
   const recorded = await repo.findAppliedMutation(m.mutationId);
   if (recorded) {
     if (recorded.clinicId !== caller.clinicId)
-      throw new Rejection('forbidden', 'This change id belongs to another clinic.');
+      throw new Rejection(
+        'forbidden',
+        'This change was already used by another clinic, so it was not applied here.',
+      );
     return replayOf(m.mutationId, recorded.result);
   }
   if (row && row.clinicId !== caller.clinicId)
