@@ -45,6 +45,8 @@ describe('sign-in', () => {
       role: 'practitioner',
       clinicId: clinic.id,
       name: user.name,
+      // A new clinic writes its dates in UTC until its admin chooses a zone.
+      timeZone: 'UTC',
     });
     const claims = jwt.verify(body.accessToken, ctx.jwtSecret) as jwt.JwtPayload;
     expect(claims).toMatchObject({ sub: user.id, role: 'practitioner', clinicId: clinic.id });

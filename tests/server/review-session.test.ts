@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
-import { addDays, todayIn } from '@/shared/format/dates';
+import { addDays, DOCUMENT_LOCALE, formatDay, todayIn } from '@/shared/format/dates';
 import type { Role } from '@/shared/protocol';
 import {
   comparisonSchema,
@@ -406,7 +406,10 @@ describe('report', () => {
     // The client's report words a referral for the client, without the practitioner-only sentences.
     expect(text).toContain('Above the usual range: please see a licensed clinician');
     expect(text).not.toContain('scope of your licence');
-    expect(text).toContain('Compared with the visit of 2026-09-01');
+    // Dates on the report are written one way (the document locale, the clinic's zone: UTC for this clinic).
+    expect(text).toContain(
+      `Compared with the visit of ${formatDay('2026-09-01', { locale: DOCUMENT_LOCALE, timeZone: 'UTC' })}`,
+    );
     expect(text).toContain('Rate high at mitral.');
     for (const p of clientCautionParagraphs) expect(text).toContain(p.slice(0, 60));
   });
