@@ -102,10 +102,10 @@ export function SessionFiltersBar({ state, wide }: { state: SessionFilterState; 
       {wide || showFilters ? (
         <>
           <View style={[styles.inputs, wide && styles.inputsWide]}>
-            <View style={styles.dateField}>
+            <View style={wide ? styles.dateFieldWide : null}>
               <DateField label="From" testID="filter-from" value={from} onChange={setFrom} />
             </View>
-            <View style={styles.dateField}>
+            <View style={wide ? styles.dateFieldWide : null}>
               <DateField label="To" testID="filter-to" value={to} onChange={setTo} min={from || undefined} />
             </View>
           </View>
@@ -186,7 +186,8 @@ const styles = StyleSheet.create({
   search: { flexGrow: 1, minWidth: 240 },
   inputs: { gap: space.sm },
   inputsWide: { flexDirection: 'row' },
-  dateField: { flexGrow: 1, flexBasis: 220 },
+  // Beside the search on wide screens; stacked under it on phones (a basis there would be a height).
+  dateFieldWide: { flexGrow: 1, flexBasis: 220 },
   chips: { flexDirection: 'row', gap: space.xs, flexWrap: 'wrap', alignItems: 'center' },
   chip: {
     borderWidth: 1,

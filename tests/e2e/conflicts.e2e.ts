@@ -64,7 +64,7 @@ test('when two phones change the same client offline, then the admin sees both v
   // Settled reads as settled: whose side each field kept, by whom and when; nothing still "differs".
   expect(await visible(page, 'conflict-status').innerText()).toBe('Settled');
   expect(await visible(page, 'conflict-resolved-by').innerText()).toMatch(
-    /^✓ Settled by .+ on \d{1,2} [A-Z][a-z]{2} \d{4}, \d{2}:\d{2}$/,
+    /^✓ Settled by .+ on \d{1,2} [A-Z][a-z]{2,3} \d{4}, \d{2}:\d{2}$/,
   );
   expect(await visible(page, 'conflict-kept-server').innerText()).toMatch(/: Phone$/);
   expect(await visible(page, 'conflict-kept-client').innerText()).toMatch(/: E-mail$/);

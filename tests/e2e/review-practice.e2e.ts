@@ -79,6 +79,10 @@ async function clickLandsOn(page: Page, testId: string): Promise<boolean> {
   );
 }
 
+// A whole date in the browser's own written form (Unicode CLDR medium dates: "6 May 2026" in en-GB, "May 6, 2026"
+// in en-US), never a cut one.
+const wholeDate = /^(\d{1,2} [A-Z][a-z]{2,3} \d{4}|[A-Z][a-z]{2,3} \d{1,2}, \d{4})$/;
+
 async function trendsLabelsAreWhole(page: Page, viewportWidth: number): Promise<void> {
   await visible(page, 'trend-chart-mitral-heartRateBpm').waitFor();
   await page.getByTestId('trend-chart-mitral-heartRateBpm-band').first().waitFor({ state: 'attached' });
@@ -91,7 +95,7 @@ async function trendsLabelsAreWhole(page: Page, viewportWidth: number): Promise<
   const chart = await box(page, 'trend-chart-mitral-heartRateBpm');
   const dates = page.getByTestId('trend-chart-mitral-heartRateBpm-date');
   expect(await dates.count()).toBeGreaterThanOrEqual(2);
-  for (const text of await dates.allTextContents()) expect(text).toMatch(/^\d{1,2} [A-Z][a-z]{2} \d{4}$/);
+  for (const text of await dates.allTextContents()) expect(text).toMatch(wholeDate);
   const lastDate = (await dates.last().boundingBox())!;
   expect(lastDate.x + lastDate.width).toBeLessThanOrEqual(chart.x + chart.width + 0.5);
   expect(chart.x + chart.width).toBeLessThanOrEqual(viewportWidth);

@@ -7,6 +7,7 @@ import os from 'node:os';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { cautionParagraphs, clientCautionParagraphs } from '@/shared/cautions';
+import { DOCUMENT_LOCALE, formatDay } from '@/shared/format/dates';
 import { launchBrowser, newPage, PHONE, screenshot, screenshotDir, WIDE } from '@/tests/support/browser';
 import { demoPassword } from './helpers/operator';
 
@@ -35,6 +36,8 @@ async function signIn(page: Page, email: string): Promise<void> {
 }
 
 test('when the practitioner reviews the demo client’s latest visit and sends the report, then the admin finds it in the mailbox with a readable PDF', async () => {
+  // The follow-up day chosen on the calendar, read back from the PDF by the admin.
+  let followUp = '';
   const findings = `Even S1 and S2 at all four sites; review ${Date.now()}.`;
   const { context, page } = await newPage(browser, WIDE);
   try {
@@ -156,7 +159,7 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     // The follow-up day is chosen on the calendar (react-day-picker): days up to today are not offered.
     await visible(page, 'notes-follow-up-calendar-toggle').click();
     await visible(page, 'notes-follow-up-calendar').locator('td:not([data-disabled]) button').first().click();
-    const followUp = await visible(page, 'notes-follow-up').inputValue();
+    followUp = await visible(page, 'notes-follow-up').inputValue();
     expect(followUp > new Date().toISOString().slice(0, 10)).toBe(true);
     await visible(page, 'notes-follow-up-in-words').waitFor();
     await screenshot(page, 'review-follow-up-picked');
@@ -247,8 +250,10 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     expect(text).toContain(demoClient);
     expect(text).toContain(findings);
     expect(text).toContain('Repeat the four sites in six weeks.');
-    expect(text).toContain('Follow-up: 2027-01-20');
-    expect(text).toMatch(/Compared with the visit of 2026-05-06/);
+    // The report writes dates one way: the document locale in the clinic's zone (the demo clinic's is UTC).
+    const written = (day: string) => formatDay(day, { locale: DOCUMENT_LOCALE, timeZone: 'UTC' });
+    expect(text).toContain(`Follow-up: ${written(followUp)}`);
+    expect(text).toContain(`Compared with the visit of ${written('2026-05-06')}`);
     for (const p of clientCautionParagraphs) expect(text).toContain(p.slice(0, 50));
     // Written for the client (product brief, Cautions): no licence sentence, no unchecked sources, no jargon.
     expect(text).not.toContain('scope of your licence');

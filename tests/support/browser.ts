@@ -64,12 +64,15 @@ export function trackPage(page: Page): Page {
   return page;
 }
 
-/** One page per context: expo-sqlite's OPFS database is exclusive to one tab. */
+/**
+ * One page per context: expo-sqlite's OPFS database is exclusive to one tab. The browser reads as a British
+ * English reader (the app writes dates in the reader's locale), so tests that read dates see one written form.
+ */
 export async function newPage(
   browser: Browser,
   viewport: { width: number; height: number },
 ): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport, baseURL: baseUrl() });
+  const context = await browser.newContext({ viewport, baseURL: baseUrl(), locale: 'en-GB' });
   const page = trackPage(await context.newPage());
   return { context, page };
 }
