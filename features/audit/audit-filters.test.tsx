@@ -21,7 +21,7 @@ describe('AuditFilters', () => {
     fireEvent.changeText(screen.getByTestId('audit-filter-from'), '31/03/2026');
     fireEvent.press(screen.getByTestId('audit-filter-apply'));
     expect(await screen.findByTestId('audit-filter-from-error')).toHaveTextContent(
-      'Use a date like 2026-03-31.',
+      'Choose a day on the calendar, or type it as YYYY-MM-DD.',
     );
     expect(onApply).not.toHaveBeenCalled();
   });

@@ -3,6 +3,7 @@ import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { Button } from '@/ui/button';
+import { FormDateField } from '@/ui/form-date-field';
 import { FormTextField } from '@/ui/form-text-field';
 import { space } from '@/ui/theme';
 import { isCalendarDate } from '@/shared/protocol/dates';
@@ -11,7 +12,7 @@ const day = z
   .string()
   .trim()
   .refine((v) => v === '' || isCalendarDate(v), {
-    error: 'Use a date like 2026-03-31.',
+    error: 'Choose a day on the calendar, or type it as YYYY-MM-DD.',
   });
 
 export const auditFilterSchema = z
@@ -23,12 +24,6 @@ export const auditFilterSchema = z
 export type AuditFilterValues = z.infer<typeof auditFilterSchema>;
 export const emptyAuditFilter: AuditFilterValues = { client: '', from: '', to: '' };
 
-const fields: { name: keyof AuditFilterValues; label: string; hint: string }[] = [
-  { name: 'client', label: 'Client', hint: 'Part of a name' },
-  { name: 'from', label: 'From', hint: 'YYYY-MM-DD' },
-  { name: 'to', label: 'To', hint: 'YYYY-MM-DD' },
-];
-
 export function AuditFilters({ onApply }: { onApply: (values: AuditFilterValues) => void }) {
   const form = useForm<AuditFilterValues>({
     resolver: zodResolver(auditFilterSchema),
@@ -37,19 +32,23 @@ export function AuditFilters({ onApply }: { onApply: (values: AuditFilterValues)
   const apply = form.handleSubmit(onApply);
   return (
     <View style={styles.row}>
-      {fields.map((f) => (
-        <View key={f.name} style={styles.field}>
-          <FormTextField
-            control={form.control}
-            name={f.name}
-            label={f.label}
-            testID={`audit-filter-${f.name}`}
-            placeholder={f.hint}
-            autoCapitalize={f.name === 'client' ? 'words' : 'none'}
-            onSubmitEditing={() => void apply()}
-          />
-        </View>
-      ))}
+      <View style={styles.field}>
+        <FormTextField
+          control={form.control}
+          name="client"
+          label="Client"
+          testID="audit-filter-client"
+          placeholder="Part of a name"
+          autoCapitalize="words"
+          onSubmitEditing={() => void apply()}
+        />
+      </View>
+      <View style={styles.field}>
+        <FormDateField control={form.control} name="from" label="From" testID="audit-filter-from" />
+      </View>
+      <View style={styles.field}>
+        <FormDateField control={form.control} name="to" label="To" testID="audit-filter-to" />
+      </View>
       <View style={styles.buttons}>
         <Button label="Apply" onPress={() => void apply()} testID="audit-filter-apply" />
         <Button
@@ -68,6 +67,6 @@ export function AuditFilters({ onApply }: { onApply: (values: AuditFilterValues)
 
 const styles = StyleSheet.create({
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, alignItems: 'flex-end' },
-  field: { flexBasis: 170, flexGrow: 1, maxWidth: 240 },
+  field: { flexBasis: 170, flexGrow: 1, maxWidth: 320 },
   buttons: { flexDirection: 'row', gap: space.xs, paddingBottom: 2 },
 });
