@@ -130,8 +130,10 @@ export function NotesForm({
       {stale ? (
         <View style={styles.stale} testID="notes-stale" accessibilityRole="alert">
           <AppText variant="bodyStrong" color={colors.danger}>
-            Someone else saved this session while you were writing (version {stale.current.version}
-            {stale.current.reviewedBy ? `, by ${stale.current.reviewedBy}` : ''}). Nothing was overwritten.
+            {stale.current.reviewedBy
+              ? `${stale.current.reviewedBy} saved this session while you were writing.`
+              : 'Someone else saved this session while you were writing.'}{' '}
+            Nothing was overwritten.
           </AppText>
           <AppText variant="smallStrong" color={colors.ink}>
             Their findings: <AppText variant="small">{stale.current.findings ?? '—'}</AppText>
@@ -178,7 +180,7 @@ export function NotesForm({
         />
         {savedAt ? (
           <AppText variant="small" color={colors.pulse} testID="notes-saved">
-            Saved at {savedAt} (version {baseVersion})
+            Saved at {savedAt}
           </AppText>
         ) : notes.reviewedAt ? (
           <AppText variant="small" color={colors.textMuted}>

@@ -55,7 +55,7 @@ export async function saveNotes(
     if (!saved) {
       throw new AppError(
         'stale_edit',
-        `Someone saved this session after you opened it (now version ${current.version}, yours was based on ${request.baseVersion}). Compare both and save again.`,
+        'Someone saved this session after you opened it. Compare both and save again.',
         409,
         { current: notesOf(current), yours: request },
       );
