@@ -117,18 +117,19 @@ export function Cell({
   children,
   strong = false,
   muted = false,
-  mono = false,
+  figures = false,
   testID,
 }: {
   children: ReactNode;
   strong?: boolean;
   muted?: boolean;
-  mono?: boolean;
+  /** Numbers and amounts: the body face with tabular digits, so columns of figures line up. */
+  figures?: boolean;
   testID?: string;
 }) {
   return (
     <AppText
-      variant={mono ? 'number' : strong ? 'smallStrong' : 'small'}
+      variant={figures ? 'number' : strong ? 'smallStrong' : 'small'}
       color={muted ? colors.textMuted : strong ? colors.ink : colors.text}
       numberOfLines={2}
       testID={testID}

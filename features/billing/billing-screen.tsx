@@ -102,7 +102,7 @@ const columns: readonly Column<Payment>[] = [
   {
     key: 'amount',
     title: 'Amount',
-    render: (p) => <Cell mono>{formatMoney(p.amountCents, p.currency)}</Cell>,
+    render: (p) => <Cell figures>{formatMoney(p.amountCents, p.currency)}</Cell>,
   },
   {
     key: 'status',

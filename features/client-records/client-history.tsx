@@ -21,7 +21,7 @@ const visitColumns: readonly Column<Visit>[] = [
   },
   { key: 'status', title: 'Status', render: (v) => <Badge {...visitStatusLook(v.status)} /> },
   { key: 'operator', title: 'Recorded by', render: (v) => <Cell>{v.operatorName ?? '—'}</Cell> },
-  { key: 'sites', title: 'Sites', flex: 0.6, render: (v) => <Cell mono>{v.sitesRecorded} / 4</Cell> },
+  { key: 'sites', title: 'Sites', flex: 0.6, render: (v) => <Cell figures>{v.sitesRecorded} / 4</Cell> },
   {
     key: 'consent',
     title: 'Consent signed',

@@ -43,7 +43,7 @@ const columns: readonly Column<ClientRow>[] = [
     flex: 2,
     render: (c) => <Cell muted>{[c.email, c.phone].filter(Boolean).join(' · ') || '—'}</Cell>,
   },
-  { key: 'visits', title: 'Visits', flex: 0.6, render: (c) => <Cell mono>{c.visits}</Cell> },
+  { key: 'visits', title: 'Visits', flex: 0.6, render: (c) => <Cell figures>{c.visits}</Cell> },
   {
     key: 'last',
     title: 'Last visit',

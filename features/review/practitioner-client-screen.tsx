@@ -36,7 +36,7 @@ const visitColumns: readonly Column<Visit>[] = [
   },
   { key: 'status', title: 'Status', render: (v) => <Badge {...statusOf(v)} /> },
   { key: 'operator', title: 'Recorded by', render: (v) => <Cell>{v.operatorName ?? '—'}</Cell> },
-  { key: 'sites', title: 'Sites recorded', render: (v) => <Cell mono>{v.sitesRecorded} of 4</Cell> },
+  { key: 'sites', title: 'Sites recorded', render: (v) => <Cell figures>{v.sitesRecorded} of 4</Cell> },
   {
     key: 'follow',
     title: 'Follow-up',

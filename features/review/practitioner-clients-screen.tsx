@@ -42,7 +42,7 @@ const columns: readonly Column<ClientRow>[] = [
     sortKey: 'dateOfBirth',
     render: (c) => <Cell>{formatDate(c.dateOfBirth)}</Cell>,
   },
-  { key: 'visits', title: 'Visits', flex: 0.6, render: (c) => <Cell mono>{c.visits}</Cell> },
+  { key: 'visits', title: 'Visits', flex: 0.6, render: (c) => <Cell figures>{c.visits}</Cell> },
   {
     key: 'last',
     title: 'Last visit',
