@@ -3,7 +3,7 @@ import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { Badge } from '@/ui/badge';
 import { ChoiceChips } from '@/ui/choice-chips';
-import { Cell, DataTable, type Column, type SortDir } from '@/ui/data-table';
+import { Cell, DataTable, type Column } from '@/ui/data-table';
 import { formatDate } from '@/ui/format';
 import { Pager } from '@/ui/pager';
 import { ScreenFrame } from '@/ui/screen-frame';
@@ -11,12 +11,11 @@ import { SearchField } from '@/ui/search-field';
 import { EmptyState, QueryView } from '@/ui/state-views';
 import { space } from '@/ui/theme';
 import { useClientTableQuery } from './api';
-import { useDebouncedValue } from '@/ui/use-debounced-value';
+import { useClientSearch } from './client-search';
 import { useLayout } from '@/ui/use-layout';
 import type { ClientRow, ClientTableQuery } from '@/shared/protocol/practice';
 
 const pageSize = 20;
-type Sort = ClientTableQuery['sort'];
 type Retention = ClientTableQuery['retention'];
 
 const columns: readonly Column<ClientRow>[] = [
@@ -77,18 +76,10 @@ const columns: readonly Column<ClientRow>[] = [
 export function ClientTableScreen() {
   const router = useRouter();
   const { isWide } = useLayout();
-  const [search, setSearch] = useState('');
-  const q = useDebouncedValue(search.trim());
-  const [sort, setSort] = useState<{ key: Sort; dir: SortDir }>({ key: 'name', dir: 'asc' });
+  const { search, setSearch, q, sort, onSort, page, setPage } = useClientSearch();
   // The overview links here with ?retention=due.
   const params = useLocalSearchParams<{ retention?: string }>();
   const [retention, setRetention] = useState<Retention>(params.retention === 'due' ? 'due' : 'all');
-  const [page, setPage] = useState(1);
-  const [lastQ, setLastQ] = useState(q);
-  if (q !== lastQ) {
-    setLastQ(q);
-    setPage(1);
-  }
   const table = useClientTableQuery({
     page,
     pageSize,
@@ -97,11 +88,6 @@ export function ClientTableScreen() {
     dir: sort.dir,
     retention,
   });
-
-  const onSort = (key: string) => {
-    setSort((s) => ({ key: key as Sort, dir: s.key === key && s.dir === 'asc' ? 'desc' : 'asc' }));
-    setPage(1);
-  };
 
   const body = (
     <QueryView query={table} loading="Loading clients…" testID="client-table">

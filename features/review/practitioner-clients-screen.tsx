@@ -1,22 +1,20 @@
 import { useRouter } from 'expo-router';
-import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { ChoiceChips } from '@/ui/choice-chips';
 import { ClippedText } from '@/ui/clipped-text';
-import { Cell, DataTable, type Column, type SortDir } from '@/ui/data-table';
+import { Cell, DataTable, type Column } from '@/ui/data-table';
 import { formatDate } from '@/ui/format';
 import { Pager } from '@/ui/pager';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { SearchField } from '@/ui/search-field';
-import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
+import { EmptyState, QueryView } from '@/ui/state-views';
 import { colors, space } from '@/ui/theme';
-import { useDebouncedValue } from '@/ui/use-debounced-value';
 import { useLayout } from '@/ui/use-layout';
 import { useClientTableQuery } from '@/features/client-records/api';
-import type { ClientRow, ClientTableQuery } from '@/shared/protocol/practice';
+import { useClientSearch } from '@/features/client-records/client-search';
+import type { ClientRow } from '@/shared/protocol/practice';
 
 const pageSize = 20;
-type Sort = ClientTableQuery['sort'];
 
 export const clientName = (c: { firstName: string; lastName: string }) => `${c.firstName} ${c.lastName}`;
 
@@ -60,66 +58,53 @@ const columns: readonly Column<ClientRow>[] = [
 export function PractitionerClientsScreen() {
   const router = useRouter();
   const { isWide } = useLayout();
-  const [search, setSearch] = useState('');
-  const q = useDebouncedValue(search.trim());
-  const [sort, setSort] = useState<{ key: Sort; dir: SortDir }>({ key: 'name', dir: 'asc' });
-  const [page, setPage] = useState(1);
-  const [lastQ, setLastQ] = useState(q);
-  if (q !== lastQ) {
-    setLastQ(q);
-    setPage(1);
-  }
+  const { search, setSearch, q, sort, onSort, page, setPage } = useClientSearch();
   const table = useClientTableQuery({ page, pageSize, q: q || undefined, sort: sort.key, dir: sort.dir });
-  const onSort = (key: string) => {
-    setSort((s) => ({ key: key as Sort, dir: s.key === key && s.dir === 'asc' ? 'desc' : 'asc' }));
-    setPage(1);
-  };
 
-  let body;
-  if (table.isPending) body = <LoadingState label="Loading clients…" testID="clients-loading" />;
-  else if (table.isError)
-    body = (
-      <ErrorState message={table.error.message} onRetry={() => void table.refetch()} testID="clients-error" />
-    );
-  else if (table.data.clients.length === 0)
-    body = q ? (
-      <EmptyState
-        title="No match"
-        detail={`No client matches “${q}”. Try part of the name, the e-mail or the phone number.`}
-        testID="clients-empty"
-      />
-    ) : (
-      <EmptyState
-        title="No clients yet"
-        detail="Clients added on the phones appear here."
-        testID="clients-empty"
-      />
-    );
-  else
-    body = (
-      <>
-        <DataTable
-          rows={table.data.clients}
-          columns={columns}
-          rowKey={(c) => c.id}
-          rowTestID={(c) => `clients-row-${c.id}`}
-          wide={isWide}
-          testID="clients-table"
-          sort={sort}
-          onSort={onSort}
-          onRowPress={(c) =>
-            router.push({ pathname: '/review-clients/[clientId]', params: { clientId: c.id } })
-          }
-        />
-        <Pager
-          page={table.data.pageInfo.page}
-          pageSize={pageSize}
-          total={table.data.pageInfo.total}
-          onPage={setPage}
-          testID="clients-pager"
-        />
-      </>
-    );
+  const body = (
+    <QueryView query={table} loading="Loading clients…" testID="clients">
+      {(data) =>
+        data.clients.length === 0 ? (
+          q ? (
+            <EmptyState
+              title="No match"
+              detail={`No client matches “${q}”. Try part of the name, the e-mail or the phone number.`}
+              testID="clients-empty"
+            />
+          ) : (
+            <EmptyState
+              title="No clients yet"
+              detail="Clients added on the phones appear here."
+              testID="clients-empty"
+            />
+          )
+        ) : (
+          <>
+            <DataTable
+              rows={data.clients}
+              columns={columns}
+              rowKey={(c) => c.id}
+              rowTestID={(c) => `clients-row-${c.id}`}
+              wide={isWide}
+              testID="clients-table"
+              sort={sort}
+              onSort={onSort}
+              onRowPress={(c) =>
+                router.push({ pathname: '/review-clients/[clientId]', params: { clientId: c.id } })
+              }
+            />
+            <Pager
+              page={data.pageInfo.page}
+              pageSize={pageSize}
+              total={data.pageInfo.total}
+              onPage={setPage}
+              testID="clients-pager"
+            />
+          </>
+        )
+      }
+    </QueryView>
+  );
 
   return (
     <ScreenFrame
