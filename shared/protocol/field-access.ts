@@ -11,6 +11,11 @@ export interface FieldRule {
   read: readonly Role[];
   /** Roles whose change (sync push or REST route) may set the field; empty when only the server sets it. */
   write: readonly Role[];
+  /**
+   * For a field whose values mean different steps of the work: the values each writing role may set. A role
+   * listed in `write` but not here may set none; a field without `values` takes any value its schema allows.
+   */
+  values?: Partial<Record<Role, readonly string[]>>;
 }
 
 const everyone = ['operator', 'practitioner', 'admin'] as const;
@@ -47,8 +52,15 @@ export const fieldAccess = {
   },
   recording_sessions: {
     clientId: { read: everyone, write: ['operator'] },
-    // Practitioners move a session on by reviewing it (completed -> reviewed).
-    status: { read: everyone, write: ['operator', 'practitioner'] },
+    // The phone starts, finishes or cancels a visit; only a practitioner marks it reviewed (completed -> reviewed).
+    status: {
+      read: everyone,
+      write: ['operator', 'practitioner'],
+      values: {
+        operator: ['in_progress', 'completed', 'cancelled'],
+        practitioner: ['reviewed', 'cancelled'],
+      },
+    },
     startedAt: { read: everyone, write: ['operator'] },
     finishedAt: { read: everyone, write: ['operator'] },
     findings: { read: reviewers, write: ['practitioner'] },
@@ -93,6 +105,9 @@ export function mayWriteField(role: Role, entity: SyncEntity, field: string): bo
   return Object.hasOwn(rules, field) && rules[field].write.includes(role);
 }
 
+const capitalised = (word: string) => `${word[0]!.toUpperCase()}${word.slice(1)}`;
+const valueWords = (value: unknown) => String(value).replace(/_/g, ' ');
+
 const entityWords: Record<SyncEntity, string> = {
   clients: 'a client',
   consents: 'a consent',
@@ -102,8 +117,8 @@ const entityWords: Record<SyncEntity, string> = {
 const fieldWords = (field: string) =>
   field === 'deletedAt' ? 'deletion' : field.replace(/[A-Z]/g, (c) => ` ${c.toLowerCase()}`);
 const roleWords = (roles: readonly string[]) => roles.map((r) => `${r}s`).join(' or ');
-const listWords = (items: string[]) =>
-  items.length < 2 ? items.join('') : `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`;
+const listWords = (items: string[], joiner = 'and') =>
+  items.length < 2 ? items.join('') : `${items.slice(0, -1).join(', ')} ${joiner} ${items[items.length - 1]}`;
 
 /**
  * Null when the role may write every one of the fields; otherwise why not, in words for the person whose change
@@ -115,9 +130,39 @@ export function fieldWriteRefusal(role: Role, entity: SyncEntity, fields: readon
   const rules = rulesOf(entity);
   const writers = [...new Set(refused.flatMap((f) => (Object.hasOwn(rules, f) ? rules[f].write : [])))];
   return (
-    `${role[0]!.toUpperCase()}${role.slice(1)}s may not change the ${listWords(refused.map(fieldWords))} of ` +
+    `${capitalised(role)}s may not change the ${listWords(refused.map(fieldWords))} of ` +
     `${entityWords[entity]}` +
     (writers.length ? `; only ${roleWords(writers)} do.` : '; the server sets it.') +
     ' This change was not applied.'
   );
+}
+
+/**
+ * Null when the role may set every value the change carries; otherwise why not, in words. A null value writes
+ * nothing (see the push), so it is never refused here.
+ */
+export function valueWriteRefusal(
+  role: Role,
+  entity: SyncEntity,
+  change: Readonly<Record<string, unknown>>,
+): string | null {
+  const rules = rulesOf(entity);
+  for (const [field, value] of Object.entries(change)) {
+    const allowed = Object.hasOwn(rules, field) ? rules[field].values : undefined;
+    if (!allowed || value === null || value === undefined) continue;
+    const mine = allowed[role] ?? [];
+    if (!mine.includes(String(value)))
+      return (
+        `${capitalised(role)}s may not set the ${fieldWords(field)} of ${entityWords[entity]} to ` +
+        `“${valueWords(value)}”` +
+        (mine.length
+          ? `; they may set ${listWords(
+              mine.map((v) => `“${valueWords(v)}”`),
+              'or',
+            )}.`
+          : '.') +
+        ' This change was not applied.'
+      );
+  }
+  return null;
 }

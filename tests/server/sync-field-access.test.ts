@@ -287,6 +287,59 @@ describe('push writes a field only for the roles the table lets write it', () =>
     });
   });
 
+  // Who moves a visit to which step: the phone starts, finishes or cancels it; a practitioner marks it reviewed
+  // (common practice, no source: a capture operator does not sign off a review).
+  test.each([
+    [
+      'operator',
+      'reviewed',
+      'Operators may not set the status of a session to “reviewed”; they may set “in progress”, “completed” or “cancelled”. This change was not applied.',
+    ],
+    [
+      'practitioner',
+      'in_progress',
+      'Practitioners may not set the status of a session to “in progress”; they may set “reviewed” or “cancelled”. This change was not applied.',
+    ],
+    [
+      'practitioner',
+      'completed',
+      'Practitioners may not set the status of a session to “completed”; they may set “reviewed” or “cancelled”. This change was not applied.',
+    ],
+  ] as const)(
+    'when %ss set a session %s, then it is refused in words and nothing changes',
+    async (role, status, reason) => {
+      const rows = await makeRows();
+      const before = await stored('recording_sessions', rows.recording_sessions);
+      const [result] = await push(role, [
+        {
+          mutationId: randomUUID(),
+          entity: 'recording_sessions',
+          id: rows.recording_sessions,
+          baseVersion: before!.version,
+          change: { status },
+        },
+      ]);
+      expect(result).toMatchObject({ status: 'rejected', code: 'forbidden', reason });
+      expect(await stored('recording_sessions', rows.recording_sessions)).toEqual(before);
+    },
+  );
+
+  test('when an operator finishes a session, then the step is theirs to set', async () => {
+    const rows = await makeRows();
+    const before = await stored('recording_sessions', rows.recording_sessions);
+    const [result] = await push('operator', [
+      {
+        mutationId: randomUUID(),
+        entity: 'recording_sessions',
+        id: rows.recording_sessions,
+        baseVersion: before!.version,
+        change: { status: 'completed' },
+      },
+    ]);
+    expect(result).toMatchObject({ status: 'applied', newVersion: before!.version + 1 });
+    expect((await stored('recording_sessions', rows.recording_sessions))!.data.status).toBe('completed');
+  });
+
   test('when an operator creates a client, then notes may come as null (empty) but not with words in them', async () => {
     const empty = randomUUID();
     const filled = randomUUID();

@@ -7,7 +7,7 @@ import {
   type RowData,
   type SyncEntity,
 } from '@/shared/protocol/sync';
-import { fieldWriteRefusal } from '@/shared/protocol/field-access';
+import { fieldWriteRefusal, valueWriteRefusal } from '@/shared/protocol/field-access';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import { SyncConflictsRepository, type ConflictRecord } from '../../repositories/sync-conflicts-repository';
@@ -185,7 +185,7 @@ export async function resolveConflict(
     const author = await conflicts.userRole(record.userId);
     const fromDevice = [...Object.keys(fields), ...(deletedAt === undefined ? [] : ['deletedAt'])];
     const refusal = author
-      ? fieldWriteRefusal(author, entity, fromDevice)
+      ? (fieldWriteRefusal(author, entity, fromDevice) ?? valueWriteRefusal(author, entity, fields))
       : fromDevice.length
         ? 'The person who made this change is no longer on the team, so only the server side can be kept.'
         : null;

@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Sequelize } from 'sequelize';
 import type { Role } from '@/shared/protocol';
-import { fieldWriteRefusal } from '@/shared/protocol/field-access';
+import { fieldWriteRefusal, valueWriteRefusal } from '@/shared/protocol/field-access';
 import {
   isDeviceField,
   serverOwnedFields,
@@ -76,6 +76,8 @@ export function checkChange(m: Mutation, role: Role): { fields: RowData; deleted
     const detail = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
     throw new Rejection('invalid_change', `The change is not valid: ${detail}`);
   }
+  const valueRefusal = valueWriteRefusal(role, m.entity, parsed.data);
+  if (valueRefusal) throw new Rejection('forbidden', valueRefusal);
   return { fields: parsed.data as RowData, deletedAt };
 }
 
