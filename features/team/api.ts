@@ -2,8 +2,8 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { request } from '@/api/client';
 import { unwrap } from '@/api/result';
-import { signInResponseSchema } from '@/shared/protocol';
 import {
+  invitationAcceptedSchema,
   invitationPreviewSchema,
   invitationSchema,
   teamResponseSchema,
@@ -79,7 +79,7 @@ export function useAcceptInvitationMutation(token: string) {
       unwrap(
         await request(
           { method: 'POST', url: `/invitations/${encodeURIComponent(token)}/accept`, data: input },
-          signInResponseSchema,
+          invitationAcceptedSchema,
         ),
       ),
   });

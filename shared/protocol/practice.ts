@@ -1,7 +1,7 @@
 // Messages of the practice's side: team and invitations, client records, consent texts, follow-ups, billing,
 // audit, export and erasure, clinic settings.
 import { z } from 'zod';
-import { roleSchema } from './auth';
+import { roleSchema, userSchema } from './auth';
 import { siteSchema } from './clinic';
 import { calendarDateSchema } from './dates';
 import { newPasswordSchema } from './password';
@@ -86,6 +86,14 @@ export const acceptInvitationRequestSchema = z.object({
   password: newPasswordSchema,
 });
 export type AcceptInvitationRequest = z.infer<typeof acceptInvitationRequestSchema>;
+/**
+ * The account an accepted invitation made. No tokens: the new member signs in as usual, so no sign-in is
+ * handed to a page outside the sign-in route (whose refresh token the web keeps in its httpOnly cookie).
+ */
+export const invitationAcceptedSchema = z.object({
+  user: userSchema.pick({ id: true, email: true, name: true, role: true, clinicId: true }),
+});
+export type InvitationAccepted = z.infer<typeof invitationAcceptedSchema>;
 
 // Client records
 export const clientSortSchema = z.enum(['name', 'dateOfBirth', 'lastVisit', 'keepUntil', 'updatedAt']);

@@ -46,6 +46,10 @@ describe('invitations', () => {
       .send({ email, name: 'Rowan Vale', password: 'a long enough password' });
     expect(accepted.status).toBe(201);
     expect(accepted.body.user).toMatchObject({ email, role: 'practitioner', clinicId: clinic.id });
+    // No sign-in comes with it: a token in a page's reach is what the web's httpOnly cookie exists to avoid
+    // (OWASP ASVS 4.0.3 V3.4.2); the new member signs in as usual.
+    expect(Object.keys(accepted.body)).toEqual(['user']);
+    expect(accepted.headers['set-cookie']).toBeUndefined();
     const again = await signIn(ctx.app, email, 'a long enough password');
     expect(again.user.role).toBe('practitioner');
   });

@@ -4,6 +4,7 @@ import { z } from 'zod';
 import type {
   AcceptInvitationRequest,
   Invitation,
+  InvitationAccepted,
   InvitationPreview,
   InviteRequest,
   TeamResponse,
@@ -18,7 +19,6 @@ import { createUser, normaliseEmail } from '../../repositories/users-repository'
 import { assertAcceptablePassword } from '../../services/password-policy';
 import { hashPassword } from '../../services/passwords';
 import { services } from '../../composition-root';
-import { signIn, type IssuedTokens } from '../auth';
 import type { Caller, UseCaseDeps } from '../context';
 
 export const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
@@ -227,13 +227,13 @@ export async function acceptInvitation(
   token: string,
   input: AcceptInvitationRequest,
   ip: string | null,
-): Promise<IssuedTokens> {
+): Promise<InvitationAccepted> {
   // Checked before the password is judged, so a dead link says so instead of judging the password.
   const invited = await invitationOfLink(deps, token);
   checkUsable(invited.row, invited.linkExpiry);
   assertAcceptablePassword(input.password, invited.row.email);
   const passwordHash = await hashPassword(input.password);
-  const email = await deps.sequelize.transaction(async (transaction) => {
+  const user = await deps.sequelize.transaction(async (transaction) => {
     const { row, linkExpiry } = await invitationOfLink(deps, token, transaction);
     checkUsable(row, linkExpiry);
     if (normaliseEmail(input.email) !== row.email)
@@ -269,9 +269,9 @@ export async function acceptInvitation(
       },
       transaction,
     );
-    return row.email;
+    return { id: userId, email: row.email, name: input.name, role: row.role, clinicId: row.clinic_id };
   });
-  return signIn(deps, { email, password: input.password }, ip);
+  return { user };
 }
 
 export async function withdrawInvitation(
