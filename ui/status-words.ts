@@ -1,5 +1,6 @@
 import type { SessionStatus } from '@/shared/protocol';
 import type { InvitationStatus, PaymentStatus } from '@/shared/protocol/practice';
+import type { ReportMailState } from '@/shared/protocol/review';
 import type { BadgeTone } from './badge';
 
 type Look = { label: string; tone: BadgeTone };
@@ -33,6 +34,14 @@ export const paymentStatusWords: Record<PaymentStatus, Look> = {
 export const packageStatusWords: Record<'active' | 'refunded', Look> = {
   active: { label: 'In use', tone: 'good' },
   refunded: { label: 'Refunded', tone: 'danger' },
+};
+
+/** A report e-mailed to a client, from the moment it is asked for until the mail server takes it. */
+export const reportMailStatusWords: Record<ReportMailState, Look> = {
+  queued: { label: 'Waiting to send', tone: 'neutral' },
+  sending: { label: 'Sending', tone: 'caution' },
+  sent: { label: 'Sent', tone: 'good' },
+  failed: { label: 'Not delivered', tone: 'danger' },
 };
 
 /** A sync conflict: open until an admin decides, then settled. */

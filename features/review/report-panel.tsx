@@ -5,6 +5,7 @@ import { Card } from '@/ui/card';
 import { Badge } from '@/ui/badge';
 import { Button } from '@/ui/button';
 import { formatDateTime, formatTime } from '@/ui/format';
+import { reportMailStatusWords } from '@/ui/status-words';
 import { colors, radii, space } from '@/ui/theme';
 import {
   downloadReport,
@@ -22,8 +23,6 @@ type Props = {
   fileName: string;
   canSend: boolean;
 };
-
-const stateTone = { sent: 'good', failed: 'danger', queued: 'neutral', sending: 'caution' } as const;
 
 /** Download the report, e-mail it to the client, and see every send with its state; failed ones retry. */
 export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, canSend }: Props) {
@@ -155,13 +154,13 @@ export function ReportPanel({ sessionId, compareWith, clientEmail, fileName, can
       ) : null}
       {(mails.data ?? []).map((m) => (
         <View key={m.id} style={styles.mail} testID={`report-mail-${m.state}`}>
-          <Badge label={m.state === 'failed' ? 'not delivered' : m.state} tone={stateTone[m.state]} />
+          <Badge {...reportMailStatusWords[m.state]} />
           <AppText variant="small" color={colors.text} style={styles.flex}>
             {m.to} · {formatDateTime(m.createdAt)}
             {m.lastError ? ` · ${m.lastError}` : ''}
             {m.state === 'failed'
               ? m.nextAttemptAt
-                ? ` · tried again by itself at ${formatTime(m.nextAttemptAt)}`
+                ? ` · tries again by itself at ${formatTime(m.nextAttemptAt)}`
                 : ' · not tried again by itself: check the address, then retry'
               : ''}
           </AppText>

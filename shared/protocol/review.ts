@@ -239,6 +239,7 @@ export const staleNotesDetailsSchema = z.object({
 export type StaleNotesDetails = z.infer<typeof staleNotesDetailsSchema>;
 
 export const reportMailStateSchema = z.enum(['queued', 'sending', 'sent', 'failed']);
+export type ReportMailState = z.infer<typeof reportMailStateSchema>;
 export const reportMailSchema = z.object({
   id: z.uuid(),
   sessionId: z.uuid(),

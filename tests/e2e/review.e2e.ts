@@ -175,6 +175,8 @@ test('when the practitioner reviews the demo client’s latest visit and sends t
     await screenshot(page, 'review-mail-preview');
     await visible(page, 'report-send').click();
     await visible(page, 'report-mail-sent').waitFor({ timeout: 30_000 });
+    // The send's state in words, not the mail relay's own ("queued", "sending").
+    expect(await visible(page, 'report-mail-sent').innerText()).toMatch(/^Sent\b/);
     await visible(page, 'report-panel').scrollIntoViewIfNeeded();
     await screenshot(page, 'review-findings-and-report');
 
