@@ -46,7 +46,12 @@ module.exports = {
         '<rootDir>/device/**/*.test.ts?(x)',
         '<rootDir>/api/**/*.test.ts?(x)',
       ],
-      moduleNameMapper: { '^@/(.*)$': '<rootDir>/$1', '\\.css$': '<rootDir>/tests/support/style-stub.js' },
+      moduleNameMapper: {
+        '^@/(.*)$': '<rootDir>/$1',
+        '\\.css$': '<rootDir>/tests/support/style-stub.js',
+        // The browser build of uuid is ES modules only; jest runs CommonJS, so components that make ids load.
+        '^uuid$': '<rootDir>/node_modules/uuid/dist/cjs-browser/index.js',
+      },
     },
     {
       displayName: 'e2e',

@@ -11,7 +11,7 @@ import {
 } from '@/ui/icons';
 import { ConflictsIcon } from '@/features/conflicts/conflicts-icon';
 
-const tabs: readonly TabSpec[] = [
+export const adminTabs: readonly TabSpec[] = [
   { name: 'admin', title: 'Overview', Icon: OverviewIcon },
   { name: 'team', title: 'Team', Icon: TeamIcon },
   { name: 'client-records/index', title: 'Clients', Icon: RecordsIcon },
@@ -25,7 +25,7 @@ const tabs: readonly TabSpec[] = [
 export function AdminLayout() {
   return (
     <RoleGuard role="admin">
-      <RoleTabs tabs={tabs} />
+      <RoleTabs tabs={adminTabs} />
     </RoleGuard>
   );
 }

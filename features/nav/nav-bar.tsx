@@ -12,6 +12,8 @@ import { SignOutButton } from './sign-out-button';
 type Props = BottomTabBarProps & {
   wide: boolean;
   tabNames: readonly string[];
+  /** The tab a route belongs to (a client's page to Clients), so the bar shows the section a person is in. */
+  tabOf: (routeName: string) => string | undefined;
   badges?: Readonly<Record<string, ComponentType>>;
 };
 
@@ -20,13 +22,14 @@ type Props = BottomTabBarProps & {
 const MAX_BOTTOM_PLACES = 5;
 
 /** Our own tab bar: a side navigation on wide screens, bottom tabs on phones. */
-export function NavBar({ state, descriptors, navigation, wide, tabNames, badges = {} }: Props) {
+export function NavBar({ state, descriptors, navigation, wide, tabNames, tabOf, badges = {} }: Props) {
   const insets = useSafeAreaInsets();
   const auth = useAuth();
   const [moreOpen, setMoreOpen] = useState(false);
   const overflows = !wide && tabNames.length > MAX_BOTTOM_PLACES;
   const inBar = overflows ? tabNames.slice(0, MAX_BOTTOM_PLACES - 1) : tabNames;
-  const focusedName = state.routes[state.index]?.name;
+  const shownName = state.routes[state.index]?.name;
+  const focusedName = shownName === undefined ? undefined : tabOf(shownName);
 
   // Routes that are not tabs (detail pages, steppers) live in the group but stay out of the bar.
   const item = (name: string, place: 'side' | 'bottom' | 'menu') => {
@@ -34,7 +37,7 @@ export function NavBar({ state, descriptors, navigation, wide, tabNames, badges 
     const route = state.routes[index];
     if (!route) return null;
     const { options } = descriptors[route.key];
-    const focused = state.index === index;
+    const focused = route.name === focusedName;
     const label = options.title ?? route.name;
     const Badge = badges[route.name];
     const tint =
@@ -48,7 +51,8 @@ export function NavBar({ state, descriptors, navigation, wide, tabNames, badges 
     const onPress = () => {
       setMoreOpen(false);
       const event = navigation.emit({ type: 'tabPress', target: route.key, canPreventDefault: true });
-      if (!focused && !event.defaultPrevented) navigation.navigate(route.name, route.params);
+      // From a page inside the section (a client's page), the tab leads back to the section's first page.
+      if (state.index !== index && !event.defaultPrevented) navigation.navigate(route.name, route.params);
     };
     return (
       <Pressable

@@ -6,8 +6,9 @@ import { useClinicConsentText } from '@/device/consent/clinic-consent-text';
 import { useClinicKeyPrefetch } from '@/device/local-store/queries';
 import { DeviceSyncProvider } from '@/device/sync';
 
-const tabs: readonly TabSpec[] = [
-  { name: 'clients', title: 'Clients', Icon: ClientsIcon },
+export const operatorTabs: readonly TabSpec[] = [
+  // A capture is started from a client's page, so it is part of the Clients section.
+  { name: 'clients', title: 'Clients', Icon: ClientsIcon, owns: ['capture'] },
   { name: 'outbox', title: 'Outbox', Icon: OutboxIcon, Badge: OutboxCountBadge },
   { name: 'account', title: 'Account', Icon: AccountIcon },
 ];
@@ -24,7 +25,7 @@ export function OperatorLayout() {
     <RoleGuard role="operator">
       <DeviceSyncProvider>
         <PrefetchForOfflineCapture />
-        <RoleTabs tabs={tabs} />
+        <RoleTabs tabs={operatorTabs} />
       </DeviceSyncProvider>
     </RoleGuard>
   );

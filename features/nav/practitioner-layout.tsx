@@ -3,7 +3,7 @@ import { RoleTabs, type TabSpec } from './role-tabs';
 import { FollowUpsIcon } from '@/features/review/follow-ups-icon';
 import { ClientsIcon, SessionsIcon } from '@/ui/icons';
 
-const tabs: readonly TabSpec[] = [
+export const practitionerTabs: readonly TabSpec[] = [
   { name: 'sessions', title: 'Sessions', Icon: SessionsIcon },
   { name: 'review-clients/index', title: 'Clients', Icon: ClientsIcon },
   { name: 'follow-ups', title: 'Follow-ups', Icon: FollowUpsIcon },
@@ -12,7 +12,7 @@ const tabs: readonly TabSpec[] = [
 export function PractitionerLayout() {
   return (
     <RoleGuard role="practitioner">
-      <RoleTabs tabs={tabs} />
+      <RoleTabs tabs={practitionerTabs} />
     </RoleGuard>
   );
 }

@@ -5,8 +5,25 @@ import { colors } from '@/ui/theme';
 import { useLayout } from '@/ui/use-layout';
 import { NavBar } from './nav-bar';
 
-/** `Badge`, when given, renders beside the tab's label (for example the outbox's queued count). */
-export type TabSpec = { name: string; title: string; Icon: ComponentType<IconProps>; Badge?: ComponentType };
+/**
+ * `Badge`, when given, renders beside the tab's label (for example the outbox's queued count). A tab owns the
+ * routes under its own folder (`clients/[clientId]` belongs to `clients`) and those under the folders in `owns`.
+ */
+export type TabSpec = {
+  name: string;
+  title: string;
+  Icon: ComponentType<IconProps>;
+  Badge?: ComponentType;
+  owns?: readonly string[];
+};
+
+const folderOf = (routeName: string) => routeName.split('/')[0];
+
+/** The tab whose section a route is in; undefined for a route no tab owns. */
+export function tabOwning(tabs: readonly TabSpec[], routeName: string): string | undefined {
+  const folder = folderOf(routeName);
+  return tabs.find((t) => folderOf(t.name) === folder || t.owns?.includes(folder))?.name;
+}
 
 /** One navigator per role group; its tabs are the role's sections. */
 export function RoleTabs({ tabs }: { tabs: readonly TabSpec[] }) {
@@ -18,6 +35,7 @@ export function RoleTabs({ tabs }: { tabs: readonly TabSpec[] }) {
           {...props}
           wide={isWide}
           tabNames={tabs.map((t) => t.name)}
+          tabOf={(routeName) => tabOwning(tabs, routeName)}
           badges={Object.fromEntries(tabs.filter((t) => t.Badge).map((t) => [t.name, t.Badge!]))}
         />
       )}
