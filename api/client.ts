@@ -1,6 +1,7 @@
 import axios, { type AxiosRequestConfig, type InternalAxiosRequestConfig } from 'axios';
 import type { z } from 'zod';
-import { refreshResponseSchema, type SignInResponse } from '@/shared/protocol';
+// The auth schemas alone: the '@/shared/protocol' barrel would build every API schema before sign-in can paint.
+import { refreshResponseSchema, type SignInResponse } from '@/shared/protocol/auth';
 import { failureFromError, type ApiResult } from './result';
 
 export const apiBaseUrl = '/api';

@@ -51,6 +51,10 @@ export async function buildPwa({ dist = path.join(root, 'dist') } = {}) {
     swDest: path.join(dist, 'sw.js'),
     // The export's entry bundle and expo-sqlite's wasm are a few MB; the default 2 MB limit would drop them.
     maximumFileSizeToCacheInBytes: 32 * 1024 * 1024,
+    // Expo names bundles and assets after their content: such a file is cached under its own URL, with no
+    // revision query. Besides saving a lookup, this lets Chromium use the code cache it makes for a script while
+    // the worker installs (a script cached under another URL than the page asks for runs without it).
+    dontCacheBustURLsMatching: /[.-][0-9a-f]{32}[.@]/,
     navigateFallback: '/index.html',
     navigateFallbackDenylist: serverPathPrefixes.map((prefix) => new RegExp(`^${escapeRegExp(prefix)}`)),
     // A new version waits until the person reloads (features/root/update-banner.tsx announces it and sends

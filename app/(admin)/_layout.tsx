@@ -1,1 +1,3 @@
-export { AdminLayout as default } from '@/features/nav/admin-layout';
+import { lazyLayout } from '@/features/root/lazy-layout';
+
+export default lazyLayout(() => import('@/features/nav/admin-layout').then((m) => m.AdminLayout));

@@ -1,1 +1,3 @@
-export { OperatorLayout as default } from '@/features/nav/operator-layout';
+import { lazyLayout } from '@/features/root/lazy-layout';
+
+export default lazyLayout(() => import('@/features/nav/operator-layout').then((m) => m.OperatorLayout));

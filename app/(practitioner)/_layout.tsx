@@ -1,1 +1,5 @@
-export { PractitionerLayout as default } from '@/features/nav/practitioner-layout';
+import { lazyLayout } from '@/features/root/lazy-layout';
+
+export default lazyLayout(() =>
+  import('@/features/nav/practitioner-layout').then((m) => m.PractitionerLayout),
+);

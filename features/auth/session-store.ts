@@ -1,7 +1,8 @@
 import AsyncStorage from '@react-native-async-storage/async-storage';
 import { Platform } from 'react-native';
 import { z } from 'zod';
-import { signInResponseSchema } from '@/shared/protocol';
+// The auth schemas alone: the '@/shared/protocol' barrel would build every API schema before sign-in can paint.
+import { signInResponseSchema } from '@/shared/protocol/auth';
 
 // Stored as the sign-in answer; versioned key so a future shape change starts clean.
 export const sessionSchema = signInResponseSchema;

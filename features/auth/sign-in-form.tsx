@@ -10,7 +10,8 @@ import { colors, radii, space } from '@/ui/theme';
 import type { ApiResult } from '@/api/result';
 import { offlineMessage } from '@/api/result';
 import { z } from 'zod';
-import { signInRequestSchema, type SignInRequest, type SignInResponse } from '@/shared/protocol';
+// The auth schemas alone: the '@/shared/protocol' barrel would build every API schema before sign-in can paint.
+import { signInRequestSchema, type SignInRequest, type SignInResponse } from '@/shared/protocol/auth';
 
 // Stray spaces and capitals in a typed e-mail are not the user's mistake: tidy before checking.
 const formSchema = z.object({

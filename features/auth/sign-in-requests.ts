@@ -2,12 +2,13 @@ import { Platform } from 'react-native';
 import { z } from 'zod';
 import { request } from '@/api/client';
 import type { ApiResult } from '@/api/result';
+// The auth schemas alone: the '@/shared/protocol' barrel would build every API schema before sign-in can paint.
 import {
   signInResponseSchema,
   type RefreshTokenIn,
   type SignInRequest,
   type SignInResponse,
-} from '@/shared/protocol';
+} from '@/shared/protocol/auth';
 
 /**
  * In a browser the refresh token stays in an httpOnly cookie that page scripts cannot read; a phone keeps it

@@ -67,11 +67,28 @@ async function watchTraffic(cdp: CDPSession): Promise<PageTraffic> {
   return traffic;
 }
 
+// Run in the page as a plain string (the bench's compiler would wrap a function with helpers the page lacks).
+// It watches for the form itself rather than through Playwright's selector engine, whose own script is large
+// enough that compiling it on the page's main thread delayed the app it was timing (0.45 s at load 19).
+const signInFormOnScreen = `new Promise((resolve) => {
+  const form = () => document.querySelector('[data-testid="sign-in-email"]');
+  const painted = () => requestAnimationFrame(() => resolve(performance.now()));
+  if (form()) return painted();
+  const watch = new MutationObserver(() => {
+    if (!form()) return;
+    watch.disconnect();
+    painted();
+  });
+  watch.observe(document, { childList: true, subtree: true });
+})`;
+
 /** Milliseconds from the start of navigation to the sign-in form on screen, by the page's own clock. */
 async function timeToSignInForm(page: Page, url: string): Promise<number> {
   await page.goto(url, { waitUntil: 'commit' });
+  const ms = (await page.evaluate(signInFormOnScreen)) as number;
+  // The form must also be what a person sees, not merely in the document.
   await page.getByTestId('sign-in-email').waitFor({ state: 'visible', timeout: 60_000 });
-  return page.evaluate(() => performance.now());
+  return ms;
 }
 
 const kb = (bytes: number) => `${(bytes / 1000).toFixed(0)} kB`;

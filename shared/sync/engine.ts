@@ -305,19 +305,7 @@ export class SyncEngine {
             await this.refuse(item, 'The sealed clip is no longer on this device.', report);
             continue;
           }
-          let lastWritten = -1;
-          await this.o.transport.uploadClip({
-            sha256,
-            bytes,
-            uploadUrl: item.uploadUrl,
-            onUploadUrl: (url) => storage.updateOutboxItem(item.id, { uploadUrl: url }),
-            onProgress: (sent, total) => {
-              const progress = total > 0 ? Math.min(0.99, sent / total) : 0;
-              if (progress - lastWritten < 0.05) return;
-              lastWritten = progress;
-              void storage.updateOutboxItem(item.id, { progress });
-            },
-          });
+          await this.sendClip(item, sha256, bytes);
           // Every byte arrived, which is not yet the clip kept: only the server's word that it is stored counts.
           status = await this.o.transport.blobStatus(sha256);
           if (status.state === 'failed')
@@ -346,14 +334,44 @@ export class SyncEngine {
           throw transportError;
         }
         if (transportError.temporary) {
-          // A lost upload (the server forgot it) starts again from a new URL.
-          if (transportError.status === 404 || transportError.status === 410) {
-            await storage.updateOutboxItem(item.id, { uploadUrl: undefined });
-          }
           await this.retryLater(item, transportError.message, report);
         } else {
           await this.refuse(item, transportError.message, report);
         }
+      }
+    }
+  }
+
+  /**
+   * Sends the clip's bytes, resuming the upload the item names. When the server has lost that upload (tus: 404 or
+   * 410 on its URL), the URL is forgotten and the whole clip goes up again as a new upload in this same run: the
+   * server keeps a clip by its hash, so a clip sent twice is stored once, and nothing of it was kept before.
+   */
+  private async sendClip(item: OutboxItem, sha256: string, bytes: Uint8Array): Promise<void> {
+    const storage = this.o.storage;
+    let uploadUrl = item.uploadUrl;
+    for (let restarts = 0; ; restarts++) {
+      let lastWritten = -1;
+      try {
+        await this.o.transport.uploadClip({
+          sha256,
+          bytes,
+          uploadUrl,
+          onUploadUrl: (url) => storage.updateOutboxItem(item.id, { uploadUrl: url }),
+          onProgress: (sent, total) => {
+            const progress = total > 0 ? Math.min(0.99, sent / total) : 0;
+            if (progress - lastWritten < 0.05) return;
+            lastWritten = progress;
+            void storage.updateOutboxItem(item.id, { progress });
+          },
+        });
+        return;
+      } catch (error) {
+        if (!(error instanceof TransportError && error.uploadLost)) throw error;
+        uploadUrl = undefined;
+        await storage.updateOutboxItem(item.id, { uploadUrl: undefined, progress: 0 });
+        // Lost twice in one run: the server's staging is in trouble; the backoff decides when to try again.
+        if (restarts >= 1) throw error;
       }
     }
   }

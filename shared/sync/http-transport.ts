@@ -107,8 +107,24 @@ export function createHttpTransport(options: HttpTransportOptions): SyncTranspor
           onSuccess: () => resolve(),
           onError: (error) => {
             const detailed = error as tus.DetailedError;
-            const status = detailed.originalResponse?.getStatus();
-            reject(fromStatus(status || undefined, parseBody(detailed.originalResponse?.getBody())));
+            const status = detailed.originalResponse?.getStatus() || undefined;
+            const method = detailed.originalRequest?.getMethod();
+            // tus: a 404 or 410 on the upload's own URL means the server lost it. tus-js-client starts a new
+            // upload by itself only when HEAD says so before resuming; a PATCH that meets it lands here.
+            if ((status === 404 || status === 410) && (method === 'HEAD' || method === 'PATCH')) {
+              reject(
+                new TransportError(
+                  'The clinic server lost this upload; it starts again from the beginning.',
+                  {
+                    temporary: true,
+                    status,
+                    uploadLost: true,
+                  },
+                ),
+              );
+              return;
+            }
+            reject(fromStatus(status, parseBody(detailed.originalResponse?.getBody())));
           },
         });
         task.start();

@@ -12,13 +12,22 @@ export class TransportError extends Error {
   readonly status?: number;
   /** The server refused this app version (426): retrying will not help until the app is updated. */
   readonly outdated: boolean;
+  /**
+   * The server no longer knows the upload in progress (tus: 404 or 410 to HEAD or PATCH on its URL, e.g. its
+   * staging was cleared): the clip is still whole on the device, so it goes up again from a new upload.
+   */
+  readonly uploadLost: boolean;
 
-  constructor(message: string, opts: { temporary: boolean; status?: number; outdated?: boolean }) {
+  constructor(
+    message: string,
+    opts: { temporary: boolean; status?: number; outdated?: boolean; uploadLost?: boolean },
+  ) {
     super(message);
     this.name = 'TransportError';
     this.temporary = opts.temporary;
     this.status = opts.status;
     this.outdated = opts.outdated ?? false;
+    this.uploadLost = opts.uploadLost ?? false;
   }
 }
 
