@@ -1,5 +1,4 @@
-import { apiErrorSchema } from './protocol/errors';
-import { OUTDATED_CLIENT_MESSAGE } from './protocol/sync';
+import { apiErrorSchema, OUTDATED_CLIENT_MESSAGE } from './protocol/errors';
 
 /**
  * A failed answer from the clinic server, read the same way by the screens (api/result.ts) and by the sync engine

@@ -22,3 +22,7 @@ export const readinessResponseSchema = z.object({
   stopping: z.boolean(),
 });
 export type ReadinessResponse = z.infer<typeof readinessResponseSchema>;
+
+/** The body of a 426 answer to a device too old to sync; the app shows `error.message`. */
+export const OUTDATED_CLIENT_MESSAGE =
+  'This version of Fourpoint is too old to sync with the clinic server. Update the app; nothing recorded on this device is lost.';

@@ -187,9 +187,8 @@ export const clinicPublicKeyResponseSchema = z.object({
 });
 export type ClinicPublicKeyResponse = z.infer<typeof clinicPublicKeyResponseSchema>;
 
-/** The body of a 426 answer; the app shows `error.message`. */
-export const OUTDATED_CLIENT_MESSAGE =
-  'This version of Fourpoint is too old to sync with the clinic server. Update the app; nothing recorded on this device is lost.';
+// Kept in errors.ts, which the sign-in path loads without building every sync schema.
+export { OUTDATED_CLIENT_MESSAGE } from './errors';
 
 // Admin: conflicts.
 export const conflictSideSchema = z.object({
