@@ -1,4 +1,6 @@
-import type { Sequelize, Transaction } from 'sequelize';
+import { createHash } from 'node:crypto';
+import { DatabaseError as PgDatabaseError, type ClientBase } from 'pg';
+import { DatabaseError, type Sequelize, type Transaction } from 'sequelize';
 import {
   serverOwnedFields,
   syncEntities,
@@ -106,6 +108,41 @@ const refusedWhole = (code: string | undefined) =>
   code !== undefined &&
   (code.startsWith('22') || code.startsWith('23') || code === '40001' || code === '40P01');
 
+/** The pool under Sequelize: its connections are pg clients. */
+interface PooledConnections {
+  getConnection(options: { type: 'write' }): Promise<ClientBase>;
+  releaseConnection(connection: ClientBase): void;
+  destroyConnection(connection: ClientBase): Promise<void>;
+}
+
+// The batch statement's parameters, in order, with their types (a prepared statement fixes them once).
+const batchParameters = [
+  ['batch', 'jsonb'],
+  ['clinicId', 'uuid'],
+  ['userId', 'uuid'],
+  ['deviceId', 'uuid'],
+  ['count', 'bigint'],
+] as const;
+
+/** `:name` placeholders as typed `$n` parameters; `::type` casts are left alone. */
+function positional(sql: string, parameters: readonly (readonly [string, string])[]): string {
+  return sql.replace(/(?<![:\w]):([a-zA-Z]\w*)/g, (match, name: string) => {
+    const at = parameters.findIndex(([known]) => known === name);
+    if (at < 0) throw new Error(`no parameter :${name} in the batch statement`);
+    return `CAST($${at + 1} AS ${parameters[at][1]})`;
+  });
+}
+
+const preparedName = (sql: string) =>
+  `sync_batch_${createHash('sha256').update(sql).digest('hex').slice(0, 24)}`;
+
+/**
+ * The connection's prepared statement does not fit the database any more: it was dropped under it (26000, e.g.
+ * by a pooler's DISCARD ALL) or a column it reads changed type (0A000, "cached plan must not change result
+ * type").
+ */
+const statementOutdated = (code: string) => code === '26000' || code === '0A000';
+
 export const pgErrorOf = (error: unknown): { code?: string; constraint?: string; detail?: string } =>
   (error as { parent?: { code?: string; constraint?: string; detail?: string } })?.parent ?? {};
 
@@ -175,27 +212,62 @@ export class SyncRepository {
       if (kinds.has(false)) steps.push(`edit_${entity} AS (${editStep(entity)})`);
     }
     const written = steps.map((s) => `SELECT id FROM ${s.slice(0, s.indexOf(' '))}`).join(' UNION ALL ');
+    // Plain SQL has no RAISE: when fewer mutations were recorded than sent, the last step casts a sentence to
+    // an integer, which fails the statement and so undoes every write of it.
+    const sql = positional(
+      `WITH batch AS (
+         SELECT * FROM jsonb_to_recordset(:batch) AS b(mutation_id uuid, entity text, id uuid,
+           base_version integer, fields jsonb, has_deleted_at boolean, deleted_at timestamptz, result jsonb)),
+       ${steps.join(',\n')},
+       recorded AS (
+         INSERT INTO applied_mutations (mutation_id, clinic_id, user_id, device_id, entity, row_id, result, applied_at)
+         SELECT b.mutation_id, :clinicId, :userId, :deviceId, b.entity, b.id, b.result, now()
+         FROM batch b JOIN (${written}) w ON w.id = b.id RETURNING 1)
+       SELECT CASE WHEN count(*) = :count THEN count(*)
+         ELSE ('batch not written whole, mutations written ' || count(*))::integer END AS written
+       FROM recorded`,
+      batchParameters,
+    );
     try {
-      // Plain SQL has no RAISE: when fewer mutations were recorded than sent, the last step casts a sentence to
-      // an integer, which fails the statement and so undoes every write of it.
-      await this.select(
-        `WITH batch AS (
-           SELECT * FROM jsonb_to_recordset(:batch::jsonb) AS b(mutation_id uuid, entity text, id uuid,
-             base_version integer, fields jsonb, has_deleted_at boolean, deleted_at timestamptz, result jsonb)),
-         ${steps.join(',\n')},
-         recorded AS (
-           INSERT INTO applied_mutations (mutation_id, clinic_id, user_id, device_id, entity, row_id, result, applied_at)
-           SELECT b.mutation_id, :clinicId, :userId, :deviceId, b.entity, b.id, b.result, now()
-           FROM batch b JOIN (${written}) w ON w.id = b.id RETURNING 1)
-         SELECT CASE WHEN count(*) = :count THEN count(*)
-           ELSE ('batch not written whole, mutations written ' || count(*))::integer END AS written
-         FROM recorded`,
-        { ...caller, batch: JSON.stringify(batch), count: batch.length },
-      );
+      await this.runPrepared(sql, [
+        JSON.stringify(batch),
+        caller.clinicId,
+        caller.userId,
+        caller.deviceId,
+        batch.length,
+      ]);
       return true;
     } catch (error) {
-      if (refusedWhole(pgErrorOf(error).code)) return false;
+      // A statement kept on the connection that no longer fits (runPrepared has dropped that connection) goes the
+      // slow way too; the next batch prepares the statement afresh.
+      const { code } = pgErrorOf(error);
+      if (refusedWhole(code) || (code !== undefined && statementOutdated(code))) return false;
       throw error;
+    }
+  }
+
+  /**
+   * Runs `sql` as a named prepared statement on a pooled connection, so PostgreSQL parses and plans it once per
+   * connection instead of once per push (planning was most of the statement's time). Sequelize sends every
+   * statement unnamed, so this takes the connection from Sequelize's pool and uses pg's own named statements.
+   * The name is the text's hash: each shape of batch (which steps it has) is its own statement. Failures come
+   * back as Sequelize's would, so callers and the error handler read them the same way.
+   */
+  private async runPrepared(sql: string, values: unknown[]): Promise<void> {
+    if (this.transaction)
+      throw new Error('a batch at once commits on its own: call it outside a transaction');
+    const manager = this.sequelize.connectionManager as unknown as PooledConnections;
+    const connection = await manager.getConnection({ type: 'write' });
+    let keep = true;
+    try {
+      await connection.query({ name: preparedName(sql), text: sql, values });
+    } catch (error) {
+      // A lost link, or a statement the connection can no longer run: the connection is not used again.
+      keep = error instanceof PgDatabaseError && !statementOutdated(error.code ?? '');
+      throw new DatabaseError(error as Error & { sql: string; parameters: object });
+    } finally {
+      if (keep) manager.releaseConnection(connection);
+      else await manager.destroyConnection(connection);
     }
   }
 
