@@ -29,9 +29,9 @@ function main(): void {
   const logger = pino({ level: config.LOG_LEVEL });
   // The composition root: every part is built here, once, from the configuration.
   replaceServices(composeServices(config));
-  const sequelize = createSequelize(databaseUrl);
   // Behind the balancer each process is named by it (i1, i2...); alone, by its host and process id.
   const instance = config.FOURPOINT_INSTANCE;
+  const sequelize = createSequelize(databaseUrl, { applicationName: `fourpoint ${instance}` });
   const app = createApp({
     sequelize,
     jwtSecret: config.secrets.jwtSecret,
