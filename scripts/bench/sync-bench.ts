@@ -329,7 +329,8 @@ async function throughBalancer(
     return;
   }
   console.log(
-    `through the load balancer, 32 devices (the cost of the extra hop on ${os.cpus().length} shared cores, not a speed-up):`,
+    `through the load balancer, 32 devices (the cost of the extra hop on ${os.cpus().length} shared cores, not a speed-up; ` +
+      `load average ${os.loadavg()[0].toFixed(1)}):`,
   );
   console.log('path                         |    p50 |    p95 | sessions/s | requests per instance');
   const row = (label: string, f: Figures, spread = '') =>
