@@ -37,6 +37,8 @@ import {
 const ROUNDS_PER_DEVICE = Number(process.env.BENCH_ROUNDS ?? 10);
 // A p95 of ten samples is their slowest one: every row has at least 40 sessions, so one stall does not decide it.
 const roundsAt = (devices: number) => Math.max(ROUNDS_PER_DEVICE, Math.ceil(40 / devices));
+/** BENCH_SYNC_PART=balancer runs only the rows through the load balancer. */
+const BALANCER_ONLY = process.env.BENCH_SYNC_PART === 'balancer';
 const JWT_SECRET = randomUUID();
 const root = path.resolve(__dirname, '../..');
 
@@ -111,6 +113,22 @@ async function waitForPort(port: number): Promise<void> {
 }
 
 type Query = (...args: unknown[]) => unknown;
+/** Waits until answers through the balancer on `port` have come from `count` different instances. */
+async function untilServedByAll(port: number, count: number): Promise<void> {
+  for (let round = 0; round < 300; round++) {
+    const seen = new Set<string>();
+    for (let i = 0; i < 2 * count; i++) {
+      const res = await axios
+        .get(`http://127.0.0.1:${port}/api/health/live`, { timeout: 5000, validateStatus: () => true })
+        .catch(() => null);
+      const name = res?.headers['x-fourpoint-instance'];
+      if (typeof name === 'string') seen.add(name);
+    }
+    if (seen.size >= count) return;
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  throw new Error(`the balancer on port ${port} never served from ${count} instances`);
+}
 
 /**
  * Timing spans on the server: each request's time from arrival to the end of its answer, and inside it every
@@ -266,6 +284,12 @@ async function main(): Promise<void> {
   // PostgreSQL keeps its generic plan. With a smaller warm-up the push met cold connections that the raw writes,
   // measured after it, then found warm.
   await pushes(url, 32);
+  if (BALANCER_ONLY) {
+    await throughBalancer(databaseUrl, (target) => pushes(target, 32));
+    server.close();
+    await sequelize.close();
+    return;
+  }
   await rawSessions(sequelize, ids, 32, ROUNDS_PER_DEVICE);
   spans?.report();
   console.log(
@@ -321,7 +345,7 @@ async function main(): Promise<void> {
 async function throughBalancer(
   databaseUrl: string,
   push32: (target: string) => Promise<Figures & { instances: string }>,
-  inProcess: Figures,
+  inProcess?: Figures,
 ): Promise<void> {
   const balancerScript = path.join(root, 'scripts/bootstrap/balancer.mjs');
   const haproxy = spawn(process.execPath, [balancerScript, '--find']);
@@ -331,14 +355,15 @@ async function throughBalancer(
     return;
   }
   console.log(
-    `through the load balancer, 32 devices (the cost of the extra hop on ${os.cpus().length} shared cores, not a speed-up):`,
+    `through the load balancer, 32 devices (the cost of the extra hop on ${os.cpus().length} shared cores, not a speed-up; ` +
+      `load average ${os.loadavg()[0].toFixed(1)}):`,
   );
   console.log('path                         |    p50 |    p95 | sessions/s | requests per instance');
   const row = (label: string, f: Figures, spread = '') =>
     console.log(
       `${label.padEnd(28)} | ${ms(f.p50)} | ${ms(f.p95)} | ${f.rate.toFixed(1).padStart(10)} | ${spread}`,
     );
-  row('in the bench process', inProcess);
+  if (inProcess) row('in the bench process', inProcess);
 
   const instances = await Promise.all([1, 2, 3].map((i) => startInstance(databaseUrl, `i${i}`)));
   try {
@@ -355,11 +380,10 @@ async function throughBalancer(
       try {
         await waitForPort(publicPort);
         // Every instance must have passed its readiness check, or the first requests all land on one.
-        await new Promise((r) => setTimeout(r, 1500));
+        await untilServedByAll(publicPort, count);
         const result = await push32(`http://127.0.0.1:${publicPort}`).catch((error: Error) => error);
         if (result instanceof Error) {
-          // HAProxy checks readiness every second with a one-second timeout and one miss takes an instance out
-          // (balancer.mjs); on a starved machine the check itself can miss, and the devices then get 503s.
+          // An instance taken out by its readiness check (balancer.mjs) leaves the devices with 503s.
           console.log(`HAProxy, ${count} instance(s): not measured, ${result.message.split('\n')[0]}`);
           continue;
         }

@@ -66,7 +66,16 @@ backend instances
   balance roundrobin
   option httpchk GET /api/health/ready
   http-check expect status 200
-  default-server inter 1s fall 1 rise 1
+  # The check is for an instance that cannot serve (database or storage gone, stopping), not for a busy one.
+  # /api/health/ready answers from a state its own probe keeps fresh (services/readiness-probe.ts) without
+  # waiting for the request pool, so its answer time is only the event loop's delay; with 32 devices pushing on
+  # two cores shared with PostgreSQL that reached a second, which is what took instances out under the old
+  # inter 1s (timeout = inter), fall 1. Now: a check every 2 s may take 5 s to answer, three misses in a row
+  # (about 6 to 15 s) take an instance out, two answers in a row bring it back (fastinter 1s confirms a change
+  # quickly). A stopping or killed instance needs no check to be avoided: it refuses connections at once, and
+  # retry-on conn-failure with redispatch sends those requests to another instance.
+  timeout check 5s
+  default-server inter 2s fastinter 1s downinter 2s fall 3 rise 2
 ${servers}
 `;
 }

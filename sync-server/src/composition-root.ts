@@ -25,6 +25,8 @@ import {
   type UploadStaging,
 } from './services/tus-uploads';
 import { PgUploadLocker } from './services/upload-locks';
+import { ReadinessProbe } from './services/readiness-probe';
+import { blobKeyFor } from './services/blob-store';
 import { receiveClip } from './use-cases/sync/clips';
 
 /** Opens a sealed clip with the clinic's key. */
@@ -167,6 +169,35 @@ export function provideSyncServices(
   const built = { blobStore, clinicKeys, uploads };
   bySequelize.set(sequelize, built);
   return built;
+}
+
+// A key no clip can have (the sha256 of nothing is never a sealed clip): asking for it reaches the store and
+// answers "not there" when the store is up, and throws when it is not.
+const STORAGE_PROBE_KEY = blobKeyFor('e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855');
+
+const readinessBySequelize = new WeakMap<Sequelize, ReadinessProbe>();
+
+/**
+ * The readiness probe of this database handle and its blob store (services/readiness-probe.ts): one per process
+ * in main.ts, on a connection of its own to the same database.
+ */
+export function readinessProbeFor(sequelize: Sequelize): ReadinessProbe {
+  let probe = readinessBySequelize.get(sequelize);
+  if (!probe) {
+    const { host, port, database, username, password } = sequelize.config;
+    probe = new ReadinessProbe(
+      {
+        host,
+        port: port ? Number(port) : undefined,
+        database,
+        user: username,
+        password: password ?? undefined,
+      },
+      () => syncServicesFor(sequelize).blobStore.has(STORAGE_PROBE_KEY),
+    );
+    readinessBySequelize.set(sequelize, probe);
+  }
+  return probe;
 }
 
 /**

@@ -1,6 +1,6 @@
 import pino from 'pino';
 import { createApp } from './app';
-import { composeServices, replaceServices, startBackgroundWork } from './composition-root';
+import { composeServices, readinessProbeFor, replaceServices, startBackgroundWork } from './composition-root';
 import { MissingSecretError } from './config/secrets';
 import { ConfigError, loadConfig, type Config } from './config/settings';
 import { createSequelize } from './db/database';
@@ -29,9 +29,9 @@ function main(): void {
   const logger = pino({ level: config.LOG_LEVEL });
   // The composition root: every part is built here, once, from the configuration.
   replaceServices(composeServices(config));
-  const sequelize = createSequelize(databaseUrl);
   // Behind the balancer each process is named by it (i1, i2...); alone, by its host and process id.
   const instance = config.FOURPOINT_INSTANCE;
+  const sequelize = createSequelize(databaseUrl, { applicationName: `fourpoint ${instance}` });
   const app = createApp({
     sequelize,
     jwtSecret: config.secrets.jwtSecret,
@@ -77,7 +77,7 @@ function main(): void {
     server.closeIdleConnections();
     setTimeout(() => server.closeAllConnections(), config.SHUTDOWN_GRACE_MS).unref();
     Promise.all([requestsDone, jobs.then((queue) => queue?.stop(config.SHUTDOWN_GRACE_MS))])
-      .then(() => sequelize.close())
+      .then(() => Promise.all([sequelize.close(), readinessProbeFor(sequelize).stop()]))
       .finally(() => process.exit(0));
   };
   process.on('SIGINT', () => close('SIGINT'));

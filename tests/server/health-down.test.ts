@@ -2,6 +2,7 @@ import net from 'node:net';
 import pino from 'pino';
 import request from 'supertest';
 import { createApp } from '@/sync-server/src/app';
+import { readinessProbeFor } from '@/sync-server/src/composition-root';
 import { createSequelize } from '@/sync-server/src/db/database';
 
 // Its own file: the models bind to one Sequelize per module registry, and this one points nowhere.
@@ -45,6 +46,20 @@ describe('GET /api/health with no database', () => {
         },
       });
     } finally {
+      await sequelize.close();
+    }
+  });
+
+  test('when nothing listens where the database should be, then readiness is 503 with db down', async () => {
+    // What takes the instance out of the load balancer (scripts/bootstrap/balancer.mjs checks this route).
+    const sequelize = createSequelize(`postgres://fourpoint@127.0.0.1:${await closedPort()}/nowhere`);
+    const app = createApp({ sequelize, jwtSecret: 'unused', logger: pino({ level: 'silent' }) });
+    try {
+      const res = await request(app).get('/api/health/ready');
+      expect(res.status).toBe(503);
+      expect(res.body).toEqual({ ok: false, db: 'down', storage: 'up', stopping: false });
+    } finally {
+      await readinessProbeFor(sequelize).stop();
       await sequelize.close();
     }
   });

@@ -1,100 +1,53 @@
 // Several server instances behind the real load balancer (Debian's HAProxy, configured by
 // scripts/bootstrap/balancer.mjs as `INSTANCES=3 npm start` does), on one PostgreSQL: answers come from more than one
-// instance, the sign-in limit counts over all of them, and a stopping instance finishes the request in flight.
+// instance, the sign-in limit counts over all of them, and a stopping instance finishes the request in flight
+// (tests/server/helpers/balanced-instances.ts; the same in S3 mode, killed and with jobs: instances-s3.test.ts).
 // Without HAProxy the file says so in one line and skips (npm test's set-up installs it).
-import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import http from 'node:http';
 import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
-import readline from 'node:readline';
 import { SYNC_PROTOCOL_HEADER, SYNC_PROTOCOL_VERSION } from '@/shared/protocol/sync';
+import {
+  haproxyMissing,
+  isolatedDatabase,
+  startBalancedInstances,
+  stopAllStarted,
+  type BalancedInstances,
+} from './helpers/balanced-instances';
 import { makeClinic, makeTestContext, TEST_PASSWORD, type TestContext } from './helpers/test-app';
 
-const ROOT = path.join(__dirname, '../..');
-const BALANCER = path.join(ROOT, 'scripts/bootstrap/balancer.mjs');
-
 const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-instances-'));
-const instances: { name: string; port: number; child: ChildProcess }[] = [];
-let balancer: ChildProcess | null = null;
-let publicPort = 0;
+let database: Awaited<ReturnType<typeof isolatedDatabase>>;
+let cluster: BalancedInstances;
 let ctx: TestContext;
-const haproxyMissing = spawnSync(process.execPath, [BALANCER, '--find']).status !== 0;
-if (haproxyMissing)
-  console.warn('skipped: HAProxy is not installed (sudo apt-get install -y haproxy; npm test installs it)');
 const testWithBalancer = haproxyMissing ? test.skip : test;
-
-const freePort = () =>
-  new Promise<number>((resolve) => {
-    const probe = net.createServer().listen(0, '127.0.0.1', () => {
-      const { port } = probe.address() as net.AddressInfo;
-      probe.close(() => resolve(port));
-    });
-  });
-
-/** One server process as npm start runs it (main.ts), waiting for its "running" line. */
-async function startInstance(name: string) {
-  const port = await freePort();
-  const child = spawn(process.execPath, ['--import', 'tsx', path.join(ROOT, 'sync-server/src/main.ts')], {
-    cwd: ROOT,
-    env: {
-      ...process.env,
-      PORT: String(port),
-      FOURPOINT_INSTANCE: name,
-      TRUST_PROXY: 'loopback',
-      JWT_SECRET: ctx.jwtSecret,
-      BLOB_DIR: path.join(dataDir, 'blobs'),
-      UPLOAD_DIR: path.join(dataDir, 'uploads'),
-      LOG_LEVEL: 'warn',
-    },
-    stdio: ['ignore', 'pipe', 'inherit'],
-  });
-  await new Promise<void>((resolve, reject) => {
-    readline.createInterface({ input: child.stdout! }).on('line', (line) => {
-      if (line.startsWith('Fourpoint is running')) resolve();
-    });
-    child.once('exit', (code) => reject(new Error(`instance ${name} exited (${code}) before listening`)));
-  });
-  instances.push({ name, port, child });
-}
 
 beforeAll(async () => {
   if (haproxyMissing) return;
-  ctx = makeTestContext();
-  await Promise.all(['i1', 'i2', 'i3'].map(startInstance));
-  publicPort = await freePort();
-  balancer = spawn(
-    process.execPath,
-    [
-      BALANCER,
-      path.join(dataDir, 'balancer'),
-      String(publicPort),
-      ...instances.map((i) => `${i.name}:${i.port}`),
-    ],
-    { stdio: 'inherit' },
+  database = await isolatedDatabase();
+  ctx = makeTestContext({}, { databaseUrl: database.url });
+  cluster = await startBalancedInstances(
+    ['i1', 'i2', 'i3'],
+    {
+      DATABASE_URL: database.url,
+      JWT_SECRET: ctx.jwtSecret,
+      BLOB_DIR: path.join(dataDir, 'blobs'),
+      UPLOAD_DIR: path.join(dataDir, 'uploads'),
+    },
+    path.join(dataDir, 'balancer'),
   );
-  // Ready once the balancer has seen every instance answer its readiness check.
-  for (;;) {
-    const seen = new Set<string>();
-    for (let i = 0; i < 6; i++) {
-      const res = await fetch(`http://127.0.0.1:${publicPort}/api/health/ready`).catch(() => null);
-      const name = res?.headers.get('x-fourpoint-instance');
-      if (name) seen.add(name);
-    }
-    if (seen.size === 3) break;
-    await new Promise((resolve) => setTimeout(resolve, 200));
-  }
-}, 120_000);
+}, 300_000);
 
 afterAll(async () => {
-  balancer?.kill('SIGTERM');
-  for (const { child } of instances) if (child.exitCode === null) child.kill('SIGKILL');
+  await stopAllStarted();
   await ctx?.close();
+  await database?.drop();
   fs.rmSync(dataDir, { recursive: true, force: true });
 });
 
-const viaBalancer = (p: string, init?: RequestInit) => fetch(`http://127.0.0.1:${publicPort}${p}`, init);
+const viaBalancer = (p: string, init?: RequestInit) => cluster.via(p, init);
 
 testWithBalancer(
   'when requests go through the balancer, then answers come from more than one instance, each naming itself',
@@ -145,7 +98,7 @@ testWithBalancer(
       body: JSON.stringify({ email: clinic.users.operator.email, password: TEST_PASSWORD }),
     });
     const { accessToken } = (await signedIn.json()) as { accessToken: string };
-    const target = instances[2];
+    const target = cluster.instances[2];
     const size = 64 * 1024;
     const sha256 = 'ab'.repeat(32);
     // tus 1.0: create the upload, then send its bytes in one PATCH that pauses half-way.
@@ -212,7 +165,7 @@ testWithBalancer(
     const after = await viaBalancer('/api/health/live');
     expect(after.status).toBe(200);
     // Instances join the list as they come up, so the stopped one is any of the three: the answer names another.
-    const others = instances.filter((i) => i !== target).map((i) => i.name);
+    const others = cluster.instances.filter((i) => i !== target).map((i) => i.name);
     expect(others).toContain(after.headers.get('x-fourpoint-instance'));
   },
 );

@@ -28,8 +28,11 @@ export function databaseUrl(): string {
   return url;
 }
 
-export function makeTestContext(overrides: Partial<AppDeps> = {}): TestContext {
-  const sequelize = createSequelize(databaseUrl(), { poolMax: 5 });
+export function makeTestContext(
+  overrides: Partial<AppDeps> = {},
+  options: { databaseUrl?: string } = {},
+): TestContext {
+  const sequelize = createSequelize(options.databaseUrl ?? databaseUrl(), { poolMax: 5 });
   initModels(sequelize);
   const jwtSecret = `test-secret-${randomUUID()}`;
   const app = createApp({
