@@ -3,7 +3,7 @@ import archiver from 'archiver';
 import { cautionText } from '@/shared/cautions';
 import { isSealed, openClip } from '@/shared/seal';
 import { recordAuditEvent } from '../../repositories/audit-repository';
-import * as records from '../../repositories/client-records-repository';
+import * as records from '../../repositories/clients-repository';
 import * as repo from '../../repositories/export-repository';
 import { iso } from '../../repositories/sql';
 import { syncServicesFor } from '../../composition-root';
