@@ -65,32 +65,24 @@ export async function revokeRefreshToken(
   return count === 1;
 }
 
-async function revokeRefreshTokenFamily(
+/** Revokes every token still open of one sign-in (`family_id`) or of one user (`user_id`). */
+async function revokeOpenTokens(
   sequelize: Sequelize,
-  familyId: string,
+  column: 'family_id' | 'user_id',
+  value: string,
   transaction?: Transaction,
 ): Promise<void> {
   await execute(
     sequelize,
-    `UPDATE refresh_tokens SET revoked_at = now(), updated_at = now() WHERE family_id = :familyId AND revoked_at IS NULL`,
-    { familyId },
+    `UPDATE refresh_tokens SET revoked_at = now(), updated_at = now() WHERE ${column} = :value AND revoked_at IS NULL`,
+    { value },
     transaction,
   );
 }
 
 /** A disabled user's sign-ins end now: refresh tokens are revoked (access tokens fail on the user row). */
-export async function revokeUserRefreshTokens(
-  sequelize: Sequelize,
-  userId: string,
-  transaction?: Transaction,
-): Promise<void> {
-  await execute(
-    sequelize,
-    `UPDATE refresh_tokens SET revoked_at = now(), updated_at = now() WHERE user_id = :userId AND revoked_at IS NULL`,
-    { userId },
-    transaction,
-  );
-}
+export const revokeUserRefreshTokens = (sequelize: Sequelize, userId: string, transaction?: Transaction) =>
+  revokeOpenTokens(sequelize, 'user_id', userId, transaction);
 
 /** Ends every sign-in of the user, e.g. after a password reset: their sessions end and refresh tokens are revoked. */
 export async function endEverySignInOfUser(
@@ -150,6 +142,6 @@ export async function endSignInSession(
     { id },
     transaction,
   );
-  await revokeRefreshTokenFamily(sequelize, id, transaction);
+  await revokeOpenTokens(sequelize, 'family_id', id, transaction);
   return rows[0]?.user_id ?? null;
 }
