@@ -6,9 +6,16 @@ import axios from 'axios';
 import { QueryTypes } from 'sequelize';
 import { consentText, consentTextVersion } from '@/shared/consent/consent-text';
 import { consentTextListResponseSchema } from '@/shared/protocol/practice';
-import { SYNC_PROTOCOL_VERSION, type Mutation, type PushResponse } from '@/shared/protocol/sync';
+import type { Mutation } from '@/shared/protocol/sync';
 import { up as addBuiltInConsentText } from '@/sync-server/migrations/202612061000-built-in-consent-text';
-import { clientFields, clinicWithTokens, startSyncServer, type SyncTestServer } from './sync-helpers/devices';
+import {
+  clientFields,
+  clinicWithTokens,
+  mutation,
+  pushTo,
+  startSyncServer,
+  type SyncTestServer,
+} from './sync-helpers/devices';
 
 let server: SyncTestServer;
 beforeAll(async () => {
@@ -16,22 +23,8 @@ beforeAll(async () => {
 });
 afterAll(() => server.close());
 
-const mutation = (entity: Mutation['entity'], id: string, change: Record<string, unknown>): Mutation => ({
-  mutationId: randomUUID(),
-  entity,
-  id,
-  baseVersion: 0,
-  change,
-});
-
-async function push(token: string, mutations: Mutation[]): Promise<PushResponse> {
-  const res = await axios.post(
-    `${server.url}/api/sync/push`,
-    { protocolVersion: SYNC_PROTOCOL_VERSION, deviceId: randomUUID(), mutations },
-    { headers: { authorization: `Bearer ${token}` } },
-  );
-  return res.data as PushResponse;
-}
+const push = (token: string, mutations: Mutation[], deviceId?: string) =>
+  pushTo(server, token, mutations, deviceId);
 
 async function consentTexts(token: string) {
   const res = await axios.get(`${server.url}/api/consent-texts`, {
