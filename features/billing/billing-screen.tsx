@@ -6,10 +6,9 @@ import { Button } from '@/ui/button';
 import { ChoiceChips } from '@/ui/choice-chips';
 import { Cell, DataTable, type Column } from '@/ui/data-table';
 import { formatDate, formatTime } from '@/ui/format';
-import { Pager } from '@/ui/pager';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { SearchField } from '@/ui/search-field';
-import { EmptyState, QueryView } from '@/ui/state-views';
+import { PagedQueryView } from '@/ui/state-views';
 import { paymentStatusWords } from '@/ui/status-words';
 import { colors, space } from '@/ui/theme';
 import { usePaymentsQuery, useRefundMutation } from './api';
@@ -146,39 +145,29 @@ export function BillingScreen() {
   });
 
   const list = (
-    <QueryView query={payments} loading="Loading payments…" testID="payments">
-      {(data) =>
-        data.payments.length === 0 ? (
-          <EmptyState
-            title={status === 'all' && !q ? 'No payments yet' : 'No payment matches'}
-            detail={
-              status === 'all' && !q
-                ? 'Payments you create appear here with their state.'
-                : 'Change the filter or the search.'
-            }
-            testID="payments-empty"
-          />
-        ) : (
-          <>
-            <DataTable
-              rows={data.payments}
-              columns={columns}
-              rowKey={(p) => p.id}
-              rowTestID={(p) => `payment-row-${p.id}`}
-              wide={isWide}
-              testID="payments-table"
-            />
-            <Pager
-              page={page}
-              pageSize={pageSize}
-              total={data.pageInfo.total}
-              onPage={setPage}
-              testID="payments-pager"
-            />
-          </>
-        )
-      }
-    </QueryView>
+    <PagedQueryView
+      query={payments}
+      loading="Loading payments…"
+      testID="payments"
+      empty={{
+        when: (data) => data.payments.length === 0,
+        ...(status === 'all' && !q
+          ? { title: 'No payments yet', detail: 'Payments you create appear here with their state.' }
+          : { title: 'No payment matches', detail: 'Change the filter or the search.' }),
+      }}
+      onPage={setPage}
+    >
+      {(data) => (
+        <DataTable
+          rows={data.payments}
+          columns={columns}
+          rowKey={(p) => p.id}
+          rowTestID={(p) => `payment-row-${p.id}`}
+          wide={isWide}
+          testID="payments-table"
+        />
+      )}
+    </PagedQueryView>
   );
 
   return (
