@@ -1,45 +1,49 @@
 import { Tabs } from 'expo-router/js-tabs';
 import type { ComponentType } from 'react';
 import type { IconProps } from '@/ui/icons';
+import { ScreenTopBar } from '@/ui/screen-frame';
 import { colors } from '@/ui/theme';
 import { useLayout } from '@/ui/use-layout';
+import { AccountBar } from './account-bar';
 import { NavBar } from './nav-bar';
 
 /** `Badge`, when given, renders beside the tab's label (for example the outbox's queued count). */
 export type TabSpec = { name: string; title: string; Icon: ComponentType<IconProps>; Badge?: ComponentType };
 
-/** One navigator per role group; its tabs are the role's sections. */
+/** One navigator per role group; its tabs are the role's sections, and its screens' phone top bar the account. */
 export function RoleTabs({ tabs }: { tabs: readonly TabSpec[] }) {
   const { isWide } = useLayout();
   return (
-    <Tabs
-      tabBar={(props) => (
-        <NavBar
-          {...props}
-          wide={isWide}
-          tabNames={tabs.map((t) => t.name)}
-          badges={Object.fromEntries(tabs.filter((t) => t.Badge).map((t) => [t.name, t.Badge!]))}
-        />
-      )}
-      // Back goes to the screen the person came from (a client page before its capture), not to the first tab.
-      backBehavior="history"
-      screenOptions={{
-        headerShown: false,
-        tabBarPosition: isWide ? 'left' : 'bottom',
-        sceneStyle: { backgroundColor: colors.paper },
-      }}
-    >
-      {tabs.map(({ name, title, Icon }) => (
-        <Tabs.Screen
-          key={name}
-          name={name}
-          options={{
-            title,
-            tabBarButtonTestID: `nav-${name}`,
-            tabBarIcon: ({ color, size }) => <Icon color={color} size={size} />,
-          }}
-        />
-      ))}
-    </Tabs>
+    <ScreenTopBar value={<AccountBar />}>
+      <Tabs
+        tabBar={(props) => (
+          <NavBar
+            {...props}
+            wide={isWide}
+            tabNames={tabs.map((t) => t.name)}
+            badges={Object.fromEntries(tabs.filter((t) => t.Badge).map((t) => [t.name, t.Badge!]))}
+          />
+        )}
+        // Back goes to the screen the person came from (a client page before its capture), not to the first tab.
+        backBehavior="history"
+        screenOptions={{
+          headerShown: false,
+          tabBarPosition: isWide ? 'left' : 'bottom',
+          sceneStyle: { backgroundColor: colors.paper },
+        }}
+      >
+        {tabs.map(({ name, title, Icon }) => (
+          <Tabs.Screen
+            key={name}
+            name={name}
+            options={{
+              title,
+              tabBarButtonTestID: `nav-${name}`,
+              tabBarIcon: ({ color, size }) => <Icon color={color} size={size} />,
+            }}
+          />
+        ))}
+      </Tabs>
+    </ScreenTopBar>
   );
 }
