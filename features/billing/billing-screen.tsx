@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
-import { Button } from '@/ui/button';
+import { AskFirst } from '@/ui/confirm-step';
 import { ChoiceChips } from '@/ui/choice-chips';
 import { Cell, DataTable, type Column } from '@/ui/data-table';
 import { formatDate, formatTime } from '@/ui/format';
@@ -31,44 +31,21 @@ const filters: { value: StatusFilter; label: string }[] = [
 
 function RefundAction({ payment }: { payment: Payment }) {
   const refund = useRefundMutation();
-  const [asking, setAsking] = useState(false);
   if (payment.status !== 'paid') return null;
-  if (!asking) {
-    return (
-      <Button
-        label="Refund…"
-        variant="secondary"
-        onPress={() => setAsking(true)}
-        testID={`payment-refund-${payment.id}`}
-      />
-    );
-  }
   return (
-    <View style={styles.confirm}>
-      <AppText variant="small" color={colors.text}>
-        Refund {formatMoney(payment.amountCents, payment.currency)}?
-      </AppText>
-      <View style={styles.confirmButtons}>
-        <Button
-          label="Yes, refund"
-          variant="danger"
-          onPress={() => refund.mutate(payment.id)}
-          busy={refund.isPending}
-          testID={`payment-refund-confirm-${payment.id}`}
-        />
-        <Button
-          label="No"
-          variant="ghost"
-          onPress={() => setAsking(false)}
-          testID={`payment-refund-cancel-${payment.id}`}
-        />
-      </View>
-      {refund.isError ? (
-        <AppText variant="small" color={colors.danger} testID={`payment-refund-error-${payment.id}`}>
-          {refund.error.message}
-        </AppText>
-      ) : null}
-    </View>
+    <AskFirst
+      label="Refund…"
+      testID={`payment-refund-${payment.id}`}
+      question={`Refund ${formatMoney(payment.amountCents, payment.currency)}?`}
+      confirmLabel="Yes, refund"
+      cancelLabel="No"
+      tone="danger"
+      busy={refund.isPending}
+      error={refund.error?.message}
+      onConfirm={() => refund.mutateAsync(payment.id)}
+    >
+      The amount goes back to the client through the payment provider.
+    </AskFirst>
   );
 }
 
