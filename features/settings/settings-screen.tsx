@@ -1,9 +1,7 @@
-import { StyleSheet, View } from 'react-native';
 import { AskFirst } from '@/ui/confirm-step';
 import { Panel } from '@/ui/panel';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { QueryView } from '@/ui/state-views';
-import { space } from '@/ui/theme';
 import {
   useRangesQuery,
   useResetRangeMutation,
@@ -19,21 +17,19 @@ import { RangeEditor } from './range-editor';
 function ResetAll() {
   const reset = useResetRangesMutation();
   return (
-    <View style={styles.row}>
-      <AskFirst
-        label="Reset all to defaults…"
-        testID="ranges-reset-all"
-        question="Drop every range the clinic set, at every site?"
-        confirmLabel="Yes, reset all"
-        cancelLabel="Cancel"
-        tone="danger"
-        busy={reset.isPending}
-        error={reset.error?.message}
-        onConfirm={() => reset.mutateAsync()}
-      >
-        Each measurement is then shown against the default ranges and their sources.
-      </AskFirst>
-    </View>
+    <AskFirst
+      label="Reset all to defaults…"
+      testID="ranges-reset-all"
+      question="Drop every range the clinic set, at every site?"
+      confirmLabel="Yes, reset all"
+      cancelLabel="Cancel"
+      tone="danger"
+      busy={reset.isPending}
+      error={reset.error?.message}
+      onConfirm={() => reset.mutateAsync()}
+    >
+      Each measurement is then shown against the default ranges and their sources.
+    </AskFirst>
   );
 }
 
@@ -77,7 +73,3 @@ export function SettingsScreen() {
     </ScreenFrame>
   );
 }
-
-const styles = StyleSheet.create({
-  row: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
-});
