@@ -50,4 +50,23 @@ export default tseslint.config(
       ],
     },
   },
+  {
+    // ui/ is the primitives every feature builds on: it never reaches up into a feature or the device's own code
+    // (a feature hands it what it needs, as the role tabs hand ScreenFrame the account bar).
+    files: ['ui/**'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              regex: '^(@/|(\\.\\./)+)(app|features|device)(/|$)',
+              message:
+                'ui/ may not import features/, device/ or app/: pass what it needs in, or move it into ui/.',
+            },
+          ],
+        },
+      ],
+    },
+  },
 );

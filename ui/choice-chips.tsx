@@ -4,21 +4,23 @@ import { AppText } from './app-text';
 
 export type Choice<V extends string> = { value: V; label: string };
 
-/** One choice out of a few, as a row of chips. */
+/** One choice out of a few, as a row of chips; `showLabel` writes the label above them (else it is only read out). */
 export function ChoiceChips<V extends string>({
   choices,
   value,
   onChange,
   testID,
   label,
+  showLabel = false,
 }: {
   choices: readonly Choice<V>[];
   value: V;
   onChange: (value: V) => void;
   testID: string;
   label: string;
+  showLabel?: boolean;
 }) {
-  return (
+  const chips = (
     <View style={styles.row} testID={testID} accessibilityRole="radiogroup" accessibilityLabel={label}>
       {choices.map((c) => {
         const on = c.value === value;
@@ -41,9 +43,19 @@ export function ChoiceChips<V extends string>({
       })}
     </View>
   );
+  if (!showLabel) return chips;
+  return (
+    <View style={styles.labelled}>
+      <AppText variant="smallStrong" color={colors.ink}>
+        {label}
+      </AppText>
+      {chips}
+    </View>
+  );
 }
 
 const styles = StyleSheet.create({
+  labelled: { gap: space.xs },
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
   chip: {
     paddingHorizontal: space.md,

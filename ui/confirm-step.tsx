@@ -1,4 +1,4 @@
-import type { ReactNode } from 'react';
+import { useState, type ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from './app-text';
 import { Button } from './button';
@@ -75,3 +75,35 @@ const styles = StyleSheet.create({
   },
   row: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
 });
+
+type AskFirstProps = Omit<Props, 'onCancel' | 'onConfirm' | 'testID'> & {
+  /** The button that asks: "Refund…". */
+  label: string;
+  variant?: 'secondary' | 'ghost';
+  /** The button's test id; the step's is `${testID}-confirm` (`-confirm-yes`, `-confirm-no`, `-confirm-error`). */
+  testID: string;
+  /** The action; the step closes once a returned promise resolves, and stays (with `error`) when it fails. */
+  onConfirm: () => unknown;
+};
+
+/** A button whose action has consequences: pressed, it gives its place to the ConfirmStep that asks once more. */
+export function AskFirst({ label, variant = 'secondary', testID, onConfirm, ...step }: AskFirstProps) {
+  const [asking, setAsking] = useState(false);
+  if (!asking)
+    return <Button label={label} variant={variant} onPress={() => setAsking(true)} testID={testID} />;
+  return (
+    <ConfirmStep
+      {...step}
+      testID={`${testID}-confirm`}
+      onCancel={() => setAsking(false)}
+      onConfirm={() => {
+        const done = onConfirm();
+        if (done instanceof Promise)
+          done.then(
+            () => setAsking(false),
+            () => undefined,
+          );
+      }}
+    />
+  );
+}

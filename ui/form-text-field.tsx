@@ -1,17 +1,17 @@
 import type { ComponentProps, Ref } from 'react';
 import type { TextInput } from 'react-native';
-import { Controller, type Control, type FieldPath, type FieldValues } from 'react-hook-form';
+import type { FieldValues } from 'react-hook-form';
+import { useFormBinding, type FormBinding } from './form-binding';
 import { TextField } from './text-field';
 
 type Props<T extends FieldValues, TTransformed> = Omit<
   ComponentProps<typeof TextField>,
   'value' | 'onChangeText' | 'onBlur' | 'error' | 'ref'
-> & {
-  control: Control<T, unknown, TTransformed>;
-  name: FieldPath<T>;
-  /** The text input itself, e.g. to move focus to this field from the one before. */
-  ref?: Ref<TextInput>;
-};
+> &
+  FormBinding<T, TTransformed> & {
+    /** The text input itself, e.g. to move focus to this field from the one before. */
+    ref?: Ref<TextInput>;
+  };
 
 /** A text field bound to a react-hook-form field: value, change, blur and the field's error message. */
 export function FormTextField<T extends FieldValues, TTransformed = T>({
@@ -20,20 +20,6 @@ export function FormTextField<T extends FieldValues, TTransformed = T>({
   ref,
   ...fieldProps
 }: Props<T, TTransformed>) {
-  return (
-    <Controller
-      control={control}
-      name={name}
-      render={({ field, fieldState }) => (
-        <TextField
-          {...fieldProps}
-          ref={ref}
-          value={field.value}
-          onChangeText={field.onChange}
-          onBlur={field.onBlur}
-          error={fieldState.error?.message}
-        />
-      )}
-    />
-  );
+  const { onChange, ...bound } = useFormBinding({ control, name });
+  return <TextField {...fieldProps} {...bound} ref={ref} onChangeText={onChange} />;
 }

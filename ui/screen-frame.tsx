@@ -1,12 +1,17 @@
-import type { ReactNode } from 'react';
+import { createContext, useContext, type ReactNode } from 'react';
 import { ScrollView, StyleSheet, View } from 'react-native';
 import { useSafeAreaInsets } from 'react-native-safe-area-context';
-import { SignOutButton } from '@/features/nav/sign-out-button';
 import { colors, space } from './theme';
-import { useAuth } from '@/features/auth/auth-context';
 import { useLayout } from './use-layout';
 import { AppText } from './app-text';
-import { BrandMark } from './icons';
+
+const TopBar = createContext<ReactNode>(null);
+
+/**
+ * What the phone's top bar holds (who is signed in, sign-out), given by the role's navigation: ui/ draws the bar
+ * and knows nothing of accounts.
+ */
+export const ScreenTopBar = TopBar.Provider;
 
 type Props = {
   title: string;
@@ -24,24 +29,11 @@ type Props = {
 export function ScreenFrame({ title, subtitle, testID, children, header }: Props) {
   const { isWide } = useLayout();
   const insets = useSafeAreaInsets();
-  const auth = useAuth();
+  const topBar = useContext(TopBar);
   return (
     <View style={styles.root} testID={testID}>
-      {!isWide ? (
-        <View style={[styles.topBar, { paddingTop: insets.top + space.md }]}>
-          <View style={styles.brand}>
-            <BrandMark size={28} color={colors.ink} accent={colors.accent} />
-            <View>
-              <AppText variant="smallStrong" color={colors.ink} testID="signed-in-name">
-                {auth.user?.name ?? ''}
-              </AppText>
-              <AppText variant="caption" color={colors.textMuted}>
-                Fourpoint
-              </AppText>
-            </View>
-          </View>
-          <SignOutButton />
-        </View>
+      {!isWide && topBar ? (
+        <View style={[styles.topBar, { paddingTop: insets.top + space.md }]}>{topBar}</View>
       ) : null}
       <View style={[styles.heading, isWide && styles.headingWide]}>
         <AppText variant={isWide ? 'display' : 'title'} color={colors.ink} accessibilityRole="header">
@@ -71,7 +63,6 @@ const styles = StyleSheet.create({
     borderBottomColor: colors.line,
     backgroundColor: colors.surface,
   },
-  brand: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
   heading: { paddingHorizontal: space.lg, paddingTop: space.lg, paddingBottom: space.md, gap: space.xs },
   headingWide: { paddingHorizontal: space.xxl, paddingTop: space.xxl, maxWidth: 1160 },
   body: { paddingHorizontal: space.lg, paddingBottom: space.xxl, gap: space.lg },

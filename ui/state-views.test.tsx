@@ -1,6 +1,6 @@
 import { fireEvent, render, screen } from '@testing-library/react-native';
 import { Text } from 'react-native';
-import { QueryView } from './state-views';
+import { PagedQueryView, QueryView } from './state-views';
 
 const base = { isPending: false, isError: false, error: null, data: undefined, refetch: jest.fn() };
 
@@ -39,5 +39,39 @@ describe('a query on screen', () => {
     );
     expect(screen.getByText('3 things')).toBeTruthy();
     expect(screen.queryByTestId('things-loading')).toBeNull();
+  });
+
+  test('when the answer is empty, then the empty state says so in its words instead of the content', () => {
+    render(
+      <QueryView
+        query={{ ...base, data: [] as string[] }}
+        loading="Loading…"
+        testID="mail"
+        empty={{ when: (d) => d.length === 0, title: 'No mail yet', detail: 'Sent mail lands here.' }}
+      >
+        {() => <Text>list</Text>}
+      </QueryView>,
+    );
+    expect(screen.getByTestId('mail-empty')).toHaveTextContent(/No mail yet.*Sent mail lands here\./);
+    expect(screen.queryByText('list')).toBeNull();
+  });
+
+  test('when a page of a list arrives, then its rows show with a pager over the page the server answered', () => {
+    const onPage = jest.fn();
+    const data = { rows: ['a', 'b'], pageInfo: { page: 2, pageSize: 2, total: 5 } };
+    render(
+      <PagedQueryView
+        query={{ ...base, data }}
+        loading="Loading…"
+        testID="rows"
+        empty={{ when: (d) => d.rows.length === 0, title: 'None' }}
+        onPage={onPage}
+      >
+        {(d) => <Text>{d.rows.join(',')}</Text>}
+      </PagedQueryView>,
+    );
+    expect(screen.getByText('a,b')).toBeTruthy();
+    expect(screen.getByTestId('rows-pager-range')).toHaveTextContent('3–4 of 5');
+    expect(screen.queryByTestId('rows-empty')).toBeNull();
   });
 });

@@ -3,6 +3,8 @@ import { ActivityIndicator, StyleSheet, View } from 'react-native';
 import { colors, radii, space } from './theme';
 import { AppText } from './app-text';
 import { Button } from './button';
+import { Pager } from './pager';
+import type { PageInfo } from '@/shared/protocol/practice';
 
 export function LoadingState({ label, testID }: { label: string; testID: string }) {
   return (
@@ -60,19 +62,25 @@ type QueryLike<T> = {
   refetch: () => unknown;
 };
 
+/** What an empty answer says: `when` tells an empty answer from one with something to show. */
+export type EmptyWords<T> = { when: (data: T) => boolean; title: string; detail?: string };
+
 /**
- * One query's loading and error states (test ids `${testID}-loading` and `${testID}-error`, with a retry), then
- * `children` with its data: the same ladder on every screen that loads something.
+ * One query's loading and error states (test ids `${testID}-loading` and `${testID}-error`, with a retry), the
+ * empty state when `empty.when` holds (`${testID}-empty`), then `children` with its data: the same ladder on every
+ * screen that loads something.
  */
 export function QueryView<T>({
   query,
   loading,
   testID,
+  empty,
   children,
 }: {
   query: QueryLike<T>;
   loading: string;
   testID: string;
+  empty?: EmptyWords<T>;
   children: (data: T) => ReactNode;
 }) {
   if (query.isPending) return <LoadingState label={loading} testID={`${testID}-loading`} />;
@@ -85,7 +93,44 @@ export function QueryView<T>({
       />
     );
   }
-  return <>{children(query.data as T)}</>;
+  const data = query.data as T;
+  if (empty?.when(data))
+    return <EmptyState title={empty.title} detail={empty.detail} testID={`${testID}-empty`} />;
+  return <>{children(data)}</>;
+}
+
+/**
+ * One page of a longer list: QueryView's states, then the page's rows and a Pager under them (`${testID}-pager`)
+ * that moves by the page the server says it answered.
+ */
+export function PagedQueryView<T extends { pageInfo: PageInfo }>({
+  onPage,
+  children,
+  ...view
+}: {
+  query: QueryLike<T>;
+  loading: string;
+  testID: string;
+  empty: EmptyWords<T>;
+  onPage: (page: number) => void;
+  children: (data: T) => ReactNode;
+}) {
+  return (
+    <QueryView {...view}>
+      {(data) => (
+        <>
+          {children(data)}
+          <Pager
+            page={data.pageInfo.page}
+            pageSize={data.pageInfo.pageSize}
+            total={data.pageInfo.total}
+            onPage={onPage}
+            testID={`${view.testID}-pager`}
+          />
+        </>
+      )}
+    </QueryView>
+  );
 }
 
 const styles = StyleSheet.create({

@@ -89,55 +89,27 @@ export function useUnsentSummary(enabled: boolean) {
   return useQuery({ ...localQuery, queryKey: localKeys.unsent, queryFn: unsentSummary, enabled });
 }
 
-function useInvalidateLocal() {
+/**
+ * A change to the phone's own store: it runs offline as well (the network plays no part) and then every local
+ * query reads again.
+ */
+function useLocalMutation<TInput, TResult>(change: (input: TInput) => Promise<TResult>) {
   const queryClient = useQueryClient();
-  return () => queryClient.invalidateQueries({ queryKey: localKeys.root });
-}
-
-export function useAddClient() {
-  const invalidate = useInvalidateLocal();
   return useMutation({
     networkMode: 'always',
-    mutationFn: (input: NewClient) => addClient(input),
-    onSuccess: invalidate,
+    mutationFn: change,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: localKeys.root }),
   });
 }
 
-export function useRecordConsent() {
-  const invalidate = useInvalidateLocal();
-  return useMutation({
-    networkMode: 'always',
-    mutationFn: (input: NewConsent) => recordConsent(input),
-    onSuccess: invalidate,
-  });
-}
-
-export function useStartSession() {
-  const invalidate = useInvalidateLocal();
-  return useMutation({
-    networkMode: 'always',
-    mutationFn: (input: { clientId: string; consentId: string; clipSeconds?: number }) => startSession(input),
-    onSuccess: invalidate,
-  });
-}
-
-export function useDiscardSession() {
-  const invalidate = useInvalidateLocal();
-  return useMutation({
-    networkMode: 'always',
-    mutationFn: (sessionId: string) => discardSession(sessionId),
-    onSuccess: invalidate,
-  });
-}
-
-export function useFinishSession() {
-  const invalidate = useInvalidateLocal();
-  return useMutation({
-    networkMode: 'always',
-    mutationFn: (sessionId: string) => finishSession(sessionId),
-    onSuccess: invalidate,
-  });
-}
+export const useAddClient = () => useLocalMutation((input: NewClient) => addClient(input));
+export const useRecordConsent = () => useLocalMutation((input: NewConsent) => recordConsent(input));
+export const useStartSession = () =>
+  useLocalMutation((input: { clientId: string; consentId: string; clipSeconds?: number }) =>
+    startSession(input),
+  );
+export const useDiscardSession = () => useLocalMutation((sessionId: string) => discardSession(sessionId));
+export const useFinishSession = () => useLocalMutation((sessionId: string) => finishSession(sessionId));
 
 /**
  * Fetches the clinic's sealing key while online, so sessions finished offline can still be sealed. Offline the

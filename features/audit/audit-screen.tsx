@@ -1,12 +1,9 @@
 import { useState } from 'react';
-import { StyleSheet, View } from 'react-native';
-import { AppText } from '@/ui/app-text';
+import { View } from 'react-native';
 import { ChoiceChips } from '@/ui/choice-chips';
-import { Pager } from '@/ui/pager';
 import { Panel } from '@/ui/panel';
 import { ScreenFrame } from '@/ui/screen-frame';
-import { EmptyState, QueryView } from '@/ui/state-views';
-import { colors, space } from '@/ui/theme';
+import { PagedQueryView } from '@/ui/state-views';
 import { useSettingsQuery } from '@/features/settings/api';
 import { useTeamQuery } from '@/features/team/api';
 import { useAuditQuery } from './api';
@@ -35,32 +32,25 @@ export function AuditScreen() {
   });
 
   const body = (
-    <QueryView query={log} loading="Loading the audit log…" testID="audit">
-      {(data) =>
-        data.events.length === 0 ? (
-          <EmptyState
-            title="No events match"
-            detail="Widen the dates or clear the filters."
-            testID="audit-empty"
-          />
-        ) : (
-          <>
-            <View testID="audit-table">
-              {data.events.map((e) => (
-                <AuditEventItem key={e.id} event={e} currency={settings.data?.currency ?? null} />
-              ))}
-            </View>
-            <Pager
-              page={page}
-              pageSize={pageSize}
-              total={data.pageInfo.total}
-              onPage={setPage}
-              testID="audit-pager"
-            />
-          </>
-        )
-      }
-    </QueryView>
+    <PagedQueryView
+      query={log}
+      loading="Loading the audit log…"
+      testID="audit"
+      empty={{
+        when: (data) => data.events.length === 0,
+        title: 'No events match',
+        detail: 'Widen the dates or clear the filters.',
+      }}
+      onPage={setPage}
+    >
+      {(data) => (
+        <View testID="audit-table">
+          {data.events.map((e) => (
+            <AuditEventItem key={e.id} event={e} currency={settings.data?.currency ?? null} />
+          ))}
+        </View>
+      )}
+    </PagedQueryView>
   );
 
   return (
@@ -70,39 +60,31 @@ export function AuditScreen() {
       testID="audit-screen"
     >
       <Panel title="Filter">
-        <View style={styles.group}>
-          <AppText variant="smallStrong" color={colors.ink}>
-            Kind
-          </AppText>
-          <ChoiceChips
-            label="Kind"
-            testID="audit-action"
-            value={action}
-            onChange={(a) => {
-              setAction(a);
-              setPage(1);
-            }}
-            choices={[{ value: 'all', label: 'Everything' }, ...auditKinds]}
-          />
-        </View>
-        <View style={styles.group}>
-          <AppText variant="smallStrong" color={colors.ink}>
-            Who
-          </AppText>
-          <ChoiceChips
-            label="Who"
-            testID="audit-user"
-            value={userId}
-            onChange={(u) => {
-              setUserId(u);
-              setPage(1);
-            }}
-            choices={[
-              { value: 'all', label: 'Anyone' },
-              ...(team.data?.users ?? []).map((u) => ({ value: u.id, label: u.name })),
-            ]}
-          />
-        </View>
+        <ChoiceChips
+          label="Kind"
+          showLabel
+          testID="audit-action"
+          value={action}
+          onChange={(a) => {
+            setAction(a);
+            setPage(1);
+          }}
+          choices={[{ value: 'all', label: 'Everything' }, ...auditKinds]}
+        />
+        <ChoiceChips
+          label="Who"
+          showLabel
+          testID="audit-user"
+          value={userId}
+          onChange={(u) => {
+            setUserId(u);
+            setPage(1);
+          }}
+          choices={[
+            { value: 'all', label: 'Anyone' },
+            ...(team.data?.users ?? []).map((u) => ({ value: u.id, label: u.name })),
+          ]}
+        />
         <AuditFilters
           onApply={(values) => {
             setFilter(values);
@@ -114,5 +96,3 @@ export function AuditScreen() {
     </ScreenFrame>
   );
 }
-
-const styles = StyleSheet.create({ group: { gap: space.xs } });

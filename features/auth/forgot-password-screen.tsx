@@ -2,7 +2,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { Link } from 'expo-router';
 import { useForm } from 'react-hook-form';
 import { AppText } from '@/ui/app-text';
-import { Button } from '@/ui/button';
+import { failureOf, SubmitButton } from '@/ui/submit-button';
 import { FormTextField } from '@/ui/form-text-field';
 import { colors } from '@/ui/theme';
 import { useRequestPasswordResetMutation } from './api';
@@ -39,17 +39,13 @@ export function ForgotPasswordScreen() {
             autoCapitalize="none"
             autoComplete="email"
           />
-          <Button
+          <SubmitButton
             label="Send the link"
             busy={ask.isPending}
             testID="forgot-password-submit"
             onPress={() => void form.handleSubmit((values) => ask.mutate(values))()}
+            outcome={failureOf(ask)}
           />
-          {ask.isError ? (
-            <AppText color={colors.danger} testID="forgot-password-error">
-              {ask.error.message}
-            </AppText>
-          ) : null}
         </>
       )}
       <Link href="/sign-in" testID="forgot-password-to-sign-in">

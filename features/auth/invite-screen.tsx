@@ -4,6 +4,7 @@ import { useEffect, useMemo } from 'react';
 import { useForm } from 'react-hook-form';
 import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
+import { failureOf, SubmitButton } from '@/ui/submit-button';
 import { ErrorState, LoadingState } from '@/ui/state-views';
 import { FormTextField } from '@/ui/form-text-field';
 import { colors } from '@/ui/theme';
@@ -102,17 +103,13 @@ export function InviteScreen() {
             testID="invite-accept-password"
             secureTextEntry
           />
-          <Button
-            label={accept.isPending ? 'Setting up…' : 'Set password'}
-            disabled={accept.isPending}
+          <SubmitButton
+            label="Set password"
+            busy={accept.isPending}
             testID="invite-accept"
             onPress={() => void form.handleSubmit((v) => accept.mutate(v))()}
+            outcome={failureOf(accept)}
           />
-          {accept.isError ? (
-            <AppText color={colors.danger} testID="invite-accept-error">
-              {accept.error.message}
-            </AppText>
-          ) : null}
         </>
       )}
     </PublicCard>

@@ -4,7 +4,7 @@ import { useMemo } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
 import { AppText } from '@/ui/app-text';
-import { Button } from '@/ui/button';
+import { failureOf, SubmitButton } from '@/ui/submit-button';
 import { FormTextField } from '@/ui/form-text-field';
 import { ErrorState, LoadingState } from '@/ui/state-views';
 import { colors } from '@/ui/theme';
@@ -90,17 +90,13 @@ export function ResetPasswordScreen() {
           secureTextEntry
           autoComplete="new-password"
         />
-        <Button
+        <SubmitButton
           label="Set the new password"
           busy={complete.isPending}
           testID="reset-submit"
           onPress={() => void form.handleSubmit((values) => complete.mutate(values))()}
+          outcome={failureOf(complete)}
         />
-        {complete.isError ? (
-          <AppText color={colors.danger} testID="reset-error">
-            {complete.error.message}
-          </AppText>
-        ) : null}
       </>
     );
   return <PublicCard testID="reset-password-screen">{body}</PublicCard>;

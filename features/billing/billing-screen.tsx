@@ -2,14 +2,13 @@ import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
-import { Button } from '@/ui/button';
+import { AskFirst } from '@/ui/confirm-step';
 import { ChoiceChips } from '@/ui/choice-chips';
 import { Cell, DataTable, type Column } from '@/ui/data-table';
 import { formatDate, formatTime } from '@/ui/format';
-import { Pager } from '@/ui/pager';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { SearchField } from '@/ui/search-field';
-import { EmptyState, QueryView } from '@/ui/state-views';
+import { PagedQueryView } from '@/ui/state-views';
 import { paymentStatusWords } from '@/ui/status-words';
 import { colors, space } from '@/ui/theme';
 import { usePaymentsQuery, useRefundMutation } from './api';
@@ -32,44 +31,21 @@ const filters: { value: StatusFilter; label: string }[] = [
 
 function RefundAction({ payment }: { payment: Payment }) {
   const refund = useRefundMutation();
-  const [asking, setAsking] = useState(false);
   if (payment.status !== 'paid') return null;
-  if (!asking) {
-    return (
-      <Button
-        label="Refund…"
-        variant="secondary"
-        onPress={() => setAsking(true)}
-        testID={`payment-refund-${payment.id}`}
-      />
-    );
-  }
   return (
-    <View style={styles.confirm}>
-      <AppText variant="small" color={colors.text}>
-        Refund {formatMoney(payment.amountCents, payment.currency)}?
-      </AppText>
-      <View style={styles.confirmButtons}>
-        <Button
-          label="Yes, refund"
-          variant="danger"
-          onPress={() => refund.mutate(payment.id)}
-          busy={refund.isPending}
-          testID={`payment-refund-confirm-${payment.id}`}
-        />
-        <Button
-          label="No"
-          variant="ghost"
-          onPress={() => setAsking(false)}
-          testID={`payment-refund-cancel-${payment.id}`}
-        />
-      </View>
-      {refund.isError ? (
-        <AppText variant="small" color={colors.danger} testID={`payment-refund-error-${payment.id}`}>
-          {refund.error.message}
-        </AppText>
-      ) : null}
-    </View>
+    <AskFirst
+      label="Refund…"
+      testID={`payment-refund-${payment.id}`}
+      question={`Refund ${formatMoney(payment.amountCents, payment.currency)}?`}
+      confirmLabel="Yes, refund"
+      cancelLabel="No"
+      tone="danger"
+      busy={refund.isPending}
+      error={refund.error?.message}
+      onConfirm={() => refund.mutateAsync(payment.id)}
+    >
+      The amount goes back to the client through the payment provider.
+    </AskFirst>
   );
 }
 
@@ -146,39 +122,29 @@ export function BillingScreen() {
   });
 
   const list = (
-    <QueryView query={payments} loading="Loading payments…" testID="payments">
-      {(data) =>
-        data.payments.length === 0 ? (
-          <EmptyState
-            title={status === 'all' && !q ? 'No payments yet' : 'No payment matches'}
-            detail={
-              status === 'all' && !q
-                ? 'Payments you create appear here with their state.'
-                : 'Change the filter or the search.'
-            }
-            testID="payments-empty"
-          />
-        ) : (
-          <>
-            <DataTable
-              rows={data.payments}
-              columns={columns}
-              rowKey={(p) => p.id}
-              rowTestID={(p) => `payment-row-${p.id}`}
-              wide={isWide}
-              testID="payments-table"
-            />
-            <Pager
-              page={page}
-              pageSize={pageSize}
-              total={data.pageInfo.total}
-              onPage={setPage}
-              testID="payments-pager"
-            />
-          </>
-        )
-      }
-    </QueryView>
+    <PagedQueryView
+      query={payments}
+      loading="Loading payments…"
+      testID="payments"
+      empty={{
+        when: (data) => data.payments.length === 0,
+        ...(status === 'all' && !q
+          ? { title: 'No payments yet', detail: 'Payments you create appear here with their state.' }
+          : { title: 'No payment matches', detail: 'Change the filter or the search.' }),
+      }}
+      onPage={setPage}
+    >
+      {(data) => (
+        <DataTable
+          rows={data.payments}
+          columns={columns}
+          rowKey={(p) => p.id}
+          rowTestID={(p) => `payment-row-${p.id}`}
+          wide={isWide}
+          testID="payments-table"
+        />
+      )}
+    </PagedQueryView>
   );
 
   return (

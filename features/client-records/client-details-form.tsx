@@ -5,6 +5,7 @@ import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
+import { SubmitButton } from '@/ui/submit-button';
 import { FormDateField } from '@/ui/form-date-field';
 import { FormTextField } from '@/ui/form-text-field';
 import { displayTimeZone } from '@/ui/format';
@@ -197,24 +198,15 @@ export function ClientDetailsForm({ client, onSave, onReload }: Props) {
           </View>
         </View>
       ) : null}
-      <View style={styles.buttons}>
-        <Button
-          label="Save details"
-          onPress={() => void submit()}
-          busy={form.formState.isSubmitting}
-          disabled={stale}
-          testID="client-save"
-        />
-        {message ? (
-          <AppText
-            variant="small"
-            color={message.error ? colors.danger : colors.pulse}
-            testID={message.error ? 'client-save-error' : 'client-save-ok'}
-          >
-            {message.text}
-          </AppText>
-        ) : null}
-      </View>
+      <SubmitButton
+        inline
+        label="Save details"
+        onPress={() => void submit()}
+        busy={form.formState.isSubmitting}
+        disabled={stale}
+        testID="client-save"
+        outcome={message}
+      />
     </Panel>
   );
 }

@@ -16,12 +16,23 @@ type Consent = ClientRecord['consents'][number];
 const visitColumns: readonly Column<Visit>[] = [
   {
     key: 'when',
-    title: 'When',
+    title: 'Visit',
+    flex: 1.4,
     render: (v) => <Cell strong>{formatDateTime(v.startedAt)}</Cell>,
   },
   { key: 'status', title: 'Status', render: (v) => <Badge {...visitStatusLook(v.status)} /> },
   { key: 'operator', title: 'Recorded by', render: (v) => <Cell>{v.operatorName ?? '—'}</Cell> },
-  { key: 'sites', title: 'Sites', flex: 0.6, render: (v) => <Cell figures>{v.sitesRecorded} / 4</Cell> },
+  { key: 'sites', title: 'Sites recorded', render: (v) => <Cell figures>{v.sitesRecorded} of 4</Cell> },
+  {
+    key: 'follow',
+    title: 'Follow-up',
+    render: (v) => <Cell muted={!v.followUpDate}>{formatDate(v.followUpDate)}</Cell>,
+  },
+];
+
+// What the practice side adds: which consent each visit was recorded under and how it was paid.
+const practiceColumns: readonly Column<Visit>[] = [
+  ...visitColumns.slice(0, 4),
   {
     key: 'consent',
     title: 'Consent signed',
@@ -32,24 +43,41 @@ const visitColumns: readonly Column<Visit>[] = [
     title: 'Paid',
     render: (v) => (v.paidFromPackage ? <Badge label="from package" tone="good" /> : <Cell muted>—</Cell>),
   },
-  { key: 'follow', title: 'Follow-up', render: (v) => <Cell>{formatDate(v.followUpDate)}</Cell> },
+  ...visitColumns.slice(4),
 ];
 
-export function VisitHistory({ visits, wide }: { visits: Visit[]; wide: boolean }) {
+/**
+ * A client's visits, newest first: the practitioner opens one to review it (`onOpen`); the admin's record adds
+ * the consent and payment of each (`practice`).
+ */
+export function VisitHistory({
+  visits,
+  wide,
+  detail,
+  practice = false,
+  onOpen,
+}: {
+  visits: Visit[];
+  wide: boolean;
+  detail: string;
+  practice?: boolean;
+  onOpen?: (visit: Visit) => void;
+}) {
   return (
-    <Panel title="Visits" detail="Every recorded session, newest first." testID="client-visits">
+    <Panel title="Visits" detail={detail} testID="client-visit-list">
       {visits.length === 0 ? (
-        <AppText color={colors.textMuted} testID="client-visits-empty">
+        <AppText color={colors.textMuted} testID="client-visit-list-empty">
           No visits recorded yet.
         </AppText>
       ) : (
         <DataTable
           rows={visits}
-          columns={visitColumns}
+          columns={practice ? practiceColumns : visitColumns}
           rowKey={(v) => v.sessionId}
           rowTestID={(v) => `client-visit-${v.sessionId}`}
           wide={wide}
-          testID="client-visits-table"
+          testID="client-visit-table"
+          onRowPress={onOpen}
         />
       )}
     </Panel>

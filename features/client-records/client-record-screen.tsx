@@ -142,7 +142,7 @@ export function ClientRecordScreen() {
           <PackageList packages={packages} />
         </View>
       </View>
-      <VisitHistory visits={visits} wide={isWide} />
+      <VisitHistory visits={visits} wide={isWide} detail="Every recorded session, newest first." practice />
       <ErasePanel
         fullName={fullName}
         onErase={(typed) => erase.mutateAsync(typed)}

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
+import { Card } from '@/ui/card';
 import { Button } from '@/ui/button';
 import { TextField } from '@/ui/text-field';
 import { colors, radii, space } from '@/ui/theme';
@@ -63,7 +64,7 @@ export function ResolveForm({ differing, onSubmit, wide, busy = false, serverErr
   };
 
   return (
-    <View style={styles.box} testID="resolve-form">
+    <Card testID="resolve-form">
       <AppText variant="heading" color={colors.ink}>
         Resolve
       </AppText>
@@ -147,19 +148,11 @@ export function ResolveForm({ differing, onSubmit, wide, busy = false, serverErr
           {serverError}
         </AppText>
       ) : null}
-    </View>
+    </Card>
   );
 }
 
 const styles = StyleSheet.create({
-  box: {
-    backgroundColor: colors.surface,
-    borderRadius: radii.md,
-    borderWidth: 1,
-    borderColor: colors.line,
-    padding: space.lg,
-    gap: space.md,
-  },
   choices: { gap: space.sm },
   choicesWide: { flexDirection: 'row' },
   choice: {

@@ -7,7 +7,7 @@ import { ClippedText } from '@/ui/clipped-text';
 import { Cell, DataTable, type Column } from '@/ui/data-table';
 import { formatDate } from '@/ui/format';
 import { ScreenFrame } from '@/ui/screen-frame';
-import { EmptyState, ErrorState, LoadingState } from '@/ui/state-views';
+import { QueryView } from '@/ui/state-views';
 import { colors, space } from '@/ui/theme';
 import { useLayout } from '@/ui/use-layout';
 import { useFollowUpsDueQuery } from '@/features/home/api';
@@ -58,37 +58,35 @@ export function FollowUpsScreen() {
   const [within, setWithin] = useState<Window>('14');
   const due = useFollowUpsDueQuery(Number(within));
 
-  let body;
-  if (due.isPending) body = <LoadingState label="Loading follow-ups…" testID="follow-ups-loading" />;
-  else if (due.isError)
-    body = (
-      <ErrorState message={due.error.message} onRetry={() => void due.refetch()} testID="follow-ups-error" />
-    );
-  else if (due.data.length === 0)
-    body = (
-      <EmptyState
-        title="Nobody due"
-        detail="No follow-up has passed or falls in this period. Follow-up dates are set in a visit's plan."
-        testID="follow-ups-empty"
-      />
-    );
-  else
-    body = (
-      <DataTable
-        rows={[...due.data].sort((a, b) => a.daysUntil - b.daysUntil)}
-        columns={columns}
-        rowKey={(d) => d.clientId}
-        rowTestID={(d) => `follow-ups-row-${d.clientId}`}
-        wide={isWide}
-        testID="follow-ups-table"
-        onRowPress={(d) =>
-          router.push({
-            pathname: '/review-clients/[clientId]',
-            params: { clientId: d.clientId, from: 'follow-ups' },
-          })
-        }
-      />
-    );
+  const body = (
+    <QueryView
+      query={due}
+      loading="Loading follow-ups…"
+      testID="follow-ups"
+      empty={{
+        when: (rows) => rows.length === 0,
+        title: 'Nobody due',
+        detail: "No follow-up has passed or falls in this period. Follow-up dates are set in a visit's plan.",
+      }}
+    >
+      {(rows) => (
+        <DataTable
+          rows={[...rows].sort((a, b) => a.daysUntil - b.daysUntil)}
+          columns={columns}
+          rowKey={(d) => d.clientId}
+          rowTestID={(d) => `follow-ups-row-${d.clientId}`}
+          wide={isWide}
+          testID="follow-ups-table"
+          onRowPress={(d) =>
+            router.push({
+              pathname: '/review-clients/[clientId]',
+              params: { clientId: d.clientId, from: 'follow-ups' },
+            })
+          }
+        />
+      )}
+    </QueryView>
+  );
 
   return (
     <ScreenFrame

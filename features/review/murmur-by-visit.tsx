@@ -1,8 +1,9 @@
 import { StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
+import { Card } from '@/ui/card';
 import { Badge } from '@/ui/badge';
 import { formatDate } from '@/ui/format';
-import { colors, radii, space } from '@/ui/theme';
+import { colors, space } from '@/ui/theme';
 import type { TrendMurmur } from '@/shared/protocol/review';
 import { murmurWords } from './review-words';
 
@@ -10,7 +11,7 @@ import { murmurWords } from './review-words';
 export function MurmurByVisit({ screens }: { screens: TrendMurmur[] }) {
   if (screens.length === 0) return null;
   return (
-    <View style={styles.card} testID="trends-murmur">
+    <Card compact style={styles.tight} testID="trends-murmur">
       <AppText variant="smallStrong" color={colors.ink}>
         Murmur screen at each visit
       </AppText>
@@ -25,19 +26,12 @@ export function MurmurByVisit({ screens }: { screens: TrendMurmur[] }) {
           </View>
         );
       })}
-    </View>
+    </Card>
   );
 }
 
 const styles = StyleSheet.create({
-  card: {
-    backgroundColor: colors.surface,
-    borderWidth: 1,
-    borderColor: colors.line,
-    borderRadius: radii.md,
-    padding: space.md,
-    gap: space.xs,
-  },
+  tight: { gap: space.xs },
   row: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
   date: { minWidth: 96 },
 });

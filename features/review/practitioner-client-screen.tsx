@@ -1,48 +1,16 @@
 import { useLocalSearchParams, useRouter } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
-import { AppText } from '@/ui/app-text';
 import { Badge } from '@/ui/badge';
 import { Button } from '@/ui/button';
-import { Cell, DataTable, type Column } from '@/ui/data-table';
-import { formatDate, formatTime } from '@/ui/format';
-import { Panel } from '@/ui/panel';
+import { formatDate } from '@/ui/format';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { ErrorState, LoadingState } from '@/ui/state-views';
-import { colors, space } from '@/ui/theme';
+import { space } from '@/ui/theme';
 import { useLayout } from '@/ui/use-layout';
 import { useClientRecordQuery } from '@/features/client-records/api';
-import type { SessionStatus } from '@/shared/protocol';
-import type { ClientRecord } from '@/shared/protocol/practice';
+import { VisitHistory } from '@/features/client-records/client-history';
 import { backTarget } from './back-target';
 import { clientName } from './practitioner-clients-screen';
-import { statusLabels } from './session-labels';
-
-type Visit = ClientRecord['visits'][number];
-
-function statusOf(visit: Visit) {
-  return statusLabels[visit.status as SessionStatus] ?? { label: visit.status, tone: 'neutral' as const };
-}
-
-const visitColumns: readonly Column<Visit>[] = [
-  {
-    key: 'when',
-    title: 'Visit',
-    flex: 1.4,
-    render: (v) => (
-      <Cell strong>
-        {formatDate(v.startedAt)} {formatTime(v.startedAt)}
-      </Cell>
-    ),
-  },
-  { key: 'status', title: 'Status', render: (v) => <Badge {...statusOf(v)} /> },
-  { key: 'operator', title: 'Recorded by', render: (v) => <Cell>{v.operatorName ?? '—'}</Cell> },
-  { key: 'sites', title: 'Sites recorded', render: (v) => <Cell figures>{v.sitesRecorded} of 4</Cell> },
-  {
-    key: 'follow',
-    title: 'Follow-up',
-    render: (v) => <Cell muted={!v.followUpDate}>{formatDate(v.followUpDate)}</Cell>,
-  },
-];
 
 /** One client for the practitioner: their details, every visit (open one to review it) and their trends. */
 export function PractitionerClientScreen() {
@@ -107,25 +75,12 @@ export function PractitionerClientScreen() {
         </View>
       }
     >
-      <Panel title="Visits" detail="Newest first. Open a visit to review it." testID="client-visit-list">
-        {visits.length === 0 ? (
-          <AppText color={colors.textMuted} testID="client-visit-list-empty">
-            No visits recorded yet.
-          </AppText>
-        ) : (
-          <DataTable
-            rows={visits}
-            columns={visitColumns}
-            rowKey={(v) => v.sessionId}
-            rowTestID={(v) => `client-visit-${v.sessionId}`}
-            wide={isWide}
-            testID="client-visit-table"
-            onRowPress={(v) =>
-              router.push({ pathname: '/sessions/[sessionId]', params: { sessionId: v.sessionId } })
-            }
-          />
-        )}
-      </Panel>
+      <VisitHistory
+        visits={visits}
+        wide={isWide}
+        detail="Newest first. Open a visit to review it."
+        onOpen={(v) => router.push({ pathname: '/sessions/[sessionId]', params: { sessionId: v.sessionId } })}
+      />
     </ScreenFrame>
   );
 }

@@ -8,7 +8,7 @@ import { colors, fonts, radii, space } from '@/ui/theme';
 import { useDebouncedValue } from '@/ui/use-debounced-value';
 import type { QualityVerdict, SessionStatus } from '@/shared/protocol';
 import type { SessionFilters } from './api';
-import { statusLabels } from './session-labels';
+import { visitStatusWords } from '@/ui/status-words';
 
 const dateOk = (v: string) => v === '' || /^\d{4}-\d{2}-\d{2}$/.test(v);
 
@@ -113,7 +113,7 @@ export function SessionFiltersBar({ state, wide }: { state: SessionFilterState; 
             {(['completed', 'reviewed', 'in_progress', 'cancelled'] as const).map((s) => (
               <Chip
                 key={s}
-                label={statusLabels[s].label}
+                label={visitStatusWords[s].label}
                 on={status === s}
                 onPress={() => setStatus(status === s ? undefined : s)}
                 testID={`filter-status-${s}`}

@@ -1,10 +1,6 @@
 import type { BadgeTone } from '@/ui/badge';
 import { verdictWords } from '@/ui/verdicts';
 import type { SiteVerdict } from '@/shared/protocol';
-import { visitStatusWords } from '@/ui/status-words';
-
-/** The visit's state in the words every role reads (ui/status-words.ts). */
-export const statusLabels = visitStatusWords;
 
 export function siteVerdictLook(v: SiteVerdict): { label: string; tone: BadgeTone } {
   // Quality of the recording only (ui/verdicts.ts); never a finding about the client.

@@ -9,7 +9,7 @@ import { formatDateTime } from '@/ui/format';
 import { colors, space } from '@/ui/theme';
 import { referToClinician } from '@/shared/cautions';
 import type { ReviewSessionRow, ReviewSort } from '@/shared/protocol/review';
-import { statusLabels } from './session-labels';
+import { visitStatusWords } from '@/ui/status-words';
 import { SiteChips } from './site-chips';
 
 type Named = { id: string; name: string };
@@ -88,7 +88,9 @@ function columns(onClient: Props['onClient'], onOperator: Props['onOperator']): 
       title: 'Status',
       flex: 1.2,
       sortKey: 'status',
-      render: (s) => <Badge label={statusLabels[s.status].label} tone={statusLabels[s.status].tone} />,
+      render: (s) => (
+        <Badge label={visitStatusWords[s.status].label} tone={visitStatusWords[s.status].tone} />
+      ),
     },
     {
       key: 'referral',
@@ -133,7 +135,7 @@ export function SessionsTable({ rows, wide, sort, onSort, onClient, onOperator }
             </AppText>
             <SiteChips verdicts={s.sites} testID={`review-sites-${s.id}`} />
             <View style={styles.badges}>
-              <Badge label={statusLabels[s.status].label} tone={statusLabels[s.status].tone} />
+              <Badge label={visitStatusWords[s.status].label} tone={visitStatusWords[s.status].tone} />
               {s.flagged ? <Badge label={`Flagged: ${referToClinician}`} tone="danger" /> : null}
             </View>
           </Card>

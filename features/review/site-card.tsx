@@ -1,10 +1,11 @@
 import { useEffect, useState } from 'react';
 import { Platform, StyleSheet, View } from 'react-native';
 import { AppText } from '@/ui/app-text';
+import { Card } from '@/ui/card';
 import { Badge } from '@/ui/badge';
 import { Button } from '@/ui/button';
 import { LoadingState } from '@/ui/state-views';
-import { colors, radii, space } from '@/ui/theme';
+import { colors, space } from '@/ui/theme';
 import { useLayout } from '@/ui/use-layout';
 import { referToClinician } from '@/shared/cautions';
 import { siteInfo } from '@/shared/sites';
@@ -32,11 +33,11 @@ export function SiteCard(props: Props) {
   // A skipped site is one line with its reason: nothing was recorded, so there is nothing to measure.
   if (site.skippedReason)
     return (
-      <View style={styles.card} testID={`site-${site.site}`}>
+      <Card compact testID={`site-${site.site}`}>
         <AppText variant="bodyStrong" color={colors.ink} testID={`site-${site.site}-skipped`}>
           {siteInfo(site.site).label}: skipped. {site.skippedReason}
         </AppText>
-      </View>
+      </Card>
     );
   return <RecordedSiteCard {...props} />;
 }
@@ -70,7 +71,7 @@ function RecordedSiteCard({ sessionId, site, playback, compare, sources }: Props
   const besideWide = beside && isWide;
 
   return (
-    <View style={styles.card} testID={tid}>
+    <Card compact testID={tid}>
       <View style={styles.head}>
         <AppText variant="heading" color={colors.ink}>
           {info.label}
@@ -181,19 +182,11 @@ function RecordedSiteCard({ sessionId, site, playback, compare, sources }: Props
         </AppText>
       ) : null}
       <MeasurementsTable measurements={site.measurements} sources={sources} testID={`${tid}-measurements`} />
-    </View>
+    </Card>
   );
 }
 
 const styles = StyleSheet.create({
-  card: {
-    backgroundColor: colors.surface,
-    borderWidth: 1,
-    borderColor: colors.line,
-    borderRadius: radii.md,
-    padding: space.md,
-    gap: space.sm,
-  },
   head: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
   besideRow: { flexDirection: 'row', gap: space.md },
   besideCell: { flex: 1, minWidth: 0 },

@@ -6,6 +6,7 @@ import { Image, StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { AppText } from '@/ui/app-text';
 import { Button } from '@/ui/button';
+import { SubmitButton } from '@/ui/submit-button';
 import { FormTextField } from '@/ui/form-text-field';
 import { isTimeZone } from '@/shared/format/dates';
 import { setDisplayTimeZone } from '@/ui/format';
@@ -210,23 +211,14 @@ export function ClinicForm({
         Records older than the retention period are due for review; follow local rules on how long health
         records must be kept.
       </AppText>
-      <View style={styles.buttons}>
-        <Button
-          label="Save clinic settings"
-          onPress={() => void submit()}
-          busy={form.formState.isSubmitting}
-          testID="settings-save"
-        />
-        {message ? (
-          <AppText
-            variant="small"
-            color={message.error ? colors.danger : colors.pulse}
-            testID={message.error ? 'settings-save-error' : 'settings-save-ok'}
-          >
-            {message.text}
-          </AppText>
-        ) : null}
-      </View>
+      <SubmitButton
+        inline
+        label="Save clinic settings"
+        onPress={() => void submit()}
+        busy={form.formState.isSubmitting}
+        testID="settings-save"
+        outcome={message}
+      />
     </View>
   );
 }

@@ -1,11 +1,7 @@
-import { useState } from 'react';
-import { StyleSheet, View } from 'react-native';
-import { AppText } from '@/ui/app-text';
-import { Button } from '@/ui/button';
+import { AskFirst } from '@/ui/confirm-step';
 import { Panel } from '@/ui/panel';
 import { ScreenFrame } from '@/ui/screen-frame';
 import { QueryView } from '@/ui/state-views';
-import { colors, space } from '@/ui/theme';
 import {
   useRangesQuery,
   useResetRangeMutation,
@@ -20,43 +16,20 @@ import { RangeEditor } from './range-editor';
 
 function ResetAll() {
   const reset = useResetRangesMutation();
-  const [asking, setAsking] = useState(false);
-  if (!asking) {
-    return (
-      <View style={styles.row}>
-        <Button
-          label="Reset all to defaults…"
-          variant="secondary"
-          onPress={() => setAsking(true)}
-          testID="ranges-reset-all"
-        />
-      </View>
-    );
-  }
   return (
-    <View style={styles.row}>
-      <AppText variant="small" color={colors.text}>
-        Drop every range the clinic set, at every site?
-      </AppText>
-      <Button
-        label="Yes, reset all"
-        variant="danger"
-        busy={reset.isPending}
-        onPress={() => reset.mutate(undefined, { onSuccess: () => setAsking(false) })}
-        testID="ranges-reset-all-confirm"
-      />
-      <Button
-        label="Cancel"
-        variant="ghost"
-        onPress={() => setAsking(false)}
-        testID="ranges-reset-all-cancel"
-      />
-      {reset.isError ? (
-        <AppText variant="small" color={colors.danger}>
-          {reset.error.message}
-        </AppText>
-      ) : null}
-    </View>
+    <AskFirst
+      label="Reset all to defaults…"
+      testID="ranges-reset-all"
+      question="Drop every range the clinic set, at every site?"
+      confirmLabel="Yes, reset all"
+      cancelLabel="Cancel"
+      tone="danger"
+      busy={reset.isPending}
+      error={reset.error?.message}
+      onConfirm={() => reset.mutateAsync()}
+    >
+      Each measurement is then shown against the default ranges and their sources.
+    </AskFirst>
   );
 }
 
@@ -100,7 +73,3 @@ export function SettingsScreen() {
     </ScreenFrame>
   );
 }
-
-const styles = StyleSheet.create({
-  row: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
-});

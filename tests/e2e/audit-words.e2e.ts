@@ -86,14 +86,14 @@ test('when the admin drops every clinic range, then it asks first, and No leaves
     await signInAdmin(page);
     await page.goto('/settings');
     await visible(page, 'ranges-reset-all').click();
-    const yes = visible(page, 'ranges-reset-all-confirm');
+    const yes = visible(page, 'ranges-reset-all-confirm-yes');
     await yes.waitFor();
     // The destructive step is the red button, and only after the question.
     expect(await page.getByText('Drop every range the clinic set, at every site?').count()).toBe(1);
     await screenshot(page, 'settings-reset-all-confirm-phone');
-    await visible(page, 'ranges-reset-all-cancel').click();
+    await visible(page, 'ranges-reset-all-confirm-no').click();
     await visible(page, 'ranges-reset-all').waitFor();
-    expect(await page.getByTestId('ranges-reset-all-confirm').count()).toBe(0);
+    expect(await page.getByTestId('ranges-reset-all-confirm-yes').count()).toBe(0);
   } finally {
     await context.close();
   }

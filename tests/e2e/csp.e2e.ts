@@ -84,6 +84,20 @@ async function settle(page: Page): Promise<void> {
   await page.evaluate(() => new Promise((resolve) => requestAnimationFrame(() => setTimeout(resolve, 0))));
 }
 
+/** Opens the app at `size`, runs `steps` and expects no violation of the policy on the way. */
+async function expectNoViolations(size: typeof PHONE, steps: (page: Page) => Promise<void>): Promise<void> {
+  const { context, page } = await newPage(browser(), size);
+  try {
+    const violations = await watchViolations(page);
+    expectPolicyHeader(await page.goto('/'));
+    await steps(page);
+    await settle(page);
+    expect(violations).toEqual([]);
+  } finally {
+    await context.close();
+  }
+}
+
 test('when a script is injected into the page, then the policy refuses it and the watch reports it', async () => {
   const { context, page } = await newPage(browser(), PHONE);
   try {
@@ -109,10 +123,7 @@ test('when a script is injected into the page, then the policy refuses it and th
 });
 
 test('when the operator signs in, starts a session, records a site and plays the take, then nothing breaks the policy', async () => {
-  const { context, page } = await newPage(browser(), PHONE);
-  try {
-    const violations = await watchViolations(page);
-    expectPolicyHeader(await page.goto('/'));
+  await expectNoViolations(PHONE, async (page) => {
     // The service worker is registered by index.html's inline script: this waits for it to control the page.
     await signInOperatorOnline(page);
     // Adding a client writes to expo-sqlite (wasm in its OPFS worker).
@@ -133,18 +144,11 @@ test('when the operator signs in, starts a session, records a site and plays the
     // Served by the service worker now, with the headers it stored.
     expectPolicyHeader(await page.reload());
     await visible(page, 'site-step-mitral').waitFor();
-    await settle(page);
-    expect(violations).toEqual([]);
-  } finally {
-    await context.close();
-  }
+  });
 });
 
 test('when the practitioner opens a session and plays a clip, then nothing breaks the policy', async () => {
-  const { context, page } = await newPage(browser(), WIDE);
-  try {
-    const violations = await watchViolations(page);
-    expectPolicyHeader(await page.goto('/'));
+  await expectNoViolations(WIDE, async (page) => {
     await signIn(page, 'practitioner@demo.fourpoint.test');
     await page.waitForURL((url) => url.pathname === '/sessions');
     await visible(page, 'sessions-table').waitFor();
@@ -159,26 +163,15 @@ test('when the practitioner opens a session and plays a clip, then nothing break
       .first()
       .waitFor({ state: 'attached', timeout: 15_000 });
     await visible(page, 'site-mitral-play').click();
-    await settle(page);
-    expect(violations).toEqual([]);
-  } finally {
-    await context.close();
-  }
+  });
 });
 
 test('when the admin opens the overview, then nothing breaks the policy', async () => {
-  const { context, page } = await newPage(browser(), WIDE);
-  try {
-    const violations = await watchViolations(page);
-    expectPolicyHeader(await page.goto('/'));
+  await expectNoViolations(WIDE, async (page) => {
     await signIn(page, 'admin@demo.fourpoint.test');
     await page.waitForURL((url) => url.pathname === '/admin');
     await visible(page, 'admin-overview').waitFor();
     await visible(page, 'attention').waitFor();
     await visible(page, 'team-list').waitFor();
-    await settle(page);
-    expect(violations).toEqual([]);
-  } finally {
-    await context.close();
-  }
+  });
 });

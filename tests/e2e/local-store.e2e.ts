@@ -84,13 +84,13 @@ describe('the records kept on the device', () => {
     await visible(page, 'site-step-tricuspid').waitFor();
 
     await visible(page, 'discard-session').click();
-    await visible(page, 'discard-confirm').waitFor();
+    await visible(page, 'discard-session-confirm').waitFor();
     await screenshot(page, 'capture-discard-confirm-phone');
-    await visible(page, 'discard-session-cancel').click();
+    await visible(page, 'discard-session-confirm-no').click();
     await visible(page, 'site-step-tricuspid').waitFor();
 
     await visible(page, 'discard-session').click();
-    await visible(page, 'discard-session-confirm').click();
+    await visible(page, 'discard-session-confirm-yes').click();
     await page.waitForURL((url) => url.pathname.startsWith('/clients/'));
     await visible(page, 'client-detail').waitFor();
     await visible(page, 'consent-on-file').waitFor();
