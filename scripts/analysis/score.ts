@@ -41,6 +41,20 @@ function rateInsideAnnotation(result: ReturnType<typeof analysePcm>, segments: S
 }
 import { fitModel, prepare } from './fit-lib';
 
+/**
+ * Why a rate misses the annotation by more than 3 bpm, worst kinds first: half or double the annotated rate (a
+ * sound taken for a beat or a beat lost), the whole clip against the annotated stretch (our beats inside the
+ * stretch agree: the rate changed over a clip the annotation covers only in part), within 6 bpm, or other.
+ */
+function missKind(ours: number | null, truth: number, inside: number | null): string {
+  if (ours === null) return 'no rate';
+  if (Math.abs(ours / truth - 0.5) < 0.06) return 'half';
+  if (Math.abs(ours / truth - 2) < 0.2) return 'double';
+  if (inside !== null && Math.abs(inside - truth) <= 3) return 'whole clip vs annotated stretch';
+  if (Math.abs(ours - truth) <= 6) return 'off by 3-6 bpm';
+  return 'other';
+}
+
 /** The stretch of a recording that the annotation covers (first to last labelled segment). */
 function annotatedSpan(segments: Segment[]): [number, number] {
   const labelled = segments.filter((s) => s.label !== 0);
@@ -108,7 +122,7 @@ function main() {
   let rateWithin3 = 0;
   let insideWithin3 = 0;
   const verdicts: Record<string, number> = {};
-  const rateMisses: string[] = [];
+  const rateMisses: { kind: string; off: number; verdict: string; line: string }[] = [];
   const cue = { ours: 0, annotation: 0, rated: 0, disagreeing: [] as string[] };
   for (let fold = 0; fold < folds; fold++) {
     const held = new Set(patients.filter((_, i) => i % folds === fold));
@@ -140,11 +154,16 @@ function main() {
         if (inside !== null && Math.abs(inside - truth) <= 3) insideWithin3++;
         if (!within) {
           const [from, to] = annotatedSpan(recording.segments);
-          rateMisses.push(
-            `${recording.id}: annotation ${truth.toFixed(1)} bpm over ${from.toFixed(1)}-${to.toFixed(1)} s of ` +
+          const kind = missKind(result.heartRateBpm, truth, inside);
+          rateMisses.push({
+            kind,
+            off: Math.abs((result.heartRateBpm ?? Infinity) - truth),
+            verdict: result.quality.verdict,
+            line:
+              `${recording.id} (${kind}, ${result.quality.verdict}): annotation ${truth.toFixed(1)} bpm over ${from.toFixed(1)}-${to.toFixed(1)} s of ` +
               `${(samples.length / sampleRate).toFixed(1)} s; ours ${result.heartRateBpm?.toFixed(1)} bpm ` +
               `(whole clip), ${inside?.toFixed(1)} bpm (our beats inside the annotated stretch)`,
-          );
+          });
         }
       }
       if (verbose) {
@@ -202,8 +221,22 @@ function main() {
     `clips called good whose rate is more than 10 bpm off the annotation: ${goodOff10}/${goodTotal} (${pct(goodOff10 / goodTotal)})`,
   );
   console.log(`verdicts: ${JSON.stringify(verdicts)}`);
+  const kinds = new Map<string, { all: number; good: number }>();
+  for (const miss of rateMisses) {
+    const count = kinds.get(miss.kind) ?? { all: 0, good: 0 };
+    count.all++;
+    if (miss.verdict === 'good') count.good++;
+    kinds.set(miss.kind, count);
+  }
+  console.log(
+    `heart-rate misses by kind (all, of them called good): ${[...kinds.entries()]
+      .map(([kind, c]) => `${kind} ${c.all} (${c.good})`)
+      .join(', ')}`,
+  );
+  const worst = [...rateMisses].sort((a, b) => b.off - a.off).slice(0, 15);
+  console.log(`worst heart-rate misses:\n  ${worst.map((m) => m.line).join('\n  ')}`);
   if (verbose) {
-    console.log(`heart-rate misses:\n  ${rateMisses.join('\n  ')}`);
+    console.log(`heart-rate misses:\n  ${rateMisses.map((m) => m.line).join('\n  ')}`);
     console.log(
       `S2 higher-pitched than S1 (textbook cue): our labelling ${cue.ours}/${cue.rated}, the annotation's ` +
         `${cue.annotation}/${cue.rated}; they differ on: ${cue.disagreeing.join(', ') || 'none'}`,
