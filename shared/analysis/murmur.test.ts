@@ -78,6 +78,15 @@ describe('visitMurmurScreen', () => {
     expect(visitMurmurScreen([site('unlikely'), site('unsure')])).toBe('unsure');
   });
 
+  test('when two sites are borderline (at or above the pair threshold) and none is possible alone, then the visit is possible; one borderline site is not enough', () => {
+    const scored = (score: number) => ({ screen: { murmur: 'unlikely' as const, score, reasons: [] } });
+    const model = { pairThreshold: 0.4 };
+    expect(visitMurmurScreen([scored(0.45), scored(0.1), scored(0.41), scored(0.2)], model)).toBe('possible');
+    expect(visitMurmurScreen([scored(0.45), scored(0.39), scored(0.1)], model)).toBe('unlikely');
+    // an unsure site scores 0 and never counts as borderline
+    expect(visitMurmurScreen([scored(0.45), site('unsure')], model)).toBe('unsure');
+  });
+
   test('when every site is unlikely, then the visit is unlikely; with no screened site there is no call', () => {
     expect(visitMurmurScreen([site('unlikely'), site('unlikely')])).toBe('unlikely');
     expect(visitMurmurScreen([null, {}])).toBeNull();
