@@ -24,3 +24,25 @@ export const clientCautionText = clientCautionParagraphs.join(' ');
 
 /** What the client reads where the practitioner reads "refer to a licensed clinician". */
 export const pleaseSeeClinician = 'please see a licensed clinician';
+
+/**
+ * A measurement against its range, in words; `outside` is what a figure outside the range asks for (the client's
+ * or the practitioner's wording of the referral).
+ */
+export function rangeStatusWords(
+  status: 'in_range' | 'below' | 'above' | 'no_range' | 'no_value',
+  outside: string,
+): string {
+  switch (status) {
+    case 'in_range':
+      return 'within range';
+    case 'below':
+      return `below range: ${outside}`;
+    case 'above':
+      return `above range: ${outside}`;
+    case 'no_range':
+      return 'no range set';
+    default:
+      return 'not measured';
+  }
+}

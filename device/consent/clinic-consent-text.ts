@@ -11,6 +11,9 @@ import {
 import { request } from '@/api/client';
 
 const storageKey = 'fourpoint.clinic-consent-text';
+/** Every version the clinic has published, by version number: a consent names the row of the version signed. */
+const versionsKey = 'fourpoint.clinic-consent-text-versions';
+const versionIdsSchema = z.record(z.string(), z.uuid());
 export const clinicConsentTextKey = ['clinic-consent-text'] as const;
 
 const cachedConsentTextSchema = z.object({
@@ -35,6 +38,10 @@ export async function readCachedConsentText(): Promise<CachedConsentText | null>
 export async function refreshClinicConsentText(): Promise<CachedConsentText | null> {
   const result = await request({ method: 'get', url: '/consent-texts' }, consentTextListResponseSchema);
   if (result.kind === 'ok') {
+    await AsyncStorage.setItem(
+      versionsKey,
+      JSON.stringify(Object.fromEntries(result.data.texts.map((t) => [String(t.version), t.id]))),
+    );
     const current = result.data.texts.find((t) => t.isCurrent);
     if (current) {
       const kept: CachedConsentText = {
@@ -48,6 +55,18 @@ export async function refreshClinicConsentText(): Promise<CachedConsentText | nu
     }
   }
   return readCachedConsentText();
+}
+
+/**
+ * The clinic's row id of each consent wording version this device has fetched, keyed by version. Before any
+ * list was kept (an older install) it holds the one current text kept.
+ */
+export async function readConsentTextIds(): Promise<Record<string, string>> {
+  const raw = await AsyncStorage.getItem(versionsKey);
+  const parsed = raw ? versionIdsSchema.safeParse(JSON.parse(raw)) : null;
+  if (parsed?.success) return parsed.data;
+  const current = await readCachedConsentText();
+  return current ? { [String(current.version)]: current.id } : {};
 }
 
 export function toShownConsentText(cached: CachedConsentText | null): ShownConsentText {

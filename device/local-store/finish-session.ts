@@ -1,7 +1,6 @@
 import { v4 as uuid } from 'uuid';
 import { siteInfo } from '@/shared/sites';
-import { consentTextId as builtInConsentTextId } from '@/shared/consent/consent-text';
-import { readCachedConsentText } from '@/device/consent/clinic-consent-text';
+import { readConsentTextIds } from '@/device/consent/clinic-consent-text';
 import type { Mutation, SyncEntity } from '@/shared/protocol/sync';
 import { sealClip, sha256Hex } from '@/shared/seal';
 import type { Site } from '@/shared/protocol';
@@ -16,6 +15,15 @@ export class MissingClinicKeyError extends Error {
       'This device has not yet received the clinic’s sealing key, so the clips cannot be sealed. Connect to the clinic network once (open the outbox), then finish again; the recordings stay saved here.',
     );
     this.name = 'MissingClinicKeyError';
+  }
+}
+
+export class MissingConsentWordingError extends Error {
+  constructor() {
+    super(
+      'This device has not yet received the clinic’s consent wording, so the consent cannot be sent. Connect to the clinic network once (open the outbox), then finish again; the recordings stay saved here.',
+    );
+    this.name = 'MissingConsentWordingError';
   }
 }
 
@@ -59,7 +67,7 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
   });
   const stamp = now.toISOString();
   // Read before the transaction: the consent row names the clinic's published text of the version signed.
-  const clinicConsentText = await readCachedConsentText();
+  const consentTextIds = await readConsentTextIds();
 
   await transaction(async (db) => {
     const session = await db.getFirstAsync<{
@@ -157,16 +165,15 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
     }>('SELECT * FROM consents WHERE id = ?', session.consent_id);
     // A consent with a version came from the clinic server: it is there already.
     if (consent && consent.version === 0 && !(await alreadyQueued('consents', session.consent_id))) {
+      const consentTextId = consentTextIds[consent.text_version];
+      if (!consentTextId) throw new MissingConsentWordingError();
       await queue(
         'consents',
         session.consent_id,
         0,
         {
           clientId: consent.client_id,
-          consentTextId:
-            clinicConsentText && String(clinicConsentText.version) === consent.text_version
-              ? clinicConsentText.id
-              : builtInConsentTextId,
+          consentTextId,
           consentTextVersion: Number(consent.text_version),
           typedName: consent.signed_name,
           consentDate: consent.signed_on,

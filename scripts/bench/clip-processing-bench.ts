@@ -14,7 +14,7 @@ import { sealClip, sha256Hex } from '@/shared/seal';
 import { createHttpTransport } from '@/shared/sync';
 import { createSequelize } from '@/sync-server/src/db/database';
 import { runMigrations } from '@/sync-server/src/db/migrator';
-import { Clinic, initModels } from '@/sync-server/src/models';
+import { createClinic } from '@/sync-server/src/repositories/clinics-repository';
 import { createUser } from '@/sync-server/src/repositories/users-repository';
 import { ClinicKeyStore } from '@/sync-server/src/services/clinic-keys';
 import { hashPassword } from '@/sync-server/src/services/passwords';
@@ -62,12 +62,12 @@ async function main() {
   if (!databaseUrl) throw new Error('DATABASE_URL is not set: run through `npm run bench`.');
   const sequelize = createSequelize(databaseUrl);
   await runMigrations(databaseUrl);
-  initModels(sequelize);
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-clip-bench-'));
   const jwtSecret = `bench-${randomUUID()}`;
-  const clinic = await Clinic.create({ id: randomUUID(), name: `Clip bench ${randomUUID().slice(0, 8)}` });
+  const clinic = { id: randomUUID(), name: `Clip bench ${randomUUID().slice(0, 8)}` };
+  await createClinic(sequelize, clinic);
   const email = `operator.${randomUUID().slice(0, 8)}@bench.fourpoint.test`;
-  await createUser(clinic.id, {
+  await createUser(sequelize, clinic.id, {
     id: randomUUID(),
     email,
     name: 'Bench Operator',

@@ -13,7 +13,7 @@ import type { Sequelize } from 'sequelize';
 import { createApp } from '@/sync-server/src/app';
 import { createSequelize } from '@/sync-server/src/db/database';
 import { runMigrations } from '@/sync-server/src/db/migrator';
-import { Clinic, initModels } from '@/sync-server/src/models';
+import { createClinic } from '@/sync-server/src/repositories/clinics-repository';
 import { createUser } from '@/sync-server/src/repositories/users-repository';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
 import { hashPassword } from '@/sync-server/src/services/passwords';
@@ -238,31 +238,29 @@ async function main(): Promise<void> {
   if (!databaseUrl) throw new Error('DATABASE_URL is not set: run through `npm run bench`.');
   await runMigrations(databaseUrl);
   const sequelize = createSequelize(databaseUrl, { poolMax: 5 });
-  initModels(sequelize);
   try {
     const tag = randomUUID().slice(0, 8);
-    const clinic = await Clinic.create({ id: randomUUID(), name: `Review bench ${tag}` });
+    const clinic = { id: randomUUID(), name: `Review bench ${tag}` };
+    await createClinic(sequelize, clinic);
     const passwordHash = await hashPassword('bench-password');
-    const practitioner = await createUser(clinic.id, {
+    const practitioner = {
       id: randomUUID(),
       email: `review.${tag}@bench.fourpoint.test`,
       name: 'Bench Practitioner',
-      role: 'practitioner',
-      passwordHash,
-    });
+      role: 'practitioner' as const,
+    };
+    await createUser(sequelize, clinic.id, { ...practitioner, passwordHash });
     const operators: string[] = [];
     for (let i = 0; i < 3; i++) {
-      operators.push(
-        (
-          await createUser(clinic.id, {
-            id: randomUUID(),
-            email: `op${i}.${tag}@bench.fourpoint.test`,
-            name: `Operator ${i}`,
-            role: 'operator',
-            passwordHash,
-          })
-        ).id,
-      );
+      const id = randomUUID();
+      await createUser(sequelize, clinic.id, {
+        id,
+        email: `op${i}.${tag}@bench.fourpoint.test`,
+        name: `Operator ${i}`,
+        role: 'operator',
+        passwordHash,
+      });
+      operators.push(id);
     }
     const seeded = Date.now();
     const sample = await seedMany(sequelize, clinic.id, operators);

@@ -22,7 +22,8 @@ import { QueryTypes, type Sequelize } from 'sequelize';
 import { createApp } from '@/sync-server/src/app';
 import { createSequelize } from '@/sync-server/src/db/database';
 import { runMigrations } from '@/sync-server/src/db/migrator';
-import { Clinic, initModels } from '@/sync-server/src/models';
+import { createClinic } from '@/sync-server/src/repositories/clinics-repository';
+import { selectRows } from '@/sync-server/src/repositories/sql';
 import { createUser } from '@/sync-server/src/repositories/users-repository';
 import { hashPassword } from '@/sync-server/src/services/passwords';
 import {
@@ -234,7 +235,6 @@ async function main(): Promise<void> {
     throw new Error('DATABASE_URL is not set: run through `npm run bench`, which starts a database.');
   await runMigrations(databaseUrl);
   const sequelize = createSequelize(databaseUrl, { poolMax: 20 });
-  initModels(sequelize);
   const spans = process.env.BENCH_SPANS ? new Spans() : undefined;
   spans?.instrument(sequelize);
   const app = createApp({ sequelize, jwtSecret: JWT_SECRET, logger: pino({ level: 'silent' }) });
@@ -242,21 +242,22 @@ async function main(): Promise<void> {
   await new Promise<void>((r) => server.listen(0, '127.0.0.1', r));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 
-  const clinic = await Clinic.create({ id: randomUUID(), name: `Bench ${randomUUID().slice(0, 6)}` });
+  const clinic = { id: randomUUID(), name: `Bench ${randomUUID().slice(0, 6)}` };
+  await createClinic(sequelize, clinic);
   const email = `bench.${randomUUID().slice(0, 8)}@bench.fourpoint.test`;
   const operatorId = randomUUID();
-  await createUser(clinic.id, {
+  await createUser(sequelize, clinic.id, {
     id: operatorId,
     email,
     name: 'Bench Operator',
     role: 'operator',
     passwordHash: await hashPassword('bench password 1'),
   });
-  const consentTextId = randomUUID();
-  await sequelize.query(
-    `INSERT INTO consent_texts (id, clinic_id, version, title, body, is_current)
-     VALUES (:id, :clinicId, 1, 'Consent', 'The bench client agrees.', true)`,
-    { replacements: { id: consentTextId, clinicId: clinic.id } },
+  // The wording a new clinic starts with (clinics-repository).
+  const [{ id: consentTextId }] = await selectRows<{ id: string }>(
+    sequelize,
+    `SELECT id FROM consent_texts WHERE clinic_id = :clinicId AND is_current`,
+    { clinicId: clinic.id },
   );
   const token = (await axios.post(`${url}/api/auth/sign-in`, { email, password: 'bench password 1' })).data
     .accessToken as string;

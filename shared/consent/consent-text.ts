@@ -1,7 +1,8 @@
 // The consent wording the client agrees to; a new wording gets a new version, and consent is asked again.
+// Every clinic is created with it as its version 1 (sync-server clinics-repository), so a consent signed on a
+// phone that has not yet fetched the clinic's wording still names a version the clinic has.
 export const consentTextVersion = 1;
-/** Stands for this wording until the device fetches the clinic's own published consent text. */
-export const consentTextId = '7c1f4f8e-3b1a-4c55-9d0e-2f6a1b9c0d11';
+export const consentTextTitle = 'Heart-sound recording consent';
 
 export const consentText = [
   'I agree that the practice records the sounds of my heart at four places on my chest, stores the recordings and the measurements made from them, and uses them for wellness follow-up over my visits.',

@@ -70,8 +70,6 @@ export const teamMemberSchema = z.object({
   disabled: z.boolean(),
 });
 export type TeamMember = z.infer<typeof teamMemberSchema>;
-export const userListResponseSchema = z.object({ users: z.array(teamMemberSchema) });
-export type UserListResponse = z.infer<typeof userListResponseSchema>;
 
 // Where a site's clip is on its way to the server: none taken, waiting on the device, uploading, stored, failed.
 export const clipStateSchema = z.enum(['none', 'pending', 'uploading', 'stored', 'failed']);

@@ -329,7 +329,6 @@ export type AuditEventRow = z.infer<typeof auditEventSchema>;
 export const auditListResponseSchema = z.object({
   events: z.array(auditEventSchema),
   pageInfo: pageInfoSchema,
-  actions: z.array(z.string()),
 });
 export type AuditListResponse = z.infer<typeof auditListResponseSchema>;
 

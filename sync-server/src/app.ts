@@ -8,8 +8,8 @@ import { contentSecurityPolicy } from './middleware/content-security-policy';
 import { errorHandler } from './middleware/error-handler';
 import { instanceName } from './middleware/instance-name';
 import { refuseNulCharacters } from './middleware/refuse-nul';
+import { useAuditDatabase } from './repositories/audit-repository';
 import { DEFAULT_SIGN_IN_LIMITS, type SignInLimitOptions } from './middleware/rate-limits';
-import { initModels } from './models';
 import { registerApiRoutes } from './routes/build-router';
 import { serveWebExport } from './web-export';
 
@@ -32,7 +32,7 @@ export interface AppDeps {
 }
 
 export function createApp(deps: AppDeps): Express {
-  initModels(deps.sequelize);
+  useAuditDatabase(deps.sequelize);
   const logger = deps.logger ?? pino({ level: 'info' });
   const app = express();
   app.disable('x-powered-by');

@@ -3,7 +3,7 @@ import type { Express } from 'express';
 import request from 'supertest';
 import { meResponseSchema, signInResponseSchema } from '@/shared/protocol';
 import { AuditEvent, RefreshToken } from '@/sync-server/src/models';
-import { setUserDisabled } from '@/sync-server/src/repositories/users-repository';
+import { updateTeamUser } from '@/sync-server/src/repositories/users-repository';
 import { hashRefreshToken } from '@/sync-server/src/services/tokens';
 import { REUSE_GRACE_MS } from '@/sync-server/src/use-cases/auth';
 import {
@@ -275,7 +275,7 @@ describe('disabled users', () => {
       (await request(ctx.app).get('/api/me').set('authorization', `Bearer ${session.accessToken}`)).status,
     ).toBe(200);
 
-    await setUserDisabled(own.id, own.users.operator.id, true);
+    await updateTeamUser(ctx.sequelize, own.id, own.users.operator.id, { role: 'operator', disabled: true });
 
     const me = await request(ctx.app).get('/api/me').set('authorization', `Bearer ${session.accessToken}`);
     expect(me.status).toBe(401);
@@ -288,7 +288,7 @@ describe('disabled users', () => {
 
   test('when a disabled account signs in, then the answer is the wrong-password answer, right password or not (ASVS V2.2.1, no enumeration)', async () => {
     const own = await makeClinic('DisabledSignIn');
-    await setUserDisabled(own.id, own.users.operator.id, true);
+    await updateTeamUser(ctx.sequelize, own.id, own.users.operator.id, { role: 'operator', disabled: true });
     const send = (email: string, password: string) =>
       request(ctx.app).post('/api/auth/sign-in').send({ email, password });
     const disabledRight = await send(own.users.operator.email, TEST_PASSWORD);

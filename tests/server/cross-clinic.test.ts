@@ -159,7 +159,6 @@ const cases: Record<string, CrossCase> = {
   'get /api/me': { probe: () => ({ path: '/api/me' }) },
   'get /api/clients': { probe: () => ({ path: `/api/clients?q=${CLIENT.last}` }) },
   'get /api/sessions': { probe: () => ({ path: '/api/sessions' }) },
-  'get /api/users': { probe: () => ({ path: '/api/users' }) },
   'post /api/sync/push': {
     probe: () => ({ path: '/api/sync/push', body: pushBody([updateOf(a.syncedClientId, 1, 'Overwritten')]) }),
     extra: async (answer) => {

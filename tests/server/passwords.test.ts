@@ -87,7 +87,7 @@ describe('password storage (OWASP Password Storage Cheat Sheet, ASVS V2.4)', () 
     const clinic = await makeClinic('Bcrypt');
     const password = 'an old bcrypt-era password';
     const id = randomUUID();
-    await createUser(clinic.id, {
+    await createUser(ctx.sequelize, clinic.id, {
       id,
       email: `legacy.${id}@test.fourpoint.test`,
       name: 'Legacy User',

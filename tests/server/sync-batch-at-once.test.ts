@@ -4,9 +4,8 @@
 // a row changed twice, a clip named by an edit) is applied in order, one mutation at a time, with the outcome
 // the order gives.
 import { randomBytes, randomUUID } from 'node:crypto';
-import axios from 'axios';
 import { QueryTypes } from 'sequelize';
-import { SYNC_PROTOCOL_VERSION, type Mutation, type PushResponse } from '@/shared/protocol/sync';
+import type { Mutation } from '@/shared/protocol/sync';
 import { SyncRepository } from '@/sync-server/src/repositories/sync-repository';
 import type { Role } from '@/shared/protocol';
 import { batchForOneStatement, checkMutation, type Checked } from '@/sync-server/src/use-cases/sync/push';
@@ -19,6 +18,8 @@ import {
   siteFields,
   startSyncServer,
   type SyncTestServer,
+  mutation,
+  pushTo,
 } from './sync-helpers/devices';
 
 let server: SyncTestServer;
@@ -27,21 +28,10 @@ beforeAll(async () => {
 });
 afterAll(() => server.close());
 
-async function push(token: string, mutations: Mutation[]): Promise<PushResponse> {
-  const res = await axios.post(
-    `${server.url}/api/sync/push`,
-    { protocolVersion: SYNC_PROTOCOL_VERSION, deviceId: randomUUID(), mutations },
-    { headers: { authorization: `Bearer ${token}` } },
-  );
-  return res.data as PushResponse;
-}
+const push = (token: string, mutations: Mutation[], deviceId?: string) =>
+  pushTo(server, token, mutations, deviceId);
 
-const m = (
-  entity: Mutation['entity'],
-  id: string,
-  change: Record<string, unknown>,
-  baseVersion = 0,
-): Mutation => ({ mutationId: randomUUID(), entity, id, baseVersion, change });
+const m = mutation;
 
 const rows = <T extends object>(sql: string, replacements: Record<string, unknown>) =>
   server.ctx.sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT });

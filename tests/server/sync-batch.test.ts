@@ -2,9 +2,8 @@
 // ones before and after it still apply, and are recorded once); two deliveries of one batch at the same moment
 // apply each mutation once; an edit pointing at a missing parent is refused without moving the version.
 import { randomUUID } from 'node:crypto';
-import axios from 'axios';
 import { QueryTypes } from 'sequelize';
-import { SYNC_PROTOCOL_VERSION, type Mutation, type PushResponse } from '@/shared/protocol/sync';
+import type { Mutation } from '@/shared/protocol/sync';
 import {
   clientFields,
   clinicWithTokens,
@@ -12,6 +11,8 @@ import {
   siteFields,
   startSyncServer,
   type SyncTestServer,
+  mutation,
+  pushTo,
 } from './sync-helpers/devices';
 
 let server: SyncTestServer;
@@ -20,21 +21,10 @@ beforeAll(async () => {
 });
 afterAll(() => server.close());
 
-async function push(token: string, mutations: Mutation[], deviceId = randomUUID()): Promise<PushResponse> {
-  const res = await axios.post(
-    `${server.url}/api/sync/push`,
-    { protocolVersion: SYNC_PROTOCOL_VERSION, deviceId, mutations },
-    { headers: { authorization: `Bearer ${token}` } },
-  );
-  return res.data as PushResponse;
-}
+const push = (token: string, mutations: Mutation[], deviceId?: string) =>
+  pushTo(server, token, mutations, deviceId);
 
-const m = (
-  entity: Mutation['entity'],
-  id: string,
-  change: Record<string, unknown>,
-  baseVersion = 0,
-): Mutation => ({ mutationId: randomUUID(), entity, id, baseVersion, change });
+const m = mutation;
 
 async function count(sql: string, bind: unknown[]): Promise<number> {
   const [row] = await server.ctx.sequelize.query<{ count: string }>(sql, { bind, type: QueryTypes.SELECT });

@@ -19,6 +19,8 @@ import {
   siteFields,
   startSyncServer,
   type SyncTestServer,
+  mutation,
+  pushTo,
 } from './sync-helpers/devices';
 
 let server: SyncTestServer;
@@ -27,29 +29,16 @@ beforeAll(async () => {
 });
 afterAll(() => server.close());
 
-async function push(token: string, mutations: Mutation[], deviceId = randomUUID()): Promise<PushResponse> {
-  const res = await axios.post(
-    `${server.url}/api/sync/push`,
-    { protocolVersion: SYNC_PROTOCOL_VERSION, deviceId, mutations },
-    { headers: { authorization: `Bearer ${token}` } },
-  );
-  return res.data as PushResponse;
-}
+const push = (token: string, mutations: Mutation[], deviceId?: string) =>
+  pushTo(server, token, mutations, deviceId);
 
 function sessionBatch(): Mutation[] {
   const clientId = randomUUID();
   const sessionId = randomUUID();
-  const m = (entity: Mutation['entity'], id: string, change: Record<string, unknown>): Mutation => ({
-    mutationId: randomUUID(),
-    entity,
-    id,
-    baseVersion: 0,
-    change,
-  });
   return [
-    m('clients', clientId, clientFields(randomUUID().slice(0, 6))),
-    m('recording_sessions', sessionId, sessionFields(clientId)),
-    ...SITES.map((site) => m('site_recordings', randomUUID(), siteFields(sessionId, site))),
+    mutation('clients', clientId, clientFields(randomUUID().slice(0, 6))),
+    mutation('recording_sessions', sessionId, sessionFields(clientId)),
+    ...SITES.map((site) => mutation('site_recordings', randomUUID(), siteFields(sessionId, site))),
   ];
 }
 

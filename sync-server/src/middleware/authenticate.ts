@@ -1,4 +1,5 @@
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
+import type { Sequelize } from 'sequelize';
 import type { Role } from '@/shared/protocol';
 import { forbidden, unauthenticated } from '../errors';
 import { findUserForAccessToken } from '../repositories/users-repository';
@@ -15,15 +16,20 @@ export function callerOf(req: Request): Caller {
   return caller;
 }
 
-export function authenticate(jwtSecret: string): RequestHandler {
+export function authenticate(deps: { sequelize: Sequelize; jwtSecret: string }): RequestHandler {
   return async (req: Request, _res: Response, next: NextFunction) => {
     const match = /^Bearer\s+(\S+)$/i.exec(req.get('authorization') ?? '');
     if (!match) throw unauthenticated();
-    const claims = verifyAccessToken(match[1], jwtSecret);
+    const claims = verifyAccessToken(match[1], deps.jwtSecret);
     if (!claims) throw unauthenticated('Your sign-in has expired or is not valid. Sign in again.');
     // The rows, not the token, decide: signing out, a disabled user or a changed role take effect on the next
     // request (OWASP ASVS 4.0.3 V3.3.1: sign-out invalidates the session).
-    const user = await findUserForAccessToken(claims.clinicId, claims.userId, claims.sessionId);
+    const user = await findUserForAccessToken(
+      deps.sequelize,
+      claims.clinicId,
+      claims.userId,
+      claims.sessionId,
+    );
     if (!user) throw unauthenticated('Your sign-in has expired or is not valid. Sign in again.');
     if (user.disabled) throw accountDisabled();
     callers.set(req, { userId: user.id, role: user.role, clinicId: user.clinicId, ip: req.ip ?? null });

@@ -1,5 +1,5 @@
 import type { Sequelize } from 'sequelize';
-import { KEEP_UNTIL } from './client-records-repository';
+import { KEEP_UNTIL } from './clients-repository';
 import { selectRows } from './sql';
 
 export async function attentionCounts(sequelize: Sequelize, clinicId: string) {

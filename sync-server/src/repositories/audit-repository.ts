@@ -1,9 +1,16 @@
 import type { Sequelize, Transaction } from 'sequelize';
-import { AuditEvent } from '../models';
 import { escapeLike, execute, selectRows } from './sql';
 
 // The audit log (`audit_events`): append-only, enforced by a trigger. Writing takes no connection argument, since
-// every use case and middleware records events: it writes on the connection the models were set up with.
+// every use case and middleware records events: it writes on the database the app was built with
+// (`useAuditDatabase`, called by `createApp`), or inside the caller's transaction.
+
+let auditDatabase: Sequelize | undefined;
+
+/** The database `recordAuditEvent` writes to; a process talks to one database. */
+export function useAuditDatabase(sequelize: Sequelize): void {
+  auditDatabase = sequelize;
+}
 
 export interface AuditEntry {
   clinicId: string | null;
@@ -16,8 +23,9 @@ export interface AuditEntry {
 }
 
 export async function recordAuditEvent(entry: AuditEntry, transaction?: Transaction): Promise<void> {
+  if (!auditDatabase) throw new Error('recordAuditEvent() before useAuditDatabase(): build the app first');
   await execute(
-    AuditEvent.sequelize!,
+    auditDatabase,
     `INSERT INTO audit_events (clinic_id, user_id, action, entity, entity_id, ip, details, occurred_at)
      VALUES (:clinicId, :userId, :action, :entity, :entityId, :ip, CAST(:details AS jsonb), now())`,
     {
@@ -110,7 +118,7 @@ export async function pageAuditEvents(sequelize: Sequelize, clinicId: string, f:
     limit: f.pageSize,
     offset: (f.page - 1) * f.pageSize,
   };
-  const [rows, counts, actions] = await Promise.all([
+  const [rows, counts] = await Promise.all([
     selectRows<AuditEventDbRow>(
       sequelize,
       `SELECT a.id, a.occurred_at, a.user_id, u.name AS user_name, a.action, a.entity, a.entity_id, a.ip, a.details,
@@ -126,11 +134,6 @@ export async function pageAuditEvents(sequelize: Sequelize, clinicId: string, f:
       `SELECT count(*) AS total FROM audit_events a ${concerns} WHERE ${where}`,
       r,
     ),
-    selectRows<{ action: string }>(
-      sequelize,
-      `SELECT DISTINCT action FROM audit_events WHERE clinic_id = :clinicId ORDER BY action`,
-      { clinicId },
-    ),
   ]);
-  return { rows, total: Number(counts[0]?.total ?? 0), actions: actions.map((a) => a.action) };
+  return { rows, total: Number(counts[0]?.total ?? 0) };
 }

@@ -63,7 +63,6 @@ export const accessTable: readonly RouteSpec[] = [
   { method: 'get', path: '/api/me', access: anyRole, handler: h.me },
   { method: 'get', path: '/api/clients', access: ['operator', 'practitioner', 'admin'], handler: h.clients },
   { method: 'get', path: '/api/sessions', access: ['practitioner', 'admin'], handler: h.sessions },
-  { method: 'get', path: '/api/users', access: ['admin'], handler: h.users },
   // Sync: any signed-in device of the clinic pushes, pulls and uploads; conflicts are the admin's.
   { method: 'post', path: '/api/sync/push', access: anyRole, handler: sync.syncPush },
   { method: 'post', path: '/api/sync/pull', access: anyRole, handler: sync.syncPull },

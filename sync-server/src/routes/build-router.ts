@@ -24,7 +24,7 @@ export function registerApiRoutes(
     // Answers carry health records, traces and tokens: no browser or proxy keeps a copy.
     const chain: RequestHandler[] = [noStore];
     if (route.limit) chain.push(...limits[route.limit]);
-    if (route.access !== 'public') chain.push(authenticate(deps.jwtSecret), requireRole(route.access));
+    if (route.access !== 'public') chain.push(authenticate(deps), requireRole(route.access));
     const rowIds = checkRowIds(route.path, route.opaqueParams);
     if (rowIds) chain.push(rowIds);
     chain.push(route.handler(deps));

@@ -1,5 +1,5 @@
 import { callerOf } from '../middleware/authenticate';
-import * as records from '../repositories/client-records-repository';
+import * as records from '../repositories/clients-repository';
 import { clientNotFound } from '../use-cases/clients/client-records';
 import { exportClient } from '../use-cases/export/export-client';
 import type { HandlerFactory } from './handlers';

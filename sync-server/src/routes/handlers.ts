@@ -8,14 +8,13 @@ import {
   type LivenessResponse,
   type MeResponse,
   type SessionListResponse,
-  type UserListResponse,
 } from '@/shared/protocol';
 import { AppError } from '../errors';
 import { callerOf } from '../middleware/authenticate';
 import { getMe, refreshSession, signIn, signOut } from '../use-cases/auth';
 import type { UseCaseDeps } from '../use-cases/context';
 import { checkHealth, checkReadiness } from '../use-cases/health';
-import { findClients, findSessions, findTeam } from '../use-cases/lists';
+import { findClients, findSessions } from '../use-cases/lists';
 import { clearRefreshCookie, refreshTokenOf, sendTokens } from './refresh-cookie';
 
 export type HandlerFactory = (deps: UseCaseDeps) => RequestHandler;
@@ -68,18 +67,13 @@ export const me: HandlerFactory = (deps) => async (req, res) => {
   res.json(body);
 };
 
-export const clients: HandlerFactory = () => async (req, res) => {
+export const clients: HandlerFactory = (deps) => async (req, res) => {
   const { q } = clientListQuerySchema.parse(req.query);
-  const body: ClientListResponse = { clients: await findClients(callerOf(req), q) };
+  const body: ClientListResponse = { clients: await findClients(deps, callerOf(req), q) };
   res.json(body);
 };
 
-export const sessions: HandlerFactory = () => async (req, res) => {
-  const body: SessionListResponse = { sessions: await findSessions(callerOf(req)) };
-  res.json(body);
-};
-
-export const users: HandlerFactory = () => async (req, res) => {
-  const body: UserListResponse = { users: await findTeam(callerOf(req)) };
+export const sessions: HandlerFactory = (deps) => async (req, res) => {
+  const body: SessionListResponse = { sessions: await findSessions(deps, callerOf(req)) };
   res.json(body);
 };

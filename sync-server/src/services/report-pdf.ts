@@ -1,7 +1,7 @@
 // The client report as a PDF: everything drawn as vectors (traces, marks, tables) so it prints sharply.
 import path from 'node:path';
 import PDFDocument from 'pdfkit';
-import { clientCautionParagraphs, pleaseSeeClinician } from '@/shared/cautions';
+import { clientCautionParagraphs, pleaseSeeClinician, rangeStatusWords } from '@/shared/cautions';
 
 export type ReportSound = { type: 'S1' | 'S2'; startS: number; endS: number };
 /** A display trace: `values` in -1..1, evenly spaced over `durationS`. */
@@ -82,20 +82,8 @@ export function rangeText(range: ReportMeasurement['range']): string {
   return 'no range set';
 }
 
-export function statusText(status: ReportMeasurement['status']): string {
-  switch (status) {
-    case 'in_range':
-      return 'within range';
-    case 'below':
-      return `below range: ${pleaseSeeClinician}`;
-    case 'above':
-      return `above range: ${pleaseSeeClinician}`;
-    case 'no_range':
-      return 'no range set';
-    default:
-      return 'not measured';
-  }
-}
+export const statusText = (status: ReportMeasurement['status']): string =>
+  rangeStatusWords(status, pleaseSeeClinician);
 
 function drawTrace(
   doc: PDFKit.PDFDocument,

@@ -60,6 +60,7 @@ async function issueTokens(
   const refreshToken = newRefreshToken();
   const refreshTokenId = randomUUID();
   await insertRefreshToken(
+    deps.sequelize,
     {
       id: refreshTokenId,
       userId: user.id,
@@ -82,7 +83,7 @@ export async function signIn(
   input: Pick<SignInRequest, 'email' | 'password'>,
   ip: string | null,
 ): Promise<IssuedTokens> {
-  const user = await findUserByEmailForSignIn(input.email);
+  const user = await findUserByEmailForSignIn(deps.sequelize, input.email);
   const password = await verifyPassword(input.password, user?.passwordHash);
   if (!user || !password.ok || user.disabled) {
     // The account's admin sees failed sign-ins in its audit log; never the password tried, and nothing for an
@@ -100,10 +101,11 @@ export async function signIn(
     throw wrongCredentials();
   }
   // A hash from before argon2id (bcrypt) is replaced now that the password is known to be right.
-  if (password.needsRehash) await setPasswordHash(user.id, await hashPassword(input.password));
+  if (password.needsRehash)
+    await setPasswordHash(deps.sequelize, user.id, await hashPassword(input.password));
   return deps.sequelize.transaction(async (transaction) => {
     const sessionId = randomUUID();
-    await insertSignInSession({ id: sessionId, userId: user.id }, transaction);
+    await insertSignInSession(deps.sequelize, { id: sessionId, userId: user.id }, transaction);
     const { refreshTokenId: _id, ...tokens } = await issueTokens(deps, user, sessionId, ip, transaction);
     await recordAuditEvent(
       {
@@ -135,17 +137,21 @@ export async function refreshSession(
   ip: string | null,
 ): Promise<IssuedTokens> {
   const outcome = await deps.sequelize.transaction(async (transaction) => {
-    const stored = await findRefreshTokenByHash(hashRefreshToken(refreshToken), transaction);
+    const stored = await findRefreshTokenByHash(deps.sequelize, hashRefreshToken(refreshToken), transaction);
     if (!stored) return { kind: 'unknown' as const };
     const lostAnswer = stored.revokedAt !== null && Date.now() - stored.revokedAt.getTime() < REUSE_GRACE_MS;
     if (stored.revokedAt && !lostAnswer) return { kind: 'reused' as const, sessionId: stored.familyId };
     if (stored.expiresAt.getTime() <= Date.now()) return { kind: 'unknown' as const };
-    if (await isSignInSessionEnded(stored.familyId, transaction)) return { kind: 'unknown' as const };
-    const user = await findUserForRefreshToken(stored.userId, transaction);
+    if (await isSignInSessionEnded(deps.sequelize, stored.familyId, transaction))
+      return { kind: 'unknown' as const };
+    const user = await findUserForRefreshToken(deps.sequelize, stored.userId, transaction);
     if (!user) return { kind: 'unknown' as const };
     if (user.disabled) return { kind: 'disabled' as const };
     const next = await issueTokens(deps, user, stored.familyId, ip, transaction);
-    if (!lostAnswer && !(await revokeRefreshToken(stored.id, next.refreshTokenId, transaction)))
+    if (
+      !lostAnswer &&
+      !(await revokeRefreshToken(deps.sequelize, stored.id, next.refreshTokenId, transaction))
+    )
       throw refreshRefused();
     const { refreshTokenId: _id, ...tokens } = next;
     return { kind: 'ok' as const, tokens };
@@ -155,7 +161,7 @@ export async function refreshSession(
       return outcome.tokens;
     case 'reused':
       // Outside the lookup transaction, so ending the sign-in stands even though the request is refused.
-      await endSignInSession(outcome.sessionId);
+      await endSignInSession(deps.sequelize, outcome.sessionId);
       throw refreshRefused();
     case 'disabled':
       throw accountDisabled();
@@ -169,12 +175,12 @@ export async function refreshSession(
  * Ending an unknown or already ended sign-in is not an error.
  */
 export async function signOut(deps: UseCaseDeps, refreshToken: string, ip: string | null): Promise<void> {
-  const stored = await findRefreshTokenByHash(hashRefreshToken(refreshToken));
+  const stored = await findRefreshTokenByHash(deps.sequelize, hashRefreshToken(refreshToken));
   if (!stored) return;
   await deps.sequelize.transaction(async (transaction) => {
-    const userId = await endSignInSession(stored.familyId, transaction);
+    const userId = await endSignInSession(deps.sequelize, stored.familyId, transaction);
     if (!userId) return;
-    const owner = await findUserForRefreshToken(userId, transaction);
+    const owner = await findUserForRefreshToken(deps.sequelize, userId, transaction);
     await recordAuditEvent(
       {
         clinicId: owner?.clinicId ?? null,
@@ -190,7 +196,7 @@ export async function signOut(deps: UseCaseDeps, refreshToken: string, ip: strin
 }
 
 export async function getMe(deps: UseCaseDeps, clinicId: string, userId: string): Promise<User> {
-  const user = await findUserInClinic(clinicId, userId);
+  const user = await findUserInClinic(deps.sequelize, clinicId, userId);
   if (!user) throw unauthenticated();
   return toPublicUser(deps, user);
 }

@@ -5,7 +5,8 @@ import type { PasswordResetPreview } from '@/shared/protocol';
 import { AppError } from '../errors';
 import { recordAuditEvent } from '../repositories/audit-repository';
 import { execute, selectRows } from '../repositories/sql';
-import { findUserByEmailForSignIn, normaliseEmail } from '../repositories/users-repository';
+import { endEverySignInOfUser } from '../repositories/refresh-tokens-repository';
+import { findUserByEmailForSignIn, normaliseEmail, setPasswordHash } from '../repositories/users-repository';
 import { assertAcceptablePassword } from '../services/password-policy';
 import { hashPassword } from '../services/passwords';
 import { services } from '../composition-root';
@@ -94,7 +95,7 @@ export async function requestPasswordReset(
   linkBase: string,
   ip: string | null,
 ): Promise<{ message: string }> {
-  const user = await findUserByEmailForSignIn(email);
+  const user = await findUserByEmailForSignIn(deps.sequelize, email);
   if (user && !user.disabled) {
     const id = randomUUID();
     const expiresAt = new Date(Date.now() + PASSWORD_RESET_TTL_MS);
@@ -163,24 +164,8 @@ export async function completePasswordReset(
       { id: row.id },
       transaction,
     );
-    await execute(
-      deps.sequelize,
-      `UPDATE users SET password_hash = :passwordHash, updated_at = now() WHERE id = :userId`,
-      { passwordHash, userId: row.user_id },
-      transaction,
-    );
-    await execute(
-      deps.sequelize,
-      `UPDATE sign_in_sessions SET ended_at = now() WHERE user_id = :userId AND ended_at IS NULL`,
-      { userId: row.user_id },
-      transaction,
-    );
-    await execute(
-      deps.sequelize,
-      `UPDATE refresh_tokens SET revoked_at = now(), updated_at = now() WHERE user_id = :userId AND revoked_at IS NULL`,
-      { userId: row.user_id },
-      transaction,
-    );
+    await setPasswordHash(deps.sequelize, row.user_id, passwordHash, transaction);
+    await endEverySignInOfUser(deps.sequelize, row.user_id, transaction);
     await recordAuditEvent(
       {
         clinicId: row.clinic_id,

@@ -6,7 +6,8 @@ import type { Express } from 'express';
 import type { Role, SignInResponse } from '@/shared/protocol';
 import { createApp, type AppDeps } from '@/sync-server/src/app';
 import { createSequelize } from '@/sync-server/src/db/database';
-import { Clinic, initModels } from '@/sync-server/src/models';
+import { initModels } from '@/sync-server/src/models';
+import { createClinic } from '@/sync-server/src/repositories/clinics-repository';
 import { createUser } from '@/sync-server/src/repositories/users-repository';
 import { hashPassword } from '@/sync-server/src/services/passwords';
 
@@ -28,12 +29,16 @@ export function databaseUrl(): string {
   return url;
 }
 
+// The database of this test file's context: fixtures such as makeClinic write there.
+let contextDatabase: Sequelize | undefined;
+
 export function makeTestContext(
   overrides: Partial<AppDeps> = {},
   options: { databaseUrl?: string } = {},
 ): TestContext {
   const sequelize = createSequelize(options.databaseUrl ?? databaseUrl(), { poolMax: 5 });
   initModels(sequelize);
+  contextDatabase = sequelize;
   const jwtSecret = `test-secret-${randomUUID()}`;
   const app = createApp({
     sequelize,
@@ -73,18 +78,21 @@ export interface TestClinic {
 /** A fresh clinic with one user per role, all with TEST_PASSWORD; names carry a unique tag. */
 export async function makeClinic(label = 'Clinic'): Promise<TestClinic> {
   const tag = randomUUID().slice(0, 8);
-  const clinic = await Clinic.create({ id: randomUUID(), name: `${label} ${tag}` });
+  if (!contextDatabase) throw new Error('makeClinic() before makeTestContext()');
+  const sequelize = contextDatabase;
+  const clinic = { id: randomUUID(), name: `${label} ${tag}` };
+  await createClinic(sequelize, clinic);
   const passwordHash = await hashPassword(TEST_PASSWORD);
   const users = {} as Record<Role, TestUser>;
   for (const role of ['operator', 'practitioner', 'admin'] as const) {
-    const user = await createUser(clinic.id, {
+    const user = {
       id: randomUUID(),
       email: `${role}.${tag}@test.fourpoint.test`,
       name: `${role[0].toUpperCase()}${role.slice(1)} ${tag}`,
       role,
-      passwordHash,
-    });
-    users[role] = { id: user.id, email: user.email, role, name: user.name };
+    };
+    await createUser(sequelize, clinic.id, { ...user, passwordHash });
+    users[role] = user;
   }
   return { id: clinic.id, name: clinic.name, users };
 }

@@ -4,7 +4,14 @@ import http from 'node:http';
 import os from 'node:os';
 import path from 'node:path';
 import type { AddressInfo } from 'node:net';
-import type { RowData, SyncEntity } from '@/shared/protocol/sync';
+import axios from 'axios';
+import {
+  SYNC_PROTOCOL_VERSION,
+  type Mutation,
+  type PushResponse,
+  type RowData,
+  type SyncEntity,
+} from '@/shared/protocol/sync';
 import {
   MemorySyncStorage,
   SyncEngine,
@@ -53,6 +60,29 @@ export async function startSyncServer(
     },
   };
 }
+
+/** A push as the phone sends it, answered as the server answers it (a refused push throws axios's error). */
+export async function pushTo(
+  server: SyncTestServer,
+  token: string,
+  mutations: Mutation[],
+  deviceId: string = randomUUID(),
+): Promise<PushResponse> {
+  const res = await axios.post(
+    `${server.url}/api/sync/push`,
+    { protocolVersion: SYNC_PROTOCOL_VERSION, deviceId, mutations },
+    { headers: { authorization: `Bearer ${token}` } },
+  );
+  return res.data as PushResponse;
+}
+
+/** One mutation with a fresh id; a new row unless `baseVersion` says which version it edits. */
+export const mutation = (
+  entity: Mutation['entity'],
+  id: string,
+  change: Record<string, unknown>,
+  baseVersion = 0,
+): Mutation => ({ mutationId: randomUUID(), entity, id, baseVersion, change });
 
 let clock = Date.now();
 const tick = () => ++clock;

@@ -9,7 +9,7 @@ export async function readAuditLog(
   caller: Caller,
   filter: AuditFilter,
 ): Promise<AuditListResponse> {
-  const { rows, total, actions } = await pageAuditEvents(deps.sequelize, caller.clinicId, filter);
+  const { rows, total } = await pageAuditEvents(deps.sequelize, caller.clinicId, filter);
   return {
     events: rows.map((r) => ({
       id: String(r.id),
@@ -27,6 +27,5 @@ export async function readAuditLog(
       subjectName: r.subject_name,
     })),
     pageInfo: { page: filter.page, pageSize: filter.pageSize, total },
-    actions,
   };
 }

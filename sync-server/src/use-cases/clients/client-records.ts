@@ -9,7 +9,7 @@ import type {
 } from '@/shared/protocol/practice';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
-import * as repo from '../../repositories/client-records-repository';
+import * as repo from '../../repositories/clients-repository';
 import { iso } from '../../repositories/sql';
 import type { Caller, UseCaseDeps } from '../context';
 import { requireFieldWrites } from '../field-access';

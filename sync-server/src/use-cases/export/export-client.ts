@@ -3,7 +3,7 @@ import archiver from 'archiver';
 import { cautionText } from '@/shared/cautions';
 import { isSealed, openClip } from '@/shared/seal';
 import { recordAuditEvent } from '../../repositories/audit-repository';
-import * as records from '../../repositories/client-records-repository';
+import * as records from '../../repositories/clients-repository';
 import * as repo from '../../repositories/export-repository';
 import { iso } from '../../repositories/sql';
 import { syncServicesFor } from '../../composition-root';
@@ -47,6 +47,155 @@ const isWav = (bytes: Uint8Array) =>
 
 export type ExportSummary = { files: string[]; clipsIncluded: number; clipsMissing: number };
 
+type ExportFile = { name: string; content: string | Buffer };
+type ClientRow = NonNullable<Awaited<ReturnType<typeof records.findClientRow>>>;
+type ConsentRows = Awaited<ReturnType<typeof records.listConsents>>;
+type SessionRows = Awaited<ReturnType<typeof repo.exportSessions>>;
+type SiteRows = Awaited<ReturnType<typeof repo.exportSiteRecordings>>;
+
+/** The records as CSV: the client, their consents, their visits, and every measurement of every site. */
+function recordFiles(
+  client: ClientRow,
+  consents: ConsentRows,
+  sessions: SessionRows,
+  sites: SiteRows,
+): ExportFile[] {
+  const clientCsv = toCsv(
+    ['id', 'first_name', 'last_name', 'date_of_birth', 'email', 'phone', 'notes', 'created_at', 'updated_at'],
+    [
+      [
+        client.id,
+        client.first_name,
+        client.last_name,
+        client.date_of_birth,
+        client.email,
+        client.phone,
+        client.notes,
+        iso(client.created_at),
+        iso(client.updated_at),
+      ],
+    ],
+  );
+  const consentsCsv = toCsv(
+    ['id', 'typed_name', 'consent_date', 'consent_text_version', 'consent_text_title', 'recorded_at'],
+    consents.map((k) => [
+      k.id,
+      k.typed_name,
+      k.consent_date,
+      k.consent_text_version,
+      k.title,
+      iso(k.created_at),
+    ]),
+  );
+  const visitsCsv = toCsv(
+    [
+      'session_id',
+      'status',
+      'started_at',
+      'finished_at',
+      'operator',
+      'reviewed_by',
+      'reviewed_at',
+      'findings',
+      'plan',
+      'follow_up_date',
+    ],
+    sessions.map((s) => [
+      s.id,
+      s.status,
+      iso(s.started_at),
+      iso(s.finished_at),
+      s.operator_name,
+      s.reviewer_name,
+      iso(s.reviewed_at),
+      s.findings,
+      s.plan,
+      s.follow_up_date,
+    ]),
+  );
+  const measurementRows: unknown[][] = [];
+  for (const r of sites) {
+    measurementRows.push([r.session_id, r.site, iso(r.recorded_at), 'quality_verdict', r.quality_verdict]);
+    measurementRows.push([r.session_id, r.site, iso(r.recorded_at), 'duration_s', r.duration_s]);
+    if (r.skipped_reason)
+      measurementRows.push([r.session_id, r.site, iso(r.recorded_at), 'skipped_reason', r.skipped_reason]);
+    for (const [metric, value] of flattenMeasurements(r.analysis))
+      measurementRows.push([r.session_id, r.site, iso(r.recorded_at), metric, value]);
+  }
+  return [
+    { name: 'client.csv', content: clientCsv },
+    { name: 'consents.csv', content: consentsCsv },
+    { name: 'visits.csv', content: visitsCsv },
+    {
+      name: 'measurements.csv',
+      content: toCsv(['session_id', 'site', 'recorded_at', 'measurement', 'value'], measurementRows),
+    },
+  ];
+}
+
+/** The kept clips opened as WAV; a clip that has not arrived or does not open is named in `missing` instead. */
+async function clipFiles(
+  deps: UseCaseDeps,
+  clinicId: string,
+  sites: SiteRows,
+): Promise<{ files: ExportFile[]; missing: string[] }> {
+  const { blobStore, clinicKeys } = syncServicesFor(deps.sequelize);
+  const files: ExportFile[] = [];
+  const missing: string[] = [];
+  for (const r of sites) {
+    if (!r.clip_sha256) continue;
+    const date = (iso(r.recorded_at) ?? '').slice(0, 10) || 'undated';
+    let bytes: Uint8Array | null = r.storage_key ? await blobStore.get(r.storage_key) : null;
+    if (bytes && isSealed(bytes)) {
+      try {
+        bytes = openClip(bytes, clinicKeys.privateKey(clinicId));
+      } catch {
+        bytes = null;
+      }
+    }
+    if (bytes && isWav(bytes)) {
+      files.push({ name: `clips/${date}-${r.site}-${r.id.slice(0, 8)}.wav`, content: Buffer.from(bytes) });
+    } else {
+      missing.push(
+        `${date} ${r.site} (${r.id}): ${bytes ? 'the clip could not be opened as WAV' : 'the clip has not reached the server'}`,
+      );
+    }
+  }
+  return { files, missing };
+}
+
+/** The same report the practitioner downloads or e-mails, for every visit with findings, a plan or a review. */
+async function reportFiles(deps: UseCaseDeps, caller: Caller, sessions: SessionRows): Promise<ExportFile[]> {
+  const files: ExportFile[] = [];
+  for (const s of sessions) {
+    if (!s.findings && !s.plan && s.status !== 'reviewed') continue;
+    const input = await buildReportInput(deps, caller, s.id, null);
+    files.push({
+      name: `reports/${input.sessionDay}-${s.id.slice(0, 8)}.pdf`,
+      content: await renderReportPdf(input),
+    });
+  }
+  return files;
+}
+
+const readme = (clinicName: string, missing: string[]): ExportFile => ({
+  name: 'README.txt',
+  content: [
+    `Export of one client's data from ${clinicName}, made ${new Date().toISOString()}.`,
+    '',
+    'client.csv        the client record',
+    'consents.csv      consents given, with the version of the consent text signed',
+    'visits.csv        recording sessions with findings, plan and follow-up date',
+    'measurements.csv  per site: quality verdict, duration and every measurement of the analysis of record',
+    'clips/            the recorded clips as WAV',
+    'reports/          the reports of reviewed sessions (PDF)',
+    '',
+    ...(missing.length ? ['Clips not included:', ...missing, ''] : []),
+    cautionText,
+    '',
+  ].join('\r\n'),
+});
+
 /** Writes one client's data as a zip to `out`: CSV of records and measurements, WAV clips, PDF reports. */
 export async function exportClient(
   deps: UseCaseDeps,
@@ -71,12 +220,11 @@ export async function exportClient(
     entityId: clientId,
     ip: caller.ip,
   });
-  const { blobStore, clinicKeys } = syncServicesFor(deps.sequelize);
   const zip = archiver('zip', { zlib: { level: 6 } });
   const files: string[] = [];
-  const add = (name: string, content: string | Buffer) => {
-    files.push(name);
-    zip.append(content, { name });
+  const add = (file: ExportFile) => {
+    files.push(file.name);
+    zip.append(file.content, { name: file.name });
   };
   const finished = new Promise<void>((resolve, reject) => {
     out.on('finish', resolve);
@@ -85,140 +233,12 @@ export async function exportClient(
   });
   zip.pipe(out);
 
-  add(
-    'client.csv',
-    toCsv(
-      [
-        'id',
-        'first_name',
-        'last_name',
-        'date_of_birth',
-        'email',
-        'phone',
-        'notes',
-        'created_at',
-        'updated_at',
-      ],
-      [
-        [
-          client.id,
-          client.first_name,
-          client.last_name,
-          client.date_of_birth,
-          client.email,
-          client.phone,
-          client.notes,
-          iso(client.created_at),
-          iso(client.updated_at),
-        ],
-      ],
-    ),
-  );
-  add(
-    'consents.csv',
-    toCsv(
-      ['id', 'typed_name', 'consent_date', 'consent_text_version', 'consent_text_title', 'recorded_at'],
-      consents.map((k) => [
-        k.id,
-        k.typed_name,
-        k.consent_date,
-        k.consent_text_version,
-        k.title,
-        iso(k.created_at),
-      ]),
-    ),
-  );
-  add(
-    'visits.csv',
-    toCsv(
-      [
-        'session_id',
-        'status',
-        'started_at',
-        'finished_at',
-        'operator',
-        'reviewed_by',
-        'reviewed_at',
-        'findings',
-        'plan',
-        'follow_up_date',
-      ],
-      sessions.map((s) => [
-        s.id,
-        s.status,
-        iso(s.started_at),
-        iso(s.finished_at),
-        s.operator_name,
-        s.reviewer_name,
-        iso(s.reviewed_at),
-        s.findings,
-        s.plan,
-        s.follow_up_date,
-      ]),
-    ),
-  );
-  const measurementRows: unknown[][] = [];
-  for (const r of sites) {
-    measurementRows.push([r.session_id, r.site, iso(r.recorded_at), 'quality_verdict', r.quality_verdict]);
-    measurementRows.push([r.session_id, r.site, iso(r.recorded_at), 'duration_s', r.duration_s]);
-    if (r.skipped_reason)
-      measurementRows.push([r.session_id, r.site, iso(r.recorded_at), 'skipped_reason', r.skipped_reason]);
-    for (const [metric, value] of flattenMeasurements(r.analysis))
-      measurementRows.push([r.session_id, r.site, iso(r.recorded_at), metric, value]);
-  }
-  add(
-    'measurements.csv',
-    toCsv(['session_id', 'site', 'recorded_at', 'measurement', 'value'], measurementRows),
-  );
-
-  let clipsIncluded = 0;
-  const missing: string[] = [];
-  for (const r of sites) {
-    if (!r.clip_sha256) continue;
-    const date = (iso(r.recorded_at) ?? '').slice(0, 10) || 'undated';
-    let bytes: Uint8Array | null = r.storage_key ? await blobStore.get(r.storage_key) : null;
-    if (bytes && isSealed(bytes)) {
-      try {
-        bytes = openClip(bytes, clinicKeys.privateKey(caller.clinicId));
-      } catch {
-        bytes = null;
-      }
-    }
-    if (bytes && isWav(bytes)) {
-      add(`clips/${date}-${r.site}-${r.id.slice(0, 8)}.wav`, Buffer.from(bytes));
-      clipsIncluded += 1;
-    } else {
-      missing.push(
-        `${date} ${r.site} (${r.id}): ${bytes ? 'the clip could not be opened as WAV' : 'the clip has not reached the server'}`,
-      );
-    }
-  }
-
-  // The same report the practitioner downloads or e-mails: traces, S1/S2, measurements, findings and plan.
-  for (const s of sessions) {
-    if (!s.findings && !s.plan && s.status !== 'reviewed') continue;
-    const input = await buildReportInput(deps, caller, s.id, null);
-    add(`reports/${input.sessionDay}-${s.id.slice(0, 8)}.pdf`, await renderReportPdf(input));
-  }
-
-  add(
-    'README.txt',
-    [
-      `Export of one client's data from ${clinicName}, made ${new Date().toISOString()}.`,
-      '',
-      'client.csv        the client record',
-      'consents.csv      consents given, with the version of the consent text signed',
-      'visits.csv        recording sessions with findings, plan and follow-up date',
-      'measurements.csv  per site: quality verdict, duration and every measurement of the analysis of record',
-      'clips/            the recorded clips as WAV',
-      'reports/          the reports of reviewed sessions (PDF)',
-      '',
-      ...(missing.length ? ['Clips not included:', ...missing, ''] : []),
-      cautionText,
-      '',
-    ].join('\r\n'),
-  );
+  recordFiles(client, consents, sessions, sites).forEach(add);
+  const clips = await clipFiles(deps, caller.clinicId, sites);
+  clips.files.forEach(add);
+  (await reportFiles(deps, caller, sessions)).forEach(add);
+  add(readme(clinicName, clips.missing));
   await zip.finalize();
   await finished;
-  return { files, clipsIncluded, clipsMissing: missing.length };
+  return { files, clipsIncluded: clips.files.length, clipsMissing: clips.missing.length };
 }

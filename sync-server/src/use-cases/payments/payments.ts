@@ -8,7 +8,7 @@ import type {
 } from '@/shared/protocol/practice';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
-import { findClientRow } from '../../repositories/client-records-repository';
+import { findClientRow } from '../../repositories/clients-repository';
 import { iso } from '../../repositories/sql';
 import * as repo from '../../repositories/payments-repository';
 import { services } from '../../composition-root';

@@ -1,4 +1,4 @@
-import { referToClinician } from '@/shared/cautions';
+import { rangeStatusWords, referToClinician } from '@/shared/cautions';
 import type { Site } from '@/shared/protocol';
 import type { AnalysisSummary } from '@/shared/protocol/analysis';
 import type { Measurement, MeasurementStatus, MurmurScreen } from '@/shared/protocol/review';
@@ -74,18 +74,8 @@ export function readingOf(status: MeasurementStatus, key = ''): string {
   if ((status === 'below' || status === 'above') && !isReferralKey(key)) {
     return `${status === 'below' ? 'Below' : 'Above'} range: note it and compare across visits`;
   }
-  switch (status) {
-    case 'in_range':
-      return 'Within range';
-    case 'below':
-      return `Below range: ${referToClinician}`;
-    case 'above':
-      return `Above range: ${referToClinician}`;
-    case 'no_range':
-      return 'No range set';
-    default:
-      return 'Not measured';
-  }
+  const words = rangeStatusWords(status, referToClinician);
+  return words[0].toUpperCase() + words.slice(1);
 }
 
 export function metricValue(metrics: SiteMetrics | null | undefined, key: MetricKey): number | null {

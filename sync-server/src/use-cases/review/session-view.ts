@@ -245,6 +245,24 @@ async function siteRecord(
   return records.find((r) => r.site === site);
 }
 
+/** Listening to a recording or drawing its trace is on record, like opening the visit. */
+const auditRecordingOpened = (
+  caller: Caller,
+  action: 'review.recording.play' | 'review.recording.trace',
+  record: SiteRecord | undefined,
+  sessionId: string,
+  site: Site,
+) =>
+  recordAuditEvent({
+    clinicId: caller.clinicId,
+    userId: caller.userId,
+    action,
+    entity: 'site_recordings',
+    entityId: record?.id,
+    ip: caller.ip,
+    details: { sessionId, site },
+  });
+
 export async function siteAudio(
   deps: UseCaseDeps,
   caller: Caller,
@@ -253,15 +271,7 @@ export async function siteAudio(
 ): Promise<Uint8Array> {
   const record = await siteRecord(deps, caller, sessionId, site);
   const bytes = await clipBytes(deps, caller, record);
-  await recordAuditEvent({
-    clinicId: caller.clinicId,
-    userId: caller.userId,
-    action: 'review.recording.play',
-    entity: 'site_recordings',
-    entityId: record?.id,
-    ip: caller.ip,
-    details: { sessionId, site },
-  });
+  await auditRecordingOpened(caller, 'review.recording.play', record, sessionId, site);
   return bytes;
 }
 
@@ -273,15 +283,7 @@ export async function siteTrace(
 ): Promise<Trace> {
   const record = await siteRecord(deps, caller, sessionId, site);
   const trace = await clipTrace(deps, caller, record);
-  await recordAuditEvent({
-    clinicId: caller.clinicId,
-    userId: caller.userId,
-    action: 'review.recording.trace',
-    entity: 'site_recordings',
-    entityId: record?.id,
-    ip: caller.ip,
-    details: { sessionId, site },
-  });
+  await auditRecordingOpened(caller, 'review.recording.trace', record, sessionId, site);
   return { site, ...trace, sounds: soundMarks(record) };
 }
 

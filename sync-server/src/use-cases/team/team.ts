@@ -1,5 +1,5 @@
 import { createHmac, randomUUID, timingSafeEqual } from 'node:crypto';
-import { UniqueConstraintError, type Transaction } from 'sequelize';
+import type { Transaction } from 'sequelize';
 import { z } from 'zod';
 import type {
   AcceptInvitationRequest,
@@ -14,8 +14,9 @@ import type {
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import { iso } from '../../repositories/sql';
-import * as repo from '../../repositories/team-repository';
-import { createUser, normaliseEmail } from '../../repositories/users-repository';
+import * as invitationRows from '../../repositories/invitations-repository';
+import { revokeUserRefreshTokens } from '../../repositories/refresh-tokens-repository';
+import * as userRows from '../../repositories/users-repository';
 import { assertAcceptablePassword } from '../../services/password-policy';
 import { hashPassword } from '../../services/passwords';
 import { services } from '../../composition-root';
@@ -39,7 +40,7 @@ type InvitationBinding = { id: string; clinicId: string; email: string; expiresA
 
 const signature = (payload: string, email: string, secret: string) =>
   createHmac('sha256', secret)
-    .update(`invitation.${payload}.${normaliseEmail(email)}`)
+    .update(`invitation.${payload}.${userRows.normaliseEmail(email)}`)
     .digest();
 
 /**
@@ -60,7 +61,7 @@ async function invitationOfLink(
   deps: UseCaseDeps,
   token: string,
   transaction?: Transaction,
-): Promise<{ row: repo.InvitationRow & { clinic_name: string }; linkExpiry: number }> {
+): Promise<{ row: invitationRows.InvitationRow & { clinic_name: string }; linkExpiry: number }> {
   const [payload, given, extra] = token.split(tokenSeparator);
   if (!payload || !given || extra !== undefined) throw invalidLink();
   let link: z.infer<typeof linkSchema>;
@@ -70,7 +71,12 @@ async function invitationOfLink(
     throw invalidLink();
   }
   // The row lock makes a second, simultaneous use of the same link wait and then see it used.
-  const row = await repo.findInvitation(deps.sequelize, link.i, transaction, transaction !== undefined);
+  const row = await invitationRows.findInvitation(
+    deps.sequelize,
+    link.i,
+    transaction,
+    transaction !== undefined,
+  );
   if (!row || row.clinic_id !== link.c) throw invalidLink();
   const expected = signature(payload, row.email, deps.jwtSecret);
   const givenBytes = Buffer.from(given, 'base64url');
@@ -78,7 +84,7 @@ async function invitationOfLink(
   return { row, linkExpiry: link.e };
 }
 
-const invitationStatus = (row: repo.InvitationRow): Invitation['status'] =>
+const invitationStatus = (row: invitationRows.InvitationRow): Invitation['status'] =>
   row.accepted_at
     ? 'accepted'
     : row.revoked_at
@@ -87,7 +93,7 @@ const invitationStatus = (row: repo.InvitationRow): Invitation['status'] =>
         ? 'expired'
         : 'pending';
 
-function checkUsable(row: repo.InvitationRow, linkExpiry: number): void {
+function checkUsable(row: invitationRows.InvitationRow, linkExpiry: number): void {
   if (row.accepted_at) throw invitationUsed();
   if (row.revoked_at)
     throw new AppError(
@@ -106,8 +112,8 @@ function checkUsable(row: repo.InvitationRow, linkExpiry: number): void {
 
 export async function getTeam(deps: UseCaseDeps, caller: Caller): Promise<TeamResponse> {
   const [users, invitations] = await Promise.all([
-    repo.listTeamUsers(deps.sequelize, caller.clinicId),
-    repo.listInvitations(deps.sequelize, caller.clinicId),
+    userRows.listTeamUsers(deps.sequelize, caller.clinicId),
+    invitationRows.listInvitations(deps.sequelize, caller.clinicId),
   ]);
   return {
     users: users.map((u): TeamUser => ({
@@ -136,12 +142,12 @@ export async function inviteUser(
   input: InviteRequest,
   linkBase: string,
 ): Promise<{ invitation: Invitation; emailed: boolean }> {
-  const email = normaliseEmail(input.email);
-  if (await repo.emailTaken(deps.sequelize, email)) throw emailInUse();
+  const email = userRows.normaliseEmail(input.email);
+  if (await userRows.emailTaken(deps.sequelize, email)) throw emailInUse();
   const id = randomUUID();
   const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
   await deps.sequelize.transaction(async (transaction) => {
-    await repo.insertInvitation(
+    await invitationRows.insertInvitation(
       deps.sequelize,
       {
         id,
@@ -167,7 +173,7 @@ export async function inviteUser(
       transaction,
     );
   });
-  const row = (await repo.findInvitation(deps.sequelize, id))!;
+  const row = (await invitationRows.findInvitation(deps.sequelize, id))!;
   const link = `${linkBase}/invite/${signInvitationToken(
     { id, clinicId: caller.clinicId, email, expiresAt },
     deps.jwtSecret,
@@ -236,26 +242,23 @@ export async function acceptInvitation(
   const user = await deps.sequelize.transaction(async (transaction) => {
     const { row, linkExpiry } = await invitationOfLink(deps, token, transaction);
     checkUsable(row, linkExpiry);
-    if (normaliseEmail(input.email) !== row.email)
+    if (userRows.normaliseEmail(input.email) !== row.email)
       throw new AppError(
         'invitation_other_address',
         'This invitation was sent to another e-mail address: use the address the invitation reached.',
         403,
       );
-    if (await repo.emailTaken(deps.sequelize, row.email, transaction)) throw emailInUse();
+    if (await userRows.emailTaken(deps.sequelize, row.email, transaction)) throw emailInUse();
     const userId = randomUUID();
-    try {
-      await createUser(
-        row.clinic_id,
-        { id: userId, email: row.email, name: input.name, role: row.role, passwordHash },
-        transaction,
-      );
-    } catch (error) {
-      // Another clinic's invitation to the same address was accepted at the same moment.
-      if (error instanceof UniqueConstraintError) throw emailInUse();
-      throw error;
-    }
-    if ((await repo.markInvitationAccepted(deps.sequelize, row.id, userId, transaction)) !== 1)
+    const created = await userRows.createUser(
+      deps.sequelize,
+      row.clinic_id,
+      { id: userId, email: row.email, name: input.name, role: row.role, passwordHash },
+      transaction,
+    );
+    // Another clinic's invitation to the same address was accepted at the same moment.
+    if (created.kind === 'email_in_use') throw emailInUse();
+    if ((await invitationRows.markInvitationAccepted(deps.sequelize, row.id, userId, transaction)) !== 1)
       throw invitationUsed();
     await recordAuditEvent(
       {
@@ -279,7 +282,7 @@ export async function withdrawInvitation(
   caller: Caller,
   invitationId: string,
 ): Promise<void> {
-  const changed = await repo.revokeInvitation(deps.sequelize, caller.clinicId, invitationId);
+  const changed = await invitationRows.revokeInvitation(deps.sequelize, caller.clinicId, invitationId);
   if (changed === 0) throw new AppError('not_found', 'There is no open invitation with this id.', 404);
   await recordAuditEvent({
     clinicId: caller.clinicId,
@@ -298,8 +301,8 @@ export async function changeTeamUser(
   input: UpdateTeamUserRequest,
 ): Promise<TeamUser> {
   return deps.sequelize.transaction(async (transaction) => {
-    const admins = await repo.lockActiveAdmins(deps.sequelize, caller.clinicId, transaction);
-    const user = await repo.findTeamUser(deps.sequelize, caller.clinicId, userId, transaction);
+    const admins = await userRows.lockActiveAdmins(deps.sequelize, caller.clinicId, transaction);
+    const user = await userRows.lockTeamUser(deps.sequelize, caller.clinicId, userId, transaction);
     if (!user) throw new AppError('not_found', 'There is no such user in this clinic.', 404);
     const next = { role: input.role ?? user.role, disabled: input.disabled ?? user.disabled };
     const wasActiveAdmin = user.role === 'admin' && !user.disabled;
@@ -311,9 +314,8 @@ export async function changeTeamUser(
         409,
       );
     }
-    await repo.updateTeamUser(deps.sequelize, userId, next, transaction);
-    if (next.disabled && !user.disabled)
-      await repo.revokeUserRefreshTokens(deps.sequelize, userId, transaction);
+    await userRows.updateTeamUser(deps.sequelize, caller.clinicId, userId, next, transaction);
+    if (next.disabled && !user.disabled) await revokeUserRefreshTokens(deps.sequelize, userId, transaction);
     const details: Record<string, unknown> = {};
     if (next.role !== user.role) details.role = { from: user.role, to: next.role };
     if (next.disabled !== user.disabled) details.disabled = next.disabled;
