@@ -371,6 +371,39 @@ export function screenMurmur(
   };
 }
 
+/** A site's score at or above this is borderline: the visit is flagged when two of its sites are. */
+export const MURMUR_PAIR_THRESHOLD = committedModel.pairThreshold;
+
+const isBorderline = (s: MurmurScreen, pairThreshold: number) =>
+  s.murmur === 'unlikely' && s.score >= pairThreshold;
+
+/**
+ * Each site's screen as the visit reads it: when the visit is possible because two or more sites are borderline,
+ * those sites read `possible` too, with the reason first, so every screen, report and filter that shows a site
+ * says what the visit says. Otherwise the sites' own screens, unchanged.
+ */
+export function screensInVisit<S extends MurmurScreen | null | undefined>(
+  screens: readonly S[],
+  model: Pick<MurmurModel, 'pairThreshold'> = committedModel,
+): (S | MurmurScreen)[] {
+  const judged = screens.filter((s): s is NonNullable<S> => !!s);
+  if (judged.some((s) => s.murmur === 'possible')) return [...screens];
+  const borderline = judged.filter((s) => isBorderline(s, model.pairThreshold));
+  if (borderline.length < 2) return [...screens];
+  return screens.map((s) =>
+    s && isBorderline(s, model.pairThreshold)
+      ? {
+          ...s,
+          murmur: 'possible' as const,
+          reasons: [
+            `borderline here and at ${borderline.length - 1 === 1 ? 'another site' : `${borderline.length - 1} other sites`} of this visit, which together flag a possible murmur`,
+            ...s.reasons.filter((r) => !r.startsWith('borderline:')),
+          ],
+        }
+      : s,
+  );
+}
+
 /**
  * The screen of a visit over its sites: `possible` when any site is or when two sites score at or above the model's
  * pair threshold (both borderline), else `unsure` when any site could not be judged (that site may hide one), else
@@ -383,8 +416,7 @@ export function visitMurmurScreen(
   const screens = sites.map((s) => s?.screen).filter((s): s is MurmurScreen => !!s);
   if (screens.length === 0) return null;
   if (screens.some((s) => s.murmur === 'possible')) return 'possible';
-  const borderline = screens.filter((s) => s.murmur === 'unlikely' && s.score >= model.pairThreshold);
-  if (borderline.length >= 2) return 'possible';
+  if (screens.filter((s) => isBorderline(s, model.pairThreshold)).length >= 2) return 'possible';
   if (screens.some((s) => s.murmur === 'unsure')) return 'unsure';
   return 'unlikely';
 }
