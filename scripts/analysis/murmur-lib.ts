@@ -13,6 +13,7 @@ import { analyseInDetail } from '../../shared/analysis/analyse';
 import {
   MURMUR_FEATURES,
   screenMurmur,
+  visitMurmurScreen,
   type MurmurFeatureName,
   type MurmurFeatures,
   type MurmurModel,
@@ -49,8 +50,13 @@ export const fittable = (e: Example) =>
 
 /** The L2 penalty on the standardised weights (not on the bias); chosen by the cross-validation in score-murmur.ts. */
 export const L2_PENALTY = 3;
-/** The patient-wise sensitivity the threshold is set for on out-of-fold scores of the fitting patients. */
-export const TARGET_SENSITIVITY = 0.9;
+/**
+ * The patient-wise sensitivity the two thresholds are set for on out-of-fold scores of the fitting patients. Above
+ * the issue's floor of 0.9: choosing two thresholds on the same scores flatters them, and by the outer
+ * cross-validation (five shuffles of the patients, score-murmur.ts --shuffles 5) a target of 0.9 delivered 88 % on
+ * patients never fitted on, 0.93 delivered 94 % (0.95: 94 % with 9 points less specificity).
+ */
+export const TARGET_SENSITIVITY = 0.93;
 
 function solve(matrix: number[][], vector: number[]): number[] {
   const n = vector.length;
@@ -76,7 +82,7 @@ export function fitLogistic(
   examples: Example[],
   names: readonly MurmurFeatureName[] = MURMUR_FEATURES,
   penalty = L2_PENALTY,
-): Omit<MurmurModel, 'version' | 'threshold'> {
+): Omit<MurmurModel, 'version' | 'threshold' | 'pairThreshold'> {
   const rows = examples.filter(fittable);
   const raw = rows.map((e) => names.map((name) => (e.features as MurmurFeatures).values[name]));
   const y: number[] = rows.map((e) => (e.label ? 1 : 0));
@@ -135,44 +141,76 @@ export interface PatientResult {
   call: PatientCall;
   /** Highest site score among the sites the screen judged. */
   score: number;
+  /** The judged sites' scores, highest first. */
+  scores: number[];
   /** Whether any site could be judged (not unsure). */
   judged: boolean;
+  /** The call from the sites alone, without the pair rule (what a flag stored per site shows). */
+  siteAlone: PatientCall;
 }
 
-/** A visit's call as the product makes it: possible if any site is, else unsure if any site is, else unlikely. */
+/** A visit's call as the product makes it (visitMurmurScreen). */
 export function patientCalls(examples: Example[], model: MurmurModel): PatientResult[] {
   const byPatient = new Map<string, Example[]>();
   for (const e of examples)
     byPatient.set(e.recording.patient, [...(byPatient.get(e.recording.patient) ?? []), e]);
   return [...byPatient.entries()].map(([patient, sites]) => {
     const screens = sites.map((e) => screenMurmur(e.features, e.quality as Quality, model));
-    const call: PatientCall = screens.some((s) => s.murmur === 'possible')
-      ? 'possible'
-      : screens.some((s) => s.murmur === 'unsure')
-        ? 'unsure'
-        : 'unlikely';
+    const scores = screens
+      .filter((s) => s.murmur !== 'unsure')
+      .map((s) => s.score)
+      .sort((a, b) => b - a);
     return {
       patient,
       murmur: sites[0].recording.murmur,
-      call,
-      score: Math.max(0, ...screens.map((s) => s.score)),
-      judged: screens.some((s) => s.murmur !== 'unsure'),
+      call: visitMurmurScreen(
+        screens.map((screen) => ({ screen })),
+        model,
+      ) as PatientCall,
+      score: scores[0] ?? 0,
+      scores,
+      judged: scores.length > 0,
+      siteAlone: visitMurmurScreen(
+        screens.map((screen) => ({ screen })),
+        { pairThreshold: Infinity },
+      ) as PatientCall,
     };
   });
 }
 
+/** Whether a visit with these site scores (highest first) is possible under the two thresholds. */
+export const flagged = (scores: number[], threshold: number, pairThreshold: number) =>
+  (scores[0] ?? 0) >= threshold || (scores[1] ?? 0) >= pairThreshold;
+
 /**
- * The highest threshold whose patient-wise sensitivity on `scored` (each patient's highest site score, from
- * models that never saw that patient) reaches the target: a missed murmur is worse than a false alarm.
+ * The site threshold and the pair threshold that clear the most Absent patients of `scored` (site scores from
+ * models that never saw that patient) while flagging at least `target` of the Present ones: a missed murmur is
+ * worse than a false alarm. Candidates are the Present patients' own highest and second-highest scores; among
+ * equals the lower site threshold wins, so that the capture, which sees one site at a time, flags on its own as
+ * often as the visit's figures allow.
  */
-export function chooseThreshold(scored: PatientResult[], target = TARGET_SENSITIVITY): number {
-  const present = scored
-    .filter((p) => p.murmur === 'Present' && p.judged)
-    .map((p) => p.score)
-    .sort((a, b) => b - a);
-  if (present.length === 0) return 0.5;
-  const needed = Math.ceil(target * present.length);
-  return present[needed - 1];
+export function chooseThresholds(
+  scored: PatientResult[],
+  target = TARGET_SENSITIVITY,
+): { threshold: number; pairThreshold: number } {
+  const present = scored.filter((p) => p.murmur === 'Present' && p.judged);
+  const absent = scored.filter((p) => p.murmur === 'Absent');
+  if (present.length === 0) return { threshold: 0.5, pairThreshold: 0.5 };
+  const candidates = (k: number) => [...new Set(present.map((p) => p.scores[k] ?? 0)), Infinity];
+  let best = { threshold: Math.min(...present.map((p) => p.score)), pairThreshold: Infinity };
+  let bestCleared = -1;
+  for (const threshold of candidates(0).sort((a, b) => a - b))
+    for (const pairThreshold of candidates(1)) {
+      if (pairThreshold > threshold) continue;
+      const hits = present.filter((p) => flagged(p.scores, threshold, pairThreshold)).length;
+      if (hits < target * present.length) continue;
+      const cleared = absent.filter((p) => !flagged(p.scores, threshold, pairThreshold)).length;
+      if (cleared > bestCleared) {
+        bestCleared = cleared;
+        best = { threshold, pairThreshold: Math.min(pairThreshold, threshold) };
+      }
+    }
+  return best;
 }
 
 /** Out-of-fold patient scores over `examples` from `folds` patient-wise folds (fitting on the others each time). */
@@ -190,7 +228,7 @@ export function outOfFoldScores(
       names,
       penalty,
     );
-    const model: MurmurModel = { ...fitted, version: 'inner', threshold: Infinity };
+    const model: MurmurModel = { ...fitted, version: 'inner', threshold: Infinity, pairThreshold: Infinity };
     results.push(
       ...patientCalls(
         examples.filter((e) => heldSet.has(e.recording.patient)),
@@ -212,8 +250,11 @@ export function fitScreen(
 ): MurmurModel {
   const fitted = fitLogistic(examples, names, penalty);
   const known = examples.filter((e) => e.label !== null);
-  const threshold = chooseThreshold(outOfFoldScores(known, innerFolds, names, penalty), target);
-  return { version, ...fitted, threshold };
+  return {
+    version,
+    ...fitted,
+    ...chooseThresholds(outOfFoldScores(known, innerFolds, names, penalty), target),
+  };
 }
 
 export interface Figures {

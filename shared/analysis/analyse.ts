@@ -3,8 +3,13 @@ import { frameFeatures } from './features';
 import { STATE_S1, STATE_S2, type HsmmModel } from './hsmm';
 import { measure, toHeartSounds, type SoundSpan } from './measurements';
 import modelJson from './model/hsmm-model.json';
-import murmurModelJson from './model/murmur-model.json';
-import { murmurFeatures, screenMurmur, type MurmurFeatures, type MurmurModel } from './murmur';
+import {
+  committedModel as murmurModel,
+  murmurFeatures,
+  screenMurmur,
+  type MurmurFeatures,
+  type MurmurModel,
+} from './murmur';
 import { preprocess } from './preprocess';
 import { rateEvidence, type RateEvidence } from './rate-check';
 import { assessQuality, clippedFraction } from './quality';
@@ -12,9 +17,7 @@ import { segmentFrames, stateRuns } from './segmentation';
 import type { AnalysisOptions, AnalysisResult, Metrics } from './types';
 import { checkSampleRate, decodeWav, MAX_DURATION_S } from './wav';
 
-const murmurModel = murmurModelJson as MurmurModel;
-
-export const ANALYSIS_VERSION = `1.3.0+model.${(modelJson as HsmmModel).version}+murmur.${murmurModel.version}`;
+export const ANALYSIS_VERSION = `1.4.0+model.${(modelJson as HsmmModel).version}+murmur.${murmurModel.version}`;
 
 /** Below this the segmentation has too little to work with; the verdict says so. */
 const MIN_ANALYSED_S = 2;

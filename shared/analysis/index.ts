@@ -14,4 +14,4 @@ export { AnalysisError, type AnalysisErrorCode } from './errors';
 export { decodeWav, encodeWav16, type DecodedWav } from './wav';
 export { analysePcm, analyseWav, ANALYSIS_VERSION } from './analyse';
 export { traceForDisplay, type DisplayTrace } from './trace';
-export { visitMurmurScreen } from './murmur';
+export { MURMUR_PAIR_THRESHOLD, screensInVisit, visitMurmurScreen } from './murmur';

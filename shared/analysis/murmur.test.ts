@@ -1,6 +1,6 @@
 import { analysePcm } from './analyse';
 import { syntheticBeatTrain, type BeatTrainOptions } from './synthetic';
-import { visitMurmurScreen } from './murmur';
+import { screensInVisit, visitMurmurScreen } from './murmur';
 import type { MurmurScreen } from './types';
 
 /*
@@ -78,8 +78,53 @@ describe('visitMurmurScreen', () => {
     expect(visitMurmurScreen([site('unlikely'), site('unsure')])).toBe('unsure');
   });
 
+  test('when two sites are borderline (at or above the pair threshold) and none is possible alone, then the visit is possible; one borderline site is not enough', () => {
+    const scored = (score: number) => ({ screen: { murmur: 'unlikely' as const, score, reasons: [] } });
+    const model = { pairThreshold: 0.4 };
+    expect(visitMurmurScreen([scored(0.45), scored(0.1), scored(0.41), scored(0.2)], model)).toBe('possible');
+    expect(visitMurmurScreen([scored(0.45), scored(0.39), scored(0.1)], model)).toBe('unlikely');
+    // an unsure site scores 0 and never counts as borderline
+    expect(visitMurmurScreen([scored(0.45), site('unsure')], model)).toBe('unsure');
+  });
+
   test('when every site is unlikely, then the visit is unlikely; with no screened site there is no call', () => {
     expect(visitMurmurScreen([site('unlikely'), site('unlikely')])).toBe('unlikely');
     expect(visitMurmurScreen([null, {}])).toBeNull();
+  });
+});
+
+describe('screensInVisit', () => {
+  const scored = (score: number): MurmurScreen => ({
+    murmur: 'unlikely',
+    score,
+    reasons: [
+      'systole is 1.2 times the level of diastole',
+      'borderline: the visit is flagged as a possible murmur if…',
+    ],
+  });
+  const model = { pairThreshold: 0.4 };
+
+  test('when two sites are borderline, then exactly those two read possible with the visit’s reason first, and the rest are unchanged', () => {
+    const [a, b, c, d] = screensInVisit([scored(0.45), scored(0.1), scored(0.41), null], model);
+    expect(a).toMatchObject({ murmur: 'possible', score: 0.45 });
+    expect(a!.reasons[0]).toMatch(/^borderline here and at another site of this visit/);
+    expect(a!.reasons.some((r) => r.startsWith('borderline:'))).toBe(false);
+    expect(c).toMatchObject({ murmur: 'possible', score: 0.41 });
+    expect(b).toEqual(scored(0.1));
+    expect(d).toBeNull();
+    // What the sites say agrees with what the visit says.
+    expect(
+      visitMurmurScreen(
+        [a, b, c, d].map((screen) => ({ screen })),
+        model,
+      ),
+    ).toBe('possible');
+  });
+
+  test('when only one site is borderline, or one is possible on its own, then no site changes', () => {
+    const one = [scored(0.45), scored(0.1)];
+    expect(screensInVisit(one, model)).toEqual(one);
+    const alone = [{ ...scored(0.95), murmur: 'possible' as const }, scored(0.45), scored(0.41)];
+    expect(screensInVisit(alone, model)).toEqual(alone);
   });
 });

@@ -2,6 +2,7 @@ import { butter, type TransferFunction } from './butterworth';
 import { lfilter } from './filtfilt';
 import type { SoundSpan } from './measurements';
 import type { MurmurScreen, Quality } from './types';
+import murmurModelJson from './model/murmur-model.json';
 import { median } from './variability';
 
 /*
@@ -11,10 +12,11 @@ import { median } from './variability';
  * the sounds around it (in three bands: whole, above 100 Hz, above 200 Hz), against the other rest interval and
  * against the clip's quiet floor, as medians over beats; how much of systole carries sound (each third, and the
  * share of 10 ms blocks over diastole's typical level) and how steadily; how many beats show it and how much that
- * varies. Level ratios against the clip's own S1/S2 make a quiet and a loud clip compare alike. A visit's screen is
- * its sites' (possible when any site is): the capture judges a site alone, before the other sites exist. A logistic
- * regression over the features is fitted by
- * scripts/analysis/fit-murmur.ts and committed in model/murmur-model.json.
+ * varies. Level ratios against the clip's own S1/S2 make a quiet and a loud clip compare alike. A logistic
+ * regression over the features is fitted by scripts/analysis/fit-murmur.ts and committed in model/murmur-model.json.
+ * A visit is possible when any site is, and also when two of its sites are borderline: a murmur is usually heard at
+ * more than one site, while a site that scores high by chance (a rub, a cry, a noisy contact) is usually alone. The
+ * capture judges a site alone (the higher threshold) before the other sites exist; the visit adds the second rule.
  */
 
 /** Share of each rest interval left out at either end, so the edges of S1 and S2 do not count as a murmur. */
@@ -86,11 +88,16 @@ export interface MurmurModel {
   scale: number[];
   weights: number[];
   bias: number;
-  /** A site is `possible` at or above this score. */
+  /** A site is `possible` on its own at or above this score. */
   threshold: number;
+  /** A visit is `possible` when two of its sites score at or above this (never above `threshold`). */
+  pairThreshold: number;
   /** How the parameters were fitted and what they scored; for people, not read by the code. */
   notes?: Record<string, unknown>;
 }
+
+/** The fitted screen committed with the code. */
+export const committedModel = murmurModelJson as MurmurModel;
 
 interface Span {
   start: number;
@@ -320,6 +327,10 @@ function reasonsFor(
     reasons.push(
       `systole (between S1 and S2) is ${times(v.systoleVsDiastole)} times the level of diastole; sound fills it in ${filledBeats} of ${n} beats`,
     );
+    if (score >= model.pairThreshold)
+      reasons.push(
+        'borderline: the visit is flagged as a possible murmur if another site of the same visit is borderline too',
+      );
     if (highRatio <= Math.log(FILLED_RATIO))
       reasons.push(`no more high-pitched sound (above ${SPLIT_HZ} Hz) in systole than in diastole`);
   }
@@ -360,16 +371,52 @@ export function screenMurmur(
   };
 }
 
+/** A site's score at or above this is borderline: the visit is flagged when two of its sites are. */
+export const MURMUR_PAIR_THRESHOLD = committedModel.pairThreshold;
+
+const isBorderline = (s: MurmurScreen, pairThreshold: number) =>
+  s.murmur === 'unlikely' && s.score >= pairThreshold;
+
 /**
- * The screen of a visit over its sites: `possible` when any site is, else `unsure` when any site could not be
- * judged (that site may hide one), else `unlikely`. Sites without a screen are ignored.
+ * Each site's screen as the visit reads it: when the visit is possible because two or more sites are borderline,
+ * those sites read `possible` too, with the reason first, so every screen, report and filter that shows a site
+ * says what the visit says. Otherwise the sites' own screens, unchanged.
+ */
+export function screensInVisit<S extends MurmurScreen | null | undefined>(
+  screens: readonly S[],
+  model: Pick<MurmurModel, 'pairThreshold'> = committedModel,
+): (S | MurmurScreen)[] {
+  const judged = screens.filter((s): s is NonNullable<S> => !!s);
+  if (judged.some((s) => s.murmur === 'possible')) return [...screens];
+  const borderline = judged.filter((s) => isBorderline(s, model.pairThreshold));
+  if (borderline.length < 2) return [...screens];
+  return screens.map((s) =>
+    s && isBorderline(s, model.pairThreshold)
+      ? {
+          ...s,
+          murmur: 'possible' as const,
+          reasons: [
+            `borderline here and at ${borderline.length - 1 === 1 ? 'another site' : `${borderline.length - 1} other sites`} of this visit, which together flag a possible murmur`,
+            ...s.reasons.filter((r) => !r.startsWith('borderline:')),
+          ],
+        }
+      : s,
+  );
+}
+
+/**
+ * The screen of a visit over its sites: `possible` when any site is or when two sites score at or above the model's
+ * pair threshold (both borderline), else `unsure` when any site could not be judged (that site may hide one), else
+ * `unlikely`. Sites without a screen are ignored.
  */
 export function visitMurmurScreen(
   sites: readonly ({ screen?: MurmurScreen | null } | null | undefined)[],
+  model: Pick<MurmurModel, 'pairThreshold'> = committedModel,
 ): MurmurScreen['murmur'] | null {
   const screens = sites.map((s) => s?.screen).filter((s): s is MurmurScreen => !!s);
   if (screens.length === 0) return null;
   if (screens.some((s) => s.murmur === 'possible')) return 'possible';
+  if (screens.filter((s) => isBorderline(s, model.pairThreshold)).length >= 2) return 'possible';
   if (screens.some((s) => s.murmur === 'unsure')) return 'unsure';
   return 'unlikely';
 }

@@ -6,6 +6,7 @@ import zlib from 'node:zlib';
 import request from 'supertest';
 import type { Role } from '@/shared/protocol';
 import { reviewSessionDetailSchema, type ReviewSessionDetail } from '@/shared/protocol/review';
+import { MURMUR_PAIR_THRESHOLD } from '@/shared/analysis/murmur';
 import { analyseDemoClip } from '@/sync-server/seeders/analyse-demo-clip';
 import { DEMO_USERS, seedDemo } from '@/sync-server/seeders/demo';
 import { demoPassword } from '@/sync-server/src/config/secrets';
@@ -215,6 +216,65 @@ describe('referral agreement', () => {
     expect((await detailOf(tokens.practitioner, older)).sites[0]!.murmurScreen).toBeNull();
     expect(await mailPreview(tokens.practitioner, possible)).toContain('Mitral site: Possible murmur');
     expect(await reportText(tokens.practitioner, possible)).toMatch(REPORT_REFERRAL);
+  });
+
+  // The visit rule of murmur screen 3 (shared/analysis/README.md): two borderline sites flag a visit that no site
+  // flags alone. Scores are placed just above and below the committed model's pair threshold.
+  test('when two sites of a visit are borderline for a murmur, then the visit is flagged everywhere at those sites; one borderline site flags nothing', async () => {
+    const clientId = await addClient(clinic.id, 'Perrin', 'Borderwell');
+    const borderline = {
+      murmur: 'unlikely' as const,
+      score: MURMUR_PAIR_THRESHOLD + 0.02,
+      reasons: [
+        'borderline: the visit is flagged as a possible murmur if another site of the same visit is borderline too',
+      ],
+    };
+    const clear = {
+      murmur: 'unlikely' as const,
+      score: MURMUR_PAIR_THRESHOLD - 0.02,
+      reasons: ['no more sound'],
+    };
+    const pair = await addSession({
+      clinicId: clinic.id,
+      clientId,
+      startedAt: new Date('2026-10-05T09:00:00Z'),
+      sites: {
+        mitral: { heartRateBpm: 72, screen: borderline },
+        tricuspid: { heartRateBpm: 72, screen: clear },
+        aortic: { heartRateBpm: 72, screen: borderline },
+      },
+    });
+    const single = await addSession({
+      clinicId: clinic.id,
+      clientId,
+      startedAt: new Date('2026-10-06T09:00:00Z'),
+      sites: {
+        mitral: { heartRateBpm: 72, screen: borderline },
+        aortic: { heartRateBpm: 72, screen: clear },
+      },
+    });
+    expect(await listIds(tokens.practitioner, { clientId, flagged: 'true' })).toEqual([pair]);
+    expect(await listIds(tokens.practitioner, { clientId, flagged: 'false' })).toEqual([single]);
+    const rows = await request(ctx.app)
+      .get('/api/review/sessions')
+      .query({ clientId, limit: '10' })
+      .set(auth(tokens.practitioner));
+    const flaggedById = Object.fromEntries(
+      (rows.body.sessions as { id: string; flagged: boolean }[]).map((r) => [r.id, r.flagged]),
+    );
+    expect(flaggedById).toEqual({ [pair]: true, [single]: false });
+
+    const detail = await detailOf(tokens.practitioner, pair);
+    expect(detail.referral.reasons).toEqual(['Mitral: Possible murmur', 'Aortic: Possible murmur']);
+    const mitral = detail.sites.find((s) => s.site === 'mitral')!;
+    expect(mitral.murmurScreen).toMatchObject({ murmur: 'possible' });
+    expect(mitral.murmurScreen!.reasons[0]).toMatch(/another site of this visit/);
+    expect(detail.sites.find((s) => s.site === 'tricuspid')!.murmurScreen).toMatchObject({
+      murmur: 'unlikely',
+    });
+    expect(await mailPreview(tokens.practitioner, pair)).toContain('Aortic site: Possible murmur');
+    expect(await reportText(tokens.practitioner, pair)).toMatch(REPORT_REFERRAL);
+    expect((await detailOf(tokens.practitioner, single)).referral.flagged).toBe(false);
   });
 
   test('when the practitioner flags a session with a note and later clears it, then the list, the view and the e-mail follow, and both are audited', async () => {

@@ -7,6 +7,7 @@ import {
   type AnalysisSummary,
   type StoredAnalysis,
 } from '@/shared/protocol/analysis';
+import { MURMUR_PAIR_THRESHOLD } from '@/shared/analysis/murmur';
 import type { QualityVerdict, SessionStatus, Site } from '@/shared/protocol';
 import type { ReviewSessionRow, ReviewSort } from '@/shared/protocol/review';
 import { escapeLike, execute, selectRows } from './sql';
@@ -81,10 +82,17 @@ const siteFlag = `sr.review_irregular OR sr.review_possible_murmur
     OR sr.review_systolic_activity < r.sys_low OR sr.review_systolic_activity > r.sys_high
     OR sr.review_diastolic_activity < r.dia_low OR sr.review_diastolic_activity > r.dia_high`;
 
-// Per site: its quality rank, and whether it reads "refer to a licensed clinician" under the clinic's limits.
+// A site whose murmur score is borderline: two in one visit flag it (screensInVisit in shared/analysis). The
+// threshold comes from the committed model as the replacement :pairThreshold.
+const murmurBorderline = `(sr.analysis->'screen'->>'murmur' = 'unlikely'
+    AND CAST(sr.analysis->'screen'->>'score' AS real) >= CAST(:pairThreshold AS real))`;
+
+// Per site: its quality rank, whether it reads "refer to a licensed clinician" under the clinic's limits, and
+// whether its murmur score is borderline.
 const siteFacts = `
   CASE sr.quality_verdict WHEN 'good' THEN 1 WHEN 'usable' THEN 2 WHEN 'retake' THEN 3 END AS rank,
-  (${siteFlag}) AS flag`;
+  (${siteFlag}) AS flag,
+  ${murmurBorderline} AS murmur_borderline`;
 
 function filterSql(
   clinicId: string,
@@ -124,10 +132,15 @@ function filterSql(
   const sitesOf = (condition: string) =>
     `EXISTS (SELECT 1 FROM site_recordings sr ${limitsJoin(limits, replacements)}
               WHERE sr.clinic_id = :clinicId AND sr.session_id = s.id AND sr.deleted_at IS NULL AND (${condition}))`;
-  // Flagged: a site's facts say refer (the same rules as siteReferralReasons), or a practitioner flagged it.
+  // Flagged: a site's facts say refer (the same rules as siteReferralReasons), two sites are borderline for a
+  // murmur, or a practitioner flagged it.
   const flaggedByHand = `EXISTS (SELECT 1 FROM session_referral_flags f WHERE f.clinic_id = :clinicId AND f.session_id = s.id)`;
-  if (filter.flagged === true) where.push(`(${sitesOf(siteFlag)} OR ${flaggedByHand})`);
-  if (filter.flagged === false) where.push(`NOT ${sitesOf(siteFlag)} AND NOT ${flaggedByHand}`);
+  replacements.pairThreshold = MURMUR_PAIR_THRESHOLD;
+  const murmurPair = `(SELECT count(*) FROM site_recordings sr
+      WHERE sr.clinic_id = :clinicId AND sr.session_id = s.id AND sr.deleted_at IS NULL AND ${murmurBorderline}) >= 2`;
+  if (filter.flagged === true) where.push(`(${sitesOf(siteFlag)} OR ${murmurPair} OR ${flaggedByHand})`);
+  if (filter.flagged === false)
+    where.push(`NOT ${sitesOf(siteFlag)} AND NOT ${murmurPair} AND NOT ${flaggedByHand}`);
   if (filter.quality) {
     // The worst site decides: one site at this verdict and none worse.
     const worse = (['good', 'usable', 'retake'] as const).filter(
@@ -208,7 +221,7 @@ export async function listReviewSessions(
     total = Number(counted[0]?.n ?? 0);
   }
   const ids = page.slice(0, options.limit).map((r) => r.id);
-  const detailReplacements: Record<string, unknown> = { clinicId, ids };
+  const detailReplacements: Record<string, unknown> = { clinicId, ids, pairThreshold: MURMUR_PAIR_THRESHOLD };
   const details = ids.length
     ? await selectRows<ListRow>(
         sequelize,
@@ -219,7 +232,8 @@ export async function listReviewSessions(
            JOIN clients c ON c.id = s.client_id AND c.clinic_id = s.clinic_id
            LEFT JOIN users u ON u.id = s.operator_id AND u.clinic_id = s.clinic_id
            LEFT JOIN LATERAL (
-             SELECT max(rank) AS worst_rank, bool_or(flag) AS flagged,
+             SELECT max(rank) AS worst_rank,
+                    bool_or(flag) OR count(*) FILTER (WHERE murmur_borderline) >= 2 AS flagged,
                     json_agg(json_build_object('site', site, 'verdict', quality_verdict, 'skipped', skipped)) AS sites
                FROM (SELECT sr.site, sr.quality_verdict, sr.skipped_reason IS NOT NULL AS skipped, ${siteFacts}
                        FROM site_recordings sr

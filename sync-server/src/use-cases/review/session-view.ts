@@ -9,6 +9,8 @@ import type {
   Trends,
 } from '@/shared/protocol/review';
 import type { StoredTrace } from '@/shared/protocol/analysis';
+import { screensInVisit } from '@/shared/analysis/murmur';
+import type { MurmurScreen } from '@/shared/analysis/types';
 import { decodeWav } from '@/shared/analysis/wav';
 import { isSealed } from '@/shared/seal';
 import { AppError } from '../../errors';
@@ -53,11 +55,16 @@ export async function loadSession(
   return session;
 }
 
-export function reviewSite(site: Site, record: SiteRecord | undefined, ranges: RangeLookup): ReviewSite {
+/** `murmurScreen`: the site's screen as its visit reads it (`screensInVisit`), not only the clip's own. */
+export function reviewSite(
+  site: Site,
+  record: SiteRecord | undefined,
+  ranges: RangeLookup,
+  murmurScreen: MurmurScreen | null,
+): ReviewSite {
   const analysis = record?.analysis ?? null;
   const metrics = analysis?.metrics ?? null;
   const measurements = evaluateSite(metrics, site, ranges);
-  const murmurScreen = analysis?.screen ?? null;
   const referralReasons = analysis ? siteReferralReasons(metrics, measurements, murmurScreen) : [];
   return {
     site,
@@ -113,13 +120,9 @@ export async function reviewSitesOf(
 ): Promise<{ sites: ReviewSite[]; records: SiteRecord[]; referral: SessionReferral }> {
   const ranges = await rangesForClinic(deps.sequelize, caller.clinicId);
   const records = (await findSiteRecords(deps.sequelize, caller.clinicId, [sessionId])).get(sessionId) ?? [];
-  const sites = SITES.map((site) =>
-    reviewSite(
-      site,
-      records.find((r) => r.site === site),
-      ranges,
-    ),
-  );
+  const bySite = SITES.map((site) => records.find((r) => r.site === site));
+  const screens = screensInVisit(bySite.map((r) => r?.analysis?.screen ?? null));
+  const sites = SITES.map((site, i) => reviewSite(site, bySite[i], ranges, screens[i] ?? null));
   const manual = await findReferralFlag(deps.sequelize, caller.clinicId, sessionId);
   return { sites, records, referral: sessionReferral(sites, manual) };
 }
@@ -391,17 +394,18 @@ export async function clientTrends(deps: UseCaseDeps, caller: Caller, clientId: 
       };
     }),
   );
-  const murmurScreens = visits.flatMap((v) =>
-    (records.get(v.id) ?? [])
+  const murmurScreens = visits.flatMap((v) => {
+    const analysed = (records.get(v.id) ?? [])
       .filter((r) => r.analysis !== null)
-      .sort((a, b) => SITES.indexOf(a.site) - SITES.indexOf(b.site))
-      .map((r) => ({
-        sessionId: v.id,
-        startedAt: v.startedAt.toISOString(),
-        site: r.site,
-        screen: r.analysis?.screen ?? null,
-      })),
-  );
+      .sort((a, b) => SITES.indexOf(a.site) - SITES.indexOf(b.site));
+    const screens = screensInVisit(analysed.map((r) => r.analysis?.screen ?? null));
+    return analysed.map((r, i) => ({
+      sessionId: v.id,
+      startedAt: v.startedAt.toISOString(),
+      site: r.site,
+      screen: screens[i] ?? null,
+    }));
+  });
   await recordAuditEvent({
     clinicId: caller.clinicId,
     userId: caller.userId,
