@@ -12,6 +12,7 @@ import { createSequelize } from '@/sync-server/src/db/database';
 import { SyncRepository } from '@/sync-server/src/repositories/sync-repository';
 import { batchForOneStatement, checkMutation, pushChanges } from '@/sync-server/src/use-cases/sync/push';
 import { databaseUrl, type TestClinic } from './helpers/test-app';
+import { listConsentTexts } from '@/sync-server/src/repositories/consent-texts-repository';
 import {
   SITES,
   clientFields,
@@ -28,11 +29,8 @@ let consentTextId: string;
 beforeAll(async () => {
   server = await startSyncServer();
   ({ clinic } = await clinicWithTokens(server, 'Prepared'));
-  consentTextId = randomUUID();
-  await server.ctx.sequelize.query(
-    `INSERT INTO consent_texts (id, clinic_id, version, title, body) VALUES (:id, :clinicId, 1, 'Consent', 'Agreed.')`,
-    { replacements: { id: consentTextId, clinicId: clinic.id } },
-  );
+  // Every clinic is made with the built-in wording as its version 1; the consents name that row.
+  [{ id: consentTextId }] = await listConsentTexts(server.ctx.sequelize, clinic.id);
 });
 afterAll(() => server.close());
 
