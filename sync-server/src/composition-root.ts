@@ -126,7 +126,11 @@ export function composeServices(
   sequelize: Sequelize,
   choices: ServiceChoices = {},
 ): Services {
-  const { staging, afterLastByte, ...chosen } = choices;
+  const { staging, afterLastByte, ...given } = choices;
+  // A part passed as undefined is not chosen: the configuration's stays.
+  const chosen = Object.fromEntries(
+    Object.entries(given).filter(([, part]) => part !== undefined),
+  ) as typeof given;
   const clinicKeys = chosen.clinicKeys ?? new ClinicKeyStore(config.secrets.clinicKeysDir);
   const payments = chosen.payments ?? paymentsServiceFrom(config);
   // The uploads, the probe and openClip read their parts from `built` when they run, so a test that swaps a
