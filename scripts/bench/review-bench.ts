@@ -10,6 +10,8 @@ import os from 'node:os';
 import path from 'node:path';
 import pino from 'pino';
 import type { Sequelize } from 'sequelize';
+import { composeServices } from '@/sync-server/src/composition-root';
+import { loadConfig } from '@/sync-server/src/config/settings';
 import { createApp } from '@/sync-server/src/app';
 import { createSequelize } from '@/sync-server/src/db/database';
 import { runMigrations } from '@/sync-server/src/db/migrator';
@@ -17,7 +19,6 @@ import { createClinic } from '@/sync-server/src/repositories/clinics-repository'
 import { createUser } from '@/sync-server/src/repositories/users-repository';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
 import { hashPassword } from '@/sync-server/src/services/passwords';
-import { replaceServices } from '@/sync-server/src/composition-root';
 import { seedDemo } from '@/sync-server/seeders/demo';
 import { analyseDemoClip } from '@/sync-server/seeders/analyse-demo-clip';
 
@@ -184,10 +185,10 @@ async function firstTrace(sequelize: Sequelize, databaseUrl: string): Promise<bo
   const blobStore = new LocalDiskBlobStore(blobDir);
   const password = randomUUID();
   await seedDemo({ sequelize, blobStore, password, analyse: analyseDemoClip, log: () => undefined });
-  replaceServices({ blobStore });
   const app = createApp({
     sequelize,
     jwtSecret: randomUUID(),
+    services: composeServices(loadConfig(), sequelize, { blobStore }),
     logger: pino({ level: 'silent' }),
     webDist: dist,
   });
@@ -268,7 +269,12 @@ async function main(): Promise<void> {
       `seeded ${SESSIONS} sessions (${SESSIONS * 4} site recordings) in ${((Date.now() - seeded) / 1000).toFixed(1)} s`,
     );
 
-    const app = createApp({ sequelize, jwtSecret: randomUUID(), logger: pino({ level: 'silent' }) });
+    const app = createApp({
+      sequelize,
+      jwtSecret: randomUUID(),
+      services: composeServices(loadConfig(), sequelize),
+      logger: pino({ level: 'silent' }),
+    });
     const server = http.createServer(app);
     await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
     const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;

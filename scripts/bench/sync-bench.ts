@@ -19,6 +19,8 @@ import type { AddressInfo } from 'node:net';
 import pino from 'pino';
 import axios from 'axios';
 import { QueryTypes, type Sequelize } from 'sequelize';
+import { composeServices } from '@/sync-server/src/composition-root';
+import { loadConfig } from '@/sync-server/src/config/settings';
 import { createApp } from '@/sync-server/src/app';
 import { createSequelize } from '@/sync-server/src/db/database';
 import { runMigrations } from '@/sync-server/src/db/migrator';
@@ -77,6 +79,7 @@ async function serve(name: string): Promise<void> {
   const app = createApp({
     sequelize,
     jwtSecret: process.env.BENCH_JWT_SECRET!,
+    services: composeServices(loadConfig(), sequelize),
     logger: pino({ level: 'silent' }),
     instanceName: name,
     trustProxy: 'loopback',
@@ -237,7 +240,12 @@ async function main(): Promise<void> {
   const sequelize = createSequelize(databaseUrl, { poolMax: 20 });
   const spans = process.env.BENCH_SPANS ? new Spans() : undefined;
   spans?.instrument(sequelize);
-  const app = createApp({ sequelize, jwtSecret: JWT_SECRET, logger: pino({ level: 'silent' }) });
+  const app = createApp({
+    sequelize,
+    jwtSecret: JWT_SECRET,
+    services: composeServices(loadConfig(), sequelize),
+    logger: pino({ level: 'silent' }),
+  });
   const server = http.createServer(spans ? spans.handler(app) : app);
   await new Promise<void>((r) => server.listen(0, '127.0.0.1', r));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;

@@ -13,6 +13,8 @@ import os from 'node:os';
 import path from 'node:path';
 import pino from 'pino';
 import type { CDPSession, Page } from 'playwright-core';
+import { composeServices } from '@/sync-server/src/composition-root';
+import { loadConfig } from '@/sync-server/src/config/settings';
 import { createApp } from '@/sync-server/src/app';
 import { createSequelize } from '@/sync-server/src/db/database';
 import { runMigrations } from '@/sync-server/src/db/migrator';
@@ -104,6 +106,7 @@ async function main(): Promise<void> {
   const app = createApp({
     sequelize,
     jwtSecret: 'bench-only-secret',
+    services: composeServices(loadConfig(), sequelize),
     webDist,
     logger: pino({ level: 'silent' }),
   });

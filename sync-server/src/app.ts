@@ -3,6 +3,7 @@ import express, { type Express } from 'express';
 import helmet from 'helmet';
 import pino, { type Logger } from 'pino';
 import type { Sequelize } from 'sequelize';
+import type { Services } from './composition-root';
 import { AppError } from './errors';
 import { contentSecurityPolicy } from './middleware/content-security-policy';
 import { errorHandler } from './middleware/error-handler';
@@ -16,6 +17,8 @@ import { serveWebExport } from './web-export';
 export interface AppDeps {
   sequelize: Sequelize;
   jwtSecret: string;
+  /** Built once by the composition root (main.ts; tests: makeTestContext) and handed to every route. */
+  services: Services;
   /** Folder of the web export; when set, the app is served beside the API. */
   webDist?: string;
   logger?: Logger;
@@ -52,7 +55,7 @@ export function createApp(deps: AppDeps): Express {
 
   registerApiRoutes(
     app,
-    { sequelize: deps.sequelize, jwtSecret: deps.jwtSecret },
+    { sequelize: deps.sequelize, jwtSecret: deps.jwtSecret, services: deps.services },
     {
       signInLimits: deps.signInLimits ?? DEFAULT_SIGN_IN_LIMITS,
       rateLimitPrefix: deps.rateLimitPrefix ?? 'app',

@@ -1,12 +1,12 @@
 // The one place the server's parts are built from its configuration (config/settings.ts): the blob store, the
-// clinic keys, mail, payments, the clip worker, resumable uploads and the job queue (main.ts builds the database
-// handle and the app from the same configuration). Routes, use cases and jobs
-// reach them through `services()` (and `syncServicesFor(sequelize)` for the parts that need the database), so
-// every path (receive, review, export, erasure) sees the same blob store. Tests replace parts with
-// `replaceServices` / `provideSyncServices`.
+// clinic keys, mail, payments, the clip worker, resumable uploads, the readiness probe and the job queue. main.ts
+// builds them once (with the database handle) and hands them to the app (AppDeps.services, which routes pass to
+// use cases as UseCaseDeps.services) and to the background jobs, so every path (receive, review, export,
+// erasure) sees the same blob store. Nothing looks them up: a part that is not handed in is not reachable.
+// Tests build their own with composeServices(config, sequelize, choices) (tests/server/helpers/test-app.ts).
 import type { Sequelize } from 'sequelize';
 import { openClip } from '@/shared/seal';
-import { loadConfig, type Config } from './config/settings';
+import type { Config } from './config/settings';
 import { backgroundJobs } from './jobs/background-jobs';
 import { startJobQueue, type JobQueue } from './jobs/job-queue';
 import { SyncRepository } from './repositories/sync-repository';
@@ -31,23 +31,6 @@ import { receiveClip } from './use-cases/sync/clips';
 
 /** Opens a sealed clip with the clinic's key. */
 export type ClipOpener = (clinicId: string, sealed: Uint8Array) => Promise<Uint8Array>;
-
-export interface Services {
-  config: Config;
-  blobStore: BlobStore;
-  clinicKeys: ClinicKeyStore;
-  mail: MailService;
-  payments: PaymentsService;
-  /** Register our webhook URL with the provider on first use (the local fake needs it). */
-  registerWebhook: boolean;
-  /** Where links in e-mails point (invitations, payment pages); otherwise taken from the request. */
-  publicBaseUrl?: string;
-  /** The local mail fake's HTTP listing, for the admin mailbox page; null where a real relay is used. */
-  mailboxUrl: string | null;
-  openClip: ClipOpener | null;
-  /** Opens and analyses received clips off the request thread (one per process). */
-  clipWorker: ClipWorker;
-}
 
 function s3Options(config: Config) {
   const credentials = config.s3Credentials;
@@ -87,117 +70,104 @@ export function uploadStagingFrom(config: Config): UploadStaging {
   });
 }
 
-export function composeServices(config: Config): Services {
-  const clinicKeys = new ClinicKeyStore(config.secrets.clinicKeysDir);
-  const payments = paymentsServiceFrom(config);
-  return {
-    config,
-    blobStore: blobStoreFrom(config),
-    clinicKeys,
-    mail: mailServiceFrom(config),
-    payments,
-    registerWebhook: payments.usesFake,
-    publicBaseUrl: config.PUBLIC_BASE_URL,
-    mailboxUrl: config.MAIL_FAKE_HTTP_PORT ? `http://127.0.0.1:${config.MAIL_FAKE_HTTP_PORT}` : null,
-    openClip: async (clinicId, sealed) => openClip(sealed, clinicKeys.privateKey(clinicId)),
-    clipWorker: clipWorker(),
-  };
-}
-
-let current: Services | undefined;
-
-/** The process's services, composed from the configuration on first use (main.ts composes them at start). */
-export function services(): Services {
-  current ??= composeServices(loadConfig());
-  return current;
-}
-
-/** Starts the process with these services (main.ts), or replaces some of them (tests). */
-export function replaceServices(replacement: Partial<Services>): Services {
-  current = { ...services(), ...replacement };
-  return current;
-}
-
-export interface SyncServices {
+export interface Services {
+  config: Config;
   blobStore: BlobStore;
   clinicKeys: ClinicKeyStore;
+  mail: MailService;
+  payments: PaymentsService;
+  /** Register our webhook URL with the provider on first use (the local fake needs it). */
+  registerWebhook: boolean;
+  /** Where links in e-mails point (invitations, payment pages); otherwise taken from the request. */
+  publicBaseUrl?: string;
+  /** The local mail fake's HTTP listing, for the admin mailbox page; null where a real relay is used. */
+  mailboxUrl: string | null;
+  openClip: ClipOpener | null;
+  /** Opens and analyses received clips off the request thread (one per process). */
+  clipWorker: ClipWorker;
+  /** Resumable clip uploads (tus); uploads in progress are locked in this database, so any instance serves them. */
   uploads: ClipUploads;
+  /** What /api/health/ready answers: the database (on a connection of its own) and the blob store. */
+  readiness: ReadinessProbe;
 }
 
-const bySequelize = new WeakMap<Sequelize, SyncServices>();
-
-/** The upload side, one per database connection: uploads in progress are locked in that database. */
-export function syncServicesFor(sequelize: Sequelize): SyncServices {
-  return bySequelize.get(sequelize) ?? provideSyncServices(sequelize, {});
-}
-
-/** Builds the upload side for this database; tests pass their own blob store, keys, folder or staging. */
-export function provideSyncServices(
-  sequelize: Sequelize,
-  options: {
-    blobStore?: BlobStore;
-    clinicKeysDir?: string;
-    /** A folder for uploads in progress (folder staging), or `staging` itself. */
-    uploadDir?: string;
-    staging?: UploadStaging;
-    afterLastByte?: TusHooks['afterLastByte'];
-  },
-): SyncServices {
-  const shared = services();
-  const blobStore = options.blobStore ?? shared.blobStore;
-  const clinicKeys = options.clinicKeysDir ? new ClinicKeyStore(options.clinicKeysDir) : shared.clinicKeys;
-  const staging =
-    options.staging ??
-    (options.uploadDir ? folderStaging(options.uploadDir) : uploadStagingFrom(shared.config));
-  const uploads = createClipUploads(
-    staging,
-    {
-      onComplete: async (clinicId, sha256, stagedFile) => {
-        await receiveClip(
-          { sequelize, blobStore, clinicKeys, clipWorker: shared.clipWorker },
-          clinicId,
-          sha256,
-          stagedFile,
-        );
-      },
-      storedSize: (clinicId, sha256) => new SyncRepository(sequelize).storedClipSize(clinicId, sha256),
-      afterLastByte: options.afterLastByte,
-    },
-    // Every instance on this database may serve any request of an upload: the locks live in PostgreSQL.
-    { locker: new PgUploadLocker(sequelize) },
-  );
-  const built = { blobStore, clinicKeys, uploads };
-  bySequelize.set(sequelize, built);
-  return built;
+/**
+ * Parts a caller chooses itself (tests, benches): each one given replaces the one the configuration would build.
+ * The uploads and the readiness probe are always built here, over the chosen blob store and keys.
+ */
+export interface ServiceChoices extends Partial<Omit<Services, 'config' | 'uploads' | 'readiness'>> {
+  /** Where uploads in progress live; by default from the configuration (uploadStagingFrom). */
+  staging?: UploadStaging;
+  afterLastByte?: TusHooks['afterLastByte'];
 }
 
 // A key no clip can have (the sha256 of nothing is never a sealed clip): asking for it reaches the store and
 // answers "not there" when the store is up, and throws when it is not.
 const STORAGE_PROBE_KEY = blobKeyFor('e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855');
 
-const readinessBySequelize = new WeakMap<Sequelize, ReadinessProbe>();
+/** The readiness probe of this database (services/readiness-probe.ts), on a connection of its own. */
+function readinessProbe(sequelize: Sequelize, storageAnswers: () => Promise<unknown>): ReadinessProbe {
+  const { host, port, database, username, password } = sequelize.config;
+  return new ReadinessProbe(
+    {
+      host,
+      port: port ? Number(port) : undefined,
+      database,
+      user: username,
+      password: password ?? undefined,
+    },
+    storageAnswers,
+  );
+}
 
-/**
- * The readiness probe of this database handle and its blob store (services/readiness-probe.ts): one per process
- * in main.ts, on a connection of its own to the same database.
- */
-export function readinessProbeFor(sequelize: Sequelize): ReadinessProbe {
-  let probe = readinessBySequelize.get(sequelize);
-  if (!probe) {
-    const { host, port, database, username, password } = sequelize.config;
-    probe = new ReadinessProbe(
+/** Every part, built once over this database handle (main.ts; tests through makeTestContext). */
+export function composeServices(
+  config: Config,
+  sequelize: Sequelize,
+  choices: ServiceChoices = {},
+): Services {
+  const { staging, afterLastByte, ...given } = choices;
+  // A part passed as undefined is not chosen: the configuration's stays.
+  const chosen = Object.fromEntries(
+    Object.entries(given).filter(([, part]) => part !== undefined),
+  ) as typeof given;
+  const clinicKeys = chosen.clinicKeys ?? new ClinicKeyStore(config.secrets.clinicKeysDir);
+  const payments = chosen.payments ?? paymentsServiceFrom(config);
+  // The uploads, the probe and openClip read their parts from `built` when they run, so a test that swaps a
+  // part of its own context (Object.assign on ctx.services) is seen by all of them.
+  const built: Services = {
+    config,
+    blobStore: chosen.blobStore ?? blobStoreFrom(config),
+    clinicKeys,
+    mail: chosen.mail ?? mailServiceFrom(config),
+    payments,
+    registerWebhook: 'usesFake' in payments && payments.usesFake === true,
+    publicBaseUrl: config.PUBLIC_BASE_URL,
+    mailboxUrl: config.MAIL_FAKE_HTTP_PORT ? `http://127.0.0.1:${config.MAIL_FAKE_HTTP_PORT}` : null,
+    openClip: async (clinicId, sealed) => openClip(sealed, built.clinicKeys.privateKey(clinicId)),
+    clipWorker: clipWorker(),
+    ...chosen,
+    uploads: createClipUploads(
+      staging ?? uploadStagingFrom(config),
       {
-        host,
-        port: port ? Number(port) : undefined,
-        database,
-        user: username,
-        password: password ?? undefined,
+        onComplete: async (clinicId, sha256, stagedFile) => {
+          const { blobStore, clinicKeys: keys, clipWorker: worker } = built;
+          await receiveClip(
+            { sequelize, blobStore, clinicKeys: keys, clipWorker: worker },
+            clinicId,
+            sha256,
+            stagedFile,
+          );
+        },
+        storedSize: (clinicId, sha256) => new SyncRepository(sequelize).storedClipSize(clinicId, sha256),
+        afterLastByte,
       },
-      () => syncServicesFor(sequelize).blobStore.has(STORAGE_PROBE_KEY),
-    );
-    readinessBySequelize.set(sequelize, probe);
-  }
-  return probe;
+      // Every instance on this database may serve any request of an upload: the locks live in PostgreSQL.
+      { locker: new PgUploadLocker(sequelize) },
+    ),
+    readiness: readinessProbe(sequelize, () => built.blobStore.has(STORAGE_PROBE_KEY)),
+  };
+  return built;
 }
 
 /**
@@ -207,10 +177,11 @@ export function readinessProbeFor(sequelize: Sequelize): ReadinessProbe {
  */
 export async function startBackgroundWork(
   sequelize: Sequelize,
-  config: Config,
+  services: Services,
   onError: (job: string, error: unknown) => void,
 ): Promise<JobQueue> {
-  const jobs = backgroundJobs(sequelize, config.secrets.jwtSecret);
+  const { config } = services;
+  const jobs = backgroundJobs({ sequelize, jwtSecret: config.secrets.jwtSecret, services });
   const queue = await startJobQueue(config.DATABASE_URL!, jobs, { pollMs: config.JOB_POLL_MS, onError });
   for (const job of jobs) await queue.runSoon(job.name);
   return queue;

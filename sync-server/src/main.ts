@@ -1,6 +1,6 @@
 import pino from 'pino';
 import { createApp } from './app';
-import { composeServices, readinessProbeFor, replaceServices, startBackgroundWork } from './composition-root';
+import { composeServices, startBackgroundWork } from './composition-root';
 import { MissingSecretError } from './config/secrets';
 import { ConfigError, loadConfig, type Config } from './config/settings';
 import { createSequelize } from './db/database';
@@ -27,14 +27,15 @@ function main(): void {
   if (!databaseUrl)
     fail('DATABASE_URL is not set: run `npm start`, which sets up the database, or set it yourself.');
   const logger = pino({ level: config.LOG_LEVEL });
-  // The composition root: every part is built here, once, from the configuration.
-  replaceServices(composeServices(config));
   // Behind the balancer each process is named by it (i1, i2...); alone, by its host and process id.
   const instance = config.FOURPOINT_INSTANCE;
   const sequelize = createSequelize(databaseUrl, { applicationName: `fourpoint ${instance}` });
+  // The composition root: every part is built here, once, from the configuration, and handed to the app and jobs.
+  const services = composeServices(config, sequelize);
   const app = createApp({
     sequelize,
     jwtSecret: config.secrets.jwtSecret,
+    services,
     webDist: config.WEB_DIST,
     logger: logger.child({ instance }),
     instanceName: instance,
@@ -42,7 +43,7 @@ function main(): void {
     trustProxy: config.TRUST_PROXY ?? false,
   });
   // Reminders, report-mail retries, the erasure purge and staged uploads: jobs on pg-boss, once across instances.
-  const jobs = startBackgroundWork(sequelize, config, (job, error) =>
+  const jobs = startBackgroundWork(sequelize, services, (job, error) =>
     logger.warn({ err: error, job }, 'background job failed; it is retried later'),
   ).catch((error: unknown) => {
     logger.error({ err: error }, 'the job queue could not start; background work waits for a restart');
@@ -77,7 +78,7 @@ function main(): void {
     server.closeIdleConnections();
     setTimeout(() => server.closeAllConnections(), config.SHUTDOWN_GRACE_MS).unref();
     Promise.all([requestsDone, jobs.then((queue) => queue?.stop(config.SHUTDOWN_GRACE_MS))])
-      .then(() => Promise.all([sequelize.close(), readinessProbeFor(sequelize).stop()]))
+      .then(() => Promise.all([sequelize.close(), services.readiness.stop()]))
       .finally(() => process.exit(0));
   };
   process.on('SIGINT', () => close('SIGINT'));

@@ -9,6 +9,8 @@ import type { AddressInfo } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import pino from 'pino';
+import { composeServices } from '@/sync-server/src/composition-root';
+import { loadConfig } from '@/sync-server/src/config/settings';
 import { createApp } from '@/sync-server/src/app';
 import { createSequelize } from '@/sync-server/src/db/database';
 import { browserForThisFile, PHONE, screenshot, trackPage } from '@/tests/support/browser';
@@ -34,6 +36,7 @@ beforeAll(async () => {
   const app = createApp({
     sequelize,
     jwtSecret: 'app-update-e2e-only',
+    services: composeServices(loadConfig(), sequelize),
     webDist,
     logger: pino({ level: 'silent' }),
   });

@@ -17,8 +17,7 @@ import { encodeWav16 } from '@/shared/analysis/wav';
 import { SYNC_PROTOCOL_HEADER, SYNC_PROTOCOL_VERSION } from '@/shared/protocol/sync';
 import { hexToBytes, sealClip, sha256Hex } from '@/shared/seal';
 import { startS3Fake } from '@/sync-server/fakes/s3-fake';
-import { composeServices, provideSyncServices, replaceServices } from '@/sync-server/src/composition-root';
-import { loadConfig } from '@/sync-server/src/config/settings';
+import { loadConfig, type Config } from '@/sync-server/src/config/settings';
 import { SimDevice, clientFields, sessionFields, siteFields } from './sync-helpers/devices';
 import { makeClinic, makeTestContext, tokensFor, type TestContext } from './helpers/test-app';
 
@@ -28,13 +27,13 @@ const bucket = `clips-${randomUUID().slice(0, 8)}`;
 const prefix = `kept-${randomUUID().slice(0, 8)}/`;
 let fake: Awaited<ReturnType<typeof startS3Fake>>;
 let s3: S3Client;
+let config: Config;
 const instances: { ctx: TestContext; url: string; server: http.Server }[] = [];
 
 async function startInstance(jwtSecret?: string) {
-  const ctx = makeTestContext(jwtSecret ? { jwtSecret } : {});
+  // Nothing chosen: every part is built from the S3 configuration (S3 staging, the S3 blob store).
+  const ctx = makeTestContext(jwtSecret ? { jwtSecret } : {}, { config });
   if (jwtSecret) ctx.jwtSecret = jwtSecret;
-  // Nothing passed in: the upload side is built from the configuration (S3 staging, the S3 blob store).
-  provideSyncServices(ctx.sequelize, {});
   const server = http.createServer(ctx.app);
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const instance = { ctx, server, url: `http://127.0.0.1:${(server.address() as AddressInfo).port}` };
@@ -50,7 +49,7 @@ beforeAll(async () => {
     forcePathStyle: true,
     credentials: fake.credentials,
   });
-  const config = loadConfig({
+  config = loadConfig({
     BLOB_STORE: 's3',
     S3_BUCKET: bucket,
     S3_ENDPOINT: fake.endpoint,
@@ -63,7 +62,6 @@ beforeAll(async () => {
     UPLOAD_DIR: path.join(workDir, 'uploads'),
     BLOB_DIR: path.join(workDir, 'blobs'),
   });
-  replaceServices(composeServices(config));
 });
 afterAll(async () => {
   for (const { server, ctx } of instances) {

@@ -4,6 +4,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { composeServices } from '@/sync-server/src/composition-root';
+import { createSequelize } from '@/sync-server/src/db/database';
 import { ConfigError, loadConfig, SETTINGS, settingsTable } from '@/sync-server/src/config/settings';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
 
@@ -49,6 +50,20 @@ test('the check itself finds each way in', () => {
   expect(FORBIDDEN.some(({ pattern }) => pattern.test('delete .data/ to start over'))).toBe(false);
 });
 
+// The parts are handed in (AppDeps.services, UseCaseDeps.services, backgroundJobs(deps)), never looked up: only
+// main.ts takes values from the composition root; every other file may name its types alone.
+const TAKES_FROM_ROOT = /import\s+(?!type\b)[^;]*from\s+['"][./]*composition-root['"]/;
+
+test('when a file under sync-server/src other than main.ts takes a value from the composition root, then this names it', () => {
+  const offenders = sourceFiles(SRC)
+    .filter((file) => !['main.ts', 'composition-root.ts'].includes(path.relative(SRC, file)))
+    .filter((file) => TAKES_FROM_ROOT.test(fs.readFileSync(file, 'utf8')))
+    .map((file) => path.relative(SRC, file));
+  expect(offenders).toEqual([]);
+  expect(TAKES_FROM_ROOT.test("import { services } from '../../composition-root';")).toBe(true);
+  expect(TAKES_FROM_ROOT.test("import type { Services } from '../composition-root';")).toBe(false);
+});
+
 test('every setting has one line of documentation and a default shown, and the table lists each once', () => {
   for (const [name, s] of Object.entries(SETTINGS)) {
     expect(s.doc.length).toBeGreaterThan(10);
@@ -62,7 +77,7 @@ test('every setting has one line of documentation and a default shown, and the t
   }
 });
 
-test('when nothing is set, then every default applies and the parts are built from them', () => {
+test('when nothing is set, then every default applies and the parts are built from them', async () => {
   const config = loadConfig({});
   expect(config.PORT).toBe(8080);
   expect(config.HOST).toBe('127.0.0.1');
@@ -70,11 +85,15 @@ test('when nothing is set, then every default applies and the parts are built fr
   expect(config.SMTP_PORT).toBe(2525);
   expect(config.SHUTDOWN_GRACE_MS).toBe(25_000);
   expect(path.isAbsolute(config.BLOB_DIR)).toBe(true);
-  const composed = composeServices(config);
+  // A handle that never connects: building the parts asks nothing of the database.
+  const sequelize = createSequelize('postgres://fourpoint@127.0.0.1:1/unused');
+  const composed = composeServices(config, sequelize);
   expect(composed.blobStore).toBeInstanceOf(LocalDiskBlobStore);
   expect(composed.mail.relay).toEqual({ host: '127.0.0.1', port: 2525 });
   expect(composed.mailboxUrl).toBeNull();
   composed.mail.close();
+  await composed.readiness.stop();
+  await sequelize.close();
 });
 
 test('when settings cannot work, then one line names each and says what it must be', () => {

@@ -465,7 +465,7 @@ async function pushAs(token: string, mutations: Mutation[]) {
 }
 
 beforeAll(async () => {
-  fakes = await startPracticeFakes(ctx.app);
+  fakes = await startPracticeFakes(ctx);
   A = await makeClinic('Clinic A');
   B = await makeClinic('Clinic B');
   tokensA = await tokensFor(ctx.app, A);

@@ -11,7 +11,7 @@ import { QueryTypes } from 'sequelize';
 import { startS3Fake } from '@/sync-server/fakes/s3-fake';
 import { LocalDiskBlobStore, type BlobStore } from '@/sync-server/src/services/blob-store';
 import { S3BlobStore } from '@/sync-server/src/services/blob-store-s3';
-import { provideSyncServices } from '@/sync-server/src/composition-root';
+import { ClinicKeyStore } from '@/sync-server/src/services/clinic-keys';
 import { purgeErased } from '@/sync-server/src/use-cases/clients/erase-client';
 import { makeClinic, makeTestContext, tokensFor, type TestContext } from './helpers/test-app';
 import { insertClient, insertSession } from './helpers/practice-rows';
@@ -72,9 +72,13 @@ describe.each([
   let ctx: TestContext;
   let store: BlobStore;
   beforeAll(() => {
-    ctx = makeTestContext();
     store = makeStore();
-    provideSyncServices(ctx.sequelize, { blobStore: store, clinicKeysDir: path.join(workDir, 'keys') });
+    ctx = makeTestContext(
+      {},
+      {
+        services: { blobStore: store, clinicKeys: new ClinicKeyStore(path.join(workDir, 'keys')) },
+      },
+    );
   });
   afterAll(() => ctx.close());
 
@@ -103,13 +107,17 @@ describe.each([
 test('when S3 is down during an erasure, then the delete is recorded with its error and the purge deletes the clip once S3 is back', async () => {
   const s3Dir = path.join(workDir, 's3-outage');
   const outageFake = await startS3Fake({ port: 0, directory: s3Dir, buckets: [bucket] });
-  const ctx = makeTestContext();
   const store = new S3BlobStore({
     bucket,
     endpoint: outageFake.endpoint,
     credentials: outageFake.credentials,
   });
-  provideSyncServices(ctx.sequelize, { blobStore: store, clinicKeysDir: path.join(workDir, 'keys') });
+  const ctx = makeTestContext(
+    {},
+    {
+      services: { blobStore: store, clinicKeys: new ClinicKeyStore(path.join(workDir, 'keys')) },
+    },
+  );
   const clinic = await makeClinic('EraseOutage');
   const { admin } = await tokensFor(ctx.app, clinic);
   const { clientId, storageKey, name } = await clientWithClip(ctx, store, clinic.id);

@@ -22,7 +22,7 @@ let tokens: Record<Role, string>;
 const known = { clientId: '', sessionId: '' };
 
 beforeAll(async () => {
-  fakes = await startPracticeFakes(ctx.app);
+  fakes = await startPracticeFakes(ctx);
   const clinic = await makeClinic('Fuzz');
   tokens = await tokensFor(ctx.app, clinic);
   known.clientId = await insertClient(ctx.sequelize, clinic.id);

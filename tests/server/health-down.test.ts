@@ -2,7 +2,8 @@ import net from 'node:net';
 import pino from 'pino';
 import request from 'supertest';
 import { createApp } from '@/sync-server/src/app';
-import { readinessProbeFor } from '@/sync-server/src/composition-root';
+import { composeServices } from '@/sync-server/src/composition-root';
+import { loadConfig } from '@/sync-server/src/config/settings';
 import { createSequelize } from '@/sync-server/src/db/database';
 
 // Its own file: the audit log writes to one database per module registry (useAuditDatabase), and this one points
@@ -18,7 +19,8 @@ async function closedPort(): Promise<number> {
 describe('GET /api/health with no database', () => {
   test('when nothing listens where the database should be, then it is 503 with db down', async () => {
     const sequelize = createSequelize(`postgres://fourpoint@127.0.0.1:${await closedPort()}/nowhere`);
-    const app = createApp({ sequelize, jwtSecret: 'unused', logger: pino({ level: 'silent' }) });
+    const services = composeServices(loadConfig(), sequelize);
+    const app = createApp({ sequelize, jwtSecret: 'unused', services, logger: pino({ level: 'silent' }) });
     try {
       const res = await request(app).get('/api/health');
       expect(res.status).toBe(503);
@@ -31,7 +33,8 @@ describe('GET /api/health with no database', () => {
   test('when a route that reads the database is called, then it is 503 with Retry-After and a plain message', async () => {
     // RFC 9110 10.2.3: Retry-After with a 503 says how long the service is expected to be unavailable.
     const sequelize = createSequelize(`postgres://fourpoint@127.0.0.1:${await closedPort()}/nowhere`);
-    const app = createApp({ sequelize, jwtSecret: 'unused', logger: pino({ level: 'silent' }) });
+    const services = composeServices(loadConfig(), sequelize);
+    const app = createApp({ sequelize, jwtSecret: 'unused', services, logger: pino({ level: 'silent' }) });
     try {
       const res = await request(app)
         .post('/api/auth/sign-in')
@@ -54,13 +57,14 @@ describe('GET /api/health with no database', () => {
   test('when nothing listens where the database should be, then readiness is 503 with db down', async () => {
     // What takes the instance out of the load balancer (scripts/bootstrap/balancer.mjs checks this route).
     const sequelize = createSequelize(`postgres://fourpoint@127.0.0.1:${await closedPort()}/nowhere`);
-    const app = createApp({ sequelize, jwtSecret: 'unused', logger: pino({ level: 'silent' }) });
+    const services = composeServices(loadConfig(), sequelize);
+    const app = createApp({ sequelize, jwtSecret: 'unused', services, logger: pino({ level: 'silent' }) });
     try {
       const res = await request(app).get('/api/health/ready');
       expect(res.status).toBe(503);
       expect(res.body).toEqual({ ok: false, db: 'down', storage: 'up', stopping: false });
     } finally {
-      await readinessProbeFor(sequelize).stop();
+      await services.readiness.stop();
       await sequelize.close();
     }
   });

@@ -3,14 +3,10 @@
 // pool must not make a working instance look down: the route answers from a probe on a connection of its own.
 import request from 'supertest';
 import { readinessResponseSchema } from '@/shared/protocol';
-import { readinessProbeFor } from '@/sync-server/src/composition-root';
 import { makeTestContext } from './helpers/test-app';
 
 const ctx = makeTestContext();
-afterAll(async () => {
-  await readinessProbeFor(ctx.sequelize).stop();
-  await ctx.close();
-});
+afterAll(() => ctx.close());
 
 test('when the database and the blob store answer, then readiness is 200 with both up', async () => {
   const res = await request(ctx.app).get('/api/health/ready');

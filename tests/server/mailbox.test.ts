@@ -6,7 +6,6 @@ import request from 'supertest';
 import type { Role } from '@/shared/protocol';
 import { mailboxListSchema, mailboxMessageDetailSchema } from '@/shared/protocol/review';
 import { CLINIC_HEADER, createSmtpMailService } from '@/sync-server/src/services/mail';
-import { replaceServices } from '@/sync-server/src/composition-root';
 import { startPracticeFakes, type PracticeFakes } from './helpers/practice-fakes';
 import { addClient, addSession } from './helpers/review-fixtures';
 import { makeClinic, makeTestContext, tokensFor, type TestClinic } from './helpers/test-app';
@@ -28,7 +27,7 @@ const fakeIdTo = (address: string) =>
   fakes.mail.messages.filter((m) => m.envelopeTo.includes(address)).at(-1)!.id;
 
 beforeAll(async () => {
-  fakes = await startPracticeFakes(ctx.app);
+  fakes = await startPracticeFakes(ctx);
   clinicA = await makeClinic('Mail A');
   clinicB = await makeClinic('Mail B');
   tokensA = await tokensFor(ctx.app, clinicA);
@@ -140,7 +139,7 @@ describe('the mailbox is off unless mail goes to the local fake', () => {
   const relay = (host: string, port: number) =>
     createSmtpMailService({ host, port, from: 'r@fourpoint.test' });
   afterEach(() =>
-    replaceServices({ mail: relay('127.0.0.1', fakes.mail.smtpPort), mailboxUrl: mailboxUrl() }),
+    Object.assign(ctx.services, { mail: relay('127.0.0.1', fakes.mail.smtpPort), mailboxUrl: mailboxUrl() }),
   );
 
   const expectOff = async () => {
@@ -155,17 +154,20 @@ describe('the mailbox is off unless mail goes to the local fake', () => {
   };
 
   test('when no mailbox address is configured, then it says there is no local mailbox', async () => {
-    replaceServices({ mailboxUrl: null });
+    Object.assign(ctx.services, { mailboxUrl: null });
     await expectOff();
   });
 
   test('when mail goes to a real relay while the fake’s port is still configured, then the view is off', async () => {
-    replaceServices({ mail: relay('smtp.relay.example.com', 587), mailboxUrl: mailboxUrl() });
+    Object.assign(ctx.services, { mail: relay('smtp.relay.example.com', 587), mailboxUrl: mailboxUrl() });
     await expectOff();
   });
 
   test('when mail goes to another SMTP server on this host, then the view is off', async () => {
-    replaceServices({ mail: relay('127.0.0.1', fakes.mail.smtpPort + 1), mailboxUrl: mailboxUrl() });
+    Object.assign(ctx.services, {
+      mail: relay('127.0.0.1', fakes.mail.smtpPort + 1),
+      mailboxUrl: mailboxUrl(),
+    });
     await expectOff();
   });
 });

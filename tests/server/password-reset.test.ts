@@ -10,7 +10,7 @@ let fakes: PracticeFakes;
 let clinic: TestClinic;
 
 beforeAll(async () => {
-  fakes = await startPracticeFakes(ctx.app);
+  fakes = await startPracticeFakes(ctx);
   clinic = await makeClinic('Reset');
 });
 afterAll(async () => {

@@ -14,7 +14,7 @@ let admin: string;
 let operator: string;
 
 beforeAll(async () => {
-  fakes = await startPracticeFakes(ctx.app);
+  fakes = await startPracticeFakes(ctx);
   clinic = await makeClinic('Billing');
   ({ admin, operator } = await tokensFor(ctx.app, clinic));
 });

@@ -8,25 +8,29 @@ import { clientCautionParagraphs } from '@/shared/cautions';
 import { sealClip } from '@/shared/seal';
 import { runFollowUpReminders } from '@/sync-server/src/jobs/follow-up-reminders';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
-import { provideSyncServices, services } from '@/sync-server/src/composition-root';
+import { ClinicKeyStore } from '@/sync-server/src/services/clinic-keys';
+import { folderStaging } from '@/sync-server/src/services/tus-uploads';
 import { purgeErased } from '@/sync-server/src/use-cases/clients/erase-client';
 import { startPracticeFakes, messagesTo, type PracticeFakes } from './helpers/practice-fakes';
 import { insertClient, insertSession, isoDay } from './helpers/practice-rows';
 import { makeClinic, makeTestContext, tokensFor, type TestClinic } from './helpers/test-app';
 
-const ctx = makeTestContext();
+const ctx = makeTestContext(
+  {},
+  {
+    services: {
+      clinicKeys: new ClinicKeyStore(fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-keys-'))),
+      staging: folderStaging(fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-uploads-'))),
+    },
+  },
+);
 let fakes: PracticeFakes;
 let clinic: TestClinic;
 let tokens: Record<'operator' | 'practitioner' | 'admin', string>;
-let sync: ReturnType<typeof provideSyncServices>;
 
 beforeAll(async () => {
-  fakes = await startPracticeFakes(ctx.app);
-  sync = provideSyncServices(ctx.sequelize, {
-    blobStore: new LocalDiskBlobStore(fakes.blobDir),
-    clinicKeysDir: fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-keys-')),
-    uploadDir: fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-uploads-')),
-  });
+  fakes = await startPracticeFakes(ctx);
+  ctx.services.blobStore = new LocalDiskBlobStore(fakes.blobDir);
   clinic = await makeClinic('Records');
   tokens = await tokensFor(ctx.app, clinic);
 });
@@ -67,8 +71,8 @@ async function recordedClient() {
     status: 'reviewed',
   });
   const plain = wav(1);
-  const sealed = sealClip(plain, sync.clinicKeys.publicKey(clinic.id));
-  const stored = await sync.blobStore.put(sealed);
+  const sealed = sealClip(plain, ctx.services.clinicKeys.publicKey(clinic.id));
+  const stored = await ctx.services.blobStore.put(sealed);
   await ctx.sequelize.query(
     `INSERT INTO clip_blobs (sha256, clinic_id, size_bytes, content_type, storage_key, state) VALUES (:sha, :clinicId, :size, 'application/octet-stream', :key, 'stored')`,
     {
@@ -103,7 +107,7 @@ describe('follow-up reminders', () => {
     const [{ email }] = await q<{ email: string }>(`SELECT email FROM clients WHERE id = :clientId`, {
       clientId,
     });
-    const mail = services().mail;
+    const mail = ctx.services.mail;
     const first = await runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id });
     const second = await runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id });
     expect(first.sent).toBeGreaterThanOrEqual(1);
@@ -120,7 +124,7 @@ describe('follow-up reminders', () => {
     const [{ email }] = await q<{ email: string }>(`SELECT email FROM clients WHERE id = :clientId`, {
       clientId,
     });
-    const mail = services().mail;
+    const mail = ctx.services.mail;
     await Promise.all([
       runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id }),
       runFollowUpReminders(ctx.sequelize, mail, { clinicId: clinic.id }),
@@ -135,21 +139,21 @@ describe('follow-up reminders', () => {
       clientId,
     });
     fakes.mail.deferNext(1);
-    const first = await runFollowUpReminders(ctx.sequelize, services().mail, { clinicId: clinic.id });
+    const first = await runFollowUpReminders(ctx.sequelize, ctx.services.mail, { clinicId: clinic.id });
     expect(first.failed).toBe(1);
     const [row] = await q<{ status: string }>(
       `SELECT status FROM follow_up_reminders WHERE client_id = :clientId`,
       { clientId },
     );
     expect(row.status).toBe('pending');
-    await runFollowUpReminders(ctx.sequelize, services().mail, { clinicId: clinic.id });
+    await runFollowUpReminders(ctx.sequelize, ctx.services.mail, { clinicId: clinic.id });
     expect(messagesTo(fakes.mail, email)).toHaveLength(1);
   });
 
   test('when a follow-up is further off than the notice period, then no reminder is made yet, but the operator sees it as due soon', async () => {
     const clientId = await insertClient(ctx.sequelize, clinic.id);
     await insertSession(ctx.sequelize, clinic.id, clientId, { followUpDate: isoDay(10) });
-    await runFollowUpReminders(ctx.sequelize, services().mail, { clinicId: clinic.id });
+    await runFollowUpReminders(ctx.sequelize, ctx.services.mail, { clinicId: clinic.id });
     expect(
       await q(`SELECT 1 FROM follow_up_reminders WHERE client_id = :clientId`, { clientId }),
     ).toHaveLength(0);

@@ -10,7 +10,7 @@ let clinic: TestClinic;
 let admin: string;
 
 beforeAll(async () => {
-  fakes = await startPracticeFakes(ctx.app);
+  fakes = await startPracticeFakes(ctx);
   clinic = await makeClinic('Team');
   admin = (await tokensFor(ctx.app, clinic)).admin;
 });

@@ -24,7 +24,7 @@ const sdk = new Stripe(readSecrets().payments.secretKey);
 
 beforeAll(async () => {
   strings = [...repositoryStrings()];
-  fakes = await startPracticeFakes(ctx.app);
+  fakes = await startPracticeFakes(ctx);
   clinic = await makeClinic('Forgery');
   ({ admin } = await tokensFor(ctx.app, clinic));
 });

@@ -11,7 +11,6 @@ import { analyseDemoClip } from '@/sync-server/seeders/analyse-demo-clip';
 import { DEMO_USERS, seedDemo } from '@/sync-server/seeders/demo';
 import { demoPassword } from '@/sync-server/src/config/secrets';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
-import { replaceServices } from '@/sync-server/src/composition-root';
 import { addClient, addSession } from './helpers/review-fixtures';
 import {
   auditEventsWhere,
@@ -22,9 +21,9 @@ import {
 } from './helpers/test-app';
 
 // The demo clinic has fixed ids by design, so this file shares it with other runs: it only reads there.
-const ctx = makeTestContext();
 const blobDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-referral-blobs-'));
 const blobStore = new LocalDiskBlobStore(blobDir);
+const ctx = makeTestContext({}, { services: { blobStore } });
 const auth = (token: string) => ({ authorization: `Bearer ${token}` });
 let demoToken: string;
 let clinic: TestClinic;
@@ -32,7 +31,6 @@ let tokens: Record<Role, string>;
 jest.setTimeout(180_000);
 
 beforeAll(async () => {
-  replaceServices({ blobStore });
   await seedDemo({ sequelize: ctx.sequelize, blobStore, password: demoPassword(), analyse: analyseDemoClip });
   const practitioner = DEMO_USERS.find((u) => u.role === 'practitioner')!;
   const signedIn = await request(ctx.app)

@@ -16,7 +16,6 @@ import { generateClinicKeyPair, openClip, sealClip } from '@/shared/seal';
 import { runReportMailRetries, SENDING_STALE_MS } from '@/sync-server/src/jobs/report-mail-retries';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
 import { createSmtpMailService } from '@/sync-server/src/services/mail';
-import { replaceServices } from '@/sync-server/src/composition-root';
 import { startSmtpFake, type SmtpFake } from '@/sync-server/fakes/smtp-fake';
 import { addClient, addSession, burstWav, storeClip } from './helpers/review-fixtures';
 import {
@@ -27,9 +26,9 @@ import {
   type TestClinic,
 } from './helpers/test-app';
 
-const ctx = makeTestContext();
 const blobDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-review-blobs-'));
 const blobStore = new LocalDiskBlobStore(blobDir);
+const ctx = makeTestContext({}, { services: { blobStore } });
 let fake: SmtpFake;
 let clinic: TestClinic;
 let other: TestClinic;
@@ -44,8 +43,7 @@ const auth = (token: string) => ({ authorization: `Bearer ${token}` });
 
 beforeAll(async () => {
   fake = await startSmtpFake();
-  replaceServices({
-    blobStore,
+  Object.assign(ctx.services, {
     mail: createSmtpMailService({
       host: '127.0.0.1',
       port: fake.smtpPort,
@@ -160,15 +158,13 @@ describe('session view', () => {
       startedAt: new Date('2026-10-10T09:00:00Z'),
       sites: { mitral: { heartRateBpm: 70, clip: sealedClip } },
     });
-    replaceServices({ openClip: async (_clinicId, sealed) => openClip(sealed, keys.privateKey) });
+    ctx.services.openClip = async (_clinicId, sealed) => openClip(sealed, keys.privateKey);
     const res = await request(ctx.app)
       .get(`/api/review/sessions/${session}/sites/mitral/trace`)
       .set(auth(tokens.practitioner));
     expect(res.status).toBe(200);
     expect(traceSchema.parse(res.body).durationS).toBeCloseTo(4, 3);
-    replaceServices({
-      openClip: async (_clinicId, sealed) => openClip(sealed, generateClinicKeyPair().privateKey),
-    });
+    ctx.services.openClip = async (_clinicId, sealed) => openClip(sealed, generateClinicKeyPair().privateKey);
     // The trace was kept with the clip on first view: drawing it again does not open the clip.
     const kept = await request(ctx.app)
       .get(`/api/review/sessions/${session}/sites/mitral/trace`)
@@ -490,7 +486,7 @@ describe('report by e-mail', () => {
   });
 
   test('when the relay is down, then the send fails with a clear message and the message waits for a retry', async () => {
-    replaceServices({
+    Object.assign(ctx.services, {
       mail: createSmtpMailService({
         host: '127.0.0.1',
         port: 1,
@@ -504,7 +500,7 @@ describe('report by e-mail', () => {
       .send({});
     expect(res.body.mail.state).toBe('failed');
     expect(res.body.mail.lastError).toMatch(/could not be reached/);
-    replaceServices({
+    Object.assign(ctx.services, {
       mail: createSmtpMailService({ host: '127.0.0.1', port: fake.smtpPort, from: 'reports@fourpoint.test' }),
     });
     const retry = await request(ctx.app)

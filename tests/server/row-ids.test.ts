@@ -49,7 +49,7 @@ async function ask(route: RouteSpec, path: string) {
 }
 
 beforeAll(async () => {
-  fakes = await startPracticeFakes(ctx.app);
+  fakes = await startPracticeFakes(ctx);
   tokens = await tokensFor(ctx.app, await makeClinic('Row ids'));
 });
 afterAll(async () => {

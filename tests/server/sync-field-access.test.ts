@@ -409,7 +409,11 @@ const mayWriteAll = (role: Role, entity: SyncEntity, fields: string[]) =>
 
 // The use cases themselves enforce the table, whatever roles the access table lets reach their routes.
 describe('REST routes that change synced rows follow the same table', () => {
-  const deps = () => ({ sequelize: server.ctx.sequelize, jwtSecret: server.ctx.jwtSecret });
+  const deps = () => ({
+    sequelize: server.ctx.sequelize,
+    jwtSecret: server.ctx.jwtSecret,
+    services: server.ctx.services,
+  });
   const clientDetails = { firstName: 'Rowan', lastName: 'Ashdown', notes: 'Prefers mornings.' };
 
   for (const role of roles) {

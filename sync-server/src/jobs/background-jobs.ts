@@ -1,7 +1,6 @@
 // The server's background work, as jobs on the queue shared by every instance (job-queue.ts): each run happens
 // once across all instances, is retried with backoff, and shows on the admin's overview when it keeps failing.
-import type { Sequelize } from 'sequelize';
-import { services, syncServicesFor } from '../composition-root';
+import type { UseCaseDeps } from '../use-cases/context';
 import { purgeErased } from '../use-cases/clients/erase-client';
 import { runFollowUpReminders, STALE_MS as REMINDER_STALE_MS } from './follow-up-reminders';
 import type { JobDefinition } from './job-queue';
@@ -9,26 +8,27 @@ import { runReportMailRetries, SENDING_STALE_MS } from './report-mail-retries';
 
 const seconds = (ms: number) => Math.ceil(ms / 1000);
 
-export function backgroundJobs(sequelize: Sequelize, jwtSecret: string): JobDefinition[] {
+export function backgroundJobs(deps: UseCaseDeps): JobDefinition[] {
+  const { sequelize, services } = deps;
   return [
     {
       name: 'follow-up-reminders',
       cron: '*/10 * * * *',
       // A reminder claimed by a run that died is claimed again after REMINDER_STALE_MS; the expiry matches it.
       expireInSeconds: seconds(REMINDER_STALE_MS),
-      run: () => runFollowUpReminders(sequelize, services().mail),
+      run: () => runFollowUpReminders(sequelize, services.mail),
     },
     {
       name: 'report-mail-retries',
       cron: '* * * * *',
       expireInSeconds: seconds(SENDING_STALE_MS),
-      run: () => runReportMailRetries(sequelize, services().mail),
+      run: () => runReportMailRetries(sequelize, services.mail),
     },
     {
       name: 'erasure-purge',
       cron: '17 */6 * * *',
       expireInSeconds: 60 * 60,
-      run: () => purgeErased({ sequelize, jwtSecret }),
+      run: () => purgeErased(deps),
     },
     {
       // Received clips are processed as their last byte arrives; this picks up any whose processing never ran
@@ -38,7 +38,7 @@ export function backgroundJobs(sequelize: Sequelize, jwtSecret: string): JobDefi
       cron: '*/5 * * * *',
       expireInSeconds: 30 * 60,
       run: async () => {
-        const counts = await syncServicesFor(sequelize).uploads.processStaged();
+        const counts = await services.uploads.processStaged();
         if (counts.failed > 0)
           throw new Error(
             `${counts.failed} received clip(s) could not be processed; they are kept for a retry.`,

@@ -32,7 +32,7 @@ export const healthLive: HandlerFactory = () => (_req, res) => {
 
 /** Readiness: the load balancer sends requests here only while this answers 200. */
 export const healthReady: HandlerFactory = (deps) => async (_req, res) => {
-  const result = await checkReadiness(deps.sequelize);
+  const result = await checkReadiness(deps.services.readiness);
   res.status(result.ok ? 200 : 503).json(result);
 };
 

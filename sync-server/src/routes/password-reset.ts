@@ -8,7 +8,9 @@ const tokenParam = z.object({ token: z.string().min(10).max(600) });
 
 export const requestPasswordReset: HandlerFactory = (deps) => async (req, res) => {
   const { email } = passwordResetRequestSchema.parse(req.body);
-  res.status(202).json(await passwordReset.requestPasswordReset(deps, email, linkBase(req), ipOf(req)));
+  res
+    .status(202)
+    .json(await passwordReset.requestPasswordReset(deps, email, linkBase(deps.services, req), ipOf(req)));
 };
 
 export const previewPasswordReset: HandlerFactory = (deps) => async (req, res) => {

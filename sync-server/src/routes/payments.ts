@@ -19,7 +19,7 @@ export const createPayment: HandlerFactory = (deps) => async (req, res) => {
         deps,
         callerOf(req),
         createPaymentRequestSchema.parse(req.body),
-        linkBase(req),
+        linkBase(deps.services, req),
       ),
     );
 };

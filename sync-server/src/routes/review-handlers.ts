@@ -144,16 +144,17 @@ export const reviewRetryMail: HandlerFactory = (deps) => async (req, res) => {
   res.json({ mail: await retryReportMail(deps, callerOf(req), rowId(req, 'mailId')) });
 };
 
-export const mailboxList: HandlerFactory = () => async (req, res) => {
-  res.json({ messages: await listMailbox(callerOf(req)) });
+export const mailboxList: HandlerFactory = (deps) => async (req, res) => {
+  res.json({ messages: await listMailbox(deps, callerOf(req)) });
 };
 
-export const mailboxMessage: HandlerFactory = () => async (req, res) => {
-  res.json(await readMailboxMessage(callerOf(req), String(req.params.messageId)));
+export const mailboxMessage: HandlerFactory = (deps) => async (req, res) => {
+  res.json(await readMailboxMessage(deps, callerOf(req), String(req.params.messageId)));
 };
 
-export const mailboxAttachment: HandlerFactory = () => async (req, res) => {
+export const mailboxAttachment: HandlerFactory = (deps) => async (req, res) => {
   const { contentType, filename, body } = await readMailboxAttachment(
+    deps,
     callerOf(req),
     String(req.params.messageId),
     String(req.params.index),

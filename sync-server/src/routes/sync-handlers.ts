@@ -16,7 +16,6 @@ import {
 import { bytesToHex } from '@/shared/seal';
 import { AppError } from '../errors';
 import { callerOf } from '../middleware/authenticate';
-import { syncServicesFor } from '../composition-root';
 import { blobStatus } from '../use-cases/sync/clips';
 import { getConflict, listConflicts, resolveConflict } from '../use-cases/sync/conflicts';
 import { pullChanges } from '../use-cases/sync/pull';
@@ -74,11 +73,11 @@ export const syncUploads: HandlerFactory = (deps) => async (req, res) => {
   // tus takes the upload id from the end of req.url, query and all, and decodes it again; the tus routes take
   // no query, so it gets the path alone (a stray `%` after `?` made it throw).
   req.url = req.path;
-  await syncServicesFor(deps.sequelize).uploads.handle(req, res);
+  await deps.services.uploads.handle(req, res);
 };
 
 export const clinicPublicKey: HandlerFactory = (deps) => async (req, res) => {
-  const key = syncServicesFor(deps.sequelize).clinicKeys.publicKey(callerOf(req).clinicId);
+  const key = deps.services.clinicKeys.publicKey(callerOf(req).clinicId);
   const body: ClinicPublicKeyResponse = { algorithm: 'x25519', publicKey: bytesToHex(key) };
   res.json(body);
 };

@@ -19,7 +19,14 @@ export const listTeam: HandlerFactory = (deps) => async (req, res) => {
 export const invite: HandlerFactory = (deps) => async (req, res) => {
   res
     .status(201)
-    .json(await team.inviteUser(deps, callerOf(req), inviteRequestSchema.parse(req.body), linkBase(req)));
+    .json(
+      await team.inviteUser(
+        deps,
+        callerOf(req),
+        inviteRequestSchema.parse(req.body),
+        linkBase(deps.services, req),
+      ),
+    );
 };
 
 export const revokeInvitation: HandlerFactory = (deps) => async (req, res) => {

@@ -9,7 +9,6 @@ import { endEverySignInOfUser } from '../repositories/refresh-tokens-repository'
 import { findUserByEmailForSignIn, normaliseEmail, setPasswordHash } from '../repositories/users-repository';
 import { assertAcceptablePassword } from '../services/password-policy';
 import { hashPassword } from '../services/passwords';
-import { services } from '../composition-root';
 import type { UseCaseDeps } from './context';
 
 /** Short-lived: the link only has to last until the person reads the e-mail (OWASP ASVS 4.0.3 V2.3.1, V2.5.x). */
@@ -120,8 +119,8 @@ export async function requestPasswordReset(
     });
     const payload = Buffer.from(JSON.stringify({ r: id, e: expiresAt.getTime() })).toString('base64url');
     const token = `${payload}${tokenSeparator}${signature(payload, user.email, user.passwordHash, deps.jwtSecret).toString('base64url')}`;
-    void services()
-      .mail.send({
+    void deps.services.mail
+      .send({
         clinicId: user.clinicId,
         to: user.email,
         subject: 'Choose a new Fourpoint password',

@@ -1,17 +1,16 @@
 // In-process fakes for the practice tests: the SMTP fake and the payments fake on free ports, wired into the
-// server's practice and review services, with the app listening on a real port so the fake can post its webhooks.
+// services of the test's context (ctx.services, which its app was handed), with the app listening on a real port so the fake can post its webhooks.
 import fs from 'node:fs';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
-import type { Express } from 'express';
 import { startPaymentsFake, type PaymentsFake } from '@/sync-server/fakes/payments-fake';
 import { startSmtpFake, type SmtpFake } from '@/sync-server/fakes/smtp-fake';
 import { readSecrets } from '@/sync-server/src/config/secrets';
 import { createSmtpMailService } from '@/sync-server/src/services/mail';
 import { createStripePaymentsService } from '@/sync-server/src/services/payments';
-import { replaceServices } from '@/sync-server/src/composition-root';
+import type { TestContext } from './test-app';
 
 export type PracticeFakes = {
   mail: SmtpFake;
@@ -21,8 +20,8 @@ export type PracticeFakes = {
   close: () => Promise<void>;
 };
 
-export async function startPracticeFakes(app: Express): Promise<PracticeFakes> {
-  const server = http.createServer(app);
+export async function startPracticeFakes(ctx: TestContext): Promise<PracticeFakes> {
+  const server = http.createServer(ctx.app);
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   const mail = await startSmtpFake({ smtpPort: 0, httpPort: 0 });
@@ -35,7 +34,8 @@ export async function startPracticeFakes(app: Express): Promise<PracticeFakes> {
     from: 'Fourpoint tests <tests@fourpoint.test>',
   });
   const blobDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-practice-blobs-'));
-  replaceServices({
+  // After the app is listening: the links in e-mails point at its port.
+  Object.assign(ctx.services, {
     mail: mailService,
     payments: createStripePaymentsService({
       secretKey,

@@ -5,6 +5,8 @@ import request from 'supertest';
 import type { Express } from 'express';
 import type { Role, SignInResponse } from '@/shared/protocol';
 import { createApp, type AppDeps } from '@/sync-server/src/app';
+import { composeServices, type ServiceChoices, type Services } from '@/sync-server/src/composition-root';
+import { loadConfig, type Config } from '@/sync-server/src/config/settings';
 import { createSequelize } from '@/sync-server/src/db/database';
 import { createClinic } from '@/sync-server/src/repositories/clinics-repository';
 import { selectRows } from '@/sync-server/src/repositories/sql';
@@ -17,6 +19,8 @@ export interface TestContext {
   sequelize: Sequelize;
   app: Express;
   jwtSecret: string;
+  /** The parts this context's app uses; a test may swap one with Object.assign(ctx.services, {...}). */
+  services: Services;
   close: () => Promise<void>;
 }
 
@@ -40,20 +44,31 @@ export function testDatabase(): Sequelize {
 
 export function makeTestContext(
   overrides: Partial<AppDeps> = {},
-  options: { databaseUrl?: string } = {},
+  options: {
+    databaseUrl?: string;
+    /** The settings its parts are built from (default: this process's). */
+    config?: Config;
+    services?: ServiceChoices;
+  } = {},
 ): TestContext {
   const sequelize = createSequelize(options.databaseUrl ?? databaseUrl(), { poolMax: 5 });
   contextDatabase = sequelize;
   const jwtSecret = `test-secret-${randomUUID()}`;
+  const services = composeServices(options.config ?? loadConfig(), sequelize, options.services);
   const app = createApp({
     sequelize,
     jwtSecret,
+    services,
     logger: pino({ level: 'silent' }),
     // Counters of its own: test files share one database and one client address.
     rateLimitPrefix: `test-${randomUUID()}`,
     ...overrides,
   });
-  return { sequelize, app, jwtSecret, close: () => sequelize.close() };
+  const close = async () => {
+    await services.readiness.stop();
+    await sequelize.close();
+  };
+  return { sequelize, app, jwtSecret, services, close };
 }
 
 /** Another app on the same connection, e.g. with its own rate limits. */
@@ -61,6 +76,7 @@ export function makeSiblingApp(ctx: TestContext, overrides: Partial<AppDeps> = {
   return createApp({
     sequelize: ctx.sequelize,
     jwtSecret: ctx.jwtSecret,
+    services: ctx.services,
     logger: pino({ level: 'silent' }),
     rateLimitPrefix: `test-${randomUUID()}`,
     ...overrides,

@@ -20,12 +20,14 @@ import {
   type SyncEngineOptions,
 } from '@/shared/sync';
 import { LocalDiskBlobStore, type BlobStore } from '@/sync-server/src/services/blob-store';
-import { provideSyncServices, type SyncServices } from '@/sync-server/src/composition-root';
+import type { Services } from '@/sync-server/src/composition-root';
+import { ClinicKeyStore } from '@/sync-server/src/services/clinic-keys';
+import { folderStaging } from '@/sync-server/src/services/tus-uploads';
 import { makeClinic, makeTestContext, signIn, type TestClinic, type TestContext } from '../helpers/test-app';
 
 export interface SyncTestServer {
   ctx: TestContext;
-  services: SyncServices;
+  services: Services;
   url: string;
   dataDir: string;
   /** keepData leaves the folders for a restarted server, as a killed process would. */
@@ -36,14 +38,16 @@ export interface SyncTestServer {
 export async function startSyncServer(
   options: { dataDir?: string; jwtSecret?: string; port?: number; blobStore?: BlobStore } = {},
 ): Promise<SyncTestServer> {
-  const ctx = makeTestContext(options.jwtSecret ? { jwtSecret: options.jwtSecret } : {});
-  if (options.jwtSecret) ctx.jwtSecret = options.jwtSecret;
   const dataDir = options.dataDir ?? fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-sync-'));
-  const services = provideSyncServices(ctx.sequelize, {
-    blobStore: options.blobStore ?? new LocalDiskBlobStore(path.join(dataDir, 'blobs')),
-    clinicKeysDir: path.join(dataDir, 'keys'),
-    uploadDir: path.join(dataDir, 'uploads'),
+  const ctx = makeTestContext(options.jwtSecret ? { jwtSecret: options.jwtSecret } : {}, {
+    services: {
+      blobStore: options.blobStore ?? new LocalDiskBlobStore(path.join(dataDir, 'blobs')),
+      clinicKeys: new ClinicKeyStore(path.join(dataDir, 'keys')),
+      staging: folderStaging(path.join(dataDir, 'uploads')),
+    },
   });
+  if (options.jwtSecret) ctx.jwtSecret = options.jwtSecret;
+  const { services } = ctx;
   const server = http.createServer(ctx.app);
   await new Promise<void>((resolve) => server.listen(options.port ?? 0, '127.0.0.1', resolve));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;

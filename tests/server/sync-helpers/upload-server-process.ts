@@ -10,18 +10,26 @@ import pino from 'pino';
 import { createApp } from '@/sync-server/src/app';
 import { createSequelize } from '@/sync-server/src/db/database';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
-import { provideSyncServices } from '@/sync-server/src/composition-root';
+import { composeServices } from '@/sync-server/src/composition-root';
+import { loadConfig } from '@/sync-server/src/config/settings';
+import { ClinicKeyStore } from '@/sync-server/src/services/clinic-keys';
+import { folderStaging } from '@/sync-server/src/services/tus-uploads';
 
 async function main() {
   const env = process.env;
   const dataDir = env.DATA_DIR!;
   const sequelize = createSequelize(env.DATABASE_URL!, { poolMax: 3 });
-  const app = createApp({ sequelize, jwtSecret: env.JWT_SECRET!, logger: pino({ level: 'silent' }) });
-  const services = provideSyncServices(sequelize, {
+  const services = composeServices(loadConfig(), sequelize, {
     blobStore: new LocalDiskBlobStore(path.join(dataDir, 'blobs')),
-    clinicKeysDir: path.join(dataDir, 'keys'),
-    uploadDir: path.join(dataDir, 'uploads'),
+    clinicKeys: new ClinicKeyStore(path.join(dataDir, 'keys')),
+    staging: folderStaging(path.join(dataDir, 'uploads')),
     afterLastByte: env.KILL_AFTER_LAST_BYTE === '1' ? () => process.kill(process.pid, 'SIGKILL') : undefined,
+  });
+  const app = createApp({
+    sequelize,
+    jwtSecret: env.JWT_SECRET!,
+    services,
+    logger: pino({ level: 'silent' }),
   });
   const server = http.createServer(app);
   await new Promise<void>((resolve) => server.listen(Number(env.PORT ?? 0), '127.0.0.1', resolve));

@@ -4,7 +4,6 @@ import { syncEntities } from '@/shared/protocol/sync';
 import { AppError } from '../../errors';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as repo from '../../repositories/erasure-repository';
-import { syncServicesFor } from '../../composition-root';
 import type { Caller, UseCaseDeps } from '../context';
 import { requireFieldWrites } from '../field-access';
 import { clientNotFound } from './client-records';
@@ -82,7 +81,7 @@ export async function deleteQueuedBlobs(
   deps: UseCaseDeps,
   filter: { erasureId?: string; clinicId?: string },
 ): Promise<number> {
-  const { blobStore } = syncServicesFor(deps.sequelize);
+  const { blobStore } = deps.services;
   let deleted = 0;
   for (const pending of await repo.pendingBlobDeletions(deps.sequelize, filter)) {
     try {

@@ -6,7 +6,6 @@ import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as records from '../../repositories/clients-repository';
 import * as repo from '../../repositories/export-repository';
 import { iso } from '../../repositories/sql';
-import { syncServicesFor } from '../../composition-root';
 import { renderReportPdf } from '../../services/report-pdf';
 import { clientNotFound } from '../clients/client-records';
 import { buildReportInput } from '../review/report';
@@ -139,7 +138,7 @@ async function clipFiles(
   clinicId: string,
   sites: SiteRows,
 ): Promise<{ files: ExportFile[]; missing: string[] }> {
-  const { blobStore, clinicKeys } = syncServicesFor(deps.sequelize);
+  const { blobStore, clinicKeys } = deps.services;
   const files: ExportFile[] = [];
   const missing: string[] = [];
   for (const r of sites) {

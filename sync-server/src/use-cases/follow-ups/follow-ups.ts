@@ -3,7 +3,6 @@ import { runFollowUpReminders } from '../../jobs/follow-up-reminders';
 import { recordAuditEvent } from '../../repositories/audit-repository';
 import * as repo from '../../repositories/follow-ups-repository';
 import { iso } from '../../repositories/sql';
-import { services } from '../../composition-root';
 import type { Caller, UseCaseDeps } from '../context';
 
 export async function listFollowUpsDue(
@@ -24,7 +23,7 @@ export async function listFollowUpsDue(
 
 /** The admin's "send due reminders now"; the scheduled job does the same for every clinic. */
 export async function runRemindersNow(deps: UseCaseDeps, caller: Caller): Promise<ReminderRunResponse> {
-  const result = await runFollowUpReminders(deps.sequelize, services().mail, {
+  const result = await runFollowUpReminders(deps.sequelize, deps.services.mail, {
     clinicId: caller.clinicId,
   });
   await recordAuditEvent({

@@ -11,7 +11,6 @@ import { recordAuditEvent } from '../../repositories/audit-repository';
 import { findClientRow } from '../../repositories/clients-repository';
 import { iso } from '../../repositories/sql';
 import * as repo from '../../repositories/payments-repository';
-import { services } from '../../composition-root';
 import type { Caller, UseCaseDeps } from '../context';
 import { getSettings } from '../settings/settings';
 
@@ -67,7 +66,7 @@ export async function createPayment(
   const offer = settings.offers.find((o) => o.id === input.offerId);
   if (!offer)
     throw new AppError('unknown_offer', 'This clinic does not offer that; pick one from the list.', 400);
-  const practice = services();
+  const practice = deps.services;
   const id = randomUUID();
   await deps.sequelize.transaction(async (transaction) => {
     await repo.insertPayment(
@@ -143,7 +142,7 @@ export async function handlePaymentWebhook(
   rawBody: Buffer,
   signature: string | undefined,
 ): Promise<WebhookOutcome> {
-  const event = services().payments.parseWebhook(rawBody, signature);
+  const event = deps.services.payments.parseWebhook(rawBody, signature);
   return deps.sequelize.transaction(async (transaction) => {
     const fresh = await repo.claimEvent(deps.sequelize, event.eventId, event.kind, transaction);
     if (!fresh) return { received: true, duplicate: true, applied: 'none' };
@@ -225,7 +224,7 @@ export async function refundPayment(deps: UseCaseDeps, caller: Caller, paymentId
     ip: caller.ip,
   });
   // The provider confirms with a webhook; the status changes when it arrives.
-  await services().payments.refund(payment.payment_intent_id, `refund-${payment.id}`);
+  await deps.services.payments.refund(payment.payment_intent_id, `refund-${payment.id}`);
   return toPayment((await repo.findPayment(deps.sequelize, caller.clinicId, paymentId))!);
 }
 

@@ -7,8 +7,7 @@ import {
 } from '@/shared/protocol/review';
 import { AppError } from '../../errors';
 import { CLINIC_HEADER } from '../../services/mail';
-import { services } from '../../composition-root';
-import type { Caller } from '../context';
+import type { Caller, UseCaseDeps } from '../context';
 
 // The admin's Mailbox is a view of the local SMTP fake, which keeps every clinic's mail in one list. It shows a
 // message only when the message carries the caller's clinic in CLINIC_HEADER (set by the mail service on every
@@ -49,10 +48,10 @@ async function fetchFake(url: string): Promise<Response> {
  * loopback host, the SMTP port the fake says is its own). A real relay anywhere turns the view off, whatever
  * MAIL_FAKE_HTTP_PORT says.
  */
-async function localMailbox(): Promise<string> {
-  const base = services().mailboxUrl;
+async function localMailbox(deps: UseCaseDeps): Promise<string> {
+  const base = deps.services.mailboxUrl;
   if (!base) throw noMailbox();
-  const { relay } = services().mail;
+  const { relay } = deps.services.mail;
   if (!LOOPBACK.has(relay.host)) throw noMailbox();
   const identity = fakeIdentitySchema.safeParse(
     await (await fetchFake(`${base}/api/identity`)).json().catch(() => null),
@@ -64,8 +63,8 @@ async function localMailbox(): Promise<string> {
 const isTheCallers = (caller: Caller, headers: Record<string, string>) =>
   headers[CLINIC_HEADER.toLowerCase()] === caller.clinicId;
 
-export async function listMailbox(caller: Caller): Promise<MailboxMessage[]> {
-  const base = await localMailbox();
+export async function listMailbox(deps: UseCaseDeps, caller: Caller): Promise<MailboxMessage[]> {
+  const base = await localMailbox(deps);
   const response = await fetchFake(`${base}/api/messages`);
   if (!response.ok) throw unreachable();
   const { messages } = fakeListSchema.parse(await response.json());
@@ -82,16 +81,21 @@ async function callersMessage(base: string, caller: Caller, messageId: string) {
   return message;
 }
 
-export async function readMailboxMessage(caller: Caller, messageId: string): Promise<MailboxMessageDetail> {
-  return mailboxMessageDetailSchema.parse(await callersMessage(await localMailbox(), caller, messageId));
+export async function readMailboxMessage(
+  deps: UseCaseDeps,
+  caller: Caller,
+  messageId: string,
+): Promise<MailboxMessageDetail> {
+  return mailboxMessageDetailSchema.parse(await callersMessage(await localMailbox(deps), caller, messageId));
 }
 
 export async function readMailboxAttachment(
+  deps: UseCaseDeps,
   caller: Caller,
   messageId: string,
   index: string,
 ): Promise<{ contentType: string; filename: string | null; body: Buffer }> {
-  const base = await localMailbox();
+  const base = await localMailbox(deps);
   const message = await callersMessage(base, caller, messageId);
   const attachment = message.attachments.find((a) => String(a.index) === index);
   if (!attachment) throw new AppError('not_found', 'This message has no such attachment.', 404);

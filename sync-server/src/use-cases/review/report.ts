@@ -23,7 +23,6 @@ import type { Caller, UseCaseDeps } from '../context';
 import { clinicTimeZone } from '../settings/settings';
 import { referralKeys } from './measurements';
 import { clipTrace, compareSessions, loadSession, reviewSitesOf } from './session-view';
-import { services } from '../../composition-root';
 
 const SITE_LABEL: Record<Site, string> = {
   mitral: 'Mitral',
@@ -284,7 +283,7 @@ async function attemptSend(deps: UseCaseDeps, caller: Caller, mailId: string): P
       throw new AppError('already_sent', 'This report e-mail was already delivered.', 409);
     throw new AppError('send_in_progress', 'This report e-mail is being sent right now.', 409);
   }
-  return deliverClaimedReportMail(deps.sequelize, services().mail, claimed, {
+  return deliverClaimedReportMail(deps.sequelize, deps.services.mail, claimed, {
     userId: caller.userId,
     ip: caller.ip ?? null,
   });

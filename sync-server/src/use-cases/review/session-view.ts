@@ -38,7 +38,6 @@ import {
   type RangeLookup,
 } from './measurements';
 import { rangesForClinic } from './ranges';
-import { services } from '../../composition-root';
 
 export const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
 
@@ -185,11 +184,11 @@ export async function clipBytes(
   const blob = await findClipBlob(deps.sequelize, caller.clinicId, record.clipSha256);
   if (!blob?.storageKey || blob.state !== 'stored')
     throw new AppError('clip_not_stored', 'The clip for this site has not reached the server yet.', 409);
-  return openStoredClip(caller, blob.storageKey);
+  return openStoredClip(deps, caller, blob.storageKey);
 }
 
-async function openStoredClip(caller: Caller, storageKey: string): Promise<Uint8Array> {
-  const { blobStore, openClip } = services();
+async function openStoredClip(deps: UseCaseDeps, caller: Caller, storageKey: string): Promise<Uint8Array> {
+  const { blobStore, openClip } = deps.services;
   const bytes = await blobStore.get(storageKey);
   if (!bytes)
     throw new AppError('clip_missing', 'The clip is recorded but its file is missing on the server.', 410);
@@ -221,7 +220,7 @@ export async function clipTrace(
   if (!blob?.storageKey || blob.state !== 'stored')
     throw new AppError('clip_not_stored', 'The clip for this site has not reached the server yet.', 409);
   if (blob.trace) return blob.trace;
-  const bytes = await openStoredClip(caller, blob.storageKey);
+  const bytes = await openStoredClip(deps, caller, blob.storageKey);
   let trace: StoredTrace;
   try {
     const wav = decodeWav(bytes);

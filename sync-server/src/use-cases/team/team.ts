@@ -19,7 +19,6 @@ import { revokeUserRefreshTokens } from '../../repositories/refresh-tokens-repos
 import * as userRows from '../../repositories/users-repository';
 import { assertAcceptablePassword } from '../../services/password-policy';
 import { hashPassword } from '../../services/passwords';
-import { services } from '../../composition-root';
 import type { Caller, UseCaseDeps } from '../context';
 
 export const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
@@ -180,7 +179,7 @@ export async function inviteUser(
   )}`;
   let emailed = true;
   try {
-    await services().mail.send({
+    await deps.services.mail.send({
       clinicId: caller.clinicId,
       to: email,
       subject: `You are invited to ${row.clinic_name} on Fourpoint`,
