@@ -16,25 +16,17 @@ import {
   clinicWithTokens,
   sessionFields,
   siteFields,
-  startSyncServer,
-  type SyncTestServer,
   mutation,
-  pushTo,
+  syncServerPerFile,
 } from './sync-helpers/devices';
 
-let server: SyncTestServer;
-beforeAll(async () => {
-  server = await startSyncServer();
-});
-afterAll(() => server.close());
-
-const push = (token: string, mutations: Mutation[], deviceId?: string) =>
-  pushTo(server, token, mutations, deviceId);
+const sync = syncServerPerFile();
+const push = sync.push;
 
 const m = mutation;
 
 const rows = <T extends object>(sql: string, replacements: Record<string, unknown>) =>
-  server.ctx.sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT });
+  sync.server.ctx.sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT });
 
 const count = async (sql: string, replacements: Record<string, unknown>) =>
   Number((await rows<{ count: string }>(sql, replacements))[0].count);
@@ -51,7 +43,7 @@ const unchecked = (mutations: Mutation[]): Checked[] =>
 
 async function consentText(clinicId: string): Promise<string> {
   const id = randomUUID();
-  await server.ctx.sequelize.query(
+  await sync.server.ctx.sequelize.query(
     `INSERT INTO consent_texts (id, clinic_id, version, title, body)
      SELECT :id, :clinicId, coalesce(max(version), 0) + 1, 'Consent', 'Agreed.' FROM consent_texts WHERE clinic_id = :clinicId`,
     { replacements: { id, clinicId } },
@@ -89,11 +81,11 @@ async function sessionOnServer(clinic: TestClinic, operator: string) {
 }
 
 test('when a finished session arrives, then one statement writes every row with the server fields and records every mutation', async () => {
-  const { clinic } = await clinicWithTokens(server, 'Once');
+  const { clinic } = await clinicWithTokens(sync.server, 'Once');
   const operatorId = clinic.users.operator.id;
   const stored = randomBytes(32).toString('hex');
   const analysis = { metrics: { heartRateBpm: 72 } };
-  await server.ctx.sequelize.query(
+  await sync.server.ctx.sequelize.query(
     `INSERT INTO clip_blobs (sha256, clinic_id, size_bytes, content_type, storage_key, state, analysis)
      VALUES (:stored, :clinicId, 10, 'application/x-fourpoint-sealed', 'k', 'stored', :analysis::jsonb)`,
     { replacements: { stored, clinicId: clinic.id, analysis: JSON.stringify(analysis) } },
@@ -103,7 +95,7 @@ test('when a finished session arrives, then one statement writes every row with 
   const batch = plan(session.mutations);
   expect(batch).not.toBeNull();
 
-  const written = await new SyncRepository(server.ctx.sequelize).applyBatchAtOnce(
+  const written = await new SyncRepository(sync.server.ctx.sequelize).applyBatchAtOnce(
     { clinicId: clinic.id, userId: operatorId, deviceId: randomUUID() },
     batch!,
   );
@@ -142,14 +134,14 @@ test('when a finished session arrives, then one statement writes every row with 
 });
 
 test('when one edit of a batch is stale, then the one statement writes nothing, and the batch applied in order keeps the rest and records the conflict', async () => {
-  const { clinic, operator } = await clinicWithTokens(server, 'Whole');
+  const { clinic, operator } = await clinicWithTokens(sync.server, 'Whole');
   const first = await sessionOnServer(clinic, operator);
   await push(operator, [m('clients', first.clientId, { phone: '+44 1' }, 1)]);
   const next = finishedSession(await consentText(clinic.id), [null, null, null, null]);
   const batch = [...next.mutations, m('clients', first.clientId, { email: 'v1@test.fourpoint.test' }, 1)];
 
   expect(
-    await new SyncRepository(server.ctx.sequelize).applyBatchAtOnce(
+    await new SyncRepository(sync.server.ctx.sequelize).applyBatchAtOnce(
       { clinicId: clinic.id, userId: clinic.users.operator.id, deviceId: randomUUID() },
       plan(batch)!,
     ),
@@ -205,7 +197,7 @@ test('when a batch deletes or creates deleted a parent that another of its mutat
 });
 
 test('when a session comes before the client it belongs to, then it is refused as it would be in order', async () => {
-  const { operator } = await clinicWithTokens(server, 'Order');
+  const { operator } = await clinicWithTokens(sync.server, 'Order');
   const clientId = randomUUID();
   const sessionId = randomUUID();
   const batch = [
@@ -219,7 +211,7 @@ test('when a session comes before the client it belongs to, then it is refused a
 });
 
 test('when a batch changes one row twice or names a clip in an edit, then it goes one mutation at a time and each change lands', async () => {
-  const { clinic, operator } = await clinicWithTokens(server, 'Twice');
+  const { clinic, operator } = await clinicWithTokens(sync.server, 'Twice');
   const first = await sessionOnServer(clinic, operator);
   const twice = [
     m('clients', first.clientId, { phone: '+44 2' }, 1),
@@ -229,7 +221,7 @@ test('when a batch changes one row twice or names a clip in an edit, then it goe
   expect((await push(operator, twice)).results).toMatchObject([{ newVersion: 2 }, { newVersion: 3 }]);
 
   const stored = randomBytes(32).toString('hex');
-  await server.ctx.sequelize.query(
+  await sync.server.ctx.sequelize.query(
     `INSERT INTO clip_blobs (sha256, clinic_id, size_bytes, content_type, storage_key, state, analysis)
      VALUES (:stored, :clinicId, 10, 'application/x-fourpoint-sealed', 'k', 'stored', '{"metrics":{}}')`,
     { replacements: { stored, clinicId: clinic.id } },
@@ -251,7 +243,7 @@ test('when a batch changes one row twice or names a clip in an edit, then it goe
 });
 
 test('when edits of the usual kind arrive, then the one statement writes only the fields they name', async () => {
-  const { clinic, operator, admin } = await clinicWithTokens(server, 'Edit');
+  const { clinic, operator, admin } = await clinicWithTokens(sync.server, 'Edit');
   const first = await sessionOnServer(clinic, operator);
   const edit = [
     m('recording_sessions', first.sessionId, { finishedAt: '2026-11-30T09:20:00.000Z' }, 1),

@@ -3,36 +3,30 @@
 // apply each mutation once; an edit pointing at a missing parent is refused without moving the version.
 import { randomUUID } from 'node:crypto';
 import { QueryTypes } from 'sequelize';
-import type { Mutation } from '@/shared/protocol/sync';
 import {
   clientFields,
   clinicWithTokens,
   sessionFields,
   siteFields,
-  startSyncServer,
-  type SyncTestServer,
   mutation,
-  pushTo,
+  syncServerPerFile,
 } from './sync-helpers/devices';
 
-let server: SyncTestServer;
-beforeAll(async () => {
-  server = await startSyncServer();
-});
-afterAll(() => server.close());
-
-const push = (token: string, mutations: Mutation[], deviceId?: string) =>
-  pushTo(server, token, mutations, deviceId);
+const sync = syncServerPerFile();
+const push = sync.push;
 
 const m = mutation;
 
 async function count(sql: string, bind: unknown[]): Promise<number> {
-  const [row] = await server.ctx.sequelize.query<{ count: string }>(sql, { bind, type: QueryTypes.SELECT });
+  const [row] = await sync.server.ctx.sequelize.query<{ count: string }>(sql, {
+    bind,
+    type: QueryTypes.SELECT,
+  });
   return Number(row.count);
 }
 
 test('when one mutation in the middle of a batch breaks a database rule, then it alone is refused and the rest apply once', async () => {
-  const { clinic, operator } = await clinicWithTokens(server, 'Middle');
+  const { clinic, operator } = await clinicWithTokens(sync.server, 'Middle');
   const clientId = randomUUID();
   const sessionId = randomUUID();
   const batch = [
@@ -71,7 +65,7 @@ test('when one mutation in the middle of a batch breaks a database rule, then it
     'already_applied',
   ]);
   expect(await count(`SELECT count(*) FROM applied_mutations WHERE clinic_id = $1`, [clinic.id])).toBe(5);
-  const [client] = await server.ctx.sequelize.query<{ version: number; phone: string }>(
+  const [client] = await sync.server.ctx.sequelize.query<{ version: number; phone: string }>(
     `SELECT version, phone FROM clients WHERE id = $1`,
     { bind: [clientId], type: QueryTypes.SELECT },
   );
@@ -79,7 +73,7 @@ test('when one mutation in the middle of a batch breaks a database rule, then it
 });
 
 test('when the same batch is delivered twice at the same moment, then each mutation is applied by exactly one delivery', async () => {
-  const { clinic, operator } = await clinicWithTokens(server, 'Twice');
+  const { clinic, operator } = await clinicWithTokens(sync.server, 'Twice');
   const deviceId = randomUUID();
   const clientId = randomUUID();
   const sessionId = randomUUID();
@@ -102,7 +96,7 @@ test('when the same batch is delivered twice at the same moment, then each mutat
 });
 
 test('when an edit points a session at a client that is not on the server, then it is refused and the version stays', async () => {
-  const { operator } = await clinicWithTokens(server, 'Parent');
+  const { operator } = await clinicWithTokens(sync.server, 'Parent');
   const clientId = randomUUID();
   const sessionId = randomUUID();
   await push(operator, [
@@ -115,7 +109,7 @@ test('when an edit points a session at a client that is not on the server, then 
   ]);
   expect(res.results[0]).toMatchObject({ status: 'rejected', code: 'missing_parent' });
   expect(res.results[1]).toMatchObject({ status: 'applied', newVersion: 2 });
-  const [session] = await server.ctx.sequelize.query<{ version: number; client_id: string }>(
+  const [session] = await sync.server.ctx.sequelize.query<{ version: number; client_id: string }>(
     `SELECT version, client_id FROM recording_sessions WHERE id = $1`,
     { bind: [sessionId], type: QueryTypes.SELECT },
   );
