@@ -15,8 +15,6 @@ import {
 const sync = syncServerPerFile();
 const push = sync.push;
 
-const m = mutation;
-
 async function count(sql: string, bind: unknown[]): Promise<number> {
   const [row] = await sync.server.ctx.sequelize.query<{ count: string }>(sql, {
     bind,
@@ -30,13 +28,13 @@ test('when one mutation in the middle of a batch breaks a database rule, then it
   const clientId = randomUUID();
   const sessionId = randomUUID();
   const batch = [
-    m('clients', clientId, clientFields('middle')),
-    m('recording_sessions', sessionId, sessionFields(clientId)),
-    m('site_recordings', randomUUID(), siteFields(sessionId, 'mitral')),
+    mutation('clients', clientId, clientFields('middle')),
+    mutation('recording_sessions', sessionId, sessionFields(clientId)),
+    mutation('site_recordings', randomUUID(), siteFields(sessionId, 'mitral')),
     // A second mitral recording in one session: only the database's unique rule catches it.
-    m('site_recordings', randomUUID(), siteFields(sessionId, 'mitral')),
-    m('site_recordings', randomUUID(), siteFields(sessionId, 'tricuspid')),
-    m('clients', clientId, { phone: 'after the refused one' }, 1),
+    mutation('site_recordings', randomUUID(), siteFields(sessionId, 'mitral')),
+    mutation('site_recordings', randomUUID(), siteFields(sessionId, 'tricuspid')),
+    mutation('clients', clientId, { phone: 'after the refused one' }, 1),
   ];
   const first = await push(operator, batch);
   expect(first.results.map((r) => r.status)).toEqual([
@@ -78,10 +76,10 @@ test('when the same batch is delivered twice at the same moment, then each mutat
   const clientId = randomUUID();
   const sessionId = randomUUID();
   const batch = [
-    m('clients', clientId, clientFields('twice')),
-    m('recording_sessions', sessionId, sessionFields(clientId)),
-    m('site_recordings', randomUUID(), siteFields(sessionId, 'aortic')),
-    m('site_recordings', randomUUID(), siteFields(sessionId, 'pulmonic')),
+    mutation('clients', clientId, clientFields('twice')),
+    mutation('recording_sessions', sessionId, sessionFields(clientId)),
+    mutation('site_recordings', randomUUID(), siteFields(sessionId, 'aortic')),
+    mutation('site_recordings', randomUUID(), siteFields(sessionId, 'pulmonic')),
   ];
   const [a, b] = await Promise.all([push(operator, batch, deviceId), push(operator, batch, deviceId)]);
   batch.forEach((mutation, i) => {
@@ -100,12 +98,12 @@ test('when an edit points a session at a client that is not on the server, then 
   const clientId = randomUUID();
   const sessionId = randomUUID();
   await push(operator, [
-    m('clients', clientId, clientFields('parent')),
-    m('recording_sessions', sessionId, sessionFields(clientId)),
+    mutation('clients', clientId, clientFields('parent')),
+    mutation('recording_sessions', sessionId, sessionFields(clientId)),
   ]);
   const res = await push(operator, [
-    m('recording_sessions', sessionId, { clientId: randomUUID() }, 1),
-    m('recording_sessions', sessionId, { finishedAt: '2026-11-30T09:20:00.000Z' }, 1),
+    mutation('recording_sessions', sessionId, { clientId: randomUUID() }, 1),
+    mutation('recording_sessions', sessionId, { finishedAt: '2026-11-30T09:20:00.000Z' }, 1),
   ]);
   expect(res.results[0]).toMatchObject({ status: 'rejected', code: 'missing_parent' });
   expect(res.results[1]).toMatchObject({ status: 'applied', newVersion: 2 });
