@@ -2,10 +2,10 @@ import jwt from 'jsonwebtoken';
 import type { Express } from 'express';
 import request from 'supertest';
 import { meResponseSchema, signInResponseSchema } from '@/shared/protocol';
-import { execute, selectRows } from '@/sync-server/src/repositories/sql';
+import { selectRows } from '@/sync-server/src/repositories/sql';
 import { updateTeamUser } from '@/sync-server/src/repositories/users-repository';
 import { hashRefreshToken } from '@/sync-server/src/services/tokens';
-import { REUSE_GRACE_MS } from '@/sync-server/src/use-cases/auth';
+import { rotatedLongAgo } from './helpers/sign-ins';
 import {
   auditEventsWhere,
   makeClinic,
@@ -23,18 +23,6 @@ beforeAll(async () => {
   clinic = await makeClinic('Auth');
 });
 afterAll(() => ctx.close());
-
-/** Moves a spent refresh token's rotation past the reuse window (REUSE_GRACE_MS), so using it again is a replay. */
-async function rotatedLongAgo(refreshToken: string): Promise<void> {
-  await execute(
-    ctx.sequelize,
-    `UPDATE refresh_tokens SET revoked_at = :revokedAt WHERE token_hash = :tokenHash`,
-    {
-      revokedAt: new Date(Date.now() - 2 * REUSE_GRACE_MS),
-      tokenHash: hashRefreshToken(refreshToken),
-    },
-  );
-}
 
 describe('sign-in', () => {
   test('when the e-mail and password are right, then it answers tokens and the user', async () => {

@@ -6,35 +6,21 @@ import axios from 'axios';
 import { QueryTypes } from 'sequelize';
 import { consentText, consentTextVersion } from '@/shared/consent/consent-text';
 import { consentTextListResponseSchema } from '@/shared/protocol/practice';
-import type { Mutation } from '@/shared/protocol/sync';
 import { up as addBuiltInConsentText } from '@/sync-server/migrations/202612061000-built-in-consent-text';
-import {
-  clientFields,
-  clinicWithTokens,
-  mutation,
-  pushTo,
-  startSyncServer,
-  type SyncTestServer,
-} from './sync-helpers/devices';
+import { clientFields, clinicWithTokens, mutation, syncServerPerFile } from './sync-helpers/devices';
 
-let server: SyncTestServer;
-beforeAll(async () => {
-  server = await startSyncServer();
-});
-afterAll(() => server.close());
-
-const push = (token: string, mutations: Mutation[], deviceId?: string) =>
-  pushTo(server, token, mutations, deviceId);
+const sync = syncServerPerFile();
+const push = sync.push;
 
 async function consentTexts(token: string) {
-  const res = await axios.get(`${server.url}/api/consent-texts`, {
+  const res = await axios.get(`${sync.server.url}/api/consent-texts`, {
     headers: { authorization: `Bearer ${token}` },
   });
   return consentTextListResponseSchema.parse(res.data).texts;
 }
 
 test('when a clinic is new, then its wording in force is the built-in one, and a consent signed on it is accepted', async () => {
-  const { operator } = await clinicWithTokens(server, 'BuiltInConsent');
+  const { operator } = await clinicWithTokens(sync.server, 'BuiltInConsent');
   const texts = await consentTexts(operator);
   expect(texts).toHaveLength(1);
   const [inForce] = texts;
@@ -60,7 +46,7 @@ test('when a clinic is new, then its wording in force is the built-in one, and a
 });
 
 test('when a consent names a wording id the clinic does not have, then it is refused as missing its parent', async () => {
-  const { operator } = await clinicWithTokens(server, 'UnknownWording');
+  const { operator } = await clinicWithTokens(sync.server, 'UnknownWording');
   const clientId = randomUUID();
   const result = await push(operator, [
     mutation('clients', clientId, clientFields(randomUUID().slice(0, 6))),
@@ -76,12 +62,12 @@ test('when a consent names a wording id the clinic does not have, then it is ref
 });
 
 test('when the migration runs on a clinic made without any wording, then it gets the built-in one, and clinics with wording are left alone', async () => {
-  const { sequelize } = server.ctx;
+  const { sequelize } = sync.server.ctx;
   const bare = randomUUID();
   await sequelize.query(`INSERT INTO clinics (id, name) VALUES (:id, 'Made before the fix')`, {
     replacements: { id: bare },
   });
-  const { clinic: withWording } = await clinicWithTokens(server, 'HasWording');
+  const { clinic: withWording } = await clinicWithTokens(sync.server, 'HasWording');
   const countOf = async (clinicId: string) =>
     (
       await sequelize.query<{ n: string }>(

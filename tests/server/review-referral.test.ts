@@ -43,6 +43,22 @@ beforeAll(async () => {
 });
 afterAll(() => ctx.close());
 
+/** A new client of the test clinic with one session on `startedAt`. */
+async function sessionOfNewClient(
+  firstName: string,
+  lastName: string,
+  startedAt: string,
+  sites?: Parameters<typeof addSession>[0]['sites'],
+): Promise<{ clientId: string; id: string }> {
+  const clientId = await addClient(clinic.id, firstName, lastName);
+  const id = await addSession({ clinicId: clinic.id, clientId, startedAt: new Date(startedAt), sites });
+  return { clientId, id };
+}
+
+/** Sets or clears a session's referral flag as the holder of `token`. */
+const putReferralFlag = (token: string, id: string, body: { flagged: boolean; note: string }) =>
+  request(ctx.app).put(`/api/review/sessions/${id}/referral-flag`).set(auth(token)).send(body);
+
 async function listIds(token: string, query: Record<string, string>): Promise<string[]> {
   const ids: string[] = [];
   let cursor: string | null = null;
@@ -135,12 +151,9 @@ describe("the client's report", () => {
       .set(auth(tokens.admin))
       .send({ ...settings.body, address, logoDataUrl: onePixelPng() });
     expect(saved.status).toBe(200);
-    const clientId = await addClient(clinic.id, 'Rhea', 'Readwell');
-    const id = await addSession({
-      clinicId: clinic.id,
-      clientId,
-      startedAt: new Date('2026-10-09T09:00:00Z'),
-      sites: { mitral: { heartRateBpm: 72 }, aortic: { heartRateBpm: 73 } },
+    const { id } = await sessionOfNewClient('Rhea', 'Readwell', '2026-10-09T09:00:00Z', {
+      mitral: { heartRateBpm: 72 },
+      aortic: { heartRateBpm: 73 },
     });
     const text = (await reportText(tokens.practitioner, id)).replace(/\s+/g, ' ');
     expect(text).toContain('12 Quayside Row, Portmere PM1 4QX');
@@ -281,19 +294,12 @@ describe('referral agreement', () => {
   });
 
   test('when the practitioner flags a session with a note and later clears it, then the list, the view and the e-mail follow, and both are audited', async () => {
-    const clientId = await addClient(clinic.id, 'Pell', 'Handflag');
-    const id = await addSession({
-      clinicId: clinic.id,
-      clientId,
-      startedAt: new Date('2026-10-05T09:00:00Z'),
-      sites: { mitral: { heartRateBpm: 70 } },
+    const { clientId, id } = await sessionOfNewClient('Pell', 'Handflag', '2026-10-05T09:00:00Z', {
+      mitral: { heartRateBpm: 70 },
     });
     expect(await listIds(tokens.practitioner, { clientId, flagged: 'true' })).toEqual([]);
     const note = 'Short of breath on the stairs; wants a second opinion';
-    const set = await request(ctx.app)
-      .put(`/api/review/sessions/${id}/referral-flag`)
-      .set(auth(tokens.practitioner))
-      .send({ flagged: true, note });
+    const set = await putReferralFlag(tokens.practitioner, id, { flagged: true, note });
     expect(set.status).toBe(200);
     expect(set.body.referral).toMatchObject({ flagged: true, manual: { note } });
     expect(await listIds(tokens.practitioner, { clientId, flagged: 'true' })).toEqual([id]);
@@ -302,10 +308,10 @@ describe('referral agreement', () => {
     ]);
     expect(await mailPreview(tokens.practitioner, id)).toContain(`Your practitioner's note: ${note}`);
 
-    const cleared = await request(ctx.app)
-      .put(`/api/review/sessions/${id}/referral-flag`)
-      .set(auth(tokens.practitioner))
-      .send({ flagged: false, note: 'Seen by the GP, all clear' });
+    const cleared = await putReferralFlag(tokens.practitioner, id, {
+      flagged: false,
+      note: 'Seen by the GP, all clear',
+    });
     expect(cleared.status).toBe(200);
     expect(cleared.body.referral).toEqual({ flagged: false, reasons: [], manual: null });
     expect(await listIds(tokens.practitioner, { clientId, flagged: 'false' })).toEqual([id]);
@@ -317,32 +323,16 @@ describe('referral agreement', () => {
   });
 
   test('when a flag comes without a note, then it is refused with a message saying what to write, and nothing changes', async () => {
-    const clientId = await addClient(clinic.id, 'Nola', 'Nonote');
-    const id = await addSession({
-      clinicId: clinic.id,
-      clientId,
-      startedAt: new Date('2026-10-06T09:00:00Z'),
-    });
-    const res = await request(ctx.app)
-      .put(`/api/review/sessions/${id}/referral-flag`)
-      .set(auth(tokens.practitioner))
-      .send({ flagged: true, note: '   ' });
+    const { id } = await sessionOfNewClient('Nola', 'Nonote', '2026-10-06T09:00:00Z');
+    const res = await putReferralFlag(tokens.practitioner, id, { flagged: true, note: '   ' });
     expect(res.status).toBe(400);
     expect(JSON.stringify(res.body)).toContain('Write a short note saying why.');
     expect((await detailOf(tokens.practitioner, id)).flagged).toBe(false);
   });
 
   test('when an operator tries to flag, then it is refused', async () => {
-    const clientId = await addClient(clinic.id, 'Opal', 'Noflag');
-    const id = await addSession({
-      clinicId: clinic.id,
-      clientId,
-      startedAt: new Date('2026-10-07T09:00:00Z'),
-    });
-    const res = await request(ctx.app)
-      .put(`/api/review/sessions/${id}/referral-flag`)
-      .set(auth(tokens.operator))
-      .send({ flagged: true, note: 'no' });
+    const { id } = await sessionOfNewClient('Opal', 'Noflag', '2026-10-07T09:00:00Z');
+    const res = await putReferralFlag(tokens.operator, id, { flagged: true, note: 'no' });
     expect(res.status).toBe(403);
   });
 });

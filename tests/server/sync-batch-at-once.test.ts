@@ -16,25 +16,15 @@ import {
   clinicWithTokens,
   sessionFields,
   siteFields,
-  startSyncServer,
-  type SyncTestServer,
   mutation,
-  pushTo,
+  syncServerPerFile,
 } from './sync-helpers/devices';
 
-let server: SyncTestServer;
-beforeAll(async () => {
-  server = await startSyncServer();
-});
-afterAll(() => server.close());
-
-const push = (token: string, mutations: Mutation[], deviceId?: string) =>
-  pushTo(server, token, mutations, deviceId);
-
-const m = mutation;
+const sync = syncServerPerFile();
+const push = sync.push;
 
 const rows = <T extends object>(sql: string, replacements: Record<string, unknown>) =>
-  server.ctx.sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT });
+  sync.server.ctx.sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT });
 
 const count = async (sql: string, replacements: Record<string, unknown>) =>
   Number((await rows<{ count: string }>(sql, replacements))[0].count);
@@ -51,7 +41,7 @@ const unchecked = (mutations: Mutation[]): Checked[] =>
 
 async function consentText(clinicId: string): Promise<string> {
   const id = randomUUID();
-  await server.ctx.sequelize.query(
+  await sync.server.ctx.sequelize.query(
     `INSERT INTO consent_texts (id, clinic_id, version, title, body)
      SELECT :id, :clinicId, coalesce(max(version), 0) + 1, 'Consent', 'Agreed.' FROM consent_texts WHERE clinic_id = :clinicId`,
     { replacements: { id, clinicId } },
@@ -64,16 +54,18 @@ function finishedSession(consentTextId: string, clips: (string | null)[]) {
   const clientId = randomUUID();
   const sessionId = randomUUID();
   const mutations = [
-    m('clients', clientId, clientFields('once')),
-    m('consents', randomUUID(), {
+    mutation('clients', clientId, clientFields('once')),
+    mutation('consents', randomUUID(), {
       clientId,
       consentTextId,
       consentTextVersion: 1,
       typedName: 'Ada Testwood',
       consentDate: '2026-11-30',
     }),
-    m('recording_sessions', sessionId, sessionFields(clientId)),
-    ...SITES.map((site, i) => m('site_recordings', randomUUID(), siteFields(sessionId, site, clips[i]))),
+    mutation('recording_sessions', sessionId, sessionFields(clientId)),
+    ...SITES.map((site, i) =>
+      mutation('site_recordings', randomUUID(), siteFields(sessionId, site, clips[i])),
+    ),
   ];
   return { clientId, sessionId, mutations };
 }
@@ -89,11 +81,11 @@ async function sessionOnServer(clinic: TestClinic, operator: string) {
 }
 
 test('when a finished session arrives, then one statement writes every row with the server fields and records every mutation', async () => {
-  const { clinic } = await clinicWithTokens(server, 'Once');
+  const { clinic } = await clinicWithTokens(sync.server, 'Once');
   const operatorId = clinic.users.operator.id;
   const stored = randomBytes(32).toString('hex');
   const analysis = { metrics: { heartRateBpm: 72 } };
-  await server.ctx.sequelize.query(
+  await sync.server.ctx.sequelize.query(
     `INSERT INTO clip_blobs (sha256, clinic_id, size_bytes, content_type, storage_key, state, analysis)
      VALUES (:stored, :clinicId, 10, 'application/x-fourpoint-sealed', 'k', 'stored', :analysis::jsonb)`,
     { replacements: { stored, clinicId: clinic.id, analysis: JSON.stringify(analysis) } },
@@ -103,7 +95,7 @@ test('when a finished session arrives, then one statement writes every row with 
   const batch = plan(session.mutations);
   expect(batch).not.toBeNull();
 
-  const written = await new SyncRepository(server.ctx.sequelize).applyBatchAtOnce(
+  const written = await new SyncRepository(sync.server.ctx.sequelize).applyBatchAtOnce(
     { clinicId: clinic.id, userId: operatorId, deviceId: randomUUID() },
     batch!,
   );
@@ -142,14 +134,17 @@ test('when a finished session arrives, then one statement writes every row with 
 });
 
 test('when one edit of a batch is stale, then the one statement writes nothing, and the batch applied in order keeps the rest and records the conflict', async () => {
-  const { clinic, operator } = await clinicWithTokens(server, 'Whole');
+  const { clinic, operator } = await clinicWithTokens(sync.server, 'Whole');
   const first = await sessionOnServer(clinic, operator);
-  await push(operator, [m('clients', first.clientId, { phone: '+44 1' }, 1)]);
+  await push(operator, [mutation('clients', first.clientId, { phone: '+44 1' }, 1)]);
   const next = finishedSession(await consentText(clinic.id), [null, null, null, null]);
-  const batch = [...next.mutations, m('clients', first.clientId, { email: 'v1@test.fourpoint.test' }, 1)];
+  const batch = [
+    ...next.mutations,
+    mutation('clients', first.clientId, { email: 'v1@test.fourpoint.test' }, 1),
+  ];
 
   expect(
-    await new SyncRepository(server.ctx.sequelize).applyBatchAtOnce(
+    await new SyncRepository(sync.server.ctx.sequelize).applyBatchAtOnce(
       { clinicId: clinic.id, userId: clinic.users.operator.id, deviceId: randomUUID() },
       plan(batch)!,
     ),
@@ -181,36 +176,36 @@ test('when a batch deletes or creates deleted a parent that another of its mutat
   expect(
     batchForOneStatement(
       unchecked([
-        m('clients', clientId, deleted, 1),
-        m('recording_sessions', randomUUID(), sessionFields(clientId)),
+        mutation('clients', clientId, deleted, 1),
+        mutation('recording_sessions', randomUUID(), sessionFields(clientId)),
       ]),
     ),
   ).toBeNull();
   expect(
     batchForOneStatement(
       unchecked([
-        m('clients', clientId, { ...clientFields('gone'), ...deleted }),
-        m('recording_sessions', randomUUID(), sessionFields(clientId)),
+        mutation('clients', clientId, { ...clientFields('gone'), ...deleted }),
+        mutation('recording_sessions', randomUUID(), sessionFields(clientId)),
       ]),
     ),
   ).toBeNull();
   expect(
     batchForOneStatement(
       unchecked([
-        m('clients', clientId, clientFields('here')),
-        m('recording_sessions', randomUUID(), sessionFields(clientId)),
+        mutation('clients', clientId, clientFields('here')),
+        mutation('recording_sessions', randomUUID(), sessionFields(clientId)),
       ]),
     ),
   ).not.toBeNull();
 });
 
 test('when a session comes before the client it belongs to, then it is refused as it would be in order', async () => {
-  const { operator } = await clinicWithTokens(server, 'Order');
+  const { operator } = await clinicWithTokens(sync.server, 'Order');
   const clientId = randomUUID();
   const sessionId = randomUUID();
   const batch = [
-    m('recording_sessions', sessionId, sessionFields(clientId)),
-    m('clients', clientId, clientFields('order')),
+    mutation('recording_sessions', sessionId, sessionFields(clientId)),
+    mutation('clients', clientId, clientFields('order')),
   ];
   expect(plan(batch)).toBeNull();
   const res = await push(operator, batch);
@@ -219,17 +214,17 @@ test('when a session comes before the client it belongs to, then it is refused a
 });
 
 test('when a batch changes one row twice or names a clip in an edit, then it goes one mutation at a time and each change lands', async () => {
-  const { clinic, operator } = await clinicWithTokens(server, 'Twice');
+  const { clinic, operator } = await clinicWithTokens(sync.server, 'Twice');
   const first = await sessionOnServer(clinic, operator);
   const twice = [
-    m('clients', first.clientId, { phone: '+44 2' }, 1),
-    m('clients', first.clientId, { email: 'second@test.fourpoint.test' }, 2),
+    mutation('clients', first.clientId, { phone: '+44 2' }, 1),
+    mutation('clients', first.clientId, { email: 'second@test.fourpoint.test' }, 2),
   ];
   expect(plan(twice)).toBeNull();
   expect((await push(operator, twice)).results).toMatchObject([{ newVersion: 2 }, { newVersion: 3 }]);
 
   const stored = randomBytes(32).toString('hex');
-  await server.ctx.sequelize.query(
+  await sync.server.ctx.sequelize.query(
     `INSERT INTO clip_blobs (sha256, clinic_id, size_bytes, content_type, storage_key, state, analysis)
      VALUES (:stored, :clinicId, 10, 'application/x-fourpoint-sealed', 'k', 'stored', '{"metrics":{}}')`,
     { replacements: { stored, clinicId: clinic.id } },
@@ -238,7 +233,7 @@ test('when a batch changes one row twice or names a clip in an edit, then it goe
     `SELECT id FROM site_recordings WHERE session_id = :s AND site = 'mitral'`,
     { s: first.sessionId },
   );
-  const clipEdit = [m('site_recordings', site.id, { clipSha256: stored }, 1)];
+  const clipEdit = [mutation('site_recordings', site.id, { clipSha256: stored }, 1)];
   expect(plan(clipEdit)).toBeNull();
   expect((await push(operator, clipEdit)).results).toMatchObject([{ status: 'applied', newVersion: 2 }]);
   const [after] = await rows<{ clip_state: string }>(
@@ -251,11 +246,11 @@ test('when a batch changes one row twice or names a clip in an edit, then it goe
 });
 
 test('when edits of the usual kind arrive, then the one statement writes only the fields they name', async () => {
-  const { clinic, operator, admin } = await clinicWithTokens(server, 'Edit');
+  const { clinic, operator, admin } = await clinicWithTokens(sync.server, 'Edit');
   const first = await sessionOnServer(clinic, operator);
   const edit = [
-    m('recording_sessions', first.sessionId, { finishedAt: '2026-11-30T09:20:00.000Z' }, 1),
-    m('clients', first.clientId, { phone: '+44 3' }, 1),
+    mutation('recording_sessions', first.sessionId, { finishedAt: '2026-11-30T09:20:00.000Z' }, 1),
+    mutation('clients', first.clientId, { phone: '+44 3' }, 1),
   ];
   expect(plan(edit)).not.toBeNull();
   expect((await push(operator, edit)).results).toMatchObject([{ newVersion: 2 }, { newVersion: 2 }]);
@@ -276,7 +271,7 @@ test('when edits of the usual kind arrive, then the one statement writes only th
     { status: 'already_applied', original: 'applied', newVersion: 2 },
   ]);
 
-  const erase = [m('clients', first.clientId, { deletedAt: '2026-12-01T10:00:00.000Z' }, 2)];
+  const erase = [mutation('clients', first.clientId, { deletedAt: '2026-12-01T10:00:00.000Z' }, 2)];
   expect(plan(erase, 'admin')).not.toBeNull();
   expect((await push(admin, erase)).results).toMatchObject([{ status: 'applied', newVersion: 3 }]);
   const [client] = await rows<{ phone: string; first_name: string; deleted_at: Date }>(

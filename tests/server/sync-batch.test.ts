@@ -3,46 +3,38 @@
 // apply each mutation once; an edit pointing at a missing parent is refused without moving the version.
 import { randomUUID } from 'node:crypto';
 import { QueryTypes } from 'sequelize';
-import type { Mutation } from '@/shared/protocol/sync';
 import {
   clientFields,
   clinicWithTokens,
   sessionFields,
   siteFields,
-  startSyncServer,
-  type SyncTestServer,
   mutation,
-  pushTo,
+  syncServerPerFile,
 } from './sync-helpers/devices';
 
-let server: SyncTestServer;
-beforeAll(async () => {
-  server = await startSyncServer();
-});
-afterAll(() => server.close());
-
-const push = (token: string, mutations: Mutation[], deviceId?: string) =>
-  pushTo(server, token, mutations, deviceId);
-
-const m = mutation;
+const sync = syncServerPerFile();
+const push = sync.push;
 
 async function count(sql: string, bind: unknown[]): Promise<number> {
-  const [row] = await server.ctx.sequelize.query<{ count: string }>(sql, { bind, type: QueryTypes.SELECT });
+  const [row] = await sync.server.ctx.sequelize.query<{ count: string }>(sql, {
+    bind,
+    type: QueryTypes.SELECT,
+  });
   return Number(row.count);
 }
 
 test('when one mutation in the middle of a batch breaks a database rule, then it alone is refused and the rest apply once', async () => {
-  const { clinic, operator } = await clinicWithTokens(server, 'Middle');
+  const { clinic, operator } = await clinicWithTokens(sync.server, 'Middle');
   const clientId = randomUUID();
   const sessionId = randomUUID();
   const batch = [
-    m('clients', clientId, clientFields('middle')),
-    m('recording_sessions', sessionId, sessionFields(clientId)),
-    m('site_recordings', randomUUID(), siteFields(sessionId, 'mitral')),
+    mutation('clients', clientId, clientFields('middle')),
+    mutation('recording_sessions', sessionId, sessionFields(clientId)),
+    mutation('site_recordings', randomUUID(), siteFields(sessionId, 'mitral')),
     // A second mitral recording in one session: only the database's unique rule catches it.
-    m('site_recordings', randomUUID(), siteFields(sessionId, 'mitral')),
-    m('site_recordings', randomUUID(), siteFields(sessionId, 'tricuspid')),
-    m('clients', clientId, { phone: 'after the refused one' }, 1),
+    mutation('site_recordings', randomUUID(), siteFields(sessionId, 'mitral')),
+    mutation('site_recordings', randomUUID(), siteFields(sessionId, 'tricuspid')),
+    mutation('clients', clientId, { phone: 'after the refused one' }, 1),
   ];
   const first = await push(operator, batch);
   expect(first.results.map((r) => r.status)).toEqual([
@@ -71,7 +63,7 @@ test('when one mutation in the middle of a batch breaks a database rule, then it
     'already_applied',
   ]);
   expect(await count(`SELECT count(*) FROM applied_mutations WHERE clinic_id = $1`, [clinic.id])).toBe(5);
-  const [client] = await server.ctx.sequelize.query<{ version: number; phone: string }>(
+  const [client] = await sync.server.ctx.sequelize.query<{ version: number; phone: string }>(
     `SELECT version, phone FROM clients WHERE id = $1`,
     { bind: [clientId], type: QueryTypes.SELECT },
   );
@@ -79,15 +71,15 @@ test('when one mutation in the middle of a batch breaks a database rule, then it
 });
 
 test('when the same batch is delivered twice at the same moment, then each mutation is applied by exactly one delivery', async () => {
-  const { clinic, operator } = await clinicWithTokens(server, 'Twice');
+  const { clinic, operator } = await clinicWithTokens(sync.server, 'Twice');
   const deviceId = randomUUID();
   const clientId = randomUUID();
   const sessionId = randomUUID();
   const batch = [
-    m('clients', clientId, clientFields('twice')),
-    m('recording_sessions', sessionId, sessionFields(clientId)),
-    m('site_recordings', randomUUID(), siteFields(sessionId, 'aortic')),
-    m('site_recordings', randomUUID(), siteFields(sessionId, 'pulmonic')),
+    mutation('clients', clientId, clientFields('twice')),
+    mutation('recording_sessions', sessionId, sessionFields(clientId)),
+    mutation('site_recordings', randomUUID(), siteFields(sessionId, 'aortic')),
+    mutation('site_recordings', randomUUID(), siteFields(sessionId, 'pulmonic')),
   ];
   const [a, b] = await Promise.all([push(operator, batch, deviceId), push(operator, batch, deviceId)]);
   batch.forEach((mutation, i) => {
@@ -102,20 +94,20 @@ test('when the same batch is delivered twice at the same moment, then each mutat
 });
 
 test('when an edit points a session at a client that is not on the server, then it is refused and the version stays', async () => {
-  const { operator } = await clinicWithTokens(server, 'Parent');
+  const { operator } = await clinicWithTokens(sync.server, 'Parent');
   const clientId = randomUUID();
   const sessionId = randomUUID();
   await push(operator, [
-    m('clients', clientId, clientFields('parent')),
-    m('recording_sessions', sessionId, sessionFields(clientId)),
+    mutation('clients', clientId, clientFields('parent')),
+    mutation('recording_sessions', sessionId, sessionFields(clientId)),
   ]);
   const res = await push(operator, [
-    m('recording_sessions', sessionId, { clientId: randomUUID() }, 1),
-    m('recording_sessions', sessionId, { finishedAt: '2026-11-30T09:20:00.000Z' }, 1),
+    mutation('recording_sessions', sessionId, { clientId: randomUUID() }, 1),
+    mutation('recording_sessions', sessionId, { finishedAt: '2026-11-30T09:20:00.000Z' }, 1),
   ]);
   expect(res.results[0]).toMatchObject({ status: 'rejected', code: 'missing_parent' });
   expect(res.results[1]).toMatchObject({ status: 'applied', newVersion: 2 });
-  const [session] = await server.ctx.sequelize.query<{ version: number; client_id: string }>(
+  const [session] = await sync.server.ctx.sequelize.query<{ version: number; client_id: string }>(
     `SELECT version, client_id FROM recording_sessions WHERE id = $1`,
     { bind: [sessionId], type: QueryTypes.SELECT },
   );

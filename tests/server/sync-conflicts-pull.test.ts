@@ -5,31 +5,21 @@ import { randomUUID } from 'node:crypto';
 import axios from 'axios';
 import { QueryTypes } from 'sequelize';
 import { SYNC_PROTOCOL_VERSION, type PullResponse } from '@/shared/protocol/sync';
-import {
-  SimDevice,
-  clientFields,
-  clinicWithTokens,
-  startSyncServer,
-  type SyncTestServer,
-} from './sync-helpers/devices';
+import { SimDevice, clientFields, clinicWithTokens, syncServerPerFile } from './sync-helpers/devices';
 
-let server: SyncTestServer;
-beforeAll(async () => {
-  server = await startSyncServer();
-});
-afterAll(() => server.close());
+const sync = syncServerPerFile();
 
 const api = (token: string) =>
   axios.create({
-    baseURL: server.url,
+    baseURL: sync.server.url,
     headers: { authorization: `Bearer ${token}` },
     validateStatus: () => true,
   });
 
 test('when two devices edit the same row offline, then one conflict keeps both versions, the admin resolves field by field, and both devices converge', async () => {
-  const { clinic, operator, admin } = await clinicWithTokens(server, 'Conflict');
-  const a = new SimDevice(server.url, operator);
-  const b = new SimDevice(server.url, operator);
+  const { clinic, operator, admin } = await clinicWithTokens(sync.server, 'Conflict');
+  const a = new SimDevice(sync.server.url, operator);
+  const b = new SimDevice(sync.server.url, operator);
   const id = await a.create('clients', clientFields('conf'));
   await a.sync();
   await b.sync();
@@ -97,7 +87,7 @@ test('when two devices edit the same row offline, then one conflict keeps both v
   expect(b.storage.confirmedRow('clients', id)).toMatchObject(expected);
   expect(await b.storage.localRow('clients', id)).toEqual(b.storage.confirmedRow('clients', id));
 
-  const [audit] = await server.ctx.sequelize.query<{ user_id: string; details: { note: string } }>(
+  const [audit] = await sync.server.ctx.sequelize.query<{ user_id: string; details: { note: string } }>(
     `SELECT user_id, details FROM audit_events WHERE clinic_id = $1 AND action = 'sync.conflict.resolved'`,
     { bind: [clinic.id], type: QueryTypes.SELECT },
   );
@@ -108,17 +98,17 @@ test('when two devices edit the same row offline, then one conflict keeps both v
 });
 
 test('when a row is deleted and synced, then a fresh device pulls it as a tombstone and an old edit cannot revive it', async () => {
-  const { operator, admin } = await clinicWithTokens(server, 'Tomb');
+  const { operator, admin } = await clinicWithTokens(sync.server, 'Tomb');
   // Deleting a synced row is the admin's (shared/protocol/field-access.ts).
-  const a = new SimDevice(server.url, admin);
-  const stale = new SimDevice(server.url, operator);
+  const a = new SimDevice(sync.server.url, admin);
+  const stale = new SimDevice(sync.server.url, operator);
   const id = await a.create('clients', clientFields('tomb'));
   await a.sync();
   await stale.sync();
   await a.remove('clients', id);
   expect(await a.sync()).toMatchObject({ sent: 1 });
 
-  const fresh = new SimDevice(server.url, operator);
+  const fresh = new SimDevice(sync.server.url, operator);
   await fresh.sync();
   expect(fresh.storage.confirmedRow('clients', id)).toMatchObject({
     version: 2,
@@ -127,7 +117,7 @@ test('when a row is deleted and synced, then a fresh device pulls it as a tombst
 
   await stale.edit('clients', id, { lastName: 'edited on a device that missed the delete' });
   expect(await stale.sync()).toMatchObject({ conflicts: 1 });
-  const again = new SimDevice(server.url, operator);
+  const again = new SimDevice(sync.server.url, operator);
   await again.sync();
   expect(again.storage.confirmedRow('clients', id)).toMatchObject({
     deletedAt: expect.any(String),
@@ -136,8 +126,8 @@ test('when a row is deleted and synced, then a fresh device pulls it as a tombst
 });
 
 test('when a device pages through pulls while other devices write, then every changed row arrives exactly once', async () => {
-  const { operator } = await clinicWithTokens(server, 'Paged');
-  const writers = Array.from({ length: 4 }, () => new SimDevice(server.url, operator));
+  const { operator } = await clinicWithTokens(sync.server, 'Paged');
+  const writers = Array.from({ length: 4 }, () => new SimDevice(sync.server.url, operator));
   const seed: string[] = [];
   for (let i = 0; i < 30; i++) seed.push(await writers[i % 4].create('clients', clientFields(`seed${i}`)));
   await Promise.all(writers.map((w) => w.sync()));

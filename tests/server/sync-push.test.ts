@@ -17,20 +17,12 @@ import {
   clinicWithTokens,
   sessionFields,
   siteFields,
-  startSyncServer,
-  type SyncTestServer,
   mutation,
-  pushTo,
+  syncServerPerFile,
 } from './sync-helpers/devices';
 
-let server: SyncTestServer;
-beforeAll(async () => {
-  server = await startSyncServer();
-});
-afterAll(() => server.close());
-
-const push = (token: string, mutations: Mutation[], deviceId?: string) =>
-  pushTo(server, token, mutations, deviceId);
+const sync = syncServerPerFile();
+const push = sync.push;
 
 function sessionBatch(): Mutation[] {
   const clientId = randomUUID();
@@ -43,7 +35,7 @@ function sessionBatch(): Mutation[] {
 }
 
 async function rowsOf(clinicId: string) {
-  return server.ctx.sequelize.query<{ id: string; version: number; change_seq: string }>(
+  return sync.server.ctx.sequelize.query<{ id: string; version: number; change_seq: string }>(
     `SELECT id, version, change_seq FROM clients WHERE clinic_id = $1
      UNION ALL SELECT id, version, change_seq FROM recording_sessions WHERE clinic_id = $1
      UNION ALL SELECT id, version, change_seq FROM site_recordings WHERE clinic_id = $1 ORDER BY id`,
@@ -52,7 +44,7 @@ async function rowsOf(clinicId: string) {
 }
 
 test('when the same push is replayed 5 times and then out of order, then rows and results are identical and nothing is applied twice', async () => {
-  const { clinic, operator } = await clinicWithTokens(server, 'Replay');
+  const { clinic, operator } = await clinicWithTokens(sync.server, 'Replay');
   const batch = sessionBatch();
   const first = await push(operator, batch);
   expect(first.results.map((r) => r.status)).toEqual(Array(6).fill('applied'));
@@ -74,7 +66,7 @@ test('when the same push is replayed 5 times and then out of order, then rows an
   }
   // Same rows, same versions, and not even the change number moved.
   expect(await rowsOf(clinic.id)).toEqual(after);
-  const [{ count }] = await server.ctx.sequelize.query<{ count: string }>(
+  const [{ count }] = await sync.server.ctx.sequelize.query<{ count: string }>(
     `SELECT count(*) FROM applied_mutations WHERE clinic_id = $1`,
     {
       bind: [clinic.id],
@@ -85,7 +77,7 @@ test('when the same push is replayed 5 times and then out of order, then rows an
 });
 
 test('when a batch arrives children first, then the children are refused as missing their parent and the rest still applies', async () => {
-  const { operator } = await clinicWithTokens(server, 'Order');
+  const { operator } = await clinicWithTokens(sync.server, 'Order');
   const batch = sessionBatch();
   const reversed = await push(operator, [...batch].reverse());
   // Reversed: four sites, then the session (before its client), then the client.
@@ -96,7 +88,7 @@ test('when a batch arrives children first, then the children are refused as miss
 });
 
 test('when one mutation in a batch is invalid, then it alone is rejected with its reason', async () => {
-  const { operator } = await clinicWithTokens(server, 'Bad');
+  const { operator } = await clinicWithTokens(sync.server, 'Bad');
   const batch = sessionBatch();
   batch[2] = { ...batch[2], change: { ...batch[2].change, site: 'elbow' } };
   batch.push({
@@ -121,8 +113,8 @@ test('when one mutation in a batch is invalid, then it alone is rejected with it
 });
 
 test('when a device edits its own row twice offline, then both edits apply in order and neither is a conflict', async () => {
-  const { operator } = await clinicWithTokens(server, 'Own');
-  const device = new SimDevice(server.url, operator);
+  const { operator } = await clinicWithTokens(sync.server, 'Own');
+  const device = new SimDevice(sync.server.url, operator);
   const id = await device.create('clients', clientFields('own'));
   await device.sync();
   await device.edit('clients', id, { lastName: 'first' });
@@ -136,9 +128,9 @@ test('when a device edits its own row twice offline, then both edits apply in or
 });
 
 test('when a device speaks an older protocol, then it gets 426 with the message the app shows', async () => {
-  const { operator } = await clinicWithTokens(server, 'Old');
+  const { operator } = await clinicWithTokens(sync.server, 'Old');
   const res = await axios.post(
-    `${server.url}/api/sync/push`,
+    `${sync.server.url}/api/sync/push`,
     { protocolVersion: SYNC_PROTOCOL_VERSION - 1, deviceId: randomUUID(), mutations: sessionBatch() },
     { headers: { authorization: `Bearer ${operator}` }, validateStatus: () => true },
   );
@@ -147,16 +139,16 @@ test('when a device speaks an older protocol, then it gets 426 with the message 
 });
 
 test('when an outdated device syncs, then the engine keeps its outbox and reports the message', async () => {
-  const { operator } = await clinicWithTokens(server, 'OldEngine');
+  const { operator } = await clinicWithTokens(sync.server, 'OldEngine');
   // The engine always states its own version, so an app left behind is simulated by rewriting the header.
   const oldHttp = axios.create();
   oldHttp.interceptors.request.use((config) => {
     config.headers.set('x-fourpoint-protocol', '0');
     return config;
   });
-  const old = new SimDevice(server.url, operator, {
+  const old = new SimDevice(sync.server.url, operator, {
     transport: createHttpTransport({
-      baseUrl: server.url,
+      baseUrl: sync.server.url,
       getAccessToken: () => operator,
       axiosInstance: oldHttp,
     }),

@@ -47,33 +47,9 @@ async function clinicKey(url: string, token: string): Promise<Uint8Array> {
 
 test('when the server is killed mid-upload and restarted, then the upload resumes from its offset and the stored blob hash equals the local one', async () => {
   server = await startSyncServer();
-  const { clinic, operator } = await clinicWithTokens(server, 'Upload');
   const port = Number(new URL(server.url).port);
-  const proxy = new CuttingProxy(server.url);
-  await proxy.start();
-  const device = new SimDevice(proxy.url, operator, {
-    transport: createHttpTransport({
-      baseUrl: proxy.url,
-      getAccessToken: () => operator,
-      chunkSize: 64 * 1024,
-    }),
-  });
-
-  const sealed = sealClip(syntheticWav(), await clinicKey(server.url, operator));
-  const hash = sha256Hex(sealed);
-  const clientId = await device.create('clients', clientFields('upl'));
-  const sessionId = await device.create('recording_sessions', sessionFields(clientId));
-  const siteId = await device.create('site_recordings', siteFields(sessionId, 'mitral', hash));
-  device.storage.putBlob(hash, sealed);
-  await device.storage.putOutboxItem(
-    clipItem({
-      id: randomUUID(),
-      rowId: siteId,
-      blobHash: hash,
-      sizeBytes: sealed.length,
-      now: Date.now() + 10,
-    }),
-  );
+  // A minute of sound, so the upload spans many chunks and can be cut in the middle.
+  const { clinic, proxy, device, hash, siteId } = await deviceWithOneClip('Upload', syntheticWav());
 
   let patches = 0;
   let killed: Promise<void> | null = null;
@@ -154,7 +130,7 @@ test('when a clip sealed for another key or with a wrong hash is uploaded, then 
 });
 
 /** A device behind a cutting proxy with one sealed clip (and its client, session and site rows) to send. */
-async function deviceWithOneClip(label: string) {
+async function deviceWithOneClip(label: string, wav = syntheticWav(20)) {
   // The server of the tests above, or one of its own when these run alone (jest -t).
   server ??= await startSyncServer();
   const { clinic, operator } = await clinicWithTokens(server, label);
@@ -167,7 +143,7 @@ async function deviceWithOneClip(label: string) {
       chunkSize: 64 * 1024,
     }),
   });
-  const sealed = sealClip(syntheticWav(20), await clinicKey(server.url, operator));
+  const sealed = sealClip(wav, await clinicKey(server.url, operator));
   const hash = sha256Hex(sealed);
   const clientId = await device.create('clients', clientFields(label));
   const sessionId = await device.create('recording_sessions', sessionFields(clientId));

@@ -276,7 +276,8 @@ function referralBox(doc: PDFKit.PDFDocument, referral: ReportInput['referral'],
   return doc.y + 10;
 }
 
-export function renderReportPdf(input: ReportInput): Promise<Buffer> {
+/** A4 with the report's fonts; `done` resolves with the bytes once the document is ended. */
+function openDocument(input: ReportInput): { doc: PDFKit.PDFDocument; done: Promise<Buffer> } {
   const doc = new PDFDocument({
     size: 'A4',
     margin: MARGIN,
@@ -299,8 +300,14 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
     doc.on('end', () => resolve(Buffer.concat(chunks)));
     doc.on('error', reject);
   });
+  return { doc, done };
+}
 
-  const width = doc.page.width - 2 * MARGIN;
+const contentWidth = (doc: PDFKit.PDFDocument): number => doc.page.width - 2 * MARGIN;
+
+/** The clinic's logo, name and address, and the report's title; answers the y below them. */
+function letterhead(doc: PDFKit.PDFDocument, input: ReportInput): number {
+  const width = contentWidth(doc);
   let textLeft = MARGIN;
   if (input.clinicLogo) {
     try {
@@ -325,7 +332,12 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
     .fillColor(MUTED)
     .text('Heart-sound follow-up report', textLeft, doc.y + 2);
   doc.y = Math.max(doc.y, input.clinicLogo ? MARGIN + 60 : 0);
-  let y = doc.y + 8;
+  return doc.y + 8;
+}
+
+/** Who the visit was for, when, and who recorded and reviewed it. */
+function visitFacts(doc: PDFKit.PDFDocument, input: ReportInput, y: number): number {
+  const width = contentWidth(doc);
   const facts: [string, string][] = [
     ['Client', input.clientName + (input.clientDateOfBirth ? ` (born ${input.clientDateOfBirth})` : '')],
     ['Visit', input.sessionDate],
@@ -341,13 +353,16 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
       .text(v, MARGIN + 80, y, { width: width - 80 });
     y += 13;
   }
-  y = cautionBox(doc, y + 6);
-  y = referralBox(doc, input.referral, y);
+  return y;
+}
 
+/** The four sites' traces, two by two, with the key to their marks. */
+function sitesSection(doc: PDFKit.PDFDocument, sites: ReportSite[], y: number): number {
+  const width = contentWidth(doc);
   y = heading(doc, 'The four sites', y);
   const cellW = (width - 10) / 2;
   const cellH = 120;
-  input.sites.forEach((site, i) => {
+  sites.forEach((site, i) => {
     drawTrace(doc, site, MARGIN + (i % 2) * (cellW + 10), y + Math.floor(i / 2) * (cellH + 8), cellW, cellH);
   });
   y += 2 * (cellH + 8) + 4;
@@ -356,44 +371,50 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
     .fontSize(7)
     .fillColor(MUTED)
     .text('Shaded bands mark the detected S1 (first) and S2 (second) heart sounds.', MARGIN, y);
-  y += 16;
+  return y + 16;
+}
 
+/** A range with its source's number in the Sources list, as "50–90 [1]". */
+const citedRange = (range: NonNullable<ReportMeasurement['range']>): string =>
+  `${rangeText(range)}${range.sourceIndex >= 0 ? ` [${range.sourceIndex + 1}]` : ''}`;
+
+/** A value with the side of its range it falls outside, if it does. */
+function markedValue(m: ReportMeasurement | undefined): string {
+  if (!m) return '–';
+  if (m.status === 'above') return `${fmt(m.value)} above`;
+  if (m.status === 'below') return `${fmt(m.value)} below`;
+  return fmt(m.value);
+}
+
+/** One row per measurement, one column per site; a range shared by every site is said once. */
+function measurementsTable(doc: PDFKit.PDFDocument, sites: ReportSite[], y: number): number {
+  const width = contentWidth(doc);
   y = heading(doc, 'Measurements', y);
   const siteW = (width - 150 - 110) / 4;
   const grid: Column[] = [
     { title: 'Measurement', width: 150 },
     { title: 'Usual range', width: 110 },
-    ...input.sites.map((s) => ({ title: s.label, width: siteW, align: 'right' as const })),
+    ...sites.map((s) => ({ title: s.label, width: siteW, align: 'right' as const })),
   ];
-  const rowsOf = input.sites[0]?.measurements ?? [];
-  const cite = (range: { sourceIndex: number }) =>
-    range.sourceIndex >= 0 ? ` [${range.sourceIndex + 1}]` : '';
-  const mark = (m: ReportMeasurement | undefined) =>
-    !m
-      ? '–'
-      : m.status === 'above'
-        ? `${fmt(m.value)} above`
-        : m.status === 'below'
-          ? `${fmt(m.value)} below`
-          : fmt(m.value);
-  y = table(
+  const rowsOf = sites[0]?.measurements ?? [];
+  return table(
     doc,
     grid,
     rowsOf.map((first, i) => {
-      const cells = input.sites.map((s) => s.measurements[i]);
+      const cells = sites.map((s) => s.measurements[i]);
       const sameRange = cells.every((m) => rangeText(m?.range ?? null) === rangeText(first.range));
       return {
         cells: [
           first.unit ? `${first.label} (${first.unit})` : first.label,
           sameRange
             ? first.range
-              ? `${rangeText(first.range)}${cite(first.range)}`
+              ? citedRange(first.range)
               : 'no range set'
             : 'differs by site, under each value',
           ...cells.map((m) =>
             sameRange || !m
-              ? mark(m)
-              : `${mark(m)}\n${m.range ? `${rangeText(m.range)}${cite(m.range)}` : 'no range'}`,
+              ? markedValue(m)
+              : `${markedValue(m)}\n${m.range ? citedRange(m.range) : 'no range'}`,
           ),
         ],
         flagged: cells.map((m) => m?.status === 'above' || m?.status === 'below'),
@@ -401,7 +422,12 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
     }),
     y,
   );
-  const outside = input.sites.flatMap((s) =>
+}
+
+/** Every measurement outside the clinic's range, in words, or that there is none. */
+function outsideRangeList(doc: PDFKit.PDFDocument, sites: ReportSite[], y: number): number {
+  const width = contentWidth(doc);
+  const outside = sites.flatMap((s) =>
     s.measurements
       .filter((m) => m.status === 'above' || m.status === 'below')
       .map((m) => ({ site: s.label, m })),
@@ -423,40 +449,51 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
         );
     }
   }
-  y = doc.y + 12;
+  return doc.y + 12;
+}
 
-  if (input.comparison) {
-    y = heading(doc, `Compared with the visit of ${input.comparison.date}`, y);
-    const keys = [...new Set(input.comparison.rows.map((r) => r.key))];
-    const siteLabels = input.sites.map((s) => s.label);
-    const cw = (width - 150) / 4;
-    y = table(
-      doc,
-      [
-        { title: 'Measurement (then → now, change)', width: 150 },
-        ...siteLabels.map((l) => ({ title: l, width: cw, align: 'right' as const })),
-      ],
-      keys.map((key) => {
-        const any = input.comparison!.rows.find((r) => r.key === key)!;
-        return {
-          cells: [
-            any.unit ? `${any.label} (${any.unit})` : any.label,
-            ...siteLabels.map((label) => {
-              const r = input.comparison!.rows.find((x) => x.key === key && x.site === label);
-              if (!r) return '–';
-              const change =
-                r.then !== null && r.now !== null
-                  ? ` (${r.now - r.then >= 0 ? '+' : ''}${fmt(r.now - r.then)})`
-                  : '';
-              return `${fmt(r.then)} → ${fmt(r.now)}${change}`;
-            }),
-          ],
-        };
-      }),
-      y,
-    );
-  }
+/** Each measurement then and now at each site, with the change. */
+function comparisonTable(
+  doc: PDFKit.PDFDocument,
+  comparison: NonNullable<ReportInput['comparison']>,
+  sites: ReportSite[],
+  y: number,
+): number {
+  const width = contentWidth(doc);
+  y = heading(doc, `Compared with the visit of ${comparison.date}`, y);
+  const keys = [...new Set(comparison.rows.map((r) => r.key))];
+  const siteLabels = sites.map((s) => s.label);
+  const cw = (width - 150) / 4;
+  return table(
+    doc,
+    [
+      { title: 'Measurement (then → now, change)', width: 150 },
+      ...siteLabels.map((l) => ({ title: l, width: cw, align: 'right' as const })),
+    ],
+    keys.map((key) => {
+      const any = comparison.rows.find((r) => r.key === key)!;
+      return {
+        cells: [
+          any.unit ? `${any.label} (${any.unit})` : any.label,
+          ...siteLabels.map((label) => {
+            const r = comparison.rows.find((x) => x.key === key && x.site === label);
+            if (!r) return '–';
+            const change =
+              r.then !== null && r.now !== null
+                ? ` (${r.now - r.then >= 0 ? '+' : ''}${fmt(r.now - r.then)})`
+                : '';
+            return `${fmt(r.then)} → ${fmt(r.now)}${change}`;
+          }),
+        ],
+      };
+    }),
+    y,
+  );
+}
 
+/** The practitioner's findings, plan and follow-up date. */
+function practitionerSection(doc: PDFKit.PDFDocument, input: ReportInput, y: number): number {
+  const width = contentWidth(doc);
   y = heading(doc, "Practitioner's findings", y);
   doc
     .font(FONT.body)
@@ -473,34 +510,55 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
     .font(FONT.strong)
     .fontSize(9)
     .text(`Follow-up: ${input.followUpDate ?? 'not set'}`, MARGIN, doc.y + 6);
-  y = doc.y + 12;
+  return doc.y + 12;
+}
 
-  if (input.sources.length) {
-    y = heading(doc, 'Sources of the reference ranges', y);
-    input.sources.forEach((s, i) => {
-      doc
-        .font(FONT.body)
-        .fontSize(7)
-        .fillColor(MUTED)
-        .text(`[${i + 1}] ${s}`, MARGIN, y, { width });
-      y = doc.y + 2;
-    });
-    y += 8;
-  }
-  cautionBox(doc, y);
+/** The numbered sources the ranges cite. */
+function sourcesList(doc: PDFKit.PDFDocument, sources: string[], y: number): number {
+  const width = contentWidth(doc);
+  y = heading(doc, 'Sources of the reference ranges', y);
+  sources.forEach((s, i) => {
+    doc
+      .font(FONT.body)
+      .fontSize(7)
+      .fillColor(MUTED)
+      .text(`[${i + 1}] ${s}`, MARGIN, y, { width });
+    y = doc.y + 2;
+  });
+  return y + 8;
+}
 
+/** The caution and page number at the foot of every page, once all pages exist. */
+function pageFooters(doc: PDFKit.PDFDocument, generatedAt: string): void {
+  const width = contentWidth(doc);
   const range = doc.bufferedPageRange();
   for (let i = range.start; i < range.start + range.count; i++) {
     doc.switchToPage(i);
     const bottom = doc.page.height - 28;
     doc.font(FONT.body).fontSize(6.5).fillColor(MUTED);
     doc.text(
-      `Not a diagnosis. Anything that calls for it reads "${pleaseSeeClinician}". Generated ${input.generatedAt}. Page ${i + 1} of ${range.count}.`,
+      `Not a diagnosis. Anything that calls for it reads "${pleaseSeeClinician}". Generated ${generatedAt}. Page ${i + 1} of ${range.count}.`,
       MARGIN,
       bottom,
       { width, align: 'center', lineBreak: false, height: 10 },
     );
   }
+}
+
+export function renderReportPdf(input: ReportInput): Promise<Buffer> {
+  const { doc, done } = openDocument(input);
+  let y = letterhead(doc, input);
+  y = visitFacts(doc, input, y);
+  y = cautionBox(doc, y + 6);
+  y = referralBox(doc, input.referral, y);
+  y = sitesSection(doc, input.sites, y);
+  y = measurementsTable(doc, input.sites, y);
+  y = outsideRangeList(doc, input.sites, y);
+  if (input.comparison) y = comparisonTable(doc, input.comparison, input.sites, y);
+  y = practitionerSection(doc, input, y);
+  if (input.sources.length) y = sourcesList(doc, input.sources, y);
+  cautionBox(doc, y);
+  pageFooters(doc, input.generatedAt);
   doc.end();
   return done;
 }

@@ -4,7 +4,12 @@ import { z } from 'zod';
 import type { PasswordResetPreview } from '@/shared/protocol';
 import { AppError } from '../errors';
 import { recordAuditEvent } from '../repositories/audit-repository';
-import { execute, selectRows } from '../repositories/sql';
+import {
+  findPasswordReset,
+  insertPasswordReset,
+  markPasswordResetUsed,
+  type PasswordResetRow,
+} from '../repositories/password-resets-repository';
 import { endEverySignInOfUser } from '../repositories/refresh-tokens-repository';
 import { findUserByEmailForSignIn, normaliseEmail, setPasswordHash } from '../repositories/users-repository';
 import { assertAcceptablePassword } from '../services/password-policy';
@@ -47,18 +52,11 @@ const signature = (payload: string, email: string, passwordHash: string, secret:
     .update(`password-reset.${payload}.${normaliseEmail(email)}.${passwordHash}`)
     .digest();
 
-type ResetRow = {
-  id: string;
-  user_id: string;
-  expires_at: Date;
-  used_at: Date | null;
-  email: string;
-  password_hash: string;
-  clinic_id: string;
-  disabled: boolean;
-};
-
-async function resetOfLink(deps: UseCaseDeps, token: string, transaction?: Transaction): Promise<ResetRow> {
+async function resetOfLink(
+  deps: UseCaseDeps,
+  token: string,
+  transaction?: Transaction,
+): Promise<PasswordResetRow> {
   const [payload, given, extra] = token.split(tokenSeparator);
   if (!payload || !given || extra !== undefined) throw invalidLink();
   let link: z.infer<typeof linkSchema>;
@@ -67,15 +65,10 @@ async function resetOfLink(deps: UseCaseDeps, token: string, transaction?: Trans
   } catch {
     throw invalidLink();
   }
-  const [row] = await selectRows<ResetRow>(
-    deps.sequelize,
-    `SELECT r.id, r.user_id, r.expires_at, r.used_at, u.email, u.password_hash, u.clinic_id, u.disabled
-     FROM password_resets r JOIN users u ON u.id = r.user_id WHERE r.id = :id
-     ${transaction ? 'FOR UPDATE OF r' : ''}`,
-    { id: link.r },
-    transaction,
-  );
-  if (!row || row.disabled) throw invalidLink();
+  const found = await findPasswordReset(deps.sequelize, link.r, transaction);
+  if (found.kind === 'not_found') throw invalidLink();
+  const row = found.reset;
+  if (row.disabled) throw invalidLink();
   if (row.used_at) throw usedLink();
   const expected = signature(payload, row.email, row.password_hash, deps.jwtSecret);
   const givenBytes = Buffer.from(given, 'base64url');
@@ -99,12 +92,7 @@ export async function requestPasswordReset(
     const id = randomUUID();
     const expiresAt = new Date(Date.now() + PASSWORD_RESET_TTL_MS);
     await deps.sequelize.transaction(async (transaction) => {
-      await execute(
-        deps.sequelize,
-        `INSERT INTO password_resets (id, user_id, expires_at) VALUES (:id, :userId, :expiresAt)`,
-        { id, userId: user.id, expiresAt },
-        transaction,
-      );
+      await insertPasswordReset(deps.sequelize, { id, userId: user.id, expiresAt }, transaction);
       await recordAuditEvent(
         {
           clinicId: user.clinicId,
@@ -157,12 +145,9 @@ export async function completePasswordReset(
   const passwordHash = await hashPassword(password);
   await deps.sequelize.transaction(async (transaction) => {
     const row = await resetOfLink(deps, token, transaction);
-    await execute(
-      deps.sequelize,
-      `UPDATE password_resets SET used_at = now() WHERE id = :id`,
-      { id: row.id },
-      transaction,
-    );
+    // The row is locked by resetOfLink, so this is the one use; a second finds it used there.
+    if ((await markPasswordResetUsed(deps.sequelize, row.id, transaction)).kind === 'already_used')
+      throw usedLink();
     await setPasswordHash(deps.sequelize, row.user_id, passwordHash, transaction);
     await endEverySignInOfUser(deps.sequelize, row.user_id, transaction);
     await recordAuditEvent(

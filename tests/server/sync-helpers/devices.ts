@@ -80,6 +80,30 @@ export async function pushTo(
   return res.data as PushResponse;
 }
 
+/**
+ * One sync server for the whole test file: started before its first test and closed after its last. Read
+ * `server` inside tests (it exists once beforeAll has run); `push` sends a batch to it as the phone does.
+ */
+export function syncServerPerFile(): {
+  readonly server: SyncTestServer;
+  push: (token: string, mutations: Mutation[], deviceId?: string) => Promise<PushResponse>;
+} {
+  let started: SyncTestServer | undefined;
+  beforeAll(async () => {
+    started = await startSyncServer();
+  });
+  afterAll(() => started?.close());
+  const file = {
+    get server(): SyncTestServer {
+      if (!started) throw new Error('The sync server starts in beforeAll: read it inside a test or hook.');
+      return started;
+    },
+    push: (token: string, mutations: Mutation[], deviceId?: string) =>
+      pushTo(file.server, token, mutations, deviceId),
+  };
+  return file;
+}
+
 /** One mutation with a fresh id; a new row unless `baseVersion` says which version it edits. */
 export const mutation = (
   entity: Mutation['entity'],
