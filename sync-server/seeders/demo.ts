@@ -4,17 +4,8 @@ import { v5 as uuidv5 } from 'uuid';
 import { SYNC_PROTOCOL_VERSION } from '@/shared/protocol/sync';
 import type { Role, Site } from '@/shared/protocol';
 import { encodeWav16, type AnalysisResult } from '@/shared/analysis';
-import {
-  Client,
-  ClipBlob,
-  Clinic,
-  Consent,
-  ConsentText,
-  RecordingSession,
-  SiteRecording,
-  User,
-  initModels,
-} from '../src/models';
+import { execute, selectRows } from '../src/repositories/sql';
+import { createUser, findUserForRefreshToken, setPasswordHash } from '../src/repositories/users-repository';
 import type { BlobStore } from '../src/services/blob-store';
 import { hashPassword, verifyPassword } from '../src/services/passwords';
 import { pushChanges } from '../src/use-cases/sync/push';
@@ -213,6 +204,14 @@ export interface SeedDemoSummary {
   created: number;
 }
 
+/** One `INSERT … ON CONFLICT (id) DO NOTHING RETURNING id`: true when the row was added, false when it was there. */
+const insertedOnce = async (
+  sequelize: Sequelize,
+  sql: string,
+  replacements: Record<string, unknown>,
+  transaction: Transaction,
+) => (await selectRows(sequelize, sql, replacements, transaction)).length === 1;
+
 const stableSeed = (text: string) => {
   let h = 2166136261;
   for (let i = 0; i < text.length; i++) h = Math.imul(h ^ text.charCodeAt(i), 16777619);
@@ -222,7 +221,6 @@ const stableSeed = (text: string) => {
 /** Loads the demo clinic; every row has a fixed id, so a second run finds them all and adds nothing. */
 export async function seedDemo(options: SeedDemoOptions): Promise<SeedDemoSummary> {
   const { sequelize } = options;
-  initModels(sequelize);
   let created = 0;
   const count = (wasCreated: boolean) => {
     if (wasCreated) created++;
@@ -233,84 +231,80 @@ export async function seedDemo(options: SeedDemoOptions): Promise<SeedDemoSummar
   // One transaction under a lock: two processes seeding at once take turns, and a crash leaves no half-loaded clinic.
   await sequelize.transaction(async (transaction) => {
     await sequelize.query(`SELECT pg_advisory_xact_lock(${SEED_LOCK_KEY})`, { transaction });
+    // Not createClinic: the demo clinic's consent wording is its own version 1, not the built-in one.
     count(
-      (
-        await Clinic.findOrCreate({
-          where: { id: DEMO_CLINIC_ID },
-          defaults: { id: DEMO_CLINIC_ID, name: 'Harbour Lane Wellness' },
-          transaction,
-        })
-      )[1],
+      await insertedOnce(
+        sequelize,
+        `INSERT INTO clinics (id, name) VALUES (:id, :name) ON CONFLICT (id) DO NOTHING RETURNING id`,
+        { id: DEMO_CLINIC_ID, name: 'Harbour Lane Wellness' },
+        transaction,
+      ),
     );
     for (const u of DEMO_USERS) {
       const id = demoId(`user/${u.key}`);
       userIds[u.key] = id;
-      const [user, made] = await User.findOrCreate({
-        where: { id },
-        defaults: { id, clinicId: DEMO_CLINIC_ID, email: u.email, name: u.name, role: u.role, passwordHash },
-        transaction,
-      });
+      const made =
+        (
+          await createUser(
+            sequelize,
+            DEMO_CLINIC_ID,
+            { id, email: u.email, name: u.name, role: u.role, passwordHash },
+            transaction,
+          )
+        ).kind === 'created';
       count(made);
       // Demo users loaded by an older version have the password that was once published in the code.
-      if (!made && !(await verifyPassword(options.password, user.passwordHash)).ok)
-        await user.update({ passwordHash }, { transaction });
+      const user = made ? null : await findUserForRefreshToken(sequelize, id, transaction);
+      if (user && !(await verifyPassword(options.password, user.passwordHash)).ok)
+        await setPasswordHash(sequelize, id, passwordHash, transaction);
     }
     const textId = demoId('consent-text/1');
     count(
-      (
-        await ConsentText.findOrCreate({
-          where: { id: textId },
-          defaults: {
-            id: textId,
-            clinicId: DEMO_CLINIC_ID,
-            version: 1,
-            title: 'Heart-sound recording consent',
-            body: CONSENT_TEXT,
-            isCurrent: true,
-          },
-          transaction,
-        })
-      )[1],
+      await insertedOnce(
+        sequelize,
+        `INSERT INTO consent_texts (id, clinic_id, version, title, body, is_current)
+         VALUES (:id, :clinicId, 1, :title, :body, true) ON CONFLICT (id) DO NOTHING RETURNING id`,
+        { id: textId, clinicId: DEMO_CLINIC_ID, title: 'Heart-sound recording consent', body: CONSENT_TEXT },
+        transaction,
+      ),
     );
     for (const c of DEMO_CLIENTS) {
       const clientId = demoId(`client/${c.key}`);
       count(
-        (
-          await Client.findOrCreate({
-            where: { id: clientId },
-            defaults: {
-              id: clientId,
-              clinicId: DEMO_CLINIC_ID,
-              firstName: c.firstName,
-              lastName: c.lastName,
-              dateOfBirth: c.dateOfBirth,
-              email: c.email,
-            },
-            paranoid: false,
-            transaction,
-          })
-        )[1],
+        await insertedOnce(
+          sequelize,
+          `INSERT INTO clients (id, clinic_id, first_name, last_name, date_of_birth, email)
+           VALUES (:id, :clinicId, :firstName, :lastName, :dateOfBirth, :email) ON CONFLICT (id) DO NOTHING RETURNING id`,
+          {
+            id: clientId,
+            clinicId: DEMO_CLINIC_ID,
+            firstName: c.firstName,
+            lastName: c.lastName,
+            dateOfBirth: c.dateOfBirth,
+            email: c.email,
+          },
+          transaction,
+        ),
       );
       if (c.consent) {
-        const consentId = demoId(`consent/${c.key}`);
         count(
-          (
-            await Consent.findOrCreate({
-              where: { id: consentId },
-              defaults: {
-                id: consentId,
-                clinicId: DEMO_CLINIC_ID,
-                clientId,
-                consentTextId: textId,
-                consentTextVersion: 1,
-                typedName: `${c.firstName} ${c.lastName}`,
-                consentDate: c.visits[0]?.date ?? '2026-09-01',
-                recordedBy: userIds.operator,
-              },
-              paranoid: false,
-              transaction,
-            })
-          )[1],
+          await insertedOnce(
+            sequelize,
+            `INSERT INTO consents (id, clinic_id, client_id, consent_text_id, consent_text_version, typed_name,
+               consent_date, recorded_by)
+             VALUES (:id, :clinicId, :clientId, :textId, 1, :typedName, :consentDate, :recordedBy)
+             ON CONFLICT (id) DO NOTHING RETURNING id`,
+            {
+              id: demoId(`consent/${c.key}`),
+              clinicId: DEMO_CLINIC_ID,
+              clientId,
+              textId,
+              typedName: `${c.firstName} ${c.lastName}`,
+              consentDate: c.visits[0]?.date ?? '2026-09-01',
+              recordedBy: userIds.operator,
+            },
+            transaction,
+          ),
         );
       }
     }
@@ -348,26 +342,42 @@ async function repairVisit(
   sessionId: string,
   transaction: Transaction,
 ): Promise<number> {
+  const { sequelize } = options;
   let repaired = 0;
-  const recordings = await SiteRecording.findAll({
-    where: { sessionId, clinicId: DEMO_CLINIC_ID },
+  const recordings = await selectRows<{
+    id: string;
+    site: Site;
+    clip_sha256: string | null;
+    has_analysis: boolean;
+    storage_key: string | null;
+  }>(
+    sequelize,
+    `SELECT r.id, r.site, r.clip_sha256, r.analysis IS NOT NULL AS has_analysis, b.storage_key
+     FROM site_recordings r LEFT JOIN clip_blobs b ON b.sha256 = r.clip_sha256
+     WHERE r.session_id = :sessionId AND r.clinic_id = :clinicId AND r.deleted_at IS NULL`,
+    { sessionId, clinicId: DEMO_CLINIC_ID },
     transaction,
-  });
+  );
   for (const recording of recordings) {
-    if (!recording.clipSha256) continue;
-    const blob = await ClipBlob.findByPk(recording.clipSha256, { transaction });
-    const fileMissing = !blob?.storageKey || !(await options.blobStore.has(blob.storageKey));
-    const analysisMissing = recording.analysis == null && options.analyse !== undefined;
+    if (!recording.clip_sha256) continue;
+    const fileMissing = !recording.storage_key || !(await options.blobStore.has(recording.storage_key));
+    const analysisMissing = !recording.has_analysis && options.analyse !== undefined;
     if (!fileMissing && !analysisMissing) continue;
     const clip = demoClip(client, index, visit, recording.site);
     if (fileMissing) {
       const stored = await options.blobStore.put(encodeWav16(clip.samples, clip.sampleRate));
-      if (stored.sha256 !== recording.clipSha256)
+      if (stored.sha256 !== recording.clip_sha256)
         throw new Error(`Demo clip for ${recording.id} no longer matches its hash`);
     }
     if (analysisMissing && options.analyse) {
       const analysis = options.analyse(clip.samples, clip.sampleRate, recording.site);
-      await recording.update({ analysis, qualityVerdict: analysis.quality.verdict }, { transaction });
+      await execute(
+        sequelize,
+        `UPDATE site_recordings SET analysis = CAST(:analysis AS jsonb), quality_verdict = :verdict, updated_at = now()
+         WHERE id = :id`,
+        { id: recording.id, analysis: JSON.stringify(analysis), verdict: analysis.quality.verdict },
+        transaction,
+      );
       repaired++;
     }
   }
@@ -392,7 +402,14 @@ async function seedVisit(
   transaction: Transaction,
 ): Promise<number> {
   const sessionId = demoId(`session/${client.key}/${index}`);
-  if (await RecordingSession.findByPk(sessionId, { paranoid: false, transaction })) {
+  const { sequelize } = options;
+  const existing = await selectRows(
+    sequelize,
+    `SELECT 1 FROM recording_sessions WHERE id = :sessionId`,
+    { sessionId },
+    transaction,
+  );
+  if (existing.length > 0) {
     return repairVisit(options, client, index, visit, sessionId, transaction);
   }
   const startedAt = new Date(`${visit.date}T10:00:00Z`);
@@ -417,57 +434,60 @@ async function seedVisit(
     });
   }
 
-  {
-    await RecordingSession.create(
-      {
-        id: sessionId,
-        clinicId: DEMO_CLINIC_ID,
-        clientId: demoId(`client/${client.key}`),
-        operatorId: userIds.operator,
-        status: visit.reviewed ? 'reviewed' : 'completed',
-        startedAt,
-        finishedAt: new Date(startedAt.getTime() + 8 * 60_000),
-        findings: visit.findings ?? null,
-        plan: visit.plan ?? null,
-        followUpDate: visit.followUp ?? null,
-        reviewedBy: visit.reviewed ? userIds.practitioner : null,
-        reviewedAt: visit.reviewed ? new Date(startedAt.getTime() + 26 * 3600_000) : null,
-      },
-      { transaction },
-    );
-    for (const r of recordings) {
-      if (r.stored) {
-        await ClipBlob.findOrCreate({
-          where: { sha256: r.stored.sha256 },
-          defaults: {
-            sha256: r.stored.sha256,
-            clinicId: DEMO_CLINIC_ID,
-            sizeBytes: r.stored.sizeBytes,
-            // Demo clips are stored as plain WAV; clips from devices arrive sealed.
-            contentType: 'audio/wav',
-            storageKey: r.stored.storageKey,
-            state: 'stored',
-          },
-          transaction,
-        });
-      }
-      await SiteRecording.create(
-        {
-          id: demoId(`site-recording/${client.key}/${index}/${r.site}`),
-          clinicId: DEMO_CLINIC_ID,
-          sessionId,
-          site: r.site,
-          clipSha256: r.stored?.sha256 ?? null,
-          clipState: r.stored ? 'stored' : 'none',
-          durationS: r.durationS ?? null,
-          recordedAt: r.recordedAt ?? null,
-          analysis: r.analysis ?? null,
-          qualityVerdict: r.analysis?.quality.verdict ?? null,
-          skippedReason: r.skippedReason ?? null,
-        },
-        { transaction },
+  await execute(
+    sequelize,
+    `INSERT INTO recording_sessions (id, clinic_id, client_id, operator_id, status, started_at, finished_at, findings,
+       plan, follow_up_date, reviewed_by, reviewed_at)
+     VALUES (:id, :clinicId, :clientId, :operatorId, :status, :startedAt, :finishedAt, :findings, :plan,
+       :followUpDate, :reviewedBy, :reviewedAt)`,
+    {
+      id: sessionId,
+      clinicId: DEMO_CLINIC_ID,
+      clientId: demoId(`client/${client.key}`),
+      operatorId: userIds.operator,
+      status: visit.reviewed ? 'reviewed' : 'completed',
+      startedAt,
+      finishedAt: new Date(startedAt.getTime() + 8 * 60_000),
+      findings: visit.findings ?? null,
+      plan: visit.plan ?? null,
+      followUpDate: visit.followUp ?? null,
+      reviewedBy: visit.reviewed ? userIds.practitioner : null,
+      reviewedAt: visit.reviewed ? new Date(startedAt.getTime() + 26 * 3600_000) : null,
+    },
+    transaction,
+  );
+  for (const r of recordings) {
+    if (r.stored) {
+      // Demo clips are stored as plain WAV; clips from devices arrive sealed.
+      await execute(
+        sequelize,
+        `INSERT INTO clip_blobs (sha256, clinic_id, size_bytes, content_type, storage_key, state)
+         VALUES (:sha256, :clinicId, :sizeBytes, 'audio/wav', :storageKey, 'stored') ON CONFLICT (sha256) DO NOTHING`,
+        { ...r.stored, clinicId: DEMO_CLINIC_ID },
+        transaction,
       );
     }
+    await execute(
+      sequelize,
+      `INSERT INTO site_recordings (id, clinic_id, session_id, site, clip_sha256, clip_state, duration_s, recorded_at,
+         analysis, quality_verdict, skipped_reason)
+       VALUES (:id, :clinicId, :sessionId, :site, :clipSha256, :clipState, :durationS, :recordedAt,
+         CAST(:analysis AS jsonb), :qualityVerdict, :skippedReason)`,
+      {
+        id: demoId(`site-recording/${client.key}/${index}/${r.site}`),
+        clinicId: DEMO_CLINIC_ID,
+        sessionId,
+        site: r.site,
+        clipSha256: r.stored?.sha256 ?? null,
+        clipState: r.stored ? 'stored' : 'none',
+        durationS: r.durationS ?? null,
+        recordedAt: r.recordedAt ?? null,
+        analysis: r.analysis ? JSON.stringify(r.analysis) : null,
+        qualityVerdict: r.analysis?.quality.verdict ?? null,
+        skippedReason: r.skippedReason ?? null,
+      },
+      transaction,
+    );
   }
   return 1 + recordings.length;
 }
@@ -479,7 +499,11 @@ async function seedVisit(
  */
 async function seedDemoConflict(sequelize: Sequelize, operatorId: string): Promise<number> {
   const clientId = demoId('client/saoirse-pendleford');
-  const client = await Client.findByPk(clientId);
+  const [client] = await selectRows<{ version: number }>(
+    sequelize,
+    `SELECT version FROM clients WHERE id = :clientId AND deleted_at IS NULL`,
+    { clientId },
+  );
   if (!client) return 0;
   const caller = { userId: operatorId, role: 'operator' as const, clinicId: DEMO_CLINIC_ID, ip: null };
   const push = async (device: string, mutation: string, change: Record<string, unknown>) =>

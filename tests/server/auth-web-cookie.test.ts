@@ -1,7 +1,7 @@
 import jwt from 'jsonwebtoken';
 import request from 'supertest';
 import { signInResponseSchema } from '@/shared/protocol';
-import { RefreshToken } from '@/sync-server/src/models';
+import { execute } from '@/sync-server/src/repositories/sql';
 import { hashRefreshToken } from '@/sync-server/src/services/tokens';
 import { REUSE_GRACE_MS } from '@/sync-server/src/use-cases/auth';
 import {
@@ -85,9 +85,13 @@ describe('the web refresh cookie (ASVS 4.0.3 V3.4)', () => {
     expect(second).not.toBe(first);
     // The first cookie is spent: sending it again after the reuse window is a replay and ends the sign-in,
     // cookie cleared.
-    await RefreshToken.update(
-      { revokedAt: new Date(Date.now() - 2 * REUSE_GRACE_MS) },
-      { where: { tokenHash: hashRefreshToken(first) } },
+    await execute(
+      ctx.sequelize,
+      `UPDATE refresh_tokens SET revoked_at = :revokedAt WHERE token_hash = :tokenHash`,
+      {
+        revokedAt: new Date(Date.now() - 2 * REUSE_GRACE_MS),
+        tokenHash: hashRefreshToken(first),
+      },
     );
     const replay = await request(ctx.app)
       .post('/api/auth/refresh')

@@ -2,11 +2,12 @@ import jwt from 'jsonwebtoken';
 import type { Express } from 'express';
 import request from 'supertest';
 import { meResponseSchema, signInResponseSchema } from '@/shared/protocol';
-import { AuditEvent, RefreshToken } from '@/sync-server/src/models';
+import { execute, selectRows } from '@/sync-server/src/repositories/sql';
 import { updateTeamUser } from '@/sync-server/src/repositories/users-repository';
 import { hashRefreshToken } from '@/sync-server/src/services/tokens';
 import { REUSE_GRACE_MS } from '@/sync-server/src/use-cases/auth';
 import {
+  auditEventsWhere,
   makeClinic,
   makeSiblingApp,
   makeTestContext,
@@ -25,9 +26,13 @@ afterAll(() => ctx.close());
 
 /** Moves a spent refresh token's rotation past the reuse window (REUSE_GRACE_MS), so using it again is a replay. */
 async function rotatedLongAgo(refreshToken: string): Promise<void> {
-  await RefreshToken.update(
-    { revokedAt: new Date(Date.now() - 2 * REUSE_GRACE_MS) },
-    { where: { tokenHash: hashRefreshToken(refreshToken) } },
+  await execute(
+    ctx.sequelize,
+    `UPDATE refresh_tokens SET revoked_at = :revokedAt WHERE token_hash = :tokenHash`,
+    {
+      revokedAt: new Date(Date.now() - 2 * REUSE_GRACE_MS),
+      tokenHash: hashRefreshToken(refreshToken),
+    },
   );
 }
 
@@ -52,7 +57,7 @@ describe('sign-in', () => {
     expect(claims).toMatchObject({ sub: user.id, role: 'practitioner', clinicId: clinic.id });
     // 15 minutes: the brief's lifetime for access tokens.
     expect(claims.exp! - claims.iat!).toBe(15 * 60);
-    const audit = await AuditEvent.findOne({ where: { userId: user.id, action: 'auth.sign_in' } });
+    const [audit] = await auditEventsWhere({ userId: user.id, action: 'auth.sign_in' });
     expect(audit?.clinicId).toBe(clinic.id);
   });
 
@@ -82,9 +87,9 @@ describe('sign-in', () => {
       .post('/api/auth/sign-in')
       .send({ email: clinic.users.operator.email, password: tried });
     expect(res.status).toBe(401);
-    const events = await AuditEvent.findAll({
-      where: { userId: clinic.users.operator.id, action: 'auth.sign_in_failed' },
-      raw: true,
+    const events = await auditEventsWhere({
+      userId: clinic.users.operator.id,
+      action: 'auth.sign_in_failed',
     });
     expect(events).toHaveLength(1);
     expect(events[0].clinicId).toBe(clinic.id);
@@ -160,9 +165,13 @@ describe('refresh and sign-out', () => {
     const second = signInResponseSchema.parse(res.body);
     expect(second.refreshToken).not.toBe(first.refreshToken);
     expect(second.user.id).toBe(clinic.users.operator.id);
-    const old = await RefreshToken.findOne({ where: { tokenHash: hashRefreshToken(first.refreshToken!) } });
-    expect(old?.revokedAt).toBeInstanceOf(Date);
-    expect(old?.replacedBy).not.toBeNull();
+    const [old] = await selectRows<{ revoked_at: Date | null; replaced_by: string | null }>(
+      ctx.sequelize,
+      `SELECT revoked_at, replaced_by FROM refresh_tokens WHERE token_hash = :tokenHash`,
+      { tokenHash: hashRefreshToken(first.refreshToken!) },
+    );
+    expect(old?.revoked_at).toBeInstanceOf(Date);
+    expect(old?.replaced_by).not.toBeNull();
     const me = await request(ctx.app).get('/api/me').set('authorization', `Bearer ${second.accessToken}`);
     expect(me.status).toBe(200);
   });
@@ -362,10 +371,8 @@ describe('sign-out ends the access token too (ASVS V3.3.1)', () => {
     expect(after.status).toBe(401);
     expect(after.body.error.code).toBe('unauthenticated');
     expect((await me(otherDevice.accessToken)).status).toBe(200);
-    const audit = await AuditEvent.count({
-      where: { userId: clinic.users.operator.id, action: 'auth.sign_out' },
-    });
-    expect(audit).toBeGreaterThan(0);
+    const audit = await auditEventsWhere({ userId: clinic.users.operator.id, action: 'auth.sign_out' });
+    expect(audit.length).toBeGreaterThan(0);
   });
 
   test('when a used refresh token is replayed, then the access tokens of that sign-in stop too', async () => {

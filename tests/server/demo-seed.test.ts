@@ -6,15 +6,7 @@ import { decodeWav } from '@/shared/analysis';
 import { analyseDemoClip } from '@/sync-server/seeders/analyse-demo-clip';
 import { assertAcceptablePassword } from '@/sync-server/src/services/password-policy';
 import { DEMO_CLINIC_ID, DEMO_USERS, seedDemo } from '@/sync-server/seeders/demo';
-import {
-  Client,
-  ClipBlob,
-  Consent,
-  RecordingSession,
-  SiteRecording,
-  SyncConflict,
-  User,
-} from '@/sync-server/src/models';
+import { selectRows } from '@/sync-server/src/repositories/sql';
 import { demoId } from '@/sync-server/seeders/demo';
 import { LocalDiskBlobStore, sha256Hex } from '@/sync-server/src/services/blob-store';
 import { demoPassword } from '@/sync-server/src/config/secrets';
@@ -28,13 +20,18 @@ const blobStore = new LocalDiskBlobStore(blobDir);
 const password = demoPassword();
 jest.setTimeout(120_000);
 
-const counts = async () => ({
-  users: await User.count({ where: { clinicId: DEMO_CLINIC_ID } }),
-  clients: await Client.count({ where: { clinicId: DEMO_CLINIC_ID }, paranoid: false }),
-  consents: await Consent.count({ where: { clinicId: DEMO_CLINIC_ID }, paranoid: false }),
-  sessions: await RecordingSession.count({ where: { clinicId: DEMO_CLINIC_ID }, paranoid: false }),
-  sites: await SiteRecording.count({ where: { clinicId: DEMO_CLINIC_ID }, paranoid: false }),
-});
+const counts = async () =>
+  (
+    await selectRows<Record<'users' | 'clients' | 'consents' | 'sessions' | 'sites', number>>(
+      ctx.sequelize,
+      `SELECT (SELECT count(*)::int FROM users WHERE clinic_id = :clinicId) AS users,
+         (SELECT count(*)::int FROM clients WHERE clinic_id = :clinicId) AS clients,
+         (SELECT count(*)::int FROM consents WHERE clinic_id = :clinicId) AS consents,
+         (SELECT count(*)::int FROM recording_sessions WHERE clinic_id = :clinicId) AS sessions,
+         (SELECT count(*)::int FROM site_recordings WHERE clinic_id = :clinicId) AS sites`,
+      { clinicId: DEMO_CLINIC_ID },
+    )
+  )[0]!;
 
 beforeAll(async () => {
   await seedDemo({ sequelize: ctx.sequelize, blobStore, password, analyse: analyseDemoClip });
@@ -44,12 +41,14 @@ afterAll(() => ctx.close());
 describe('demo seed', () => {
   test('when the demo is loaded, then the admin has one conflict to settle, made by the real push, and seeding again adds none', async () => {
     const ofPendleford = () =>
-      SyncConflict.findAll({
-        where: { clinicId: DEMO_CLINIC_ID, rowId: demoId('client/saoirse-pendleford') },
-      });
+      selectRows<{ client_version: unknown }>(
+        ctx.sequelize,
+        `SELECT client_version FROM sync_conflicts WHERE clinic_id = :clinicId AND row_id = :rowId`,
+        { clinicId: DEMO_CLINIC_ID, rowId: demoId('client/saoirse-pendleford') },
+      );
     const before = await ofPendleford();
     expect(before).toHaveLength(1);
-    expect(before[0]!.get('clientVersion')).toMatchObject({ change: { phone: '555 0138' } });
+    expect(before[0]!.client_version).toMatchObject({ change: { phone: '555 0138' } });
     await seedDemo({ sequelize: ctx.sequelize, blobStore, password, analyse: analyseDemoClip });
     expect(await ofPendleford()).toHaveLength(1);
   });
@@ -89,14 +88,26 @@ describe('demo seed', () => {
   );
 
   test('when a seeded clip is read back, then its bytes match their hash and form a 4000 Hz mono WAV of about 15 s', async () => {
-    const site = await SiteRecording.findOne({ where: { clinicId: DEMO_CLINIC_ID, clipState: 'stored' } });
-    const blob = await ClipBlob.findByPk(site!.clipSha256!);
-    expect(blob).toMatchObject({ state: 'stored', contentType: 'audio/wav', clinicId: DEMO_CLINIC_ID });
+    const [blob] = await selectRows<{
+      sha256: string;
+      state: string;
+      content_type: string;
+      clinic_id: string;
+      storage_key: string;
+      size_bytes: string;
+    }>(
+      ctx.sequelize,
+      `SELECT b.sha256, b.state, b.content_type, b.clinic_id, b.storage_key, b.size_bytes
+       FROM site_recordings r JOIN clip_blobs b ON b.sha256 = r.clip_sha256
+       WHERE r.clinic_id = :clinicId AND r.clip_state = 'stored' AND r.deleted_at IS NULL LIMIT 1`,
+      { clinicId: DEMO_CLINIC_ID },
+    );
+    expect(blob).toMatchObject({ state: 'stored', content_type: 'audio/wav', clinic_id: DEMO_CLINIC_ID });
     // The store may be another run's folder; re-seeding here wrote the same content-addressed files.
-    const bytes = await blobStore.get(blob!.storageKey!);
+    const bytes = await blobStore.get(blob!.storage_key);
     expect(bytes).not.toBeNull();
     expect(sha256Hex(bytes!)).toBe(blob!.sha256);
-    expect(Number(blob!.sizeBytes)).toBe(bytes!.length);
+    expect(Number(blob!.size_bytes)).toBe(bytes!.length);
     const wav = decodeWav(new Uint8Array(bytes!));
     expect(wav.sampleRate).toBe(4000);
     expect(wav.channels).toBe(1);
@@ -104,12 +115,23 @@ describe('demo seed', () => {
   });
 
   test('when the seed has run, then every stored clip has the analysis of record and its verdict, and skipped sites a reason', async () => {
-    const sites = await SiteRecording.findAll({ where: { clinicId: DEMO_CLINIC_ID } });
+    const sites = await selectRows<{
+      clip_state: string;
+      analysis: unknown;
+      quality_verdict: string | null;
+      skipped_reason: string | null;
+    }>(
+      ctx.sequelize,
+      `SELECT clip_state, analysis, quality_verdict, skipped_reason FROM site_recordings
+       WHERE clinic_id = :clinicId AND deleted_at IS NULL`,
+      { clinicId: DEMO_CLINIC_ID },
+    );
+    expect(sites.length).toBeGreaterThan(0);
     for (const s of sites) {
-      if (s.clipState === 'stored') {
-        expect(s.analysis).toMatchObject({ quality: { verdict: s.qualityVerdict } });
+      if (s.clip_state === 'stored') {
+        expect(s.analysis).toMatchObject({ quality: { verdict: s.quality_verdict } });
       } else {
-        expect(s.skippedReason).toEqual(expect.any(String));
+        expect(s.skipped_reason).toEqual(expect.any(String));
       }
     }
   });

@@ -5,7 +5,8 @@ import { createApp } from '@/sync-server/src/app';
 import { readinessProbeFor } from '@/sync-server/src/composition-root';
 import { createSequelize } from '@/sync-server/src/db/database';
 
-// Its own file: the models bind to one Sequelize per module registry, and this one points nowhere.
+// Its own file: the audit log writes to one database per module registry (useAuditDatabase), and this one points
+// nowhere.
 async function closedPort(): Promise<number> {
   const server = net.createServer();
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));

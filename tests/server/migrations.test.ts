@@ -2,13 +2,38 @@ import { randomUUID } from 'node:crypto';
 import fs from 'node:fs';
 import { QueryTypes } from 'sequelize';
 import { MIGRATIONS_DIR, runMigrations } from '@/sync-server/src/db/migrator';
-import { AuditEvent, Client, RecordingSession } from '@/sync-server/src/models';
+import { execute, selectRows } from '@/sync-server/src/repositories/sql';
+import { addClient } from './helpers/review-fixtures';
 import { databaseUrl, makeClinic, makeTestContext } from './helpers/test-app';
 
 const ctx = makeTestContext();
 afterAll(() => ctx.close());
 
 const SYNCABLE = ['clients', 'consents', 'recording_sessions', 'site_recordings'];
+
+/** A session with no site recordings yet. */
+async function addBareSession(clinicId: string, clientId: string): Promise<string> {
+  const id = randomUUID();
+  await execute(
+    ctx.sequelize,
+    `INSERT INTO recording_sessions (id, clinic_id, client_id, started_at) VALUES (:id, :clinicId, :clientId, now())`,
+    { id, clinicId, clientId },
+  );
+  return id;
+}
+
+const changeSeq = async (table: 'clients' | 'recording_sessions', id: string) =>
+  BigInt(
+    (
+      await selectRows<{ change_seq: string }>(
+        ctx.sequelize,
+        `SELECT change_seq FROM ${table} WHERE id = :id`,
+        {
+          id,
+        },
+      )
+    )[0]!.change_seq,
+  );
 
 describe('migrations', () => {
   test('when migrations run again on a migrated database, then none run and each file is recorded once', async () => {
@@ -36,52 +61,32 @@ describe('migrations', () => {
 
   test('when rows are inserted and updated, then change_seq takes fresh, rising numbers from one sequence', async () => {
     const clinic = await makeClinic('Seq');
-    const client = await Client.create({
-      id: randomUUID(),
-      clinicId: clinic.id,
-      firstName: 'Seq',
-      lastName: 'One',
-    });
-    const session = await RecordingSession.create({
-      id: randomUUID(),
-      clinicId: clinic.id,
-      clientId: client.id,
-      startedAt: new Date(),
-    });
-    await client.reload();
-    await session.reload();
-    const first = BigInt(client.changeSeq);
-    expect(BigInt(session.changeSeq)).toBeGreaterThan(first);
-    await Client.update({ lastName: 'Two' }, { where: { id: client.id } });
-    await client.reload();
-    expect(BigInt(client.changeSeq)).toBeGreaterThan(BigInt(session.changeSeq));
+    const clientId = await addClient(clinic.id, 'Seq', 'One');
+    const sessionId = await addBareSession(clinic.id, clientId);
+    const first = await changeSeq('clients', clientId);
+    const sessionSeq = await changeSeq('recording_sessions', sessionId);
+    expect(sessionSeq).toBeGreaterThan(first);
+    await execute(ctx.sequelize, `UPDATE clients SET last_name = 'Two' WHERE id = :clientId`, { clientId });
+    expect(await changeSeq('clients', clientId)).toBeGreaterThan(sessionSeq);
   });
 
   test('when an audit event is updated or deleted, then the database refuses', async () => {
-    const event = await AuditEvent.create({ clinicId: null, userId: null, action: `test.${randomUUID()}` });
+    const [event] = await selectRows<{ id: string }>(
+      ctx.sequelize,
+      `INSERT INTO audit_events (action) VALUES (:action) RETURNING id`,
+      { action: `test.${randomUUID()}` },
+    );
     await expect(
-      ctx.sequelize.query(`UPDATE audit_events SET action = 'changed' WHERE id = ${event.id}`),
+      execute(ctx.sequelize, `UPDATE audit_events SET action = 'changed' WHERE id = :id`, event!),
     ).rejects.toThrow(/append-only/);
-    await expect(ctx.sequelize.query(`DELETE FROM audit_events WHERE id = ${event.id}`)).rejects.toThrow(
+    await expect(execute(ctx.sequelize, `DELETE FROM audit_events WHERE id = :id`, event!)).rejects.toThrow(
       /append-only/,
     );
   });
 
   test('when a second recording of the same site is added to a session, then the database refuses it', async () => {
     const clinic = await makeClinic('Sites');
-    const client = await Client.create({
-      id: randomUUID(),
-      clinicId: clinic.id,
-      firstName: 'Two',
-      lastName: 'Mitral',
-    });
-    const sessionId = randomUUID();
-    await RecordingSession.create({
-      id: sessionId,
-      clinicId: clinic.id,
-      clientId: client.id,
-      startedAt: new Date(),
-    });
+    const sessionId = await addBareSession(clinic.id, await addClient(clinic.id, 'Two', 'Mitral'));
     const insert = () =>
       ctx.sequelize.query(
         `INSERT INTO site_recordings (id, session_id, site, clinic_id) VALUES ('${randomUUID()}', '${sessionId}', 'mitral', '${clinic.id}')`,

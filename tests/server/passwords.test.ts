@@ -2,8 +2,7 @@ import { randomUUID } from 'node:crypto';
 import bcrypt from 'bcryptjs';
 import request from 'supertest';
 import { newPasswordSchemaFor, PASSWORD_MIN_LENGTH } from '@/shared/protocol';
-import { User } from '@/sync-server/src/models';
-import { createUser } from '@/sync-server/src/repositories/users-repository';
+import { createUser, findUserForRefreshToken } from '@/sync-server/src/repositories/users-repository';
 import { assertAcceptablePassword, MIN_ZXCVBN_SCORE } from '@/sync-server/src/services/password-policy';
 import { hashPassword, verifyPassword } from '@/sync-server/src/services/passwords';
 import { makeClinic, makeTestContext, signIn } from './helpers/test-app';
@@ -98,10 +97,10 @@ describe('password storage (OWASP Password Storage Cheat Sheet, ASVS V2.4)', () 
       .post('/api/auth/sign-in')
       .send({ email: `legacy.${id}@test.fourpoint.test`, password: 'not the password' });
     expect(wrong.status).toBe(401);
-    expect((await User.findByPk(id))!.passwordHash).toMatch(/^\$2[aby]\$/);
+    expect((await findUserForRefreshToken(ctx.sequelize, id))!.passwordHash).toMatch(/^\$2[aby]\$/);
 
     await signIn(ctx.app, `legacy.${id}@test.fourpoint.test`, password);
-    const upgraded = (await User.findByPk(id))!.passwordHash;
+    const upgraded = (await findUserForRefreshToken(ctx.sequelize, id))!.passwordHash;
     expect(phcParameters(upgraded)).toEqual(owaspArgon2id);
     await signIn(ctx.app, `legacy.${id}@test.fourpoint.test`, password);
   });

@@ -10,11 +10,16 @@ import { MURMUR_PAIR_THRESHOLD } from '@/shared/analysis/murmur';
 import { analyseDemoClip } from '@/sync-server/seeders/analyse-demo-clip';
 import { DEMO_USERS, seedDemo } from '@/sync-server/seeders/demo';
 import { demoPassword } from '@/sync-server/src/config/secrets';
-import { AuditEvent } from '@/sync-server/src/models';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
 import { replaceServices } from '@/sync-server/src/composition-root';
 import { addClient, addSession } from './helpers/review-fixtures';
-import { makeClinic, makeTestContext, tokensFor, type TestClinic } from './helpers/test-app';
+import {
+  auditEventsWhere,
+  makeClinic,
+  makeTestContext,
+  tokensFor,
+  type TestClinic,
+} from './helpers/test-app';
 
 // The demo clinic has fixed ids by design, so this file shares it with other runs: it only reads there.
 const ctx = makeTestContext();
@@ -306,13 +311,11 @@ describe('referral agreement', () => {
     expect(cleared.status).toBe(200);
     expect(cleared.body.referral).toEqual({ flagged: false, reasons: [], manual: null });
     expect(await listIds(tokens.practitioner, { clientId, flagged: 'false' })).toEqual([id]);
-    const events = await AuditEvent.findAll({
-      where: { clinicId: clinic.id, entityId: id },
-      order: [['id', 'ASC']],
-    });
-    expect(events.map((e) => e.get('action')).filter((a) => String(a).startsWith('review.referral'))).toEqual(
-      ['review.referral.flag', 'review.referral.clear'],
-    );
+    const events = await auditEventsWhere({ clinicId: clinic.id, entityId: id });
+    expect(events.map((e) => e.action).filter((a) => a.startsWith('review.referral'))).toEqual([
+      'review.referral.flag',
+      'review.referral.clear',
+    ]);
   });
 
   test('when a flag comes without a note, then it is refused with a message saying what to write, and nothing changes', async () => {

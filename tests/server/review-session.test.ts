@@ -14,13 +14,18 @@ import {
 import { cautionParagraphs, clientCautionParagraphs } from '@/shared/cautions';
 import { generateClinicKeyPair, openClip, sealClip } from '@/shared/seal';
 import { runReportMailRetries, SENDING_STALE_MS } from '@/sync-server/src/jobs/report-mail-retries';
-import { AuditEvent } from '@/sync-server/src/models';
 import { LocalDiskBlobStore } from '@/sync-server/src/services/blob-store';
 import { createSmtpMailService } from '@/sync-server/src/services/mail';
 import { replaceServices } from '@/sync-server/src/composition-root';
 import { startSmtpFake, type SmtpFake } from '@/sync-server/fakes/smtp-fake';
 import { addClient, addSession, burstWav, storeClip } from './helpers/review-fixtures';
-import { makeClinic, makeTestContext, tokensFor, type TestClinic } from './helpers/test-app';
+import {
+  auditEventsWhere,
+  makeClinic,
+  makeTestContext,
+  tokensFor,
+  type TestClinic,
+} from './helpers/test-app';
 
 const ctx = makeTestContext();
 const blobDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fourpoint-review-blobs-'));
@@ -88,7 +93,7 @@ afterAll(async () => {
 });
 
 async function auditActions(entityId: string): Promise<string[]> {
-  const rows = await AuditEvent.findAll({ where: { clinicId: clinic.id, entityId }, order: [['id', 'ASC']] });
+  const rows = await auditEventsWhere({ clinicId: clinic.id, entityId });
   return rows.map((r) => r.action);
 }
 
@@ -140,8 +145,7 @@ describe('session view', () => {
     expect(Buffer.compare(res.body as Buffer, Buffer.from(burstWav(onsets, salt)))).toBe(0);
     expect(
       await auditActions(
-        (await AuditEvent.findOne({ where: { clinicId: clinic.id, action: 'review.recording.play' } }))!
-          .entityId!,
+        (await auditEventsWhere({ clinicId: clinic.id, action: 'review.recording.play' }))[0]!.entityId!,
       ),
     ).toContain('review.recording.play');
   });
@@ -567,11 +571,10 @@ describe('report e-mails the server sends again by itself', () => {
     expect(runs[0].sent + runs[1].sent).toBe(1);
     expect(delivered(to)).toBe(1);
     expect(await mailState(mail.id)).toMatchObject({ state: 'sent', attempts: 2, nextAttemptAt: null });
-    const audit = await AuditEvent.findOne({
-      where: { clinicId: clinic.id, action: 'review.report.mail.sent', userId: null },
-      order: [['id', 'DESC']],
-    });
-    expect(audit?.get('details')).toMatchObject({ mailId: mail.id, automatic: true });
+    const audit = (
+      await auditEventsWhere({ clinicId: clinic.id, action: 'review.report.mail.sent', userId: null })
+    ).at(-1);
+    expect(audit?.details).toMatchObject({ mailId: mail.id, automatic: true });
 
     const again = await runReportMailRetries(ctx.sequelize, relay(), {
       now: minutesFrom(mail.nextAttemptAt!, 500),

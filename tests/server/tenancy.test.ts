@@ -1,8 +1,8 @@
 import { randomUUID } from 'node:crypto';
 import request from 'supertest';
 import { clientListResponseSchema, sessionListResponseSchema, type Role } from '@/shared/protocol';
-import { Client, ConsentText, Consent, RecordingSession, SiteRecording } from '@/sync-server/src/models';
-import { listClients } from '@/sync-server/src/repositories/clients-repository';
+import { insertClient, listClients } from '@/sync-server/src/repositories/clients-repository';
+import { execute, selectRows } from '@/sync-server/src/repositories/sql';
 import { makeClinic, makeTestContext, tokensFor, type TestClinic } from './helpers/test-app';
 
 const ctx = makeTestContext();
@@ -18,72 +18,84 @@ beforeAll(async () => {
   there = await makeClinic('There');
   hereTokens = await tokensFor(ctx.app, here);
   thereTokens = await tokensFor(ctx.app, there);
-  await Client.bulkCreate([
-    { id: ids.ada, clinicId: here.id, firstName: 'Ada', lastName: 'Quillfeather', email: 'ada@example.test' },
-    { id: ids.bo, clinicId: here.id, firstName: 'Bo', lastName: 'Marchetti' },
-    { id: ids.percent, clinicId: here.id, firstName: '100%', lastName: 'Literal' },
-    { id: ids.theirs, clinicId: there.id, firstName: 'Ada', lastName: 'Elsewhere' },
-  ]);
+  const client = { dateOfBirth: null, email: null, phone: null, notes: null };
+  for (const row of [
+    {
+      ...client,
+      id: ids.ada,
+      clinicId: here.id,
+      firstName: 'Ada',
+      lastName: 'Quillfeather',
+      email: 'ada@example.test',
+    },
+    { ...client, id: ids.bo, clinicId: here.id, firstName: 'Bo', lastName: 'Marchetti' },
+    { ...client, id: ids.percent, clinicId: here.id, firstName: '100%', lastName: 'Literal' },
+    { ...client, id: ids.theirs, clinicId: there.id, firstName: 'Ada', lastName: 'Elsewhere' },
+  ])
+    await insertClient(ctx.sequelize, row);
   // Every clinic starts with the built-in wording as its version 1.
-  const text = (await ConsentText.findOne({ where: { clinicId: here.id, version: 1 } }))!;
-  await Consent.create({
-    id: randomUUID(),
-    clinicId: here.id,
-    clientId: ids.ada,
-    consentTextId: text.id,
-    consentTextVersion: 1,
-    typedName: 'Ada Quillfeather',
-    consentDate: '2026-11-02',
-  });
-  await RecordingSession.bulkCreate([
+  const [text] = await selectRows<{ id: string }>(
+    ctx.sequelize,
+    `SELECT id FROM consent_texts WHERE clinic_id = :clinicId AND version = 1`,
+    { clinicId: here.id },
+  );
+  await execute(
+    ctx.sequelize,
+    `INSERT INTO consents (id, clinic_id, client_id, consent_text_id, consent_text_version, typed_name, consent_date)
+     VALUES (:id, :clinicId, :clientId, :textId, 1, 'Ada Quillfeather', '2026-11-02')`,
+    { id: randomUUID(), clinicId: here.id, clientId: ids.ada, textId: text!.id },
+  );
+  for (const session of [
     {
       id: sessionIds.older,
       clinicId: here.id,
       clientId: ids.ada,
       operatorId: here.users.operator.id,
-      status: 'completed',
       startedAt: new Date('2026-10-01T09:00:00Z'),
     },
     {
       id: sessionIds.newer,
       clinicId: here.id,
       clientId: ids.bo,
-      status: 'completed',
+      operatorId: null,
       startedAt: new Date('2026-11-01T09:00:00Z'),
     },
     {
       id: sessionIds.theirs,
       clinicId: there.id,
       clientId: ids.theirs,
-      status: 'completed',
+      operatorId: null,
       startedAt: new Date('2026-11-05T09:00:00Z'),
     },
-  ]);
-  await SiteRecording.bulkCreate([
-    {
-      id: randomUUID(),
-      clinicId: here.id,
-      sessionId: sessionIds.older,
-      site: 'aortic',
-      qualityVerdict: 'usable',
-    },
-    {
-      id: randomUUID(),
-      clinicId: here.id,
-      sessionId: sessionIds.older,
-      site: 'mitral',
-      qualityVerdict: 'good',
-    },
-    {
-      id: randomUUID(),
-      clinicId: here.id,
-      sessionId: sessionIds.older,
-      site: 'pulmonic',
-      skippedReason: 'client declined',
-    },
-  ]);
+  ])
+    await addCompletedSession(session);
+  for (const site of [
+    { site: 'aortic', qualityVerdict: 'usable', skippedReason: null },
+    { site: 'mitral', qualityVerdict: 'good', skippedReason: null },
+    { site: 'pulmonic', qualityVerdict: null, skippedReason: 'client declined' },
+  ])
+    await execute(
+      ctx.sequelize,
+      `INSERT INTO site_recordings (id, clinic_id, session_id, site, quality_verdict, skipped_reason)
+       VALUES (:id, :clinicId, :sessionId, :site, :qualityVerdict, :skippedReason)`,
+      { ...site, id: randomUUID(), clinicId: here.id, sessionId: sessionIds.older },
+    );
 });
 afterAll(() => ctx.close());
+
+const addCompletedSession = (session: {
+  id: string;
+  clinicId: string;
+  clientId: string;
+  operatorId: string | null;
+  startedAt: Date;
+}) =>
+  execute(
+    ctx.sequelize,
+    `INSERT INTO recording_sessions (id, clinic_id, client_id, operator_id, status, started_at)
+     VALUES (:id, :clinicId, :clientId, :operatorId, 'completed', :startedAt)`,
+    session,
+  );
 
 const get = (path: string, token: string) =>
   request(ctx.app).get(path).set('authorization', `Bearer ${token}`);
@@ -163,13 +175,16 @@ describe('sessions', () => {
 
   test('when a session is tombstoned, then it leaves the list', async () => {
     const gone = randomUUID();
-    await RecordingSession.create({
+    await addCompletedSession({
       id: gone,
       clinicId: here.id,
       clientId: ids.bo,
+      operatorId: null,
       startedAt: new Date('2026-11-20T09:00:00Z'),
     });
-    await RecordingSession.destroy({ where: { id: gone } });
+    await execute(ctx.sequelize, `UPDATE recording_sessions SET deleted_at = now() WHERE id = :gone`, {
+      gone,
+    });
     const { sessions } = sessionListResponseSchema.parse((await get('/api/sessions', hereTokens.admin)).body);
     expect(sessions.map((s) => s.id)).not.toContain(gone);
   });

@@ -2,8 +2,10 @@ import { randomUUID } from 'node:crypto';
 import type { QualityVerdict, SessionStatus, Site } from '@/shared/protocol';
 import { encodeWav16 } from '@/shared/analysis/wav';
 import type { StoredAnalysis } from '@/shared/protocol/analysis';
-import { Client, ClipBlob, RecordingSession, SiteRecording } from '@/sync-server/src/models';
+import { insertClient } from '@/sync-server/src/repositories/clients-repository';
+import { execute } from '@/sync-server/src/repositories/sql';
 import type { BlobStore } from '@/sync-server/src/services/blob-store';
+import { testDatabase } from './test-app';
 
 export const SITES: readonly Site[] = ['mitral', 'tricuspid', 'aortic', 'pulmonic'];
 
@@ -14,7 +16,16 @@ export async function addClient(
   email: string | null = null,
 ) {
   const id = randomUUID();
-  await Client.create({ id, clinicId, firstName, lastName, email });
+  await insertClient(testDatabase(), {
+    id,
+    clinicId,
+    firstName,
+    lastName,
+    email,
+    dateOfBirth: null,
+    phone: null,
+    notes: null,
+  });
   return id;
 }
 
@@ -70,31 +81,42 @@ export async function addSession(options: {
   findings?: string | null;
 }) {
   const id = randomUUID();
-  await RecordingSession.create({
-    id,
-    clinicId: options.clinicId,
-    clientId: options.clientId,
-    operatorId: options.operatorId ?? null,
-    status: options.status ?? 'completed',
-    startedAt: options.startedAt,
-    findings: options.findings ?? null,
-  });
+  const sequelize = testDatabase();
+  await execute(
+    sequelize,
+    `INSERT INTO recording_sessions (id, clinic_id, client_id, operator_id, status, started_at, findings)
+     VALUES (:id, :clinicId, :clientId, :operatorId, :status, :startedAt, :findings)`,
+    {
+      id,
+      clinicId: options.clinicId,
+      clientId: options.clientId,
+      operatorId: options.operatorId ?? null,
+      status: options.status ?? 'completed',
+      startedAt: options.startedAt,
+      findings: options.findings ?? null,
+    },
+  );
   const sites: Partial<Record<Site, SiteSpec>> =
     options.sites ?? Object.fromEntries(SITES.map((s) => [s, { verdict: 'good', heartRateBpm: 70 }]));
   for (const site of SITES) {
     const spec = sites[site];
     if (!spec) continue;
-    await SiteRecording.create({
-      id: randomUUID(),
-      clinicId: options.clinicId,
-      sessionId: id,
-      site,
-      qualityVerdict: spec.verdict === undefined ? 'good' : spec.verdict,
-      analysis: analysisOf(spec),
-      clipSha256: spec.clip?.sha256 ?? null,
-      clipState: spec.clip ? 'stored' : 'none',
-      durationS: 4,
-    });
+    await execute(
+      sequelize,
+      `INSERT INTO site_recordings (id, clinic_id, session_id, site, quality_verdict, analysis, clip_sha256, clip_state,
+         duration_s)
+       VALUES (:id, :clinicId, :sessionId, :site, :qualityVerdict, CAST(:analysis AS jsonb), :clipSha256, :clipState, 4)`,
+      {
+        id: randomUUID(),
+        clinicId: options.clinicId,
+        sessionId: id,
+        site,
+        qualityVerdict: spec.verdict === undefined ? 'good' : spec.verdict,
+        analysis: JSON.stringify(analysisOf(spec)),
+        clipSha256: spec.clip?.sha256 ?? null,
+        clipState: spec.clip ? 'stored' : 'none',
+      },
+    );
   }
   return id;
 }
@@ -121,16 +143,12 @@ export async function storeClip(
   wav: Uint8Array,
 ): Promise<{ sha256: string }> {
   const stored = await blobStore.put(wav);
-  await ClipBlob.findOrCreate({
-    where: { sha256: stored.sha256 },
-    defaults: {
-      sha256: stored.sha256,
-      clinicId,
-      sizeBytes: stored.sizeBytes,
-      contentType: 'audio/wav',
-      storageKey: stored.storageKey,
-      state: 'stored',
-    },
-  });
+  // Blobs are addressed by content across clinics: the same bytes stored again keep their first row.
+  await execute(
+    testDatabase(),
+    `INSERT INTO clip_blobs (sha256, clinic_id, size_bytes, content_type, storage_key, state)
+     VALUES (:sha256, :clinicId, :sizeBytes, 'audio/wav', :storageKey, 'stored') ON CONFLICT (sha256) DO NOTHING`,
+    { ...stored, clinicId },
+  );
   return { sha256: stored.sha256 };
 }

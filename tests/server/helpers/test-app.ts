@@ -6,8 +6,8 @@ import type { Express } from 'express';
 import type { Role, SignInResponse } from '@/shared/protocol';
 import { createApp, type AppDeps } from '@/sync-server/src/app';
 import { createSequelize } from '@/sync-server/src/db/database';
-import { initModels } from '@/sync-server/src/models';
 import { createClinic } from '@/sync-server/src/repositories/clinics-repository';
+import { selectRows } from '@/sync-server/src/repositories/sql';
 import { createUser } from '@/sync-server/src/repositories/users-repository';
 import { hashPassword } from '@/sync-server/src/services/passwords';
 
@@ -32,12 +32,17 @@ export function databaseUrl(): string {
 // The database of this test file's context: fixtures such as makeClinic write there.
 let contextDatabase: Sequelize | undefined;
 
+/** The database of this test file's context, for fixtures that write rows (makeClinic, review-fixtures). */
+export function testDatabase(): Sequelize {
+  if (!contextDatabase) throw new Error('A fixture ran before makeTestContext()');
+  return contextDatabase;
+}
+
 export function makeTestContext(
   overrides: Partial<AppDeps> = {},
   options: { databaseUrl?: string } = {},
 ): TestContext {
   const sequelize = createSequelize(options.databaseUrl ?? databaseUrl(), { poolMax: 5 });
-  initModels(sequelize);
   contextDatabase = sequelize;
   const jwtSecret = `test-secret-${randomUUID()}`;
   const app = createApp({
@@ -51,7 +56,7 @@ export function makeTestContext(
   return { sequelize, app, jwtSecret, close: () => sequelize.close() };
 }
 
-/** Another app on the same connection (models bind to one Sequelize), e.g. with its own rate limits. */
+/** Another app on the same connection, e.g. with its own rate limits. */
 export function makeSiblingApp(ctx: TestContext, overrides: Partial<AppDeps> = {}): Express {
   return createApp({
     sequelize: ctx.sequelize,
@@ -78,8 +83,7 @@ export interface TestClinic {
 /** A fresh clinic with one user per role, all with TEST_PASSWORD; names carry a unique tag. */
 export async function makeClinic(label = 'Clinic'): Promise<TestClinic> {
   const tag = randomUUID().slice(0, 8);
-  if (!contextDatabase) throw new Error('makeClinic() before makeTestContext()');
-  const sequelize = contextDatabase;
+  const sequelize = testDatabase();
   const clinic = { id: randomUUID(), name: `${label} ${tag}` };
   await createClinic(sequelize, clinic);
   const passwordHash = await hashPassword(TEST_PASSWORD);
@@ -95,6 +99,37 @@ export async function makeClinic(label = 'Clinic'): Promise<TestClinic> {
     users[role] = user;
   }
   return { id: clinic.id, name: clinic.name, users };
+}
+
+export interface AuditEventRow {
+  clinicId: string | null;
+  userId: string | null;
+  action: string;
+  entityId: string | null;
+  details: Record<string, unknown> | null;
+}
+
+const AUDIT_FILTER_COLUMNS = {
+  clinicId: 'clinic_id',
+  userId: 'user_id',
+  action: 'action',
+  entityId: 'entity_id',
+};
+
+/** The audit log's rows with every given field equal (a null field: none recorded), oldest first. */
+export async function auditEventsWhere(
+  filter: Partial<Record<keyof typeof AUDIT_FILTER_COLUMNS, string | null>>,
+): Promise<AuditEventRow[]> {
+  const conditions = Object.entries(filter).map(([field, value]) => {
+    const column = AUDIT_FILTER_COLUMNS[field as keyof typeof AUDIT_FILTER_COLUMNS];
+    return value === null ? `${column} IS NULL` : `${column} = :${field}`;
+  });
+  return selectRows<AuditEventRow>(
+    testDatabase(),
+    `SELECT clinic_id AS "clinicId", user_id AS "userId", action, entity_id AS "entityId", details
+     FROM audit_events WHERE ${conditions.join(' AND ') || 'true'} ORDER BY id`,
+    filter,
+  );
 }
 
 export async function signIn(app: Express, email: string, password = TEST_PASSWORD): Promise<SignInResponse> {
