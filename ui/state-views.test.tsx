@@ -47,13 +47,28 @@ describe('a query on screen', () => {
         query={{ ...base, data: [] as string[] }}
         loading="Loading…"
         testID="mail"
-        empty={{ when: (d) => d.length === 0, title: 'No mail yet', detail: 'Sent mail lands here.' }}
+        empty={{ title: 'No mail yet', detail: 'Sent mail lands here.' }}
       >
         {() => <Text>list</Text>}
       </QueryView>,
     );
     expect(screen.getByTestId('mail-empty')).toHaveTextContent(/No mail yet.*Sent mail lands here\./);
     expect(screen.queryByText('list')).toBeNull();
+  });
+
+  test('when a list has items and no `when` is given, then its content shows, not the empty state', () => {
+    render(
+      <QueryView
+        query={{ ...base, data: ['one'] }}
+        loading="Loading…"
+        testID="mail"
+        empty={{ title: 'No mail yet' }}
+      >
+        {(items) => <Text>{items.join(',')}</Text>}
+      </QueryView>,
+    );
+    expect(screen.getByText('one')).toBeTruthy();
+    expect(screen.queryByTestId('mail-empty')).toBeNull();
   });
 
   test('when a page of a list arrives, then its rows show with a pager over the page the server answered', () => {

@@ -62,12 +62,17 @@ type QueryLike<T> = {
   refetch: () => unknown;
 };
 
-/** What an empty answer says: `when` tells an empty answer from one with something to show. */
-export type EmptyWords<T> = { when: (data: T) => boolean; title: string; detail?: string };
+/**
+ * What an empty answer says: `when` tells an empty answer from one with something to show; without it, an answer
+ * that is a list is empty when it has no items.
+ */
+export type EmptyWords<T> = { when?: (data: T) => boolean; title: string; detail?: string };
+
+const isEmptyList = (data: unknown) => Array.isArray(data) && data.length === 0;
 
 /**
  * One query's loading and error states (test ids `${testID}-loading` and `${testID}-error`, with a retry), the
- * empty state when `empty.when` holds (`${testID}-empty`), then `children` with its data: the same ladder on every
+ * empty state when the answer is empty (`empty`) (`${testID}-empty`), then `children` with its data: the same ladder on every
  * screen that loads something.
  */
 export function QueryView<T>({
@@ -94,7 +99,7 @@ export function QueryView<T>({
     );
   }
   const data = query.data as T;
-  if (empty?.when(data))
+  if (empty && (empty.when ?? isEmptyList)(data))
     return <EmptyState title={empty.title} detail={empty.detail} testID={`${testID}-empty`} />;
   return <>{children(data)}</>;
 }

@@ -3,54 +3,17 @@ import type { Mutation } from '@/shared/protocol/sync';
 import { read, transaction } from './database';
 import { enqueue } from './outbox';
 import type { LocalClient, LocalConsent } from './records';
+import { selectInto } from './columns';
 
-type ClientRow = {
-  id: string;
-  first_name: string;
-  last_name: string;
-  date_of_birth: string | null;
-  email: string | null;
-  phone: string | null;
-  origin: 'device' | 'server';
-  version: number;
-  created_at: string;
-  updated_at: string;
-};
+/** A client row read straight into `LocalClient`. */
+export const clientColumns = selectInto<LocalClient>()(
+  'id first_name last_name date_of_birth email phone origin version created_at updated_at',
+);
 
-type ConsentRow = {
-  id: string;
-  client_id: string;
-  signed_name: string;
-  signed_on: string;
-  text_version: string;
-  created_at: string;
-};
-
-function toClient(row: ClientRow): LocalClient {
-  return {
-    id: row.id,
-    firstName: row.first_name,
-    lastName: row.last_name,
-    dateOfBirth: row.date_of_birth,
-    email: row.email,
-    phone: row.phone,
-    origin: row.origin,
-    version: row.version,
-    createdAt: row.created_at,
-    updatedAt: row.updated_at,
-  };
-}
-
-function toConsent(row: ConsentRow): LocalConsent {
-  return {
-    id: row.id,
-    clientId: row.client_id,
-    signedName: row.signed_name,
-    signedOn: row.signed_on,
-    textVersion: row.text_version,
-    createdAt: row.created_at,
-  };
-}
+/** A consent row read straight into `LocalConsent`. */
+export const consentColumns = selectInto<LocalConsent>()(
+  'id client_id signed_name signed_on text_version created_at',
+);
 
 export type NewClient = Pick<LocalClient, 'firstName' | 'lastName' | 'dateOfBirth' | 'email' | 'phone'>;
 
@@ -58,17 +21,11 @@ export const clientDetailsLabel = 'Client details';
 
 /** The client's fields as a sync change; `extra` carries the practice's fields a new row sends empty. */
 export function clientChange(
-  row: Pick<ClientRow, 'first_name' | 'last_name' | 'date_of_birth' | 'email' | 'phone'>,
+  client: Pick<LocalClient, 'firstName' | 'lastName' | 'dateOfBirth' | 'email' | 'phone'>,
   extra: Record<string, null> = {},
 ): Record<string, unknown> {
-  return {
-    firstName: row.first_name,
-    lastName: row.last_name,
-    dateOfBirth: row.date_of_birth,
-    email: row.email,
-    phone: row.phone,
-    ...extra,
-  };
+  const { firstName, lastName, dateOfBirth, email, phone } = client;
+  return { firstName, lastName, dateOfBirth, email, phone, ...extra };
 }
 
 /** Adds the client and queues them for the clinic in one transaction: they go with the next sync, session or not. */
@@ -100,16 +57,7 @@ export async function addClient(input: NewClient, now = new Date()): Promise<Loc
       entity: 'clients',
       id: client.id,
       baseVersion: 0,
-      change: clientChange(
-        {
-          first_name: client.firstName,
-          last_name: client.lastName,
-          date_of_birth: client.dateOfBirth,
-          email: client.email,
-          phone: client.phone,
-        },
-        { notes: null },
-      ),
+      change: clientChange(client, { notes: null }),
     };
     await enqueue(
       db,
@@ -131,11 +79,10 @@ export async function addClient(input: NewClient, now = new Date()): Promise<Loc
 
 export function getClient(id: string): Promise<LocalClient | null> {
   return read(async (db) => {
-    const row = await db.getFirstAsync<ClientRow>(
-      'SELECT * FROM clients WHERE id = ? AND deleted_at IS NULL',
+    return db.getFirstAsync<LocalClient>(
+      `SELECT ${clientColumns} FROM clients WHERE id = ? AND deleted_at IS NULL`,
       id,
     );
-    return row ? toClient(row) : null;
   });
 }
 
@@ -145,10 +92,10 @@ export type ListedClient = LocalClient & { hasConsent: boolean; unsent: boolean 
 export function listClients(search: string, consentTextVersion: string): Promise<ListedClient[]> {
   const like = `%${search.trim().toLowerCase()}%`;
   return read(async (db) => {
-    const rows = await db.getAllAsync<ClientRow & { has_consent: number; unsent: number }>(
-      `SELECT clients.*,
+    const rows = await db.getAllAsync<LocalClient & { hasConsent: number; unsent: number }>(
+      `SELECT ${clientColumns},
          EXISTS (SELECT 1 FROM consents WHERE consents.client_id = clients.id AND consents.text_version = ?
-           AND consents.deleted_at IS NULL) AS has_consent,
+           AND consents.deleted_at IS NULL) AS "hasConsent",
          EXISTS (SELECT 1 FROM outbox WHERE outbox.client_id = clients.id AND outbox.state <> 'sent') AS unsent
        FROM clients WHERE deleted_at IS NULL
          AND (lower(first_name || ' ' || last_name) LIKE ? OR lower(coalesce(email, '')) LIKE ?)
@@ -158,8 +105,8 @@ export function listClients(search: string, consentTextVersion: string): Promise
       like,
     );
     return rows.map((row) => ({
-      ...toClient(row),
-      hasConsent: Boolean(row.has_consent),
+      ...row,
+      hasConsent: Boolean(row.hasConsent),
       unsent: Boolean(row.unsent),
     }));
   });
@@ -189,12 +136,11 @@ export async function recordConsent(input: NewConsent, now = new Date()): Promis
 /** The newest consent on this device for the client and the current text version, if any. */
 export function currentConsent(clientId: string, textVersion: string): Promise<LocalConsent | null> {
   return read(async (db) => {
-    const row = await db.getFirstAsync<ConsentRow>(
-      `SELECT * FROM consents WHERE client_id = ? AND text_version = ? AND deleted_at IS NULL
+    return db.getFirstAsync<LocalConsent>(
+      `SELECT ${consentColumns} FROM consents WHERE client_id = ? AND text_version = ? AND deleted_at IS NULL
        ORDER BY created_at DESC LIMIT 1`,
       clientId,
       textVersion,
     );
-    return row ? toConsent(row) : null;
   });
 }

@@ -6,7 +6,9 @@ import { sealClip, sha256Hex } from '@/shared/seal';
 import type { Site } from '@/shared/protocol';
 import { cachedClinicKey } from './clinic-key';
 import { read, transaction, write } from './database';
-import { clientDetailsLabel, clientChange } from './clients';
+import { clientChange, clientColumns, clientDetailsLabel, consentColumns } from './clients';
+import type { LocalClient, LocalConsent, LocalSession } from './records';
+import { sessionColumns } from './sessions';
 import { enqueue } from './outbox';
 
 export class MissingClinicKeyError extends Error {
@@ -70,24 +72,16 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
   const consentTextIds = await readConsentTextIds();
 
   await transaction(async (db) => {
-    const session = await db.getFirstAsync<{
-      status: string;
-      client_id: string;
-      consent_id: string;
-      version: number;
-      started_at: string;
-    }>('SELECT * FROM sessions WHERE id = ?', sessionId);
+    const session = await db.getFirstAsync<LocalSession>(
+      `SELECT ${sessionColumns} FROM sessions WHERE id = ?`,
+      sessionId,
+    );
     if (!session) throw new Error('This session is not on this device.');
     if (session.status !== 'in_progress') throw new Error('This session is already finished.');
-    const client = await db.getFirstAsync<{
-      origin: string;
-      first_name: string;
-      last_name: string;
-      version: number;
-      date_of_birth: string | null;
-      email: string | null;
-      phone: string | null;
-    }>('SELECT * FROM clients WHERE id = ?', session.client_id);
+    const client = await db.getFirstAsync<LocalClient>(
+      `SELECT ${clientColumns} FROM clients WHERE id = ?`,
+      session.clientId,
+    );
     if (!client) throw new Error('The session’s client is missing on this device.');
 
     for (const clip of sealed) {
@@ -127,7 +121,7 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
           mutation: body,
           sizeBytes: JSON.stringify(body).length,
           label,
-          clientId: session.client_id,
+          clientId: session.clientId,
           sessionId: inSession,
         },
         now,
@@ -146,37 +140,34 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
       );
 
     // Devices since the outbox's client column queue a new client when it is added; this covers older ones.
-    if (client.origin === 'device' && !(await alreadyQueued('clients', session.client_id))) {
+    if (client.origin === 'device' && !(await alreadyQueued('clients', session.clientId))) {
       await queue(
         'clients',
-        session.client_id,
+        session.clientId,
         client.version,
         clientChange(client, practiceFieldsOnCreate(client.version, { notes: null })),
         clientDetailsLabel,
         null,
       );
     }
-    const consent = await db.getFirstAsync<{
-      client_id: string;
-      signed_name: string;
-      signed_on: string;
-      text_version: string;
-      version: number;
-    }>('SELECT * FROM consents WHERE id = ?', session.consent_id);
+    const consent = await db.getFirstAsync<LocalConsent & { version: number }>(
+      `SELECT ${consentColumns}, version FROM consents WHERE id = ?`,
+      session.consentId,
+    );
     // A consent with a version came from the clinic server: it is there already.
-    if (consent && consent.version === 0 && !(await alreadyQueued('consents', session.consent_id))) {
-      const consentTextId = consentTextIds[consent.text_version];
+    if (consent && consent.version === 0 && !(await alreadyQueued('consents', session.consentId))) {
+      const consentTextId = consentTextIds[consent.textVersion];
       if (!consentTextId) throw new MissingConsentWordingError();
       await queue(
         'consents',
-        session.consent_id,
+        session.consentId,
         0,
         {
-          clientId: consent.client_id,
+          clientId: consent.clientId,
           consentTextId,
-          consentTextVersion: Number(consent.text_version),
-          typedName: consent.signed_name,
-          consentDate: consent.signed_on,
+          consentTextVersion: Number(consent.textVersion),
+          typedName: consent.signedName,
+          consentDate: consent.signedOn,
         },
         'Consent',
       );
@@ -193,9 +184,9 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
       sessionId,
       session.version,
       {
-        clientId: session.client_id,
+        clientId: session.clientId,
         status: 'completed',
-        startedAt: session.started_at,
+        startedAt: session.startedAt,
         finishedAt: stamp,
         ...practiceFieldsOnCreate(session.version, { findings: null, plan: null, followUpDate: null }),
       },
@@ -244,7 +235,7 @@ export async function finishSession(sessionId: string, now = new Date()): Promis
           blobHash: clip.hash,
           sizeBytes: clip.sealed.byteLength,
           label: `${siteInfo(clip.site).label} recording`,
-          clientId: session.client_id,
+          clientId: session.clientId,
           sessionId,
         },
         now,

@@ -4,77 +4,31 @@ import type { AnalysisResult } from '@/shared/analysis/types';
 import type { Site } from '@/shared/protocol';
 import { read, transaction } from './database';
 import type { DisplayTrace, LocalSession, RecordingSource, SiteRecording } from './records';
+import { selectInto } from './columns';
 
-type SessionRow = {
-  id: string;
-  client_id: string;
-  consent_id: string;
-  status: LocalSession['status'];
-  current_site: Site | 'review';
-  clip_seconds: number;
-  started_at: string;
-  finished_at: string | null;
-  version: number;
-  updated_at: string;
+/** A session row read straight into `LocalSession`. */
+export const sessionColumns = selectInto<LocalSession>()(
+  'id client_id consent_id status current_site clip_seconds started_at finished_at version updated_at',
+);
+
+/** A recording row as read: its analysis and trace still JSON text, whether a plain clip is held as 0 or 1. */
+type RecordingRow = Omit<SiteRecording, 'analysis' | 'trace' | 'hasPlainClip'> & {
+  analysisJson: string | null;
+  traceJson: string | null;
+  hasPlainClip: number;
 };
 
-type RecordingRow = {
-  id: string;
-  session_id: string;
-  site: Site;
-  outcome: SiteRecording['outcome'];
-  source: RecordingSource | null;
-  skip_reason: string | null;
-  note: string | null;
-  verdict: SiteRecording['verdict'];
-  heart_rate_bpm: number | null;
-  duration_s: number | null;
-  sample_rate: number | null;
-  analysis_json: string | null;
-  trace_json: string | null;
-  has_clip: number;
-  blob_hash: string | null;
-  size_bytes: number | null;
-  updated_at: string;
-};
+const recordingColumns = selectInto<RecordingRow>()(
+  'id session_id site outcome source skip_reason note verdict heart_rate_bpm duration_s sample_rate analysis_json trace_json blob_hash size_bytes updated_at',
+  { hasPlainClip: 'clip_wav IS NOT NULL' },
+);
 
-const recordingColumns = `id, session_id, site, outcome, source, skip_reason, note, verdict, heart_rate_bpm, duration_s,
-  sample_rate, analysis_json, trace_json, clip_wav IS NOT NULL AS has_clip, blob_hash, size_bytes, updated_at`;
-
-function toSession(row: SessionRow): LocalSession {
+function toRecording({ analysisJson, traceJson, hasPlainClip, ...row }: RecordingRow): SiteRecording {
   return {
-    id: row.id,
-    clientId: row.client_id,
-    consentId: row.consent_id,
-    status: row.status,
-    currentSite: row.current_site,
-    clipSeconds: row.clip_seconds,
-    startedAt: row.started_at,
-    finishedAt: row.finished_at,
-    version: row.version,
-    updatedAt: row.updated_at,
-  };
-}
-
-function toRecording(row: RecordingRow): SiteRecording {
-  return {
-    id: row.id,
-    sessionId: row.session_id,
-    site: row.site,
-    outcome: row.outcome,
-    source: row.source,
-    skipReason: row.skip_reason,
-    note: row.note,
-    verdict: row.verdict,
-    heartRateBpm: row.heart_rate_bpm,
-    durationS: row.duration_s,
-    sampleRate: row.sample_rate,
-    analysis: row.analysis_json ? (JSON.parse(row.analysis_json) as AnalysisResult) : null,
-    trace: row.trace_json ? (JSON.parse(row.trace_json) as DisplayTrace) : null,
-    hasPlainClip: Boolean(row.has_clip),
-    blobHash: row.blob_hash,
-    sizeBytes: row.size_bytes,
-    updatedAt: row.updated_at,
+    ...row,
+    analysis: analysisJson ? (JSON.parse(analysisJson) as AnalysisResult) : null,
+    trace: traceJson ? (JSON.parse(traceJson) as DisplayTrace) : null,
+    hasPlainClip: Boolean(hasPlainClip),
   };
 }
 
@@ -115,21 +69,19 @@ export async function startSession(
 
 export function getSession(id: string): Promise<LocalSession | null> {
   return read(async (db) => {
-    const row = await db.getFirstAsync<SessionRow>(
-      'SELECT * FROM sessions WHERE id = ? AND deleted_at IS NULL',
+    return db.getFirstAsync<LocalSession>(
+      `SELECT ${sessionColumns} FROM sessions WHERE id = ? AND deleted_at IS NULL`,
       id,
     );
-    return row ? toSession(row) : null;
   });
 }
 
 export function listSessionsForClient(clientId: string): Promise<LocalSession[]> {
   return read(async (db) => {
-    const rows = await db.getAllAsync<SessionRow>(
-      'SELECT * FROM sessions WHERE client_id = ? AND deleted_at IS NULL ORDER BY started_at DESC',
+    return db.getAllAsync<LocalSession>(
+      `SELECT ${sessionColumns} FROM sessions WHERE client_id = ? AND deleted_at IS NULL ORDER BY started_at DESC`,
       clientId,
     );
-    return rows.map(toSession);
   });
 }
 

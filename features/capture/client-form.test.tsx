@@ -3,40 +3,39 @@ import { ClientForm } from './client-form';
 import { toShownConsentText } from '@/device/consent/clinic-consent-text';
 import { formatDate } from '@/ui/format';
 import { ConsentForm } from './consent-form';
+import { fillFields, submitExpectingErrors } from '@/tests/support/form-fields';
 
 describe('ClientForm', () => {
   test('when submitted empty, then each required field says what is missing and nothing is saved', async () => {
     const onSubmit = jest.fn();
     render(<ClientForm onSubmit={onSubmit} />);
-    fireEvent.press(screen.getByTestId('client-submit'));
-    expect(await screen.findByTestId('client-firstName-error')).toHaveTextContent('Enter the first name.');
-    expect(screen.getByTestId('client-lastName-error')).toHaveTextContent('Enter the last name.');
+    await submitExpectingErrors('client', 'client-submit', {
+      firstName: 'Enter the first name.',
+      lastName: 'Enter the last name.',
+    });
     expect(onSubmit).not.toHaveBeenCalled();
   });
 
   test('when the date of birth is not a real date, then the field says so', async () => {
     const onSubmit = jest.fn();
     render(<ClientForm onSubmit={onSubmit} />);
-    fireEvent.changeText(screen.getByTestId('client-firstName'), 'Ilse');
-    fireEvent.changeText(screen.getByTestId('client-lastName'), 'Vantongeren');
-    fireEvent.changeText(screen.getByTestId('client-dateOfBirth'), '1990-02-31');
-    fireEvent.changeText(screen.getByTestId('client-email'), 'not-an-email');
-    fireEvent.press(screen.getByTestId('client-submit'));
-    expect(await screen.findByTestId('client-dateOfBirth-error')).toHaveTextContent(
-      'Choose a day in the past on the calendar, or type it as YYYY-MM-DD.',
-    );
-    expect(screen.getByTestId('client-email-error')).toHaveTextContent(
-      'Enter an e-mail address like name@example.com, or leave it empty.',
-    );
+    fillFields('client', {
+      firstName: 'Ilse',
+      lastName: 'Vantongeren',
+      dateOfBirth: '1990-02-31',
+      email: 'not-an-email',
+    });
+    await submitExpectingErrors('client', 'client-submit', {
+      dateOfBirth: 'Choose a day in the past on the calendar, or type it as YYYY-MM-DD.',
+      email: 'Enter an e-mail address like name@example.com, or leave it empty.',
+    });
     expect(onSubmit).not.toHaveBeenCalled();
   });
 
   test('when the fields are valid, then the values are handed over', async () => {
     const onSubmit = jest.fn().mockResolvedValue(undefined);
     render(<ClientForm onSubmit={onSubmit} />);
-    fireEvent.changeText(screen.getByTestId('client-firstName'), 'Ilse');
-    fireEvent.changeText(screen.getByTestId('client-lastName'), 'Vantongeren');
-    fireEvent.changeText(screen.getByTestId('client-dateOfBirth'), '1990-02-28');
+    fillFields('client', { firstName: 'Ilse', lastName: 'Vantongeren', dateOfBirth: '1990-02-28' });
     fireEvent.press(screen.getByTestId('client-submit'));
     await waitFor(() => expect(onSubmit).toHaveBeenCalled());
     expect(onSubmit.mock.calls[0][0]).toMatchObject({

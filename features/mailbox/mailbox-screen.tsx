@@ -24,7 +24,6 @@ export function MailboxScreen() {
       loading="Reading the mailbox…"
       testID="mailbox"
       empty={{
-        when: (messages) => messages.length === 0,
         title: 'No mail yet',
         detail: 'Invitations, reminders and reports sent by the server land here.',
       }}

@@ -64,7 +64,6 @@ export function FollowUpsScreen() {
       loading="Loading follow-ups…"
       testID="follow-ups"
       empty={{
-        when: (rows) => rows.length === 0,
         title: 'Nobody due',
         detail: "No follow-up has passed or falls in this period. Follow-up dates are set in a visit's plan.",
       }}

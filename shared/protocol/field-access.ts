@@ -22,6 +22,13 @@ const everyone = ['operator', 'practitioner', 'admin'] as const;
 const reviewers = ['practitioner', 'admin'] as const;
 const serverOnly = [] as const;
 
+/** Client details: every role reads and writes them. */
+const contactDetail = { read: everyone, write: everyone } as const;
+/** What the phone captures: every role reads it, only an operator's phone writes it. */
+const captured = { read: everyone, write: ['operator'] } as const;
+/** The tombstone: it reaches every device that holds the row; only an admin erases. */
+const erasure = { read: everyone, write: ['admin'] } as const;
+
 /**
  * Who may read and write each field of each synced row. Operators capture on the phone (contact details, consent,
  * sessions, site recordings) and read back only what capture needs; practitioners write the clinical side
@@ -31,27 +38,27 @@ const serverOnly = [] as const;
  */
 export const fieldAccess = {
   clients: {
-    firstName: { read: everyone, write: everyone },
-    lastName: { read: everyone, write: everyone },
-    dateOfBirth: { read: everyone, write: everyone },
-    email: { read: everyone, write: everyone },
-    phone: { read: everyone, write: everyone },
+    firstName: contactDetail,
+    lastName: contactDetail,
+    dateOfBirth: contactDetail,
+    email: contactDetail,
+    phone: contactDetail,
     // The practice's notes on the client are clinical; the phone neither shows nor writes them.
     notes: { read: reviewers, write: reviewers },
-    deletedAt: { read: everyone, write: ['admin'] },
+    deletedAt: erasure,
   },
   consents: {
-    clientId: { read: everyone, write: ['operator'] },
-    consentTextId: { read: everyone, write: ['operator'] },
-    consentTextVersion: { read: everyone, write: ['operator'] },
+    clientId: captured,
+    consentTextId: captured,
+    consentTextVersion: captured,
     // A signed consent is a record of what the client signed: nobody edits it afterwards, only the phone creates it.
-    typedName: { read: everyone, write: ['operator'] },
-    consentDate: { read: everyone, write: ['operator'] },
+    typedName: captured,
+    consentDate: captured,
     recordedBy: { read: reviewers, write: serverOnly },
-    deletedAt: { read: everyone, write: ['admin'] },
+    deletedAt: erasure,
   },
   recording_sessions: {
-    clientId: { read: everyone, write: ['operator'] },
+    clientId: captured,
     // The phone starts, finishes or cancels a visit; only a practitioner marks it reviewed (completed -> reviewed).
     status: {
       read: everyone,
@@ -61,8 +68,8 @@ export const fieldAccess = {
         practitioner: ['reviewed', 'cancelled'],
       },
     },
-    startedAt: { read: everyone, write: ['operator'] },
-    finishedAt: { read: everyone, write: ['operator'] },
+    startedAt: captured,
+    finishedAt: captured,
     findings: { read: reviewers, write: ['practitioner'] },
     plan: { read: reviewers, write: ['practitioner'] },
     // The phone books the next visit, so it reads when one is due (as GET /api/follow-ups/due shows every role).
@@ -70,21 +77,21 @@ export const fieldAccess = {
     operatorId: { read: everyone, write: serverOnly },
     reviewedBy: { read: reviewers, write: serverOnly },
     reviewedAt: { read: reviewers, write: serverOnly },
-    deletedAt: { read: everyone, write: ['admin'] },
+    deletedAt: erasure,
   },
   site_recordings: {
-    sessionId: { read: everyone, write: ['operator'] },
-    site: { read: everyone, write: ['operator'] },
-    qualityVerdict: { read: everyone, write: ['operator'] },
-    clipSha256: { read: everyone, write: ['operator'] },
-    durationS: { read: everyone, write: ['operator'] },
-    recordedAt: { read: everyone, write: ['operator'] },
-    skippedReason: { read: everyone, write: ['operator'] },
-    keepAnywayNote: { read: everyone, write: ['operator'] },
+    sessionId: captured,
+    site: captured,
+    qualityVerdict: captured,
+    clipSha256: captured,
+    durationS: captured,
+    recordedAt: captured,
+    skippedReason: captured,
+    keepAnywayNote: captured,
     // Large, and the review routes serve it to practitioners and admins: no pull carries it.
     analysis: { read: serverOnly, write: serverOnly },
     clipState: { read: everyone, write: serverOnly },
-    deletedAt: { read: everyone, write: ['admin'] },
+    deletedAt: erasure,
   },
 } as const satisfies {
   [E in SyncEntity]: { [F in SyncField<E>]: FieldRule } & { deletedAt: { read: typeof everyone } };
