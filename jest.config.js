@@ -40,6 +40,7 @@ module.exports = {
       displayName: 'app',
       preset: 'jest-expo',
       setupFiles: ['<rootDir>/tests/support/app-jest-setup.ts'],
+      setupFilesAfterEnv: ['<rootDir>/tests/support/app-jest-after-env.ts'],
       testMatch: [
         '<rootDir>/features/**/*.test.ts?(x)',
         '<rootDir>/ui/**/*.test.ts?(x)',
