@@ -210,18 +210,19 @@ export const listPackages = (sequelize: Sequelize, clinicId: string, clientId: s
     { clinicId, clientId },
   );
 
+/** What a person writes about a client: the fields the admin's form and a new client carry. */
+type ClientFields = {
+  firstName: string;
+  lastName: string;
+  dateOfBirth: string | null;
+  email: string | null;
+  phone: string | null;
+  notes: string | null;
+};
+
 export async function insertClient(
   sequelize: Sequelize,
-  row: {
-    id: string;
-    clinicId: string;
-    firstName: string;
-    lastName: string;
-    dateOfBirth: string | null;
-    email: string | null;
-    phone: string | null;
-    notes: string | null;
-  },
+  row: ClientFields & { id: string; clinicId: string },
   transaction?: Transaction,
 ): Promise<void> {
   await execute(
@@ -239,14 +240,7 @@ export const updateClientIfVersion = (
   clinicId: string,
   clientId: string,
   version: number,
-  fields: {
-    firstName: string;
-    lastName: string;
-    dateOfBirth: string | null;
-    email: string | null;
-    phone: string | null;
-    notes: string | null;
-  },
+  fields: ClientFields,
   transaction?: Transaction,
 ) =>
   execute(
